@@ -1,0 +1,45 @@
+import { faultsByPhase, PHASES, type Fault, type Phase } from './faults.js';
+import { legTable, type LegTable } from './legTable.js';
+import type { LegNetlist } from './netlist.js';
+import { resolveTopology } from './resolveTopology.js';
+
+/** Options of {@link analyseLeg}. */
+export interface AnalyseLegOptions {
+  /** A built-in topology id or a netlist object in the file format. */
+  readonly topology: unknown;
+  /** Fault strings `PHASE.DEVICE[:MODE]`; default none. */
+  readonly faults?: readonly string[];
+}
+
+/** The leg of every phase, solved: per-phase tables plus the healthy reference. */
+export interface LegAnalysis {
+  /** Topology id for built-ins, the netlist's `name` otherwise. */
+  readonly topology: string;
+  readonly leg: LegNetlist;
+  readonly faults: readonly Fault[];
+  readonly phases: Readonly<Record<Phase, LegTable>>;
+  /** The same leg without faults, for "lost level" comparisons. */
+  readonly healthy: LegTable;
+}
+
+/**
+ * Solves the leg of each phase under the given faults.
+ *
+ * @param options - topology and faults (validated here)
+ * @returns per-phase leg tables and the healthy table
+ * @throws HexsalvageInputError for an unknown topology, a bad netlist or a bad fault string
+ * @example
+ * ```ts
+ * analyseLeg({ topology: 'npc', faults: ['a.outerUpper'] }).phases.a.levels['+']; // [-1, 0]
+ * ```
+ */
+export function analyseLeg(options: AnalyseLegOptions): LegAnalysis {
+  const leg = resolveTopology(options.topology);
+  const texts = options.faults ?? [];
+  const byPhase = faultsByPhase(texts, leg, 'faults');
+  const healthy = legTable(leg, new Map());
+  const phases = {} as Record<Phase, LegTable>;
+  for (const p of PHASES) phases[p] = byPhase[p].size === 0 ? healthy : legTable(leg, byPhase[p]);
+  const faults: Fault[] = PHASES.flatMap((p) => [...byPhase[p]].map(([element, mode]) => ({ phase: p, element, mode })));
+  return { topology: typeof options.topology === 'string' ? options.topology : leg.name, leg, faults, phases, healthy };
+}

@@ -1,0 +1,11 @@
+export { HexsalvageInputError, type InputErrorCode } from './errors.js';
+export type { DeviceKind, DeviceSpec, LegElement, LegNetlist, SwitchingClass } from './netlist.js';
+export { expandElements, gatedDeviceIds } from './expandElements.js';
+export { BUILTIN_TOPOLOGIES, builtinLeg, isBuiltinTopology, type BuiltinTopology } from './builtinLegs.js';
+export { parseNetlist } from './parseNetlist.js';
+export { resolveTopology } from './resolveTopology.js';
+export { FAULT_MODES, PHASES, faultsByPhase, formatFault, parseFault, type Fault, type FaultMode, type Phase, type PhaseFaults } from './faults.js';
+export { conductionEdges, findShootThrough, outputForSign, type ConductionEdge, type CurrentSign, type ShootThrough, type SignOutcome } from './conduction.js';
+export { legTable, levelSets, type LegTable, type LevelSets, type PatternResult, type PhasePolarity } from './legTable.js';
+export { analyseLeg, type AnalyseLegOptions, type LegAnalysis } from './analyseLeg.js';
+export { legDocument, type LegDocument, type LegDocumentPattern } from './legDocument.js';

@@ -1,0 +1,154 @@
+import { HexsalvageInputError } from './errors.js';
+import type { DeviceKind, DeviceSpec, LegNetlist, SwitchingClass } from './netlist.js';
+
+const KINDS: readonly DeviceKind[] = ['igbt', 'mosfet', 'diode'];
+const SWITCHING: readonly SwitchingClass[] = ['pwm', 'line'];
+const TOP_KEYS = ['name', 'description', 'dcNodes', 'output', 'devices', 'patterns'];
+const DEVICE_KEYS = ['id', 'kind', 'from', 'to', 'antiparallelDiode', 'switching', 'technology'];
+// Keys that would reach Object.prototype when a parsed file is spread or indexed.
+const POISON_KEYS = new Set(['__proto__', 'constructor', 'prototype']);
+// Ids and node names must survive the fault syntax PHASE.DEVICE[:MODE] and CSV/C exports.
+const NAME_RE = /^[A-Za-z_][A-Za-z0-9_-]*$/;
+
+type Obj = Record<string, unknown>;
+
+/**
+ * Validates a parsed netlist document and returns it as a typed leg.
+ *
+ * Checks types, unknown and prototype-polluting keys, duplicate element ids (antiparallel diodes
+ * included), DC potentials, the output node, dangling nodes and pattern contents. Every problem is a
+ * {@link HexsalvageInputError} naming `input`, the key path and what was expected.
+ *
+ * @param value - the parsed JSON (e.g. `JSON.parse(text)`)
+ * @param input - name of the input for messages, usually the file path
+ * @returns a fresh, validated {@link LegNetlist}
+ * @example
+ * ```ts
+ * const leg = parseNetlist(JSON.parse(fs.readFileSync('leg.json', 'utf8')), 'leg.json');
+ * ```
+ */
+export function parseNetlist(value: unknown, input: string): LegNetlist {
+  const err = (key: string, expected: string, got?: unknown) =>
+    new HexsalvageInputError('netlist', input, key, expected, got);
+  rejectPoisonKeys(value, '', err);
+  const doc = asObject(value, '(document)', 'a JSON object describing one leg', err);
+  for (const k of Object.keys(doc)) if (!TOP_KEYS.includes(k)) throw err(k, `one of the keys ${TOP_KEYS.join(', ')}`, k);
+
+  const name = doc.name;
+  if (typeof name !== 'string' || name.trim() === '') throw err('name', 'a non-empty string', name);
+
+  const dcObj = asObject(doc.dcNodes, 'dcNodes', 'an object mapping DC node names to potentials in units of Vdc/2', err);
+  const dcNodes: Record<string, number> = {};
+  for (const [node, v] of Object.entries(dcObj)) {
+    checkName(node, `dcNodes.${node}`, err);
+    if (typeof v !== 'number' || !Number.isFinite(v)) throw err(`dcNodes.${node}`, 'a finite potential in units of Vdc/2', v);
+    dcNodes[node] = v;
+  }
+  if (Object.keys(dcNodes).length < 2) throw err('dcNodes', 'at least two DC nodes', Object.keys(dcNodes).length);
+
+  const output = doc.output;
+  if (typeof output !== 'string') throw err('output', 'the name of the output node (string)', output);
+  checkName(output, 'output', err);
+  if (output in dcNodes) throw err('output', 'a node that is not a DC node', output);
+
+  if (!Array.isArray(doc.devices) || doc.devices.length === 0) throw err('devices', 'a non-empty array of devices', doc.devices);
+  const devices: DeviceSpec[] = [];
+  const elementIds = new Set<string>();
+  doc.devices.forEach((raw, i) => {
+    const device = parseDevice(raw, `devices[${i}]`, err);
+    for (const id of [device.id, ...(device.antiparallelDiode ? [`${device.id}.diode`] : [])]) {
+      if (elementIds.has(id)) throw err(`devices[${i}].id`, 'an element id not used before in this leg', id);
+      elementIds.add(id);
+    }
+    devices.push(device);
+  });
+
+  checkNodes(devices, dcNodes, output, err);
+
+  const patObj = asObject(doc.patterns, 'patterns', 'an object mapping pattern names to lists of gated switches', err);
+  const gated = new Set(devices.filter((d) => d.kind !== 'diode').map((d) => d.id));
+  const patterns: Record<string, string[]> = {};
+  for (const [pname, list] of Object.entries(patObj)) {
+    if (pname.trim() === '') throw err('patterns', 'non-empty pattern names', pname);
+    if (!Array.isArray(list)) throw err(`patterns.${pname}`, 'an array of switch ids', list);
+    const seen = new Set<string>();
+    list.forEach((sw, j) => {
+      const key = `patterns.${pname}[${j}]`;
+      if (typeof sw !== 'string') throw err(key, 'a switch id (string)', sw);
+      if (!gated.has(sw)) {
+        const why = elementIds.has(sw) ? 'a gated device (igbt or mosfet), not a diode' : `one of the switches ${[...gated].join(', ')}`;
+        throw err(key, why, sw);
+      }
+      if (seen.has(sw)) throw err(key, 'each switch at most once per pattern', sw);
+      seen.add(sw);
+    });
+    patterns[pname] = [...list] as string[];
+  }
+  if (Object.keys(patterns).length === 0) throw err('patterns', 'at least one gate pattern');
+
+  return { name, dcNodes, output, devices, patterns };
+}
+
+function parseDevice(raw: unknown, at: string, err: (k: string, e: string, g?: unknown) => HexsalvageInputError): DeviceSpec {
+  const d = asObject(raw, at, 'a device object', err);
+  for (const k of Object.keys(d)) if (!DEVICE_KEYS.includes(k)) throw err(`${at}.${k}`, `one of the keys ${DEVICE_KEYS.join(', ')}`, k);
+  const { id, kind, from, to, antiparallelDiode, switching, technology } = d;
+  if (typeof id !== 'string') throw err(`${at}.id`, 'a device id (string)', id);
+  checkName(id, `${at}.id`, err);
+  if (typeof kind !== 'string' || !KINDS.includes(kind as DeviceKind)) throw err(`${at}.kind`, `one of ${KINDS.join(', ')}`, kind);
+  if (typeof from !== 'string') throw err(`${at}.from`, 'a node name (string)', from);
+  if (typeof to !== 'string') throw err(`${at}.to`, 'a node name (string)', to);
+  checkName(from, `${at}.from`, err);
+  checkName(to, `${at}.to`, err);
+  if (from === to) throw err(`${at}.to`, 'a node different from "from"', to);
+  if (antiparallelDiode !== undefined && typeof antiparallelDiode !== 'boolean') throw err(`${at}.antiparallelDiode`, 'true or false', antiparallelDiode);
+  if (antiparallelDiode === true && kind === 'diode') throw err(`${at}.antiparallelDiode`, 'false or absent on a diode', antiparallelDiode);
+  if (switching !== undefined && !SWITCHING.includes(switching as SwitchingClass)) throw err(`${at}.switching`, `one of ${SWITCHING.join(', ')}`, switching);
+  if (technology !== undefined && typeof technology !== 'string') throw err(`${at}.technology`, 'a text label', technology);
+  const spec: DeviceSpec = { id, kind: kind as DeviceKind, from, to };
+  return {
+    ...spec,
+    ...(antiparallelDiode ? { antiparallelDiode: true } : {}),
+    ...(switching !== undefined ? { switching: switching as SwitchingClass } : {}),
+    ...(technology !== undefined ? { technology: technology as string } : {}),
+  };
+}
+
+// A node that only one device touches is almost always a misspelt name; refuse it rather than
+// silently computing a leg with a dangling branch.
+function checkNodes(devices: DeviceSpec[], dcNodes: Record<string, number>, output: string, err: (k: string, e: string, g?: unknown) => HexsalvageInputError): void {
+  const uses = new Map<string, number>();
+  for (const d of devices) for (const n of [d.from, d.to]) uses.set(n, (uses.get(n) ?? 0) + 1);
+  if (!uses.has(output)) throw err('output', 'a node connected to at least one device', output);
+  devices.forEach((d, i) => {
+    for (const side of ['from', 'to'] as const) {
+      const n = d[side];
+      if (n in dcNodes || n === output) continue;
+      if ((uses.get(n) ?? 0) < 2) {
+        throw err(`devices[${i}].${side}`, `a DC node (${Object.keys(dcNodes).join(', ')}), the output "${output}", or an internal node shared by two or more devices`, n);
+      }
+    }
+  });
+}
+
+function checkName(s: string, key: string, err: (k: string, e: string, g?: unknown) => HexsalvageInputError): void {
+  if (!NAME_RE.test(s)) throw err(key, 'a name of letters, digits, "_" or "-" starting with a letter or "_"', s);
+}
+
+function asObject(v: unknown, key: string, expected: string, err: (k: string, e: string, g?: unknown) => HexsalvageInputError): Obj {
+  if (typeof v !== 'object' || v === null || Array.isArray(v)) throw err(key, expected, v);
+  return v as Obj;
+}
+
+function rejectPoisonKeys(v: unknown, path: string, err: (k: string, e: string, g?: unknown) => HexsalvageInputError): void {
+  if (typeof v !== 'object' || v === null) return;
+  if (Array.isArray(v)) {
+    v.forEach((x, i) => rejectPoisonKeys(x, `${path}[${i}]`, err));
+    return;
+  }
+  for (const k of Object.keys(v)) {
+    const here = path ? `${path}.${k}` : k;
+    if (POISON_KEYS.has(k)) throw err(here, 'no "__proto__", "constructor" or "prototype" keys', k);
+    rejectPoisonKeys((v as Obj)[k], here, err);
+  }
+}
