@@ -1,1 +1,3 @@
-export {};
+export { main, COMMANDS } from './main.js';
+export type { Command } from './command.js';
+export type { CommandIO } from './output.js';

@@ -1,0 +1,30 @@
+import type { OptionSpec, ParsedArgs } from './args.js';
+import type { CommandIO } from './output.js';
+
+/** One CLI command. */
+export interface Command {
+  readonly name: string;
+  /** One line for the command list. */
+  readonly summary: string;
+  /** Usage line after `hexsalvage`. */
+  readonly usage: string;
+  readonly options: readonly OptionSpec[];
+  /** Runs the command; resolves to the exit code. */
+  readonly run: (args: ParsedArgs, io: CommandIO) => Promise<number>;
+}
+
+/** Options shared by the commands that take a leg. */
+export const LEG_OPTIONS: readonly OptionSpec[] = [
+  { name: 'topology', type: 'string', value: 'T', help: 'built-in leg (two-level, npc, anpc, anpc-hybrid, tnpc) or a netlist .json file' },
+  { name: 'fault', type: 'list', value: 'F', help: 'failed element PHASE.DEVICE[:open|short], e.g. a.outerUpper; repeatable' },
+];
+
+/** The `--json` switch. */
+export const JSON_OPTION: OptionSpec = { name: 'json', type: 'flag', help: 'print one JSON document instead of text' };
+/** The `--help` switch. */
+export const HELP_OPTION: OptionSpec = { name: 'help', type: 'flag', help: 'show this help' };
+/** Load angle and polarity margin, as `plan` takes them. */
+export const ANGLE_OPTIONS: readonly OptionSpec[] = [
+  { name: 'load-angle', type: 'number', value: 'DEG', help: 'load angle φ in degrees, −180…180, currents lag the voltage (default 0)' },
+  { name: 'polarity-margin', type: 'number', value: 'DEG', help: 'polarity margin δ in degrees, 0 ≤ δ < 60 (default 0)' },
+];

@@ -1,0 +1,28 @@
+import { exploreLeg, PHASES, type LegAnalysis } from '@hexsalvage/core';
+import { levelText } from '../format.js';
+
+/**
+ * Readable summary of a gate-combination exploration.
+ *
+ * @param analysis - solved leg
+ * @returns text lines for the terminal
+ * @example
+ * ```ts
+ * exploreText(analyseLeg({ topology: 'anpc', faults: ['a.clampUpper'] }));
+ * ```
+ */
+export function exploreText(analysis: LegAnalysis): string {
+  const x = exploreLeg(analysis);
+  if (!x.ok) return `Exploration skipped: ${x.reason}`;
+  const lines = ['Exploration of every gate combination (shoot-through and unclamped ones dropped):'];
+  for (const ph of PHASES) {
+    const p = x.phases[ph];
+    const extra = (['+', '-', '?'] as const).map((s) => `${s}: ${p.extraLevels[s].map(levelText).join(' ') || '-'}`).join('   ');
+    lines.push(`  phase ${ph}: ${p.combinations} combinations, ${p.shootThrough} shoot-through, ${p.unclamped} sign cases unclamped; extra levels ${extra}`);
+    for (const c of p.extraCombinations.slice(0, 8)) {
+      lines.push(`    gates {${c.gates.join(', ')}}  i>0: ${c['+'] === null ? '-' : levelText(c['+'])}  i<0: ${c['-'] === null ? '-' : levelText(c['-'])}`);
+    }
+    if (p.extraCombinations.length > 8) lines.push(`    … ${p.extraCombinations.length - 8} more (use --json)`);
+  }
+  return lines.join('\n');
+}

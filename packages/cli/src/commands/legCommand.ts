@@ -1,0 +1,56 @@
+import { analyseLeg, CAUTIONS, exploreLeg, legDocument, PHASES, type LegTable, type PatternResult, type PhasePolarity } from '@hexsalvage/core';
+import { HELP_OPTION, JSON_OPTION, LEG_OPTIONS, type Command } from '../command.js';
+import { cautionBlock, levelText, textTable } from '../format.js';
+import { legInputs } from '../legInputs.js';
+import { exploreText } from './exploreText.js';
+
+/** `hexsalvage leg`: what every gate pattern gives per current sign, per phase. */
+export const legCommand: Command = {
+  name: 'leg',
+  summary: 'levels of every gate pattern for each current sign, per phase, with faults applied',
+  usage: 'leg --topology T [--fault F]... [--explore] [--json]',
+  options: [...LEG_OPTIONS, { name: 'explore', type: 'flag', help: 'also enumerate every gate combination and list the extra levels it offers' }, JSON_OPTION, HELP_OPTION],
+  run: async (args, io) => {
+    const { topology, faults } = legInputs(args);
+    const analysis = analyseLeg({ topology, faults });
+    const explore = args.flags.has('explore');
+    if (args.flags.has('json')) {
+      const doc = legDocument(analysis);
+      const extra = explore ? { explore: exploreLeg(analysis) } : {};
+      await io.stdout(`${JSON.stringify({ ...doc, ...extra })}\n`);
+      return 0;
+    }
+    const lines: string[] = [`Leg: ${analysis.topology}   faults: ${analysis.faults.length === 0 ? 'none' : analysis.faults.map((f) => `${f.phase}.${f.element}:${f.mode}`).join(', ')}`];
+    const healthyPhases = PHASES.filter((p) => analysis.phases[p] === analysis.healthy);
+    for (const ph of PHASES) {
+      if (analysis.phases[ph] === analysis.healthy && ph !== healthyPhases[0]) continue;
+      const title = analysis.phases[ph] === analysis.healthy ? `Phase ${healthyPhases.join(', ')} (healthy)` : `Phase ${ph} (faulted)`;
+      lines.push('', title, phaseTable(analysis.phases[ph], analysis.healthy));
+    }
+    if (explore) lines.push('', exploreText(analysis));
+    lines.push('', 'Levels: P = +1, O = 0, N = -1 (units of Vdc/2); "open" = current interrupted, the pattern must not be used for that sign.');
+    lines.push(cautionBlock(CAUTIONS));
+    await io.stdout(`${lines.join('\n')}\n`);
+    return 0;
+  },
+};
+
+function phaseTable(t: LegTable, healthy: LegTable): string {
+  const rows = t.patterns.map((p, i) => {
+    const h = healthy.patterns[i] as PatternResult;
+    if (p.status === 'forbidden') return [p.name, p.gates.join('+') || '(none)', 'FORBIDDEN', 'FORBIDDEN', p.reason];
+    const cell = (s: '+' | '-') => {
+      const lv = p.bySign[s].level;
+      const was = h.status === 'allowed' ? h.bySign[s].level : null;
+      return lv === was ? levelText(lv) : `${levelText(lv)} (was ${levelText(was)})`;
+    };
+    const notes = (['+', '-'] as const).filter((s) => p.bySign[s].level === null).map((s) => `forbidden for i${s === '+' ? '>0' : '<0'}: current interrupted`);
+    return [p.name, p.gates.join('+') || '(none)', cell('+'), cell('-'), notes.join('; ')];
+  });
+  const sets = (['+', '-', '?'] as PhasePolarity[]).map((s) => {
+    const lost = healthy.levels[s].filter((l) => !t.levels[s].includes(l));
+    const label = s === '?' ? 'either sign (robust)' : s === '+' ? 'current out (+)' : 'current in (-)';
+    return `  ${label.padEnd(22)} ${t.levels[s].map(levelText).join(' ') || '(none)'}${lost.length ? `   LOST: ${lost.map(levelText).join(' ')}` : ''}`;
+  });
+  return `${textTable(['pattern', 'gates on', 'i>0 (+)', 'i<0 (-)', 'note'], rows)}\nLevel sets:\n${sets.join('\n')}`;
+}

@@ -1,0 +1,45 @@
+import { CAUTIONS, diagramAtlas, parsePolarity, polarityDocument, type PlanVector } from '@hexsalvage/core';
+import { usage } from '../args.js';
+import { HELP_OPTION, JSON_OPTION, LEG_OPTIONS, type Command } from '../command.js';
+import { cautionBlock, fmt, textTable } from '../format.js';
+import { legInputs } from '../legInputs.js';
+
+/** `hexsalvage vectors`: surviving vectors, hull and triangles for one polarity string. */
+export const vectorsCommand: Command = {
+  name: 'vectors',
+  summary: 'surviving space vectors, hull, triangles and radius for one current-polarity pattern',
+  usage: 'vectors --topology T [--fault F]... --polarity XYZ [--json]',
+  options: [...LEG_OPTIONS, { name: 'polarity', type: 'string', value: 'XYZ', help: 'current polarity of phases a, b, c: each +, - or ?, e.g. +-?' }, JSON_OPTION, HELP_OPTION],
+  run: async (args, io) => {
+    const { topology, faults } = legInputs(args);
+    const pol = args.values.get('polarity');
+    if (pol === undefined) throw usage('--polarity', 'a polarity string such as +-? (phases a, b, c)');
+    parsePolarity(pol, '--polarity');
+    const atlas = diagramAtlas({ topology, faults });
+    const d = atlas.faulted.get(pol as string);
+    if (!d) throw usage('--polarity', 'a polarity string such as +-?', pol);
+    const doc = polarityDocument(d);
+    if (args.flags.has('json')) {
+      await io.stdout(`${JSON.stringify({ polarity: pol, ...doc })}\n`);
+      return 0;
+    }
+    const vec = (v: PlanVector) => [fmt(v.alpha), fmt(v.beta), fmt(Math.hypot(v.alpha, v.beta)), v.class, v.levels.map((t) => t.join('/')).join(' ')];
+    const lines = [
+      `Leg: ${atlas.analysis.topology}   faults: ${atlas.analysis.faults.map((f) => `${f.phase}.${f.element}`).join(', ') || 'none'}   polarity: ${pol}`,
+      `Phase levels used: a ${d.phaseLevels[0].join(',') || '(none)'} | b ${d.phaseLevels[1].join(',') || '(none)'} | c ${d.phaseLevels[2].join(',') || '(none)'}`,
+      '',
+      `Surviving vectors (${doc.vectors.length}):`,
+      textTable(['#', 'alpha', 'beta', '|v|', 'class', 'level triplets a/b/c'], doc.vectors.map((v, i) => [String(i), ...vec(v)])),
+      '',
+      `Lost vectors (${doc.lost.length}, ${doc.lostTriplets} healthy triplets lost in all):`,
+      doc.lost.length ? textTable(['alpha', 'beta', '|v|', 'class', 'triplets'], doc.lost.map(vec)) : '  none',
+      '',
+      `Hull (${doc.hull.length} corners, counter-clockwise): ${doc.hull.map(([a, b]) => `(${fmt(a, 3)}, ${fmt(b, 3)})`).join(' ')}`,
+      `Triangles: ${doc.triangles.length}`,
+      `Radius (largest origin-centred circle inside the hull): ${fmt(doc.radius, 6)} x Vdc/2${doc.radius === 0 ? '  (origin not strictly inside the hull: no continuous modulation with this pattern)' : ''}`,
+      cautionBlock(CAUTIONS),
+    ];
+    await io.stdout(`${lines.join('\n')}\n`);
+    return 0;
+  },
+};

@@ -1,0 +1,47 @@
+import type { LegNetlist } from '@hexsalvage/core';
+import { usage, type ParsedArgs } from './args.js';
+import { loadTopology } from './loadTopology.js';
+
+/** The leg options every leg command reads. */
+export interface LegInputs {
+  readonly topology: string | LegNetlist;
+  /** The `--topology` text as given (built-in id or path), for display. */
+  readonly topologyText: string;
+  readonly faults: readonly string[];
+}
+
+/**
+ * Reads `--topology` (required) and `--fault` from parsed arguments.
+ *
+ * @param args - parsed command line
+ * @returns topology (id or netlist) and fault strings
+ * @throws HexsalvageInputError when `--topology` is missing or unreadable
+ * @example
+ * ```ts
+ * const { topology, faults } = legInputs(args);
+ * ```
+ */
+export function legInputs(args: ParsedArgs): LegInputs {
+  const t = args.values.get('topology');
+  if (typeof t !== 'string') throw usage('--topology', 'a built-in leg id or a netlist file');
+  return { topology: loadTopology(t), topologyText: t, faults: args.lists.get('fault') ?? [] };
+}
+
+/**
+ * Reads `--load-angle` and `--polarity-margin` with their defaults and checks their ranges.
+ *
+ * @param args - parsed command line
+ * @returns load angle and margin in degrees
+ * @throws HexsalvageInputError when out of range
+ * @example
+ * ```ts
+ * angleInputs(args); // { loadAngleDeg: 0, polarityMarginDeg: 0 }
+ * ```
+ */
+export function angleInputs(args: ParsedArgs): { loadAngleDeg: number; polarityMarginDeg: number } {
+  const loadAngleDeg = (args.values.get('load-angle') as number | undefined) ?? 0;
+  const polarityMarginDeg = (args.values.get('polarity-margin') as number | undefined) ?? 0;
+  if (loadAngleDeg < -180 || loadAngleDeg > 180) throw usage('--load-angle', 'degrees in [-180, 180]', loadAngleDeg);
+  if (polarityMarginDeg < 0 || polarityMarginDeg >= 60) throw usage('--polarity-margin', 'degrees in [0, 60)', polarityMarginDeg);
+  return { loadAngleDeg, polarityMarginDeg };
+}

@@ -1,0 +1,141 @@
+import type { DiagramAtlas } from './diagramAtlas.js';
+import { modulationLimit } from './modulationLimit.js';
+import type { PolarityDiagram } from './polarityDiagram.js';
+import { polaritySectors } from './polaritySectors.js';
+import { minRadialExtent } from './radialExtent.js';
+
+const RAD = Math.PI / 180;
+
+/** Options of {@link deratingCurve}. */
+export interface DeratingCurveOptions {
+  /** First load angle, degrees. Default −90. */
+  readonly fromDeg?: number;
+  /** Last load angle, degrees. Default 90. */
+  readonly toDeg?: number;
+  /** Grid step, degrees (> 0). Default 1. */
+  readonly stepDeg?: number;
+  /** Polarity margin δ, degrees. Default 0. */
+  readonly polarityMarginDeg?: number;
+}
+
+/** One point of the derating curve. */
+export interface DeratingPoint {
+  readonly loadAngleDeg: number;
+  readonly mMax: number;
+  readonly deratingRatio: number;
+  readonly limitingAngleDeg: number;
+  readonly limitingPolarity: string;
+  /** True where the curve may have a kink (see {@link deratingCurve}); false on plain grid points. */
+  readonly breakpoint: boolean;
+}
+
+/**
+ * mMax versus load angle on a regular grid plus the curve's breakpoints, all evaluated exactly.
+ *
+ * mMax(φ) is the minimum over polarity sectors of each sector's own minimum, and a sector's
+ * minimum changes form only where one of its ends (at φ + const) crosses a hull vertex or facet
+ * normal direction of its polarity's diagram: those φ are computed in closed form. Between two
+ * such φ each sector minimum is smooth, so the remaining kinks are where the minimising sector
+ * changes; those are located by bisection to 1e-9°.
+ *
+ * @param atlas - diagrams of the faulted and healthy leg
+ * @param options - range, step and margin
+ * @returns points sorted by load angle
+ * @example
+ * ```ts
+ * deratingCurve(diagramAtlas({ topology: 'npc', faults: ['a.outerUpper'] }), { stepDeg: 5 });
+ * ```
+ */
+export function deratingCurve(atlas: DiagramAtlas, options: DeratingCurveOptions = {}): DeratingPoint[] {
+  const fromDeg = options.fromDeg ?? -90;
+  const toDeg = options.toDeg ?? 90;
+  const stepDeg = options.stepDeg ?? 1;
+  const margin = options.polarityMarginDeg ?? 0;
+  const grid: number[] = [];
+  const n = Math.floor((toDeg - fromDeg) / stepDeg + 1e-9);
+  for (let k = 0; k <= n; k++) grid.push(fromDeg + k * stepDeg);
+  if (grid[grid.length - 1] !== toDeg) grid.push(toDeg);
+
+  const structural = structuralBreakpoints(atlas.faulted, fromDeg, toDeg, margin);
+  const cuts = [...new Set([fromDeg, ...structural, toDeg])].sort((x, y) => x - y);
+  const crossings: number[] = [];
+  for (let i = 0; i + 1 < cuts.length; i++) {
+    const x = minimiserChange(atlas, cuts[i] as number, cuts[i + 1] as number, margin);
+    if (x !== null) crossings.push(x);
+  }
+  const breaks = new Set([...structural, ...crossings]);
+  const all = [...new Set([...grid, ...breaks])].sort((x, y) => x - y);
+  return all.map((phi) => {
+    const f = modulationLimit(atlas.faulted, phi, margin);
+    const h = modulationLimit(atlas.healthy, phi, margin);
+    return {
+      loadAngleDeg: phi,
+      mMax: f.mMax,
+      deratingRatio: h.mMax > 0 ? f.mMax / h.mMax : 0,
+      limitingAngleDeg: f.limitingAngleDeg,
+      limitingPolarity: f.limitingPolarity,
+      breakpoint: breaks.has(phi),
+    };
+  });
+}
+
+// Load angles where a sector end crosses a vertex or facet-normal direction of its hull.
+function structuralBreakpoints(diagrams: ReadonlyMap<string, PolarityDiagram>, fromDeg: number, toDeg: number, margin: number): number[] {
+  const out = new Set<number>();
+  for (const s of polaritySectors(0, margin)) {
+    const d = diagrams.get(s.polarity) as PolarityDiagram;
+    if (!d.geometry.containsOrigin) continue;
+    const dirs = [
+      ...d.geometry.edges.map((e) => e.normalAngle / RAD),
+      ...d.hull.map((i) => Math.atan2((d.vectors[i] as PolarityDiagram['vectors'][number]).beta, (d.vectors[i] as PolarityDiagram['vectors'][number]).alpha) / RAD),
+    ];
+    for (const psi of dirs) for (const end of [s.fromDeg, s.toDeg]) {
+      for (let k = -2; k <= 2; k++) {
+        const phi = psi - end + 360 * k;
+        if (phi > fromDeg && phi < toDeg) out.add(roundDeg(phi));
+      }
+    }
+  }
+  return [...out];
+}
+
+// Within [lo, hi] each sector minimum is smooth; if the minimising sector differs at the two ends,
+// bisect the difference of the two sector minima to find where they cross.
+function minimiserChange(atlas: DiagramAtlas, lo: number, hi: number, margin: number): number | null {
+  const which = (phi: number) => sectorMinimum(atlas.faulted, phi, margin);
+  const a = which(lo);
+  const b = which(hi);
+  if (a.key === b.key || hi - lo < 1e-9) return null;
+  const diff = (phi: number) => sectorValue(atlas.faulted, phi, margin, a.key) - sectorValue(atlas.faulted, phi, margin, b.key);
+  let [x0, x1] = [lo, hi];
+  const s0 = Math.sign(diff(x0));
+  if (s0 === 0 || Math.sign(diff(x1)) === s0) return null;
+  while (x1 - x0 > 1e-9) {
+    const m = (x0 + x1) / 2;
+    if (Math.sign(diff(m)) === s0) x0 = m;
+    else x1 = m;
+  }
+  return roundDeg((x0 + x1) / 2);
+}
+
+// Sectors keep their identity across φ by their position relative to φ (the index in the φ = 0
+// partition), which is what makes "the minimising sector" meaningful as φ moves.
+function sectorMinimum(diagrams: ReadonlyMap<string, PolarityDiagram>, phi: number, margin: number): { key: number; value: number } {
+  const rel = polaritySectors(0, margin);
+  let best = { key: -1, value: Infinity };
+  rel.forEach((_, k) => {
+    const v = sectorValue(diagrams, phi, margin, k);
+    if (v < best.value) best = { key: k, value: v };
+  });
+  return best;
+}
+
+function sectorValue(diagrams: ReadonlyMap<string, PolarityDiagram>, phi: number, margin: number, k: number): number {
+  const s = polaritySectors(0, margin)[k] as ReturnType<typeof polaritySectors>[number];
+  const d = diagrams.get(s.polarity) as PolarityDiagram;
+  return minRadialExtent(d.geometry, (phi + s.fromDeg) * RAD, (phi + s.toDeg) * RAD).value;
+}
+
+function roundDeg(x: number): number {
+  return Math.round(x * 1e9) / 1e9;
+}

@@ -1,0 +1,98 @@
+import type { PolarityString } from './polarity.js';
+import type { PolarityDiagram } from './polarityDiagram.js';
+import { mod360, polaritySectors, type PolaritySector } from './polaritySectors.js';
+import { minRadialExtent } from './radialExtent.js';
+
+const RAD = Math.PI / 180;
+
+/** The exact modulation limit and where it binds. */
+export interface ModulationLimit {
+  /** min over θ of r(θ), units of Vdc/2. */
+  readonly mMax: number;
+  /** A θ in [0, 360) where the minimum is reached. */
+  readonly limitingAngleDeg: number;
+  /** Polarity string in force there. */
+  readonly limitingPolarity: PolarityString;
+  /** The binding hull edge as indices into that polarity's vectors; `null` when mMax is 0 by degeneracy. */
+  readonly bindingEdge: readonly [number, number] | null;
+  /** Per sector: its own minimum and where. */
+  readonly sectorMinima: readonly { readonly value: number; readonly thetaDeg: number }[];
+  readonly sectors: readonly PolaritySector[];
+}
+
+/**
+ * Exact maximum modulation index for a load angle and polarity margin.
+ *
+ * θ is split at every current zero crossing and margin edge; within each sector the minimum of
+ * the hull's radial extent is taken exactly (interval ends and facet normals inside).
+ *
+ * @param diagrams - diagram per polarity string
+ * @param loadAngleDeg - load angle φ, degrees
+ * @param marginDeg - polarity margin δ, degrees
+ * @returns mMax with the limiting angle, polarity and binding edge
+ * @example
+ * ```ts
+ * modulationLimit(atlas.faulted, 30, 0).mMax;
+ * ```
+ */
+export function modulationLimit(diagrams: ReadonlyMap<PolarityString, PolarityDiagram>, loadAngleDeg: number, marginDeg: number): ModulationLimit {
+  const sectors = polaritySectors(loadAngleDeg, marginDeg);
+  let best: { value: number; theta: number; polarity: PolarityString; edge: readonly [number, number] | null } | null = null;
+  const sectorMinima = sectors.map((s) => {
+    const d = diagrams.get(s.polarity) as PolarityDiagram;
+    const m = minRadialExtent(d.geometry, s.fromDeg * RAD, s.toDeg * RAD);
+    const e = m.edge === null ? null : d.geometry.edges[m.edge];
+    if (best === null || m.value < best.value) best = { value: m.value, theta: m.theta, polarity: s.polarity, edge: e ? [e.from, e.to] : null };
+    return { value: m.value, thetaDeg: mod360(m.theta / RAD) };
+  });
+  const b = best as unknown as { value: number; theta: number; polarity: PolarityString; edge: readonly [number, number] | null };
+  return { mMax: b.value, limitingAngleDeg: mod360(b.theta / RAD), limitingPolarity: b.polarity, bindingEdge: b.edge, sectorMinima, sectors };
+}
+
+/** The worst case of the limit over a range of load angles. */
+export interface LimitOverRange {
+  /** min over φ ∈ [from, to] of mMax(φ). */
+  readonly mMax: number;
+  /** A load angle in the range where it is reached. */
+  readonly loadAngleDeg: number;
+  /** θ (in [0, 360)) where it binds at that load angle. */
+  readonly limitingAngleDeg: number;
+  readonly limitingPolarity: PolarityString;
+  readonly bindingEdge: readonly [number, number] | null;
+}
+
+/**
+ * Exact minimum of mMax over a closed range of load angles.
+ *
+ * Polarity depends only on θ − φ, so a sector [a, b] (relative to φ) sweeps θ over
+ * [from + a, to + b] as φ runs over the range; the joint minimum over (φ, θ) is the minimum over
+ * those widened intervals, again exact.
+ *
+ * @param diagrams - diagram per polarity string
+ * @param fromDeg - lowest load angle
+ * @param toDeg - highest load angle (≥ fromDeg)
+ * @param marginDeg - polarity margin δ
+ * @returns the worst limit, a load angle where it occurs, and where it binds
+ * @example
+ * ```ts
+ * limitOverLoadAngles(atlas.faulted, -30, 30, 5).mMax;
+ * ```
+ */
+export function limitOverLoadAngles(diagrams: ReadonlyMap<PolarityString, PolarityDiagram>, fromDeg: number, toDeg: number, marginDeg: number): LimitOverRange {
+  let best: LimitOverRange | null = null;
+  for (const s of polaritySectors(0, marginDeg)) {
+    const d = diagrams.get(s.polarity) as PolarityDiagram;
+    const lo = fromDeg + s.fromDeg;
+    const hi = Math.min(toDeg + s.toDeg, lo + 360);
+    const m = minRadialExtent(d.geometry, lo * RAD, hi * RAD);
+    if (best !== null && !(m.value < best.mMax)) continue;
+    const theta = m.theta / RAD;
+    // Any φ in the range with θ − φ inside the sector; the lowest one keeps the answer stable.
+    // When the widened interval was capped at a full turn, θ may need a shift by a turn first.
+    const shifted = [theta, theta - 360, theta + 360].find((t) => t >= fromDeg + s.fromDeg - 1e-9 && t <= toDeg + s.toDeg + 1e-9) ?? theta;
+    const phi = Math.min(toDeg, Math.max(fromDeg, shifted - s.toDeg));
+    const e = m.edge === null ? null : d.geometry.edges[m.edge];
+    best = { mMax: m.value, loadAngleDeg: phi, limitingAngleDeg: mod360(theta), limitingPolarity: s.polarity, bindingEdge: e ? [e.from, e.to] : null };
+  }
+  return best as LimitOverRange;
+}

@@ -1,0 +1,117 @@
+import type { Point } from './clarke.js';
+import { polygonArea } from './hull.js';
+import { AREA_TOLERANCE } from './tolerance.js';
+
+/** One edge of a hull seen from the origin. */
+export interface HullEdge {
+  /** Hull vertex indices (into the vector list), counter-clockwise. */
+  readonly from: number;
+  readonly to: number;
+  /** Direction of the outward normal, radians in (−π, π]. */
+  readonly normalAngle: number;
+  /** Distance from the origin to the edge's line (positive when the origin is inside). */
+  readonly offset: number;
+}
+
+/** A hull prepared for radial queries. */
+export interface HullGeometry {
+  readonly edges: readonly HullEdge[];
+  /** True when the hull has area and the origin lies strictly inside it. */
+  readonly containsOrigin: boolean;
+}
+
+/** The radial extent in one direction, or the minimum of it over an interval. */
+export interface RadialValue {
+  /** Distance from the origin to the hull boundary along the direction (0 outside or degenerate). */
+  readonly value: number;
+  /** Direction in radians where `value` is reached. */
+  readonly theta: number;
+  /** Index into `edges` of the binding edge, `null` when the value is 0 by degeneracy. */
+  readonly edge: number | null;
+}
+
+/**
+ * Prepares a counter-clockwise hull for radial queries.
+ *
+ * @param points - vector positions
+ * @param hull - hull indices from `convexHull`
+ * @returns edges with outward normals and offsets, and whether the origin is strictly inside
+ * @example
+ * ```ts
+ * hullGeometry(points, convexHull(points)).containsOrigin;
+ * ```
+ */
+export function hullGeometry(points: readonly Point[], hull: readonly number[]): HullGeometry {
+  const poly = hull.map((i) => points[i] as Point);
+  if (hull.length < 3 || polygonArea(poly) <= AREA_TOLERANCE) return { edges: [], containsOrigin: false };
+  const edges: HullEdge[] = hull.map((from, k) => {
+    const to = hull[(k + 1) % hull.length] as number;
+    const [x0, y0] = points[from] as Point;
+    const [x1, y1] = points[to] as Point;
+    const len = Math.hypot(x1 - x0, y1 - y0);
+    const nx = (y1 - y0) / len;
+    const ny = -(x1 - x0) / len;
+    return { from, to, normalAngle: Math.atan2(ny, nx), offset: nx * x0 + ny * y0 };
+  });
+  // Strictly inside: an origin on an edge gives a zero radius in the outward directions, which
+  // the contract treats as "not inside".
+  const containsOrigin = edges.every((e) => e.offset > Math.sqrt(AREA_TOLERANCE));
+  return { edges, containsOrigin };
+}
+
+/**
+ * Distance from the origin to the hull boundary along direction θ.
+ *
+ * @param g - prepared hull
+ * @param theta - direction in radians
+ * @returns the radial extent r(θ) and the edge it hits (value 0 when the origin is not inside)
+ * @example
+ * ```ts
+ * radialExtent(g, 0).value;
+ * ```
+ */
+export function radialExtent(g: HullGeometry, theta: number): RadialValue {
+  if (!g.containsOrigin) return { value: 0, theta, edge: null };
+  let best = Infinity;
+  let edge = 0;
+  g.edges.forEach((e, i) => {
+    const c = Math.cos(theta - e.normalAngle);
+    if (c <= 0) return;
+    const r = e.offset / c;
+    if (r < best) {
+      best = r;
+      edge = i;
+    }
+  });
+  return { value: best, theta, edge };
+}
+
+/**
+ * Exact minimum of r(θ) over a closed interval of directions.
+ *
+ * On each edge's angular span r(θ) = h / cos(θ − ψ) is smallest at the normal direction ψ, so the
+ * minimum over [θ1, θ2] is among r(θ1), r(θ2) and the offsets of the edges whose normals fall
+ * inside the interval. No sampling.
+ *
+ * @param g - prepared hull
+ * @param from - interval start, radians
+ * @param to - interval end, radians (`to ≥ from`; spans of 2π or more cover every direction)
+ * @returns the minimum, the direction where it is reached (earliest on ties) and the edge
+ * @example
+ * ```ts
+ * minRadialExtent(g, 0, 2 * Math.PI).value; // radius of the largest origin-centred inscribed circle
+ * ```
+ */
+export function minRadialExtent(g: HullGeometry, from: number, to: number): RadialValue {
+  if (!g.containsOrigin) return { value: 0, theta: from, edge: null };
+  let best = radialExtent(g, from);
+  const consider = (c: RadialValue) => {
+    if (c.value < best.value || (c.value === best.value && c.theta < best.theta)) best = c;
+  };
+  consider(radialExtent(g, to));
+  g.edges.forEach((e, i) => {
+    const k0 = Math.ceil((from - e.normalAngle) / (2 * Math.PI));
+    for (let k = k0; e.normalAngle + 2 * Math.PI * k <= to; k++) consider({ value: e.offset, theta: e.normalAngle + 2 * Math.PI * k, edge: i });
+  });
+  return best;
+}

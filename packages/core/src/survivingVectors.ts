@@ -1,0 +1,64 @@
+import { clarke, type LevelTriplet, type Point } from './clarke.js';
+import { VECTOR_TOLERANCE } from './tolerance.js';
+
+/** A distinct space vector with every level triplet that realises it (its redundancy). */
+export interface SpaceVector {
+  readonly alpha: number;
+  readonly beta: number;
+  /** Realising triplets, lexicographically descending (phase a first). */
+  readonly levels: readonly LevelTriplet[];
+}
+
+/**
+ * All space vectors reachable from per-phase level sets, merged into distinct points.
+ *
+ * Triplets closer than {@link VECTOR_TOLERANCE} in the α-β plane are one vector. Vectors are
+ * ordered by length, then by angle in [0, 2π) counter-clockwise from α; both rounded to the
+ * tolerance so that the order does not depend on the last bit of the Clarke transform.
+ *
+ * @param sets - the allowed levels of phases a, b and c
+ * @returns distinct vectors in deterministic order (empty when any set is empty)
+ * @example
+ * ```ts
+ * survivingVectors([[-1, 1], [-1, 1], [-1, 1]]).length; // 7 (two-level hexagon and the zero vector)
+ * ```
+ */
+export function survivingVectors(sets: readonly [readonly number[], readonly number[], readonly number[]]): SpaceVector[] {
+  const groups: { p: Point; levels: LevelTriplet[] }[] = [];
+  for (const la of sets[0]) for (const lb of sets[1]) for (const lc of sets[2]) {
+    const t: LevelTriplet = [la, lb, lc];
+    const p = clarke(t);
+    const g = groups.find((x) => Math.hypot(x.p[0] - p[0], x.p[1] - p[1]) <= VECTOR_TOLERANCE);
+    if (g) g.levels.push(t);
+    else groups.push({ p, levels: [t] });
+  }
+  const q = (x: number) => Math.round(x / VECTOR_TOLERANCE);
+  const key = (p: Point) => {
+    const r = Math.hypot(p[0], p[1]);
+    const a = r <= VECTOR_TOLERANCE ? 0 : (Math.atan2(p[1], p[0]) + 2 * Math.PI) % (2 * Math.PI);
+    return [q(r), q(a)] as const;
+  };
+  return groups
+    .map((g) => ({ g, k: key(g.p) }))
+    .sort((x, y) => x.k[0] - y.k[0] || x.k[1] - y.k[1])
+    .map(({ g }) => ({ alpha: g.p[0], beta: g.p[1], levels: g.levels.sort(compareTripletsDesc) }));
+}
+
+function compareTripletsDesc(x: LevelTriplet, y: LevelTriplet): number {
+  return y[0] - x[0] || y[1] - x[1] || y[2] - x[2];
+}
+
+/**
+ * Finds the vector at a point.
+ *
+ * @param vectors - a vector list
+ * @param p - the point
+ * @returns the index of the vector within {@link VECTOR_TOLERANCE}, or -1
+ * @example
+ * ```ts
+ * indexOfVector(survivingVectors([[1], [-1], [-1]]), [4 / 3, 0]); // 0
+ * ```
+ */
+export function indexOfVector(vectors: readonly SpaceVector[], p: Point): number {
+  return vectors.findIndex((v) => Math.hypot(v.alpha - p[0], v.beta - p[1]) <= VECTOR_TOLERANCE);
+}
