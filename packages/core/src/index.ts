@@ -27,3 +27,4 @@ export { PLAN_SCHEMA_VERSION, checkAngle, planFromAtlas, planRemedial, polarityD
 export { deratingCurve, type DeratingCurveOptions, type DeratingPoint } from './deratingCurve.js';
 export { blockingVoltages } from './blockingVoltages.js';
 export { EXPLORE_MAX_SWITCHES, blockingBudget, exploreLeg, type ExploredCombination, type LegExploration, type PhaseExploration } from './exploreLeg.js';
+export { clampToHull, locateReference, type LocatableDiagram, type LocatedReference } from './locateReference.js';

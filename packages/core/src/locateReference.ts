@@ -1,0 +1,128 @@
+import type { Point } from './clarke.js';
+import { dwellTimes, type DwellMatrix } from './dwell.js';
+import { DWELL_TOLERANCE } from './tolerance.js';
+
+/** The parts of a polarity diagram the locator needs (a `PlanPolarity` from a plan fits). */
+export interface LocatableDiagram {
+  readonly vectors: readonly { readonly alpha: number; readonly beta: number }[];
+  readonly hull: readonly (readonly [number, number])[];
+  readonly triangles: readonly (readonly [number, number, number])[];
+  readonly dwell: readonly DwellMatrix[];
+}
+
+/** Where a reference vector falls and for how long each vertex is applied. */
+export type LocatedReference =
+  | {
+      readonly ok: true;
+      /** Index into `triangles`. */
+      readonly triangle: number;
+      /** Vector indices of the triangle's vertices. */
+      readonly vertices: readonly [number, number, number];
+      /** Duty cycles of the vertices, each in [0, 1], summing to 1. */
+      readonly dwell: readonly [number, number, number];
+      /** True when the reference lay outside the hull and was brought back to its boundary. */
+      readonly clamped: boolean;
+      /** The reference actually synthesised (equal to the input unless clamped). */
+      readonly alpha: number;
+      readonly beta: number;
+    }
+  | { readonly ok: false; readonly reason: 'no-triangles' };
+
+/**
+ * Locates a reference vector in the re-triangulated diagram and returns its dwell times.
+ *
+ * Outside the hull the reference is brought back to the hull boundary along its own direction
+ * (the longest reachable point on the ray, or the nearest one where the ray starts outside) and
+ * flagged as clamped; where the ray misses the hull altogether the nearest hull point is used.
+ *
+ * @param d - vectors, hull points, triangles and dwell matrices of one polarity
+ * @param alpha - reference α, units of Vdc/2
+ * @param beta - reference β
+ * @returns triangle, vertices, dwell times and the clamp flag; `{ ok: false }` without triangles
+ * @example
+ * ```ts
+ * locateReference(plan.polarities['+--'], 0.4, 0.1);
+ * ```
+ */
+export function locateReference(d: LocatableDiagram, alpha: number, beta: number): LocatedReference {
+  if (d.triangles.length === 0) return { ok: false, reason: 'no-triangles' };
+  const direct = findTriangle(d, alpha, beta);
+  if (direct) return { ok: true, ...direct, clamped: false, alpha, beta };
+  const [ca, cb] = clampToHull(d.hull, [alpha, beta]);
+  const found = findTriangle(d, ca, cb) ?? nearestTriangle(d, ca, cb);
+  return { ok: true, ...found, clamped: true, alpha: ca, beta: cb };
+}
+
+function findTriangle(d: LocatableDiagram, alpha: number, beta: number) {
+  for (let t = 0; t < d.triangles.length; t++) {
+    const w = dwellTimes(d.dwell[t] as DwellMatrix, alpha, beta);
+    if (Math.min(...w) >= -DWELL_TOLERANCE) return { triangle: t, vertices: d.triangles[t] as [number, number, number], dwell: normalise(w) };
+  }
+  return null;
+}
+
+// Rounding can leave a boundary point a hair outside every triangle: take the least-outside one.
+function nearestTriangle(d: LocatableDiagram, alpha: number, beta: number) {
+  let best = 0;
+  let score = -Infinity;
+  d.dwell.forEach((m, t) => {
+    const s = Math.min(...dwellTimes(m, alpha, beta));
+    if (s > score) [best, score] = [t, s];
+  });
+  return { triangle: best, vertices: d.triangles[best] as [number, number, number], dwell: normalise(dwellTimes(d.dwell[best] as DwellMatrix, alpha, beta)) };
+}
+
+function normalise(w: [number, number, number]): [number, number, number] {
+  const c = w.map((x) => Math.max(0, x)) as [number, number, number];
+  const s = c[0] + c[1] + c[2];
+  return c.map((x) => x / s) as [number, number, number];
+}
+
+/**
+ * Brings a point back to a convex hull along the ray from the origin through it.
+ *
+ * @param hull - hull corners, counter-clockwise, with area
+ * @param p - the point
+ * @returns the clamped point (the point itself when inside)
+ * @example
+ * ```ts
+ * clampToHull([[1, 0], [0, 1], [-1, 0], [0, -1]], [2, 0]); // [1, 0]
+ * ```
+ */
+export function clampToHull(hull: readonly (readonly [number, number])[], p: Point): Point {
+  const len = Math.hypot(p[0], p[1]);
+  if (len > 0) {
+    const u = [p[0] / len, p[1] / len] as const;
+    let lo = 0;
+    let hi = Infinity;
+    let empty = false;
+    forEachEdge(hull, (a, b) => {
+      const nx = b[1] - a[1];
+      const ny = -(b[0] - a[0]);
+      const h = nx * a[0] + ny * a[1];
+      const c = nx * u[0] + ny * u[1];
+      if (Math.abs(c) < 1e-15) empty ||= h < 0;
+      else if (c > 0) hi = Math.min(hi, h / c);
+      else lo = Math.max(lo, h / c);
+    });
+    if (!empty && lo <= hi) {
+      const t = Math.min(Math.max(len, lo), hi);
+      return [t * u[0], t * u[1]];
+    }
+  }
+  let best: Point = hull[0] as Point;
+  let dist = Infinity;
+  forEachEdge(hull, (a, b) => {
+    const ex = b[0] - a[0];
+    const ey = b[1] - a[1];
+    const s = Math.min(1, Math.max(0, ((p[0] - a[0]) * ex + (p[1] - a[1]) * ey) / (ex * ex + ey * ey)));
+    const q: Point = [a[0] + s * ex, a[1] + s * ey];
+    const dq = Math.hypot(q[0] - p[0], q[1] - p[1]);
+    if (dq < dist) [best, dist] = [q, dq];
+  });
+  return best;
+}
+
+function forEachEdge(hull: readonly (readonly [number, number])[], f: (a: readonly [number, number], b: readonly [number, number]) => void): void {
+  for (let i = 0; i < hull.length; i++) f(hull[i] as readonly [number, number], hull[(i + 1) % hull.length] as readonly [number, number]);
+}
