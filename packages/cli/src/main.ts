@@ -6,10 +6,12 @@ import { legCommand } from './commands/legCommand.js';
 import { planCommand } from './commands/planCommand.js';
 import { sweepCommand } from './commands/sweepCommand.js';
 import { vectorsCommand } from './commands/vectorsCommand.js';
+import { tableCommand } from './commands/tableCommand.js';
+import { exportCommand } from './commands/exportCommand.js';
 import type { CommandIO } from './output.js';
 
 /** Every command, in the order `--help` lists them. */
-export const COMMANDS: readonly Command[] = [legCommand, vectorsCommand, planCommand, sweepCommand];
+export const COMMANDS: readonly Command[] = [legCommand, vectorsCommand, planCommand, sweepCommand, tableCommand, exportCommand];
 
 const VERSION = (JSON.parse(readFileSync(new URL('../package.json', import.meta.url), 'utf8')) as { version: string }).version;
 

@@ -27,4 +27,14 @@ export { PLAN_SCHEMA_VERSION, checkAngle, planFromAtlas, planRemedial, polarityD
 export { deratingCurve, type DeratingCurveOptions, type DeratingPoint } from './deratingCurve.js';
 export { blockingVoltages } from './blockingVoltages.js';
 export { EXPLORE_MAX_SWITCHES, blockingBudget, exploreLeg, type ExploredCombination, type LegExploration, type PhaseExploration } from './exploreLeg.js';
-export { clampToHull, locateReference, type LocatableDiagram, type LocatedReference } from './locateReference.js';
+export { clampInto, clampToHull, locateReference, type LocatableDiagram, type LocatedReference } from './locateReference.js';
+export { choosePattern, patternCandidates, type PatternChoice } from './choosePattern.js';
+export { midpointCoefficients, midpointSign, type MidpointSign } from './midpointCurrent.js';
+export { chooseSequence, gateDifference, type LegState, type LevelJump, type PatternCandidatesOf, type PhaseState, type SwitchingSequence } from './switchingSequence.js';
+export { polarityTable, type MidpointAuthority, type PolarityTable, type TableTriangle, type TableVertex, type VertexRealisation } from './polarityTable.js';
+export { TABLE_SCHEMA_VERSION, switchingTable, switchingTableFromAtlas, type SwitchingTable, type TablePolarity, type TriangleFlag } from './switchingTable.js';
+export { createModulator, type ModulationResult, type Modulator, type ModulatorSource } from './createModulator.js';
+export { cycleCheck, type CycleCheckOptions, type CycleReport } from './cycleCheck.js';
+export { CSV_COLUMNS, exportCsv } from './exportCsv.js';
+export { EXPORT_SCHEMA_VERSION, exportDocument, type ExportDocument } from './exportJson.js';
+export { exportC, type ExportCOptions } from './exportC.js';

@@ -90,39 +90,65 @@ function normalise(w: [number, number, number]): [number, number, number] {
  * ```
  */
 export function clampToHull(hull: readonly (readonly [number, number])[], p: Point): Point {
-  const len = Math.hypot(p[0], p[1]);
+  const out = new Float64Array(2);
+  clampInto(hull, p[0], p[1], out);
+  return [out[0] as number, out[1] as number];
+}
+
+/**
+ * Allocation-free form of {@link clampToHull} for hot loops: writes the clamped point to `out`.
+ * The modulator's fast path and {@link locateReference} share it, so they agree bit for bit.
+ *
+ * @param hull - hull corners, counter-clockwise, with area
+ * @param x - point α
+ * @param y - point β
+ * @param out - receives [α, β]
+ * @example
+ * ```ts
+ * clampInto(hull, 2, 0, scratch);
+ * ```
+ */
+export function clampInto(hull: readonly (readonly [number, number])[], x: number, y: number, out: Float64Array): void {
+  const len = Math.hypot(x, y);
+  const n = hull.length;
   if (len > 0) {
-    const u = [p[0] / len, p[1] / len] as const;
+    const ux = x / len;
+    const uy = y / len;
     let lo = 0;
     let hi = Infinity;
     let empty = false;
-    forEachEdge(hull, (a, b) => {
+    for (let i = 0; i < n; i++) {
+      const a = hull[i] as readonly [number, number];
+      const b = hull[(i + 1) % n] as readonly [number, number];
       const nx = b[1] - a[1];
       const ny = -(b[0] - a[0]);
       const h = nx * a[0] + ny * a[1];
-      const c = nx * u[0] + ny * u[1];
+      const c = nx * ux + ny * uy;
       if (Math.abs(c) < 1e-15) empty ||= h < 0;
       else if (c > 0) hi = Math.min(hi, h / c);
       else lo = Math.max(lo, h / c);
-    });
+    }
     if (!empty && lo <= hi) {
       const t = Math.min(Math.max(len, lo), hi);
-      return [t * u[0], t * u[1]];
+      out[0] = t * ux;
+      out[1] = t * uy;
+      return;
     }
   }
-  let best: Point = hull[0] as Point;
   let dist = Infinity;
-  forEachEdge(hull, (a, b) => {
+  for (let i = 0; i < n; i++) {
+    const a = hull[i] as readonly [number, number];
+    const b = hull[(i + 1) % n] as readonly [number, number];
     const ex = b[0] - a[0];
     const ey = b[1] - a[1];
-    const s = Math.min(1, Math.max(0, ((p[0] - a[0]) * ex + (p[1] - a[1]) * ey) / (ex * ex + ey * ey)));
-    const q: Point = [a[0] + s * ex, a[1] + s * ey];
-    const dq = Math.hypot(q[0] - p[0], q[1] - p[1]);
-    if (dq < dist) [best, dist] = [q, dq];
-  });
-  return best;
-}
-
-function forEachEdge(hull: readonly (readonly [number, number])[], f: (a: readonly [number, number], b: readonly [number, number]) => void): void {
-  for (let i = 0; i < hull.length; i++) f(hull[i] as readonly [number, number], hull[(i + 1) % hull.length] as readonly [number, number]);
+    const s = Math.min(1, Math.max(0, ((x - a[0]) * ex + (y - a[1]) * ey) / (ex * ex + ey * ey)));
+    const qx = a[0] + s * ex;
+    const qy = a[1] + s * ey;
+    const dq = Math.hypot(qx - x, qy - y);
+    if (dq < dist) {
+      dist = dq;
+      out[0] = qx;
+      out[1] = qy;
+    }
+  }
 }

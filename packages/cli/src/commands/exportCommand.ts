@@ -1,0 +1,38 @@
+import { exportC, exportCsv, exportDocument, planRemedial, switchingTable } from '@hexsalvage/core';
+import { usage } from '../args.js';
+import { ANGLE_OPTIONS, HELP_OPTION, LEG_OPTIONS, type Command } from '../command.js';
+import { angleInputs, legInputs } from '../legInputs.js';
+import { writeFileAtomic } from '../output.js';
+
+const FORMATS = ['json', 'csv', 'c'] as const;
+
+/** `hexsalvage export`: the table (and plan) as JSON, CSV or a C header. */
+export const exportCommand: Command = {
+  name: 'export',
+  summary: 'write the plan and switching table as JSON, CSV or a C header for firmware',
+  usage: 'export --format json|csv|c --out FILE --topology T [--fault F]... [--load-angle DEG] [--polarity-margin DEG] [--prefix ID]',
+  options: [
+    { name: 'format', type: 'string', value: 'FMT', help: 'json (plan + table), csv (one row per polarity × triangle × vertex) or c (header)' },
+    { name: 'out', type: 'string', value: 'FILE', help: 'output file; an existing file is replaced atomically' },
+    ...LEG_OPTIONS,
+    ...ANGLE_OPTIONS,
+    { name: 'prefix', type: 'string', value: 'ID', help: 'C symbol prefix (default hs)' },
+    HELP_OPTION,
+  ],
+  run: async (args, io) => {
+    const format = args.values.get('format');
+    if (!FORMATS.includes(format as (typeof FORMATS)[number])) throw usage('--format', `one of ${FORMATS.join(', ')}`, format);
+    const out = args.values.get('out');
+    if (typeof out !== 'string' || out === '') throw usage('--out', 'an output file path');
+    const { topology, faults } = legInputs(args);
+    const angles = angleInputs(args);
+    const table = switchingTable({ topology, faults });
+    let text: string;
+    if (format === 'json') text = `${JSON.stringify(exportDocument(planRemedial({ topology, faults, ...angles }), table))}\n`;
+    else if (format === 'csv') text = exportCsv(table);
+    else text = exportC(table, { prefix: (args.values.get('prefix') as string | undefined) ?? 'hs' });
+    writeFileAtomic(out, text);
+    await io.stdout(`wrote ${out} (${format}, ${Buffer.byteLength(text)} bytes)\n`);
+    return 0;
+  },
+};

@@ -1,0 +1,65 @@
+import { switchingTable, type SwitchingTable } from '@hexsalvage/core';
+import { usage } from '../args.js';
+import { HELP_OPTION, JSON_OPTION, LEG_OPTIONS, type Command } from '../command.js';
+import { cautionBlock, fmt, levelText, textTable } from '../format.js';
+import { legInputs } from '../legInputs.js';
+
+/** `hexsalvage table`: the degraded switching-state table, readable. */
+export const tableCommand: Command = {
+  name: 'table',
+  summary: 'degraded switching-state table: per polarity and triangle, states, sequence and flags',
+  usage: 'table --topology T [--fault F]... [--polarity XYZ] [--json]',
+  options: [...LEG_OPTIONS, { name: 'polarity', type: 'string', value: 'XYZ', help: 'show one polarity string only (default: all 25)' }, JSON_OPTION, HELP_OPTION],
+  run: async (args, io) => {
+    const { topology, faults } = legInputs(args);
+    const table = switchingTable({ topology, faults });
+    const only = args.values.get('polarity') as string | undefined;
+    if (only !== undefined && !table.polarities[only]) throw usage('--polarity', 'one of the 25 polarity strings, e.g. +-?', only);
+    if (args.flags.has('json')) {
+      await io.stdout(`${JSON.stringify(table)}\n`);
+      return 0;
+    }
+    await io.stdout(`${tableText(table, only)}\n`);
+    return 0;
+  },
+};
+
+/**
+ * Readable rendering of a switching table.
+ *
+ * @param table - the table
+ * @param only - restrict to one polarity string
+ * @returns terminal text
+ * @example
+ * ```ts
+ * tableText(switchingTable({ topology: 'npc' }), '+--');
+ * ```
+ */
+export function tableText(table: SwitchingTable, only?: string): string {
+  const lines = [`Leg: ${table.topology}   faults: ${table.faults.join(', ') || 'none'}`, ''];
+  for (const pol of table.polarityOrder) {
+    if (only !== undefined && pol !== only) continue;
+    const p = table.polarities[pol];
+    if (!p) continue;
+    lines.push(`Polarity ${pol} (index ${p.index}): ${p.vectors.length} vectors, ${p.lost.length} lost${p.lost.length ? ` (${p.lost.map((v) => `${v.class} ${v.levels[0]?.map(levelText).join('')}`).join(', ')})` : ''}, ${p.tableTriangles.length} triangles, radius ${fmt(p.radius, 4)}`);
+    const rows = p.tableTriangles.map((tri, t) => {
+      const seq = tri.sequence;
+      const states = seq ? seq.states.map((s) => s.map((x) => levelText(x.level)).join('')).join(' > ') : '(none)';
+      const pats = seq ? seq.states.map((s) => s.map((x) => x.pattern).join('/')).join(' > ') : '';
+      const flags = [
+        ...(seq?.lineDevicesSwitching.length ? [`LINE-RATE DEVICES AT PWM: ${seq.lineDevicesSwitching.join(' ')}`] : []),
+        ...(seq?.levelJumps.length ? [`LEVEL JUMP ${seq.levelJumps.map((j) => `${j.phase} ${levelText(j.from)}>${levelText(j.to)}`).join(' ')}`] : []),
+        ...(tri.authorityLost ? [`MIDPOINT CONTROL LOST (${tri.healthyMidpointAuthority}>${tri.midpointAuthority})`] : []),
+      ];
+      return [String(t), tri.vertices.map((v) => v.class).join('/'), states, pats, String(seq?.totalGateChanges ?? ''), tri.midpointAuthority, flags.join('; ')];
+    });
+    if (rows.length) lines.push(textTable(['#', 'vertices', 'sequence (half period)', 'patterns a/b/c', 'changes', 'midpoint', 'flags'], rows));
+    else lines.push('  no triangles: this polarity cannot be modulated (hull without area)');
+    lines.push('');
+  }
+  const f = table.flags;
+  lines.push(`Flags: ${f.lineDevicesAtPwm.length} triangles drive line-frequency devices at PWM rate, ${f.levelJumps.length} have level jumps, ${f.midpointAuthorityLost.length} lost midpoint control.`);
+  lines.push('Sequence: states from the start to the centre of a centre-aligned period, mirrored after; changes = gate changes per period.');
+  lines.push(cautionBlock(table.cautions));
+  return lines.join('\n');
+}

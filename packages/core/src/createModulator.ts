@@ -1,0 +1,224 @@
+import type { LevelTriplet } from './clarke.js';
+import type { DwellMatrix } from './dwell.js';
+import { HexsalvageInputError } from './errors.js';
+import { clampInto } from './locateReference.js';
+import { parsePolarity, POLARITY_STRINGS, type PolarityString } from './polarity.js';
+import type { PlanPolarity } from './planRemedial.js';
+import type { TableTriangle } from './polarityTable.js';
+import { DWELL_TOLERANCE } from './tolerance.js';
+
+/** What `modulate` returns. */
+export interface ModulationResult {
+  /** Triangle index in that polarity's `triangles`, or -1 when the polarity has none. */
+  readonly triangle: number;
+  /** Duty cycles of the triangle's vertices, each in [0, 1], summing to 1. */
+  readonly dwell: readonly [number, number, number];
+  /** The level triplet applied for each vertex (vertex order of the triangle). */
+  readonly vertices: readonly LevelTriplet[];
+  /** True when the reference lay outside the hull and was brought back to its boundary. */
+  readonly clamped: boolean;
+}
+
+/** The runtime modulator built from a plan or a switching table. */
+export interface Modulator {
+  /**
+   * Locates a reference and returns dwell times for the measured polarity.
+   *
+   * @param alpha - reference α, units of Vdc/2
+   * @param beta - reference β
+   * @param polarity - polarity string, e.g. `+-?`
+   * @returns triangle, dwell times, vertex triplets and the clamp flag
+   */
+  modulate(alpha: number, beta: number, polarity: PolarityString): ModulationResult;
+  /**
+   * Allocation-free form for hot loops: writes `[d0, d1, d2, clamped]` into `out`.
+   *
+   * @param alpha - reference α
+   * @param beta - reference β
+   * @param polarityIndex - index into `POLARITY_STRINGS` (see {@link Modulator.polarityIndex})
+   * @param out - caller-owned array of length ≥ 4
+   * @returns the triangle index, or -1 when the polarity has no triangles
+   */
+  modulateInto(alpha: number, beta: number, polarityIndex: number, out: Float64Array): number;
+  /** Index of a polarity string for {@link Modulator.modulateInto}. */
+  polarityIndex(polarity: PolarityString): number;
+}
+
+/** Source of a modulator: a plan (`planRemedial`) or a switching table (`switchingTable`). */
+export type ModulatorSource = { readonly polarities: Readonly<Record<PolarityString, PlanPolarity & { readonly tableTriangles?: readonly TableTriangle[] }>> };
+
+interface Prepared {
+  readonly count: number;
+  readonly m: Float64Array; // 9 per triangle, row-major
+  readonly hull: readonly (readonly [number, number])[];
+  readonly vertices: readonly (readonly LevelTriplet[])[];
+  // uniform grid over the hull's bounding box: cell → triangle indices, ascending
+  readonly x0: number;
+  readonly y0: number;
+  readonly cell: number;
+  readonly nx: number;
+  readonly ny: number;
+  readonly cells: readonly Int32Array[];
+}
+
+/**
+ * Builds the runtime modulator: a point-location grid per polarity string so that a reference is
+ * tested against a handful of triangles instead of all of them.
+ *
+ * With a switching table as source, each vertex is applied with the triplet its switching
+ * sequence chose; with a plan, with the vertex's first realising triplet. Both the object and the
+ * allocation-free paths give exactly what a plain search of the triangles in index order gives
+ * (`locateReference`): same triangle, same dwell times, same clamping.
+ *
+ * @param source - a plan or a switching table
+ * @returns the modulator
+ * @example
+ * ```ts
+ * const mod = createModulator(planRemedial({ topology: 'npc', faults: ['a.outerUpper'] }));
+ * mod.modulate(0.3, 0.1, '+--').dwell;
+ * ```
+ */
+export function createModulator(source: ModulatorSource): Modulator {
+  const prepared: (Prepared | null)[] = POLARITY_STRINGS.map((p) => {
+    const d = source.polarities[p];
+    return d ? prepare(d) : null;
+  });
+  const scratch = new Float64Array(4);
+  const clampBuf = new Float64Array(2);
+
+  const run = (alpha: number, beta: number, k: number, out: Float64Array): number => {
+    const pr = prepared[k];
+    if (!pr || pr.count === 0) return -1;
+    let t = search(pr, alpha, beta, out);
+    if (t >= 0) {
+      out[3] = 0;
+      return t;
+    }
+    clampInto(pr.hull, alpha, beta, clampBuf);
+    const ca = clampBuf[0] as number;
+    const cb = clampBuf[1] as number;
+    t = search(pr, ca, cb, out);
+    if (t < 0) t = leastOutside(pr, ca, cb, out);
+    out[3] = 1;
+    return t;
+  };
+
+  const polarityIndex = (p: PolarityString): number => {
+    parsePolarity(p, 'polarity');
+    return POLARITY_STRINGS.indexOf(p);
+  };
+
+  return {
+    modulate(alpha, beta, polarity) {
+      if (!Number.isFinite(alpha) || !Number.isFinite(beta)) throw new HexsalvageInputError('option', 'modulate', 'alpha/beta', 'finite numbers', Number.isFinite(alpha) ? beta : alpha);
+      const k = polarityIndex(polarity);
+      const t = run(alpha, beta, k, scratch);
+      if (t < 0) return { triangle: -1, dwell: [0, 0, 0], vertices: [], clamped: true };
+      return { triangle: t, dwell: [scratch[0] as number, scratch[1] as number, scratch[2] as number], vertices: (prepared[k] as Prepared).vertices[t] as LevelTriplet[], clamped: scratch[3] === 1 };
+    },
+    modulateInto: (alpha, beta, k, out) => run(alpha, beta, k, out),
+    polarityIndex,
+  };
+}
+
+function prepare(d: PlanPolarity & { readonly tableTriangles?: readonly TableTriangle[] }): Prepared {
+  const count = d.triangles.length;
+  const m = new Float64Array(9 * count);
+  d.dwell.forEach((mat: DwellMatrix, t) => {
+    for (let r = 0; r < 3; r++) for (let c = 0; c < 3; c++) m[9 * t + 3 * r + c] = mat[r]![c]!;
+  });
+  const vertices = d.triangles.map((tri, t) => tri.map((vi, pos) => {
+    const seq = d.tableTriangles?.[t]?.sequence;
+    const choice = seq ? seq.choice[pos] ?? 0 : 0;
+    const v = d.vectors[vi];
+    return (d.tableTriangles?.[t]?.vertices[pos]?.realisations[choice]?.levels ?? v?.levels[0]) as LevelTriplet;
+  }));
+  const xs = d.hull.map((p) => p[0]);
+  const ys = d.hull.map((p) => p[1]);
+  const x0 = Math.min(...xs, 0);
+  const y0 = Math.min(...ys, 0);
+  const w = Math.max(...xs, 0) - x0;
+  const h = Math.max(...ys, 0) - y0;
+  const n = Math.max(1, Math.ceil(Math.sqrt(count)));
+  const cell = Math.max(w, h, 1e-9) / n;
+  const nx = Math.max(1, Math.ceil(w / cell));
+  const ny = Math.max(1, Math.ceil(h / cell));
+  const lists: number[][] = Array.from({ length: nx * ny }, () => []);
+  d.triangles.forEach((tri, t) => {
+    const px = tri.map((i) => d.vectors[i]!.alpha);
+    const py = tri.map((i) => d.vectors[i]!.beta);
+    // a small pad so that points on a cell border find every triangle touching them
+    const pad = 1e-6;
+    const i0 = clampIdx(Math.floor((Math.min(...px) - pad - x0) / cell), nx);
+    const i1 = clampIdx(Math.floor((Math.max(...px) + pad - x0) / cell), nx);
+    const j0 = clampIdx(Math.floor((Math.min(...py) - pad - y0) / cell), ny);
+    const j1 = clampIdx(Math.floor((Math.max(...py) + pad - y0) / cell), ny);
+    for (let i = i0; i <= i1; i++) for (let j = j0; j <= j1; j++) lists[j * nx + i]!.push(t);
+  });
+  return { count, m, hull: d.hull, vertices, x0, y0, cell, nx, ny, cells: lists.map((l) => Int32Array.from(l)) };
+}
+
+function clampIdx(i: number, n: number): number {
+  return i < 0 ? 0 : i >= n ? n - 1 : i;
+}
+
+// Same arithmetic, same order as locateReference: first triangle (lowest index) containing the point.
+function search(pr: Prepared, a: number, b: number, out: Float64Array): number {
+  const i = Math.floor((a - pr.x0) / pr.cell);
+  const j = Math.floor((b - pr.y0) / pr.cell);
+  if (i < 0 || j < 0 || i >= pr.nx || j >= pr.ny) return linear(pr, a, b, out);
+  const list = pr.cells[j * pr.nx + i] as Int32Array;
+  for (let k = 0; k < list.length; k++) {
+    const t = list[k] as number;
+    if (inside(pr.m, t, a, b, out)) return t;
+  }
+  // a point on the grid's far border or rounding at a cell edge: fall back to the full scan
+  return linear(pr, a, b, out);
+}
+
+function linear(pr: Prepared, a: number, b: number, out: Float64Array): number {
+  for (let t = 0; t < pr.count; t++) if (inside(pr.m, t, a, b, out)) return t;
+  return -1;
+}
+
+function inside(m: Float64Array, t: number, a: number, b: number, out: Float64Array): boolean {
+  const o = 9 * t;
+  const d0 = (m[o] as number) * a + (m[o + 1] as number) * b + (m[o + 2] as number);
+  const d1 = (m[o + 3] as number) * a + (m[o + 4] as number) * b + (m[o + 5] as number);
+  const d2 = (m[o + 6] as number) * a + (m[o + 7] as number) * b + (m[o + 8] as number);
+  if (Math.min(d0, d1, d2) < -DWELL_TOLERANCE) return false;
+  normaliseInto(d0, d1, d2, out);
+  return true;
+}
+
+function leastOutside(pr: Prepared, a: number, b: number, out: Float64Array): number {
+  let best = 0;
+  let score = -Infinity;
+  for (let t = 0; t < pr.count; t++) {
+    const o = 9 * t;
+    const s = Math.min(
+      (pr.m[o] as number) * a + (pr.m[o + 1] as number) * b + (pr.m[o + 2] as number),
+      (pr.m[o + 3] as number) * a + (pr.m[o + 4] as number) * b + (pr.m[o + 5] as number),
+      (pr.m[o + 6] as number) * a + (pr.m[o + 7] as number) * b + (pr.m[o + 8] as number),
+    );
+    if (s > score) [best, score] = [t, s];
+  }
+  const o = 9 * best;
+  normaliseInto(
+    (pr.m[o] as number) * a + (pr.m[o + 1] as number) * b + (pr.m[o + 2] as number),
+    (pr.m[o + 3] as number) * a + (pr.m[o + 4] as number) * b + (pr.m[o + 5] as number),
+    (pr.m[o + 6] as number) * a + (pr.m[o + 7] as number) * b + (pr.m[o + 8] as number),
+    out,
+  );
+  return best;
+}
+
+function normaliseInto(d0: number, d1: number, d2: number, out: Float64Array): void {
+  const c0 = Math.max(0, d0);
+  const c1 = Math.max(0, d1);
+  const c2 = Math.max(0, d2);
+  const s = c0 + c1 + c2;
+  out[0] = c0 / s;
+  out[1] = c1 / s;
+  out[2] = c2 / s;
+}

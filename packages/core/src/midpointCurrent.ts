@@ -1,0 +1,47 @@
+import type { LevelTriplet } from './clarke.js';
+import type { PhasePolarity } from './legTable.js';
+
+/** Sign of the current a realisation draws from the DC midpoint: +1, −1, 0, or null (unknown). */
+export type MidpointSign = 1 | -1 | 0 | null;
+
+/**
+ * Which phase currents flow through the DC midpoint for a level triplet.
+ *
+ * A phase at the midpoint potential (0) exchanges its current with the midpoint; the leg then
+ * draws `i_NP = Σ c_k·i_k` from it, with `i_k` positive out of the leg into the load.
+ *
+ * @param levels - phase levels
+ * @param hasMidpoint - whether the leg has a DC node at potential 0
+ * @returns 0/1 coefficient per phase
+ * @example
+ * ```ts
+ * midpointCoefficients([1, 0, 0], true); // [0, 1, 1]
+ * ```
+ */
+export function midpointCoefficients(levels: LevelTriplet, hasMidpoint: boolean): [0 | 1, 0 | 1, 0 | 1] {
+  return levels.map((l) => (hasMidpoint && l === 0 ? 1 : 0)) as [0 | 1, 0 | 1, 0 | 1];
+}
+
+/**
+ * Sign of the midpoint current for a polarity string, using i_a + i_b + i_c = 0.
+ *
+ * One phase at the midpoint: its own sign. Two: minus the sign of the third. None or all three: 0.
+ * A needed phase reading `?` makes the sign unknown (`null`).
+ *
+ * @param c - midpoint coefficients
+ * @param polarity - per-phase polarity
+ * @returns +1 (current drawn out of the midpoint), −1, 0 or null
+ * @example
+ * ```ts
+ * midpointSign([0, 1, 1], ['+', '-', '-']); // -1: i_b + i_c = −i_a < 0
+ * ```
+ */
+export function midpointSign(c: readonly (0 | 1)[], polarity: readonly PhasePolarity[]): MidpointSign {
+  const n = c.filter((x) => x === 1).length;
+  if (n === 0 || n === 3) return 0;
+  const k = n === 1 ? c.indexOf(1) : c.indexOf(0);
+  const p = polarity[k];
+  if (p === '?') return null;
+  const s = p === '+' ? 1 : -1;
+  return (n === 1 ? s : -s) as 1 | -1;
+}

@@ -1,0 +1,153 @@
+import { choosePattern, patternCandidates } from './choosePattern.js';
+import type { LevelTriplet } from './clarke.js';
+import type { DiagramAtlas } from './diagramAtlas.js';
+import type { DwellMatrix } from './dwell.js';
+import { PHASES } from './faults.js';
+import type { LegTable, PhasePolarity } from './legTable.js';
+import { locateReference } from './locateReference.js';
+import { midpointCoefficients, midpointSign, type MidpointSign } from './midpointCurrent.js';
+import { parsePolarity, type PolarityString } from './polarity.js';
+import type { ClassifiedVector, PolarityDiagram } from './polarityDiagram.js';
+import { chooseSequence, type LegState, type PhaseState, type SwitchingSequence } from './switchingSequence.js';
+
+/** One way of producing a vertex: a level triplet and the pattern of each phase. */
+export interface VertexRealisation {
+  readonly levels: LevelTriplet;
+  readonly phases: LegState;
+  /** 0/1 per phase: whose current flows through the DC midpoint. */
+  readonly midpoint: readonly [0 | 1, 0 | 1, 0 | 1];
+  /** Sign of the midpoint current under this polarity (null where a needed phase reads `?`). */
+  readonly midpointSign: MidpointSign;
+  /** Common-mode voltage (la + lb + lc)/3, units of Vdc/2. */
+  readonly commonMode: number;
+}
+
+/** A triangle vertex with its realisations. */
+export interface TableVertex {
+  /** Index into the polarity's vectors. */
+  readonly vector: number;
+  readonly alpha: number;
+  readonly beta: number;
+  readonly class: string;
+  readonly realisations: readonly VertexRealisation[];
+}
+
+/** Neutral-point control authority of a triangle. */
+export type MidpointAuthority = 'full' | 'partial' | 'none';
+
+/** One triangle of the degraded table. */
+export interface TableTriangle {
+  readonly vertices: readonly [TableVertex, TableVertex, TableVertex];
+  readonly dwell: DwellMatrix;
+  readonly midpointAuthority: MidpointAuthority;
+  /** Authority of the healthy leg's triangle at this triangle's centroid. */
+  readonly healthyMidpointAuthority: MidpointAuthority;
+  /** True when the fault reduced the authority here. */
+  readonly authorityLost: boolean;
+  /** `null` only if a vertex has no realisation (never for a consistent leg). */
+  readonly sequence: SwitchingSequence | null;
+}
+
+/** The degraded table of one polarity string. */
+export interface PolarityTable {
+  readonly polarity: PolarityString;
+  readonly triangles: readonly TableTriangle[];
+}
+
+/**
+ * Builds the degraded switching-state table of one polarity: realisations, midpoint current,
+ * common-mode voltage, midpoint authority and the switching sequence of every triangle.
+ *
+ * Authority: `full` where some vertex has realisations drawing midpoint current of both signs
+ * (redundancy can steer the midpoint either way); `partial` where some realisation draws a
+ * definite midpoint current but no vertex offers both signs; `none` otherwise.
+ *
+ * @param atlas - diagrams and leg tables
+ * @param polarity - polarity string
+ * @returns the table of that polarity
+ * @example
+ * ```ts
+ * polarityTable(diagramAtlas({ topology: 'npc' }), '+--').triangles.length; // 24
+ * ```
+ */
+export function polarityTable(atlas: DiagramAtlas, polarity: PolarityString): PolarityTable {
+  const faulted = buildTriangles(atlas, atlas.faulted.get(polarity) as PolarityDiagram, [atlas.analysis.phases.a, atlas.analysis.phases.b, atlas.analysis.phases.c], polarity);
+  const healthyDiagram = atlas.healthy.get(polarity) as PolarityDiagram;
+  const h = atlas.analysis.healthy;
+  const healthy = buildTriangles(atlas, healthyDiagram, [h, h, h], polarity, false);
+  const loc = { vectors: healthyDiagram.vectors, hull: healthyDiagram.hull.map((i) => [healthyDiagram.vectors[i]?.alpha ?? 0, healthyDiagram.vectors[i]?.beta ?? 0] as [number, number]), triangles: healthyDiagram.triangles, dwell: healthyDiagram.dwell };
+  const triangles = faulted.map((t) => {
+    const ca = (t.vertices[0].alpha + t.vertices[1].alpha + t.vertices[2].alpha) / 3;
+    const cb = (t.vertices[0].beta + t.vertices[1].beta + t.vertices[2].beta) / 3;
+    const at = locateReference(loc, ca, cb);
+    const healthyMidpointAuthority = at.ok ? (healthy[at.triangle] as TableTriangle).midpointAuthority : 'none';
+    return { ...t, healthyMidpointAuthority, authorityLost: RANK[t.midpointAuthority] < RANK[healthyMidpointAuthority] };
+  });
+  return { polarity, triangles };
+}
+
+const RANK: Record<MidpointAuthority, number> = { none: 0, partial: 1, full: 2 };
+
+type Draft = Omit<TableTriangle, 'healthyMidpointAuthority' | 'authorityLost'>;
+
+// `withSequence: false` skips the sequence search where only the midpoint authority is needed.
+function buildTriangles(atlas: DiagramAtlas, d: PolarityDiagram, tables: readonly [LegTable, LegTable, LegTable], polarity: PolarityString, withSequence = true): Draft[] {
+  const pol = parsePolarity(polarity);
+  const leg = atlas.analysis.leg;
+  const hasMidpoint = Object.values(leg.dcNodes).includes(0);
+  const levels = [...new Set(Object.values(leg.dcNodes))].sort((x, y) => x - y);
+  const line = new Set(leg.devices.filter((x) => x.switching === 'line').map((x) => x.id));
+  const cache = new Map<string, PhaseState[]>();
+  const memo = new Map<string, unknown>();
+  const candidatesOf = (k: number, level: number): PhaseState[] => {
+    const key = `${k}:${level}`;
+    let c = cache.get(key);
+    if (!c) {
+      c = patternCandidates(tables[k] as LegTable, atlas.analysis.healthy, level, pol[k] as PhasePolarity).map((x) => ({ level, pattern: x.pattern, gates: x.gates }));
+      cache.set(key, c);
+    }
+    return c;
+  };
+  const vertexOf = (vi: number): TableVertex => {
+    const v = d.vectors[vi] as ClassifiedVector;
+    const realisations = v.levels.flatMap((t) => {
+      const r = realise(t, tables, atlas.analysis.healthy, pol);
+      return r ? [r] : [];
+    }).map((phases) => {
+      const lv = phases.map((p) => p.level) as unknown as LevelTriplet;
+      const midpoint = midpointCoefficients(lv, hasMidpoint);
+      return { levels: lv, phases, midpoint, midpointSign: midpointSign(midpoint, pol), commonMode: (lv[0] + lv[1] + lv[2]) / 3 };
+    });
+    return { vector: vi, alpha: v.alpha, beta: v.beta, class: v.class, realisations };
+  };
+  return d.triangles.map((tri, i) => {
+    const vertices = tri.map(vertexOf) as unknown as [TableVertex, TableVertex, TableVertex];
+    return {
+      vertices,
+      dwell: d.dwell[i] as DwellMatrix,
+      midpointAuthority: authority(vertices),
+      sequence: withSequence ? chooseSequence(vertices.map((v) => v.realisations.map((r) => r.levels)), candidatesOf, levels, line, memo) : null,
+    };
+  });
+}
+
+function realise(t: LevelTriplet, tables: readonly [LegTable, LegTable, LegTable], healthy: LegTable, pol: readonly PhasePolarity[]): LegState | null {
+  const out: PhaseState[] = [];
+  for (let k = 0; k < 3; k++) {
+    const c = choosePattern(tables[k] as LegTable, healthy, t[k] as number, pol[k] as PhasePolarity);
+    if (!c) return null;
+    out.push({ level: t[k] as number, pattern: c.pattern, gates: c.gates });
+  }
+  return out as unknown as LegState;
+}
+
+function authority(vertices: readonly TableVertex[]): MidpointAuthority {
+  let definite = false;
+  for (const v of vertices) {
+    const signs = new Set(v.realisations.map((r) => r.midpointSign));
+    if (signs.has(1) && signs.has(-1)) return 'full';
+    if (signs.has(1) || signs.has(-1)) definite = true;
+  }
+  return definite ? 'partial' : 'none';
+}
+

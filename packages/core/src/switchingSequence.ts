@@ -1,0 +1,162 @@
+import type { LevelTriplet } from './clarke.js';
+import { PHASES, type Phase } from './faults.js';
+
+/** One phase's state inside a leg state. */
+export interface PhaseState {
+  readonly level: number;
+  readonly pattern: string;
+  readonly gates: readonly string[];
+}
+
+/** A leg state of all three phases. */
+export type LegState = readonly [PhaseState, PhaseState, PhaseState];
+
+/** A phase stepping over a level inside the sequence. */
+export interface LevelJump {
+  readonly phase: Phase;
+  readonly from: number;
+  readonly to: number;
+}
+
+/** The centre-aligned, symmetric sequence chosen for one triangle. */
+export interface SwitchingSequence {
+  /** Vertex positions (0…2 into the triangle) from the period start to its centre; mirrored after. */
+  readonly order: readonly [number, number, number];
+  /** Realisation (triplet) index chosen for each vertex position. */
+  readonly choice: readonly [number, number, number];
+  /** The leg states s1, s2, s3 applied from the start to the centre of the period. */
+  readonly states: readonly [LegState, LegState, LegState];
+  /** Gate changes per switching period, per `phase.device`, only devices that change. */
+  readonly gateChanges: Readonly<Record<string, number>>;
+  readonly totalGateChanges: number;
+  /** Steps between non-adjacent levels (e.g. P straight to N). */
+  readonly levelJumps: readonly LevelJump[];
+  /** Devices marked `switching: line` that change state inside the period, as `phase.device`. */
+  readonly lineDevicesSwitching: readonly string[];
+}
+
+/** Candidate patterns of phase k (0…2) for a level, best first. */
+export type PatternCandidatesOf = (phase: number, level: number) => readonly PhaseState[];
+
+/**
+ * Chooses the order, the triplet of each vertex and each phase's pattern for a centre-aligned,
+ * symmetric period s1 → s2 → s3 → s2 → s1.
+ *
+ * Every vertex order and triplet combination is tried. Gate changes add up phase by phase, so for
+ * each candidate each phase's three patterns are chosen on their own among the patterns giving its
+ * levels. Ranking: gate changes of line-frequency devices first (a hybrid leg must keep them at
+ * line rate where it can), then total gate changes per period, then level jumps, then pattern
+ * preference, then enumeration order. Each transition counts twice (into and out of the centre).
+ *
+ * @param triplets - per vertex position, its realising level triplets
+ * @param candidates - pattern candidates per phase and level, best first
+ * @param levels - the leg's DC potentials sorted ascending (for level-jump detection)
+ * @param lineDevices - device ids marked `switching: line`
+ * @param memo - cache of per-phase solutions; share one across the triangles of one polarity
+ *   (same candidates) to solve each phase/level combination once
+ * @returns the chosen sequence, or `null` when a vertex cannot be realised
+ * @example
+ * ```ts
+ * chooseSequence([[[0, 0, 0]], [[1, 0, 0]], [[1, 1, 0]]], candidates, [-1, 0, 1], new Set())?.order;
+ * ```
+ */
+export function chooseSequence(
+  triplets: readonly (readonly LevelTriplet[])[],
+  candidates: PatternCandidatesOf,
+  levels: readonly number[],
+  lineDevices: ReadonlySet<string>,
+  memo: Map<string, unknown> = new Map(),
+): SwitchingSequence | null {
+  if (triplets.length !== 3 || triplets.some((r) => r.length === 0)) return null;
+  let best: { rank: number[]; seq: SwitchingSequence } | null = null;
+  // the same three levels of one phase recur across orders, triplets and triangles: solve each once
+  const phasePath = (ph: Phase, k: number, lv: number[]) => {
+    const key = `${k}:${lv.join(',')}`;
+    if (!memo.has(key)) memo.set(key, bestPhasePath(ph, lv, (l) => candidates(k, l), lineDevices));
+    return memo.get(key) as PhasePath | null;
+  };
+  for (const order of PERMUTATIONS) {
+    const lists = order.map((k) => triplets[k] as readonly LevelTriplet[]);
+    for (let c0 = 0; c0 < (lists[0] as LevelTriplet[]).length; c0++) for (let c1 = 0; c1 < (lists[1] as LevelTriplet[]).length; c1++) for (let c2 = 0; c2 < (lists[2] as LevelTriplet[]).length; c2++) {
+      const t = [lists[0]![c0], lists[1]![c1], lists[2]![c2]] as LevelTriplet[];
+      const perPhase = PHASES.map((ph, k) => phasePath(ph, k, [t[0]![k], t[1]![k], t[2]![k]] as number[]));
+      if (perPhase.some((p) => p === null)) continue;
+      const paths = perPhase as PhasePath[];
+      const jumps: LevelJump[] = [];
+      PHASES.forEach((ph, k) => {
+        for (let s = 0; s < 2; s++) {
+          const [a, b] = [t[s]![k] as number, t[s + 1]![k] as number];
+          if (Math.abs(levels.indexOf(b) - levels.indexOf(a)) > 1) jumps.push({ phase: ph, from: a, to: b });
+        }
+      });
+      const rank = [sum(paths.map((p) => p.line)), sum(paths.map((p) => p.total)), jumps.length, sum(paths.map((p) => p.pref))];
+      if (best && !lexLess(rank, best.rank)) continue;
+      const choice = [0, 0, 0] as [number, number, number];
+      [choice[order[0]], choice[order[1]], choice[order[2]]] = [c0, c1, c2];
+      const states = [0, 1, 2].map((s) => paths.map((p) => p.states[s]) as unknown as LegState) as unknown as [LegState, LegState, LegState];
+      const changes = paths.flatMap((p) => Object.entries(p.changes)).sort(([a], [b]) => (a < b ? -1 : 1));
+      best = {
+        rank,
+        seq: {
+          order, choice, states,
+          gateChanges: Object.fromEntries(changes),
+          totalGateChanges: rank[1] as number,
+          levelJumps: jumps,
+          lineDevicesSwitching: paths.flatMap((p) => p.lineSwitching),
+        },
+      };
+    }
+  }
+  return best ? best.seq : null;
+}
+
+interface PhasePath {
+  readonly states: readonly PhaseState[];
+  readonly changes: Record<string, number>;
+  readonly total: number;
+  readonly line: number;
+  readonly pref: number;
+  readonly lineSwitching: string[];
+}
+
+function bestPhasePath(ph: Phase, lv: readonly number[], cands: (level: number) => readonly PhaseState[], lineDevices: ReadonlySet<string>): PhasePath | null {
+  const [x, y, z] = lv.map(cands) as [readonly PhaseState[], readonly PhaseState[], readonly PhaseState[]];
+  let best: PhasePath | null = null;
+  for (let i = 0; i < x.length; i++) for (let j = 0; j < y.length; j++) for (let k = 0; k < z.length; k++) {
+    const st = [x[i], y[j], z[k]] as PhaseState[];
+    const changes: Record<string, number> = {};
+    for (const [a, b] of [[st[0], st[1]], [st[1], st[2]]] as [PhaseState, PhaseState][]) {
+      for (const d of gateDifference(a.gates, b.gates)) changes[`${ph}.${d}`] = (changes[`${ph}.${d}`] ?? 0) + 2;
+    }
+    const lineSwitching = Object.keys(changes).filter((key) => lineDevices.has(key.slice(ph.length + 1)));
+    const path = { states: st, changes, total: sum(Object.values(changes)), line: sum(lineSwitching.map((key) => changes[key] as number)), pref: i + j + k, lineSwitching };
+    if (!best || lexLess([path.line, path.total, path.pref], [best.line, best.total, best.pref])) best = path;
+  }
+  return best;
+}
+
+/**
+ * Devices whose gate differs between two gate sets.
+ *
+ * @param a - gate set
+ * @param b - gate set
+ * @returns ids in a or b but not both, in order of appearance
+ * @example
+ * ```ts
+ * gateDifference(['s1', 's2'], ['s2', 's3']); // ['s1', 's3']
+ * ```
+ */
+export function gateDifference(a: readonly string[], b: readonly string[]): string[] {
+  return [...a.filter((g) => !b.includes(g)), ...b.filter((g) => !a.includes(g))];
+}
+
+const PERMUTATIONS: readonly (readonly [number, number, number])[] = [[0, 1, 2], [0, 2, 1], [1, 0, 2], [1, 2, 0], [2, 0, 1], [2, 1, 0]];
+
+function sum(xs: readonly number[]): number {
+  return xs.reduce((a, b) => a + b, 0);
+}
+
+function lexLess(a: readonly number[], b: readonly number[]): boolean {
+  for (let i = 0; i < a.length; i++) if (a[i] !== b[i]) return (a[i] as number) < (b[i] as number);
+  return false;
+}

@@ -1,0 +1,103 @@
+import { CAUTIONS } from './cautions.js';
+import { diagramAtlas, type DiagramAtlas } from './diagramAtlas.js';
+import { formatFault, type Phase } from './faults.js';
+import type { AnalyseLegOptions } from './analyseLeg.js';
+import { POLARITY_STRINGS, type PolarityString } from './polarity.js';
+import { polarityDocument, type PlanPolarity } from './planRemedial.js';
+import type { PolarityDiagram } from './polarityDiagram.js';
+import { polarityTable, type TableTriangle } from './polarityTable.js';
+
+/** Version of the switching-table document layout. */
+export const TABLE_SCHEMA_VERSION = 1;
+
+/** One polarity of the switching table: its diagram plus the per-triangle table. */
+export interface TablePolarity extends PlanPolarity {
+  /** Index of the polarity in {@link POLARITY_STRINGS} (the C and CSV polarity index). */
+  readonly index: number;
+  readonly tableTriangles: readonly TableTriangle[];
+}
+
+/** A flagged triangle. */
+export interface TriangleFlag {
+  readonly polarity: PolarityString;
+  readonly triangle: number;
+  /** What is flagged, e.g. device ids or `P→N`. */
+  readonly detail: readonly string[];
+}
+
+/** The degraded switching-state table of a faulted leg. */
+export interface SwitchingTable {
+  readonly schemaVersion: number;
+  readonly kind: 'hexsalvage-switching-table';
+  readonly topology: string;
+  readonly faults: readonly string[];
+  /** DC potentials of the leg, ascending (units of Vdc/2). */
+  readonly levels: readonly number[];
+  /** Pattern names in netlist order (the C pattern index). */
+  readonly patterns: readonly string[];
+  /** Polarity strings by index. */
+  readonly polarityOrder: readonly PolarityString[];
+  readonly polarities: Readonly<Record<PolarityString, TablePolarity>>;
+  readonly flags: {
+    readonly lineDevicesAtPwm: readonly TriangleFlag[];
+    readonly levelJumps: readonly TriangleFlag[];
+    readonly midpointAuthorityLost: readonly TriangleFlag[];
+  };
+  readonly cautions: readonly string[];
+}
+
+/**
+ * Builds the degraded switching-state table for all 25 polarity strings.
+ *
+ * @param options - topology and faults
+ * @returns the table document (plain data)
+ * @throws HexsalvageInputError on bad topology or faults
+ * @example
+ * ```ts
+ * const table = switchingTable({ topology: 'anpc-hybrid', faults: ['a.innerUpper'] });
+ * table.flags.lineDevicesAtPwm.length; // triangles that drive line-frequency IGBTs at PWM rate
+ * ```
+ */
+export function switchingTable(options: AnalyseLegOptions): SwitchingTable {
+  return switchingTableFromAtlas(diagramAtlas(options));
+}
+
+/**
+ * Builds the switching table from a prepared atlas.
+ *
+ * @param atlas - from `diagramAtlas`
+ * @returns the table document
+ * @example
+ * ```ts
+ * switchingTableFromAtlas(diagramAtlas({ topology: 'npc' })).polarities['+--'].tableTriangles.length; // 24
+ * ```
+ */
+export function switchingTableFromAtlas(atlas: DiagramAtlas): SwitchingTable {
+  const polarities: Record<PolarityString, TablePolarity> = {};
+  const lineDevicesAtPwm: TriangleFlag[] = [];
+  const levelJumps: TriangleFlag[] = [];
+  const midpointAuthorityLost: TriangleFlag[] = [];
+  POLARITY_STRINGS.forEach((p, index) => {
+    const t = polarityTable(atlas, p);
+    polarities[p] = { index, ...polarityDocument(atlas.faulted.get(p) as PolarityDiagram), tableTriangles: t.triangles };
+    t.triangles.forEach((tri, i) => {
+      const s = tri.sequence;
+      if (s && s.lineDevicesSwitching.length > 0) lineDevicesAtPwm.push({ polarity: p, triangle: i, detail: s.lineDevicesSwitching });
+      if (s && s.levelJumps.length > 0) levelJumps.push({ polarity: p, triangle: i, detail: s.levelJumps.map((j: { phase: Phase; from: number; to: number }) => `${j.phase}: ${j.from}→${j.to}`) });
+      if (tri.authorityLost) midpointAuthorityLost.push({ polarity: p, triangle: i, detail: [`${tri.healthyMidpointAuthority}→${tri.midpointAuthority}`] });
+    });
+  });
+  const leg = atlas.analysis.leg;
+  return {
+    schemaVersion: TABLE_SCHEMA_VERSION,
+    kind: 'hexsalvage-switching-table',
+    topology: atlas.analysis.topology,
+    faults: atlas.analysis.faults.map(formatFault),
+    levels: [...new Set(Object.values(leg.dcNodes))].sort((x, y) => x - y),
+    patterns: Object.keys(leg.patterns),
+    polarityOrder: POLARITY_STRINGS,
+    polarities,
+    flags: { lineDevicesAtPwm, levelJumps, midpointAuthorityLost },
+    cautions: CAUTIONS,
+  };
+}
