@@ -46,7 +46,7 @@ export function exportC(table: SwitchingTable, options: ExportCOptions = {}): st
     const tris = p?.tableTriangles ?? [];
     tris.forEach((tri, t) => {
       const seq = tri.sequence;
-      dwell.push(`  {${tri.dwell.flat().map(c).join(', ')}}, /* ${pol} #${t} */`);
+      dwell.push(`  /* ${pol.replace(/\?/g, 'x')} #${t} */ {${tri.dwell.flat().map(c).join(', ')}}`);
       const rz = tri.vertices.map((v, k) => (seq ? v.realisations[seq.choice[k] as number] : v.realisations[0]));
       levels.push(`  {${rz.map((r) => `{${(r?.levels ?? [0, 0, 0]).map(c).join(', ')}}`).join(', ')}}`);
       const pat = tri.vertices.map((_, k) => {
@@ -79,7 +79,8 @@ ${CAUTIONS.map((x) => ` * CAUTION: ${x}`).join('\n')}
 #define ${PX}_PATTERN_COUNT ${table.patterns.length}
 #define ${PX}_DWELL_TOLERANCE ${c(DWELL_TOLERANCE)}
 
-static const char *const ${px}_polarity_names[${PX}_POLARITY_COUNT] = {${table.polarityOrder.map((p) => `"${p}"`).join(', ')}};
+/* "?" is written "\\?" so that no "??x" trigraph forms */
+static const char *const ${px}_polarity_names[${PX}_POLARITY_COUNT] = {${table.polarityOrder.map((p) => `"${p.replace(/\?/g, '\\?')}"`).join(', ')}};
 static const char *const ${px}_pattern_names[${PX}_PATTERN_COUNT] = {${table.patterns.map((p) => `"${p}"`).join(', ')}};
 static const unsigned short ${px}_tri_first[${PX}_POLARITY_COUNT + 1] = {${triFirst.join(', ')}};
 static const unsigned short ${px}_hull_first[${PX}_POLARITY_COUNT + 1] = {${hullFirst.join(', ')}};

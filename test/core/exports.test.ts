@@ -1,0 +1,77 @@
+import { execFileSync, spawnSync } from 'node:child_process';
+import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import Ajv from 'ajv';
+import { describe, expect, it } from 'vitest';
+import { createModulator, CSV_COLUMNS, exportC, exportCsv, exportDocument, HexsalvageInputError, planRemedial, POLARITY_STRINGS, switchingTable } from '@hexsalvage/core';
+import { fc, FC_SEED } from '../support/fc.js';
+
+const SCHEMA = JSON.parse(readFileSync(new URL('../../docs/schema/export.schema.json', import.meta.url), 'utf8'));
+
+describe('exportDocument', () => {
+  // ajv (npm): a general-purpose JSON Schema validator checks real output against docs/schema.
+  const validate = new Ajv({ allErrors: true, strict: false }).compile(SCHEMA);
+  it.each([['npc', ['a.outerUpper']], ['anpc-hybrid', ['a.innerUpper', 'b.clampLower.diode']], ['tnpc', []]] as const)('validates against the JSON Schema (%s %j)', (topology, faults) => {
+    const doc = JSON.parse(JSON.stringify(exportDocument(planRemedial({ topology, faults: [...faults], loadAngleDeg: 20 }), switchingTable({ topology, faults: [...faults] }))));
+    const ok = validate(doc);
+    expect(validate.errors ?? []).toEqual([]);
+    expect(ok).toBe(true);
+  });
+  it('fails validation when a key is broken (the schema can fail)', () => {
+    const doc = JSON.parse(JSON.stringify(exportDocument(planRemedial({ topology: 'npc' }), switchingTable({ topology: 'npc' }))));
+    doc.plan.limitingPolarity = '+++x';
+    expect(validate(doc)).toBe(false);
+  });
+});
+
+describe('exportCsv', () => {
+  it('has the documented header and one row per polarity × triangle × vertex', () => {
+    const t = switchingTable({ topology: 'npc', faults: ['a.outerUpper'] });
+    const lines = exportCsv(t).trimEnd().split('\n');
+    expect(lines[0]).toBe(CSV_COLUMNS.join(','));
+    const expected = POLARITY_STRINGS.reduce((n, p) => n + 3 * t.polarities[p]!.tableTriangles.length, 0);
+    expect(lines).toHaveLength(expected + 1);
+    for (const l of lines.slice(1)) expect(l.split(',')).toHaveLength(CSV_COLUMNS.length);
+  });
+});
+
+describe('exportC', () => {
+  it('rejects a prefix that is not a C identifier', () => {
+    expect(() => exportC(switchingTable({ topology: 'npc' }), { prefix: '9x' })).toThrow(HexsalvageInputError);
+  });
+
+  const cc = ['cc', 'gcc', 'clang'].find((c) => spawnSync(c, ['--version']).status === 0);
+  it.skipIf(!cc)('compiles with the machine C compiler and matches the TypeScript modulator on every polarity', () => {
+    const table = switchingTable({ topology: 'anpc-hybrid', faults: ['a.innerUpper', 'c.clampLower'] });
+    const dir = mkdtempSync(join(tmpdir(), 'hexsalvage-c-'));
+    writeFileSync(join(dir, 'pump_table.h'), exportC(table, { prefix: 'pump' }));
+    writeFileSync(join(dir, 'driver.c'), `#include <stdio.h>
+#include "pump_table.h"
+int main(void) {
+  int p, clamped, t; double a, b, d[3];
+  while (scanf("%d %lf %lf", &p, &a, &b) == 3) {
+    t = pump_locate(p, a, b, d, &clamped);
+    if (t < 0) { printf("-1\\n"); continue; }
+    printf("%d %.17g %.17g %.17g %d %d\\n", t - pump_tri_first[p], d[0], d[1], d[2], clamped, pump_polarity_index(1, -1, 0));
+  }
+  return 0;
+}
+`);
+    execFileSync(cc as string, ['-std=c99', '-O2', '-ffp-contract=off', '-Wall', '-Werror', '-Wno-unused-function', '-o', join(dir, 'driver'), join(dir, 'driver.c'), '-lm']);
+    const mod = createModulator(table);
+    const rnd = fc.sample(fc.tuple(fc.nat(24), fc.double({ min: -1.6, max: 1.6, noNaN: true }), fc.double({ min: -1.6, max: 1.6, noNaN: true })), { seed: FC_SEED, numRuns: 3000 });
+    const cases = [...POLARITY_STRINGS.map((_, p) => [p, 0.1, 0.05] as [number, number, number]), ...rnd];
+    const out = execFileSync(join(dir, 'driver'), { input: cases.map(([p, a, b]) => `${p} ${a.toPrecision(17)} ${b.toPrecision(17)}`).join('\n') }).toString().trim().split('\n');
+    const buf = new Float64Array(4);
+    cases.forEach(([p, a, b], i) => {
+      const t = mod.modulateInto(a, b, p, buf);
+      const line = (out[i] as string).split(' ');
+      expect(Number(line[0])).toBe(t);
+      if (t < 0) return;
+      for (let k = 0; k < 3; k++) expect(Number(line[k + 1])).toBeCloseTo(buf[k] as number, 12);
+      expect(Number(line[4])).toBe(buf[3]);
+      expect(Number(line[5])).toBe(POLARITY_STRINGS.indexOf('+-?'));
+    });
+  });
+});
