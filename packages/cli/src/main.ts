@@ -8,10 +8,11 @@ import { sweepCommand } from './commands/sweepCommand.js';
 import { vectorsCommand } from './commands/vectorsCommand.js';
 import { tableCommand } from './commands/tableCommand.js';
 import { exportCommand } from './commands/exportCommand.js';
+import { plotCommand } from './commands/plotCommand.js';
 import type { CommandIO } from './output.js';
 
 /** Every command, in the order `--help` lists them. */
-export const COMMANDS: readonly Command[] = [legCommand, vectorsCommand, planCommand, sweepCommand, tableCommand, exportCommand];
+export const COMMANDS: readonly Command[] = [legCommand, vectorsCommand, planCommand, sweepCommand, tableCommand, exportCommand, plotCommand];
 
 const VERSION = (JSON.parse(readFileSync(new URL('../package.json', import.meta.url), 'utf8')) as { version: string }).version;
 

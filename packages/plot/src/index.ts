@@ -1,1 +1,7 @@
-export {};
+export { esc, n, STYLE, svgFrame, type SvgFrameOptions } from './svgStyle.js';
+export { vectorDiagramSvg, type VectorDiagramOptions } from './vectorDiagramSvg.js';
+export { sectorOverviewSvg } from './sectorOverviewSvg.js';
+export { deratingCurveSvg, type DeratingCurveSvgOptions, type DeratingSeries } from './deratingCurveSvg.js';
+export { legLayout, type LegLayout } from './legLayout.js';
+export { legSchematicSvg, type LegSchematicOptions } from './legSchematicSvg.js';
+export { switchingPeriodSvg, type SwitchingPeriodOptions } from './switchingPeriodSvg.js';

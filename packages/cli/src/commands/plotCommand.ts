@@ -1,0 +1,102 @@
+import {
+  analyseLeg, diagramAtlas, deratingCurve, gatedDeviceIds, locateReference, planFromAtlas, switchingTableFromAtlas,
+  type PatternResult, type Phase,
+} from '@hexsalvage/core';
+import { deratingCurveSvg, legSchematicSvg, sectorOverviewSvg, switchingPeriodSvg, vectorDiagramSvg } from '@hexsalvage/plot';
+import { usage } from '../args.js';
+import { ANGLE_OPTIONS, HELP_OPTION, LEG_OPTIONS, type Command } from '../command.js';
+import { angleInputs, legInputs } from '../legInputs.js';
+import { writeSvgOrPng } from '../renderFile.js';
+
+const KINDS = ['diagram', 'sectors', 'derating', 'leg', 'sequence'] as const;
+
+/** `hexsalvage plot`: review pictures as SVG or PNG. */
+export const plotCommand: Command = {
+  name: 'plot',
+  summary: 'draw a review picture: diagram, sectors, derating, leg or sequence (SVG or PNG)',
+  usage: 'plot diagram|sectors|derating|leg|sequence --topology T [--fault F]... [--load-angle DEG] [--polarity XYZ] --out FILE.svg|.png',
+  options: [
+    ...LEG_OPTIONS,
+    ...ANGLE_OPTIONS,
+    { name: 'polarity', type: 'string', value: 'XYZ', help: 'diagram/sequence: polarity string (default: where the limit binds)' },
+    { name: 'm', type: 'number', value: 'M', help: 'diagram: also draw a reference circle at this modulation index' },
+    { name: 'compare', type: 'list', value: 'F,F', help: 'derating: another fault case to overlay (comma-separated faults); repeatable' },
+    { name: 'phase', type: 'string', value: 'a|b|c', help: 'leg: phase to draw (default: the first faulted phase)' },
+    { name: 'pattern', type: 'string', value: 'NAME', help: 'leg: gate pattern whose conduction path is drawn (default: the first one a fault changes)' },
+    { name: 'sign', type: 'string', value: '+|-', help: 'leg: current sign of the drawn path (default +)' },
+    { name: 'triangle', type: 'number', value: 'N', help: 'sequence: triangle index (default: the one at 0.7·mMax where the limit binds)' },
+    { name: 'out', type: 'string', value: 'FILE', help: 'output file, .svg or .png' },
+    HELP_OPTION,
+  ],
+  run: async (args, io) => {
+    const kind = args.positionals[0];
+    if (!KINDS.includes(kind as (typeof KINDS)[number])) throw usage('KIND', `one of ${KINDS.join(', ')}`, kind);
+    const out = args.values.get('out');
+    if (typeof out !== 'string' || !/\.(svg|png)$/.test(out)) throw usage('--out', 'a file name ending in .svg or .png', out);
+    const { topology, faults } = legInputs(args);
+    const { loadAngleDeg, polarityMarginDeg } = angleInputs(args);
+    const atlas = diagramAtlas({ topology, faults });
+    const plan = planFromAtlas(atlas, loadAngleDeg, polarityMarginDeg);
+    const polarity = (args.values.get('polarity') as string | undefined) ?? plan.limitingPolarity;
+    if (!plan.polarities[polarity]) throw usage('--polarity', 'one of the 25 polarity strings, e.g. +-?', polarity);
+    let svg: string;
+    if (kind === 'diagram') {
+      svg = vectorDiagramSvg(plan, polarity, { referenceM: args.values.get('m') as number | undefined });
+    } else if (kind === 'sectors') {
+      svg = sectorOverviewSvg(plan);
+    } else if (kind === 'derating') {
+      const label = faults.join(', ') || 'healthy';
+      const series = [{ label, points: deratingCurve(atlas, { stepDeg: 1, polarityMarginDeg }) }];
+      for (const c of args.lists.get('compare') ?? []) {
+        const f = c.split(',').map((x) => x.trim()).filter(Boolean);
+        series.push({ label: f.join(', ') || 'healthy', points: deratingCurve(diagramAtlas({ topology, faults: f }), { stepDeg: 1, polarityMarginDeg }) });
+      }
+      svg = deratingCurveSvg(series, { healthy: plan.mMaxHealthy, title: `Maximum modulation index versus load angle: ${atlas.analysis.topology}` });
+    } else if (kind === 'leg') {
+      svg = legSvg(atlas.analysis, args.values.get('phase') as string | undefined, args.values.get('pattern') as string | undefined, args.values.get('sign') as string | undefined);
+    } else {
+      const table = switchingTableFromAtlas(atlas);
+      const entry = table.polarities[polarity]!;
+      let t = args.values.get('triangle') as number | undefined;
+      let dwell: [number, number, number] | undefined;
+      if (t === undefined) {
+        const th = (plan.limitingAngleDeg * Math.PI) / 180;
+        const r = locateReference(entry, 0.7 * plan.mMax * Math.cos(th), 0.7 * plan.mMax * Math.sin(th));
+        t = r.ok ? r.triangle : 0;
+        if (r.ok) dwell = [...r.dwell] as [number, number, number];
+      }
+      if (!Number.isInteger(t) || t < 0 || t >= entry.tableTriangles.length) throw usage('--triangle', `a triangle index 0…${entry.tableTriangles.length - 1} of polarity ${polarity}`, t);
+      svg = switchingPeriodSvg(entry.tableTriangles[t]!, {
+        ...(dwell ? { dwell } : {}),
+        switches: gatedDeviceIds(atlas.analysis.leg),
+        levels: table.levels,
+        title: `Switching period: ${atlas.analysis.topology}, polarity ${polarity}, triangle ${t}`,
+      });
+    }
+    const bytes = await writeSvgOrPng(out, svg);
+    await io.stdout(`wrote ${out} (${kind}, ${bytes} bytes)\n`);
+    return 0;
+  },
+};
+
+function legSvg(analysis: ReturnType<typeof analyseLeg>, phaseArg?: string, patternArg?: string, signArg?: string): string {
+  const phase = (phaseArg ?? analysis.faults[0]?.phase ?? 'a') as Phase;
+  if (!['a', 'b', 'c'].includes(phase)) throw usage('--phase', 'a, b or c', phaseArg);
+  const sign = (signArg ?? '+') as '+' | '-';
+  if (sign !== '+' && sign !== '-') throw usage('--sign', '+ or -', signArg);
+  const table = analysis.phases[phase];
+  const changed = table.patterns.find((p, i) => JSON.stringify(p) !== JSON.stringify(analysis.healthy.patterns[i]));
+  const pick = patternArg ?? changed?.name ?? table.patterns[0]?.name;
+  const p = table.patterns.find((x) => x.name === pick) as PatternResult | undefined;
+  if (!p) throw usage('--pattern', `one of ${table.patterns.map((x) => x.name).join(', ')}`, patternArg);
+  const failed = analysis.faults.filter((f) => f.phase === phase).map((f) => f.element);
+  const outcome = p.status === 'allowed' ? p.bySign[sign] : null;
+  return legSchematicSvg(analysis.leg, {
+    failed,
+    pattern: { name: p.name, gates: p.gates },
+    sign,
+    path: outcome?.path ?? [],
+    level: outcome ? outcome.level : null,
+    title: `Leg ${analysis.topology}, phase ${phase}${failed.length ? `, failed: ${failed.join(', ')}` : ''}`,
+  });
+}

@@ -1,0 +1,82 @@
+import type { DeratingPoint } from '@hexsalvage/core';
+import { esc, n, STYLE, svgFrame } from './svgStyle.js';
+
+/** One fault case of a derating plot. */
+export interface DeratingSeries {
+  readonly label: string;
+  readonly points: readonly DeratingPoint[];
+}
+
+/** Options of {@link deratingCurveSvg}. */
+export interface DeratingCurveSvgOptions {
+  /** Healthy limit drawn as the reference line. Default 2/√3. */
+  readonly healthy?: number;
+  readonly title?: string;
+}
+
+const COLOURS = [STYLE.blue, STYLE.vermillion, STYLE.green, STYLE.purple, STYLE.orange, STYLE.sky];
+const DASHES = ['', '6 3', '2 2', '8 3 2 3', '4 4', '1 3'];
+
+/**
+ * mMax versus load angle for one or several fault cases, with the derating ratio on a second axis,
+ * the healthy limit as reference and breakpoints marked. Series differ by colour and dash pattern.
+ *
+ * @param series - fault cases (points from `deratingCurve`)
+ * @param options - healthy reference, title
+ * @returns an SVG document
+ * @example
+ * ```ts
+ * deratingCurveSvg([{ label: 'a.outerUpper', points: deratingCurve(atlas) }]);
+ * ```
+ */
+export function deratingCurveSvg(series: readonly DeratingSeries[], options: DeratingCurveSvgOptions = {}): string {
+  const healthy = options.healthy ?? 2 / Math.sqrt(3);
+  const W = 640;
+  const H = 380;
+  const L = 64;
+  const R = W - 64;
+  const T = 40;
+  const B = H - 86;
+  const xs = series.flatMap((s) => s.points.map((p) => p.loadAngleDeg));
+  const x0 = Math.min(...xs, -90);
+  const x1 = Math.max(...xs, 90);
+  const ymax = healthy * 1.1;
+  const X = (x: number) => n(L + ((x - x0) / (x1 - x0)) * (R - L));
+  const Y = (y: number) => n(B - (y / ymax) * (B - T));
+  const body: string[] = [];
+  // grid and axes
+  const xt = tickStep(x1 - x0);
+  for (let x = Math.ceil(x0 / xt) * xt; x <= x1 + 1e-9; x += xt) {
+    body.push(`<line x1="${X(x)}" y1="${Y(0)}" x2="${X(x)}" y2="${Y(ymax)}" stroke="${STYLE.grid}"/><text class="tick" x="${X(x)}" y="${n(B + 16)}" text-anchor="middle">${n(x, 0)}</text>`);
+  }
+  for (let y = 0; y <= ymax + 1e-9; y += 0.2) {
+    body.push(`<line x1="${L}" y1="${Y(y)}" x2="${R}" y2="${Y(y)}" stroke="${STYLE.grid}"/><text class="tick" x="${L - 6}" y="${n(Number(Y(y)) + 4)}" text-anchor="end">${n(y, 1)}</text>`);
+  }
+  for (let q = 0; q <= 1.0001; q += 0.25) body.push(`<text class="tick ratio" x="${R + 6}" y="${n(Number(Y(q * healthy)) + 4)}">${n(q * 100, 0)}%</text>`);
+  body.push(`<rect x="${L}" y="${T}" width="${R - L}" height="${B - T}" fill="none" stroke="${STYLE.ink}"/>`);
+  body.push(`<text x="${n((L + R) / 2)}" y="${n(B + 34)}" text-anchor="middle">load angle φ (degrees, positive = current lagging)</text>`);
+  body.push(`<text transform="translate(18 ${n((T + B) / 2)}) rotate(-90)" text-anchor="middle">mMax (peak phase voltage / (Vdc/2))</text>`);
+  body.push(`<text transform="translate(${W - 10} ${n((T + B) / 2)}) rotate(90)" text-anchor="middle">derating ratio mMax / healthy</text>`);
+  body.push(`<line class="healthy" x1="${L}" y1="${Y(healthy)}" x2="${R}" y2="${Y(healthy)}" stroke="${STYLE.ink}" stroke-dasharray="3 3"/><text x="${L + 4}" y="${n(Number(Y(healthy)) - 4)}" font-size="${STYLE.smallFont}">healthy ${n(healthy, 4)}</text>`);
+  series.forEach((s, i) => {
+    const c = COLOURS[i % COLOURS.length] as string;
+    const dash = DASHES[i % DASHES.length] as string;
+    const d = s.points.map((p, j) => `${j ? 'L' : 'M'}${X(p.loadAngleDeg)},${Y(p.mMax)}`).join(' ');
+    body.push(`<path class="series" d="${d}" fill="none" stroke="${c}" stroke-width="2"${dash ? ` stroke-dasharray="${dash}"` : ''}/>`);
+    for (const p of s.points.filter((q) => q.breakpoint)) body.push(`<circle class="breakpoint" cx="${X(p.loadAngleDeg)}" cy="${Y(p.mMax)}" r="2.6" fill="#fff" stroke="${c}" stroke-width="1.4"/>`);
+    const ly = H - 36 + Math.floor(i / 2) * 14;
+    const lx = L + (i % 2) * 270;
+    body.push(`<line x1="${lx}" y1="${ly}" x2="${lx + 26}" y2="${ly}" stroke="${c}" stroke-width="2"${dash ? ` stroke-dasharray="${dash}"` : ''}/><text x="${lx + 32}" y="${ly + 4}">${esc(s.label)}</text>`);
+  });
+  body.push(`<g font-size="${STYLE.smallFont}"><circle cx="${R - 120}" cy="${H - 36}" r="2.6" fill="#fff" stroke="${STYLE.ink}"/><text x="${R - 112}" y="${H - 32}">computed breakpoint</text></g>`);
+  return svgFrame({
+    width: W,
+    height: H,
+    title: options.title ?? 'Maximum modulation index versus load angle',
+    desc: `Derating curves of ${series.length} fault case(s): ${series.map((s) => `${s.label} (min ${n(Math.min(...s.points.map((p) => p.mMax)), 4)})`).join('; ')}; healthy limit ${n(healthy, 4)}.`,
+  }, `<g font-size="${STYLE.fontSize}" fill="${STYLE.ink}">${body.join('\n')}</g>`);
+}
+
+function tickStep(span: number): number {
+  return span > 200 ? 45 : span > 100 ? 30 : span > 40 ? 15 : span > 20 ? 5 : 1;
+}

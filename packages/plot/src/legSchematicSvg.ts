@@ -1,0 +1,128 @@
+import type { LegNetlist } from '@hexsalvage/core';
+import { legLayout } from './legLayout.js';
+import { esc, n, STYLE, svgFrame } from './svgStyle.js';
+
+/** What to highlight on a leg schematic. */
+export interface LegSchematicOptions {
+  /** Failed element ids (`outerUpper`, `outerUpper.diode`, …). */
+  readonly failed?: readonly string[];
+  /** A gate pattern to show: its switches are drawn on. */
+  readonly pattern?: { readonly name: string; readonly gates: readonly string[] };
+  /** Current sign the conduction path is drawn for. */
+  readonly sign?: '+' | '-';
+  /** Elements carrying the current (from the leg table); empty with `level: null` = interrupted. */
+  readonly path?: readonly string[];
+  /** Output level for that pattern and sign; `null` = current interrupted. */
+  readonly level?: number | null;
+  readonly title?: string;
+}
+
+/**
+ * A schematic of a leg drawn from its netlist: DC nodes with their potentials, every device with
+ * its forward direction (arrow), antiparallel diodes beside their switch, failed elements crossed
+ * out and labelled OPEN, gated-on switches filled, and the conduction path of a pattern and current
+ * sign drawn thick; an interrupted path is written out as such.
+ *
+ * @param leg - the leg netlist
+ * @param options - failed elements, pattern, sign, path
+ * @returns an SVG document
+ * @example
+ * ```ts
+ * legSchematicSvg(builtinLeg('npc'), { failed: ['outerUpper'], pattern: { name: 'P', gates: ['outerUpper', 'innerUpper'] }, sign: '+', path: ['innerUpper', 'clampUpper'], level: 0 });
+ * ```
+ */
+export function legSchematicSvg(leg: LegNetlist, options: LegSchematicOptions = {}): string {
+  const layout = legLayout(leg);
+  const pots = Object.values(leg.dcNodes);
+  const span = Math.max(...pots) - Math.min(...pots) || 1;
+  const W = 600;
+  const H = Math.max(360, 120 * Object.keys(leg.dcNodes).length + 80);
+  const L = 80;
+  const R = W - 90;
+  const T = 56;
+  const B = H - 104;
+  const P = (node: string): [number, number] => {
+    const [x, y] = layout.get(node) ?? [0.5, 0];
+    return [L + x * (R - L), T + ((Math.max(...pots) - y) / span) * (B - T)];
+  };
+  const failed = new Set(options.failed ?? []);
+  const gates = new Set(options.pattern?.gates ?? []);
+  const path = new Set(options.path ?? []);
+  const body: string[] = [];
+  // DC rail labels
+  for (const [node, v] of Object.entries(leg.dcNodes)) {
+    const [x, y] = P(node);
+    body.push(`<g class="dc-node"><rect x="${n(x - 46)}" y="${n(y - 10)}" width="40" height="20" fill="#f2f2f2" stroke="${STYLE.ink}"/><text x="${n(x - 26)}" y="${n(y + 4)}" text-anchor="middle" font-weight="bold">${esc(node)}</text><text x="${n(x - 26)}" y="${n(y + 22)}" text-anchor="middle" font-size="${STYLE.smallFont}">${n(v, 2)}·Vdc/2</text></g>`);
+  }
+  // devices: sort pairs so that two devices on the same node pair get distinct offsets
+  const pairCount = new Map<string, number>();
+  for (const d of leg.devices) {
+    const key = [d.from, d.to].sort().join('|');
+    const k = pairCount.get(key) ?? 0;
+    pairCount.set(key, k + 1);
+    const [x1, y1] = P(d.from);
+    const [x2, y2] = P(d.to);
+    const len = Math.hypot(x2 - x1, y2 - y1) || 1;
+    const ux = (x2 - x1) / len;
+    const uy = (y2 - y1) / len;
+    const off = k * 22;
+    const [ox, oy] = [-uy * off, ux * off];
+    const mx = (x1 + x2) / 2 + ox;
+    const my = (y1 + y2) / 2 + oy;
+    const onPath = path.has(d.id) || path.has(`${d.id}.diode`);
+    if (onPath) body.push(`<path class="conduction" d="M${n(x1)},${n(y1)} L${n(mx)},${n(my)} L${n(x2)},${n(y2)}" stroke="${STYLE.green}" stroke-width="7" stroke-linecap="round" fill="none" opacity="0.55"/>`);
+    body.push(`<path class="wire" d="M${n(x1)},${n(y1)} L${n(mx)},${n(my)} L${n(x2)},${n(y2)}" stroke="${STYLE.ink}" stroke-width="1.3" fill="none"/>`);
+    const angle = (Math.atan2(uy, ux) * 180) / Math.PI;
+    // labels go to the side away from the drawing's centre line, antiparallel diodes to the other
+    // side, so that mirror-image devices (upper/lower) never print on top of each other
+    const centre = (T + B) / 2;
+    const away = Math.abs(ux) > 1e-9 ? (my < centre ? -Math.sign(ux) : Math.sign(ux)) : mx < (L + R) / 2 ? Math.sign(uy) : -Math.sign(uy);
+    const side = away === 0 ? 1 : away;
+    const g: string[] = [`<g class="device ${d.kind}" data-id="${esc(d.id)}" transform="translate(${n(mx)} ${n(my)}) rotate(${n(angle, 1)})">`];
+    if (d.kind === 'diode') g.push(diodeSymbol(0, path.has(d.id)));
+    else {
+      const on = gates.has(d.id);
+      g.push(`<rect x="-13" y="-8" width="26" height="16" rx="2" fill="${on ? STYLE.blue : '#ffffff'}" stroke="${STYLE.ink}" stroke-width="1.2"/>`);
+      g.push(`<path d="M-6,0 L5,0 M1,-3.5 L5,0 L1,3.5" stroke="${on ? '#ffffff' : STYLE.ink}" stroke-width="1.3" fill="none"/>`);
+      if (d.kind === 'mosfet') g.push(`<circle cx="0" cy="-11" r="2" fill="${STYLE.ink}"/>`);
+      if (d.antiparallelDiode) g.push(`<g transform="translate(0 ${-side * 17}) rotate(180)">${diodeSymbol(0, path.has(`${d.id}.diode`))}</g>`);
+    }
+    if (failed.has(d.id)) g.push(crossMark(0, 0));
+    if (d.antiparallelDiode && failed.has(`${d.id}.diode`)) g.push(crossMark(0, -side * 17));
+    g.push('</g>');
+    body.push(g.join(''));
+    const tag = [d.id, failed.has(d.id) ? 'OPEN' : '', failed.has(`${d.id}.diode`) ? 'diode OPEN' : ''].filter(Boolean).join(' · ');
+    body.push(`<text class="device-label${tag.includes('OPEN') ? ' failed' : ''}" x="${n(mx - uy * 24 * side)}" y="${n(my + ux * 24 * side + 4)}" text-anchor="middle" font-size="${STYLE.smallFont}" fill="${tag.includes('OPEN') ? STYLE.vermillion : STYLE.ink}"${tag.includes('OPEN') ? ' font-weight="bold"' : ''}>${esc(tag)}</text>`);
+  }
+  const [ox, oy] = P(leg.output);
+  body.push(`<g class="output"><circle cx="${n(ox)}" cy="${n(oy)}" r="5" fill="${STYLE.ink}"/><line x1="${n(ox)}" y1="${n(oy)}" x2="${n(ox + 40)}" y2="${n(oy)}" stroke="${STYLE.ink}" stroke-width="1.3"/><text x="${n(ox + 44)}" y="${n(oy + 4)}" font-weight="bold">${esc(leg.output)}</text></g>`);
+  for (const [node, [x, y]] of [...layout].map(([k]) => [k, P(k)] as const)) {
+    if (node in leg.dcNodes || node === leg.output) continue;
+    body.push(`<circle class="node" cx="${n(x)}" cy="${n(y)}" r="3" fill="${STYLE.ink}"/><text x="${n(x + 5)}" y="${n(y - 6)}" font-size="${STYLE.smallFont}" fill="#666666">${esc(node)}</text>`);
+  }
+  const caption = captionText(options);
+  body.push(`<text class="caption${options.level === null ? ' interrupted' : ''}" x="12" y="${H - 40}" fill="${options.level === null ? STYLE.vermillion : STYLE.ink}"${options.level === null ? ' font-weight="bold"' : ''}>${esc(caption)}</text>`);
+  body.push(`<text x="12" y="${H - 22}" font-size="${STYLE.smallFont}" fill="${STYLE.ink}">Arrow: forward direction. Filled box: switch gated on. Thick green: conducting path. × and OPEN: failed element.</text>`);
+  return svgFrame({
+    width: W,
+    height: H,
+    title: options.title ?? `Leg ${leg.name}`,
+    desc: `Schematic of leg ${leg.name} with ${leg.devices.length} devices.${failed.size ? ` Failed open: ${[...failed].join(', ')}.` : ''} ${caption}`,
+  }, body.join('\n'));
+}
+
+function captionText(o: LegSchematicOptions): string {
+  if (!o.pattern || !o.sign) return 'No pattern selected.';
+  const dir = o.sign === '+' ? 'i > 0 (out of the leg)' : 'i < 0 (into the leg)';
+  if (o.level === null) return `Pattern ${o.pattern.name}, ${dir}: current interrupted, no conducting path — forbidden for this sign.`;
+  return `Pattern ${o.pattern.name}, ${dir}: output at ${n(o.level ?? 0, 2)}·Vdc/2 through ${(o.path ?? []).join(', ') || '(none)'}.`;
+}
+
+function diodeSymbol(y: number, lit: boolean): string {
+  const c = lit ? STYLE.green : STYLE.ink;
+  return `<path d="M-5,${y - 6} L5,${y} L-5,${y + 6} Z" fill="${lit ? STYLE.green : '#ffffff'}" stroke="${c}" stroke-width="1.2"/><line x1="5" y1="${y - 6}" x2="5" y2="${y + 6}" stroke="${c}" stroke-width="1.6"/>`;
+}
+
+function crossMark(x: number, y: number): string {
+  return `<path class="failed-mark" d="M${x - 9},${y - 9} L${x + 9},${y + 9} M${x - 9},${y + 9} L${x + 9},${y - 9}" stroke="${STYLE.vermillion}" stroke-width="2.6" stroke-linecap="round"/>`;
+}

@@ -1,0 +1,117 @@
+import type { PlanPolarity, PlanVector, RemedialPlan } from '@hexsalvage/core';
+import { esc, n, STYLE, svgFrame } from './svgStyle.js';
+
+/** Options of {@link vectorDiagramSvg}. */
+export interface VectorDiagramOptions {
+  /** Draw a reference circle at this modulation index too. Default: none. */
+  readonly referenceM?: number;
+  /** Level-triplet labels beside the vectors. Default true. */
+  readonly labels?: boolean;
+  /** Side of the square plot in px. Default 520. */
+  readonly size?: number;
+}
+
+/**
+ * The vector diagram of one polarity string: the healthy diagram faintly, the surviving vectors
+ * (filled circles), the lost ones (hollow squares with a "×" mark and a "lost" legend, never colour
+ * alone), the hull, the re-triangulation, the achievable circle mMax, the binding edge and,
+ * optionally, a reference circle.
+ *
+ * @param plan - from `planRemedial`
+ * @param polarity - polarity string
+ * @param options - reference circle, labels, size
+ * @returns an SVG document
+ * @example
+ * ```ts
+ * vectorDiagramSvg(planRemedial({ topology: 'npc', faults: ['a.outerUpper'] }), '+--');
+ * ```
+ */
+export function vectorDiagramSvg(plan: RemedialPlan, polarity: string, options: VectorDiagramOptions = {}): string {
+  const d = plan.polarities[polarity] as PlanPolarity;
+  const size = options.size ?? 520;
+  const labels = options.labels ?? true;
+  const all = [...d.vectors, ...d.lost];
+  const extent = Math.max(1e-9, ...all.map((v) => Math.hypot(v.alpha, v.beta)), plan.mMaxHealthy) * 1.18;
+  const cx = size / 2;
+  const cy = size / 2 + 14;
+  const k = (size / 2 - 34) / extent;
+  const X = (a: number) => n(cx + k * a);
+  const Y = (b: number) => n(cy - k * b);
+  const body: string[] = [];
+  body.push(`<g stroke="${STYLE.grid}" stroke-width="1"><line x1="${X(-extent)}" y1="${Y(0)}" x2="${X(extent)}" y2="${Y(0)}"/><line x1="${X(0)}" y1="${Y(-extent)}" x2="${X(0)}" y2="${Y(extent)}"/></g>`);
+  body.push(`<text x="${X(extent)}" y="${n(cy + 14)}" text-anchor="end" fill="${STYLE.ink}">α</text><text x="${n(cx + 4)}" y="${Y(extent)}" dominant-baseline="hanging" fill="${STYLE.ink}">β</text>`);
+  // healthy limit circle, faint
+  body.push(`<circle class="healthy-limit" cx="${X(0)}" cy="${Y(0)}" r="${n(k * plan.mMaxHealthy)}" fill="none" stroke="${STYLE.faint}" stroke-dasharray="2 3"/>`);
+  // triangles
+  body.push('<g class="triangles" fill="none" stroke="#9aa7b5" stroke-width="0.8">');
+  for (const t of d.triangles) {
+    const pts = t.map((i) => `${X((d.vectors[i] as PlanVector).alpha)},${Y((d.vectors[i] as PlanVector).beta)}`).join(' ');
+    body.push(`<path class="triangle" d="M${pts.split(' ').join(' L')} Z"/>`);
+  }
+  body.push('</g>');
+  // hull
+  if (d.hull.length >= 2) body.push(`<polygon class="hull" points="${d.hull.map(([a, b]) => `${X(a)},${Y(b)}`).join(' ')}" fill="none" stroke="${STYLE.blue}" stroke-width="1.6"/>`);
+  // achievable circle: the plan's mMax over the whole cycle at its load angle
+  body.push(`<circle class="mmax" cx="${X(0)}" cy="${Y(0)}" r="${n(k * plan.mMax)}" fill="none" stroke="${STYLE.green}" stroke-width="1.6"/>`);
+  if (options.referenceM !== undefined) body.push(`<circle class="reference" cx="${X(0)}" cy="${Y(0)}" r="${n(k * options.referenceM)}" fill="none" stroke="${STYLE.orange}" stroke-width="1.4" stroke-dasharray="6 3"/>`);
+  // binding edge: the plan's, where this polarity is the limiting one; else this hull's nearest edge
+  const bind = plan.limitingPolarity === polarity && plan.bindingEdge
+    ? ([[plan.bindingEdge[0].alpha, plan.bindingEdge[0].beta], [plan.bindingEdge[1].alpha, plan.bindingEdge[1].beta]] as [readonly [number, number], readonly [number, number]])
+    : bindingEdge(d);
+  if (bind) body.push(`<line class="binding-edge" x1="${X(bind[0][0])}" y1="${Y(bind[0][1])}" x2="${X(bind[1][0])}" y2="${Y(bind[1][1])}" stroke="${STYLE.vermillion}" stroke-width="3.2" stroke-linecap="round"/>`);
+  // vectors
+  body.push('<g class="vectors">');
+  for (const v of d.vectors) {
+    body.push(`<circle class="vector surviving" cx="${X(v.alpha)}" cy="${Y(v.beta)}" r="3.6" fill="${STYLE.ink}"><title>${esc(`${v.class} ${v.levels.map((t) => t.join('/')).join(', ')}`)}</title></circle>`);
+    if (labels) body.push(`<text class="label" x="${n(cx + k * v.alpha + 5)}" y="${n(cy - k * v.beta - 5)}" font-size="${STYLE.smallFont}" fill="${STYLE.ink}">${esc(levelLabel(v))}</text>`);
+  }
+  for (const v of d.lost) {
+    const x = cx + k * v.alpha;
+    const y = cy - k * v.beta;
+    body.push(`<g class="vector lost"><rect x="${n(x - 4)}" y="${n(y - 4)}" width="8" height="8" fill="#ffffff" stroke="${STYLE.vermillion}" stroke-width="1.4"/><path d="M${n(x - 3)},${n(y - 3)} L${n(x + 3)},${n(y + 3)} M${n(x - 3)},${n(y + 3)} L${n(x + 3)},${n(y - 3)}" stroke="${STYLE.vermillion}" stroke-width="1.2"/><title>${esc(`lost ${v.class} ${v.levels.map((t) => t.join('/')).join(', ')}`)}</title></g>`);
+    if (labels) body.push(`<text class="label lost-label" x="${n(x + 6)}" y="${n(y - 6)}" font-size="${STYLE.smallFont}" fill="${STYLE.vermillion}">× ${esc(levelLabel(v))}</text>`);
+  }
+  body.push('</g>');
+  body.push(legend(size, plan, options.referenceM));
+  return svgFrame({
+    width: size,
+    height: size + 74,
+    title: `Vector diagram, polarity ${polarity}: ${plan.topology}${plan.faults.length ? `, ${plan.faults.join(', ')}` : ''}`,
+    desc: `${d.vectors.length} surviving vectors (filled dots), ${d.lost.length} lost vectors (hollow squares marked ×), ${d.triangles.length} triangles, hull radius ${n(d.radius, 4)} of healthy ${n(plan.mMaxHealthy, 4)} (units of Vdc/2).`,
+  }, body.join('\n'));
+}
+
+function levelLabel(v: PlanVector): string {
+  const t = v.levels[0];
+  if (!t) return '';
+  const s = (l: number) => (l === 1 ? 'P' : l === 0 ? 'O' : l === -1 ? 'N' : n(l, 1));
+  return t.map(s).join('') + (v.levels.length > 1 ? `+${v.levels.length - 1}` : '');
+}
+
+function bindingEdge(d: PlanPolarity): [readonly [number, number], readonly [number, number]] | null {
+  if (d.radius <= 0 || d.hull.length < 3) return null;
+  let best: [readonly [number, number], readonly [number, number]] | null = null;
+  let dist = Infinity;
+  d.hull.forEach((a, i) => {
+    const b = d.hull[(i + 1) % d.hull.length] as readonly [number, number];
+    const len = Math.hypot(b[0] - a[0], b[1] - a[1]);
+    const h = Math.abs(a[0] * b[1] - a[1] * b[0]) / len;
+    if (h < dist - 1e-12) [best, dist] = [[a, b], h];
+  });
+  return best;
+}
+
+function legend(size: number, plan: RemedialPlan, refM?: number): string {
+  const y = size + 34;
+  const items = [
+    `<circle cx="20" cy="${y}" r="3.6" fill="${STYLE.ink}"/><text x="30" y="${y + 4}">surviving vector</text>`,
+    `<rect x="136" y="${y - 4}" width="8" height="8" fill="#fff" stroke="${STYLE.vermillion}" stroke-width="1.4"/><text x="150" y="${y + 4}" fill="${STYLE.vermillion}">× lost vector</text>`,
+    `<line x1="240" y1="${y}" x2="262" y2="${y}" stroke="${STYLE.blue}" stroke-width="1.6"/><text x="268" y="${y + 4}">hull</text>`,
+    `<line x1="304" y1="${y}" x2="326" y2="${y}" stroke="${STYLE.vermillion}" stroke-width="3.2"/><text x="332" y="${y + 4}">binding edge</text>`,
+  ];
+  const y2 = y + 18;
+  items.push(`<circle cx="31" cy="${y2}" r="8" fill="none" stroke="${STYLE.green}" stroke-width="1.6"/><text x="44" y="${y2 + 4}">mMax = ${n(plan.mMax, 4)} over the cycle at φ = ${n(plan.loadAngleDeg, 1)}°</text>`);
+  items.push(`<line x1="290" y1="${y2}" x2="312" y2="${y2}" stroke="${STYLE.faint}" stroke-dasharray="2 3"/><text x="318" y="${y2 + 4}">healthy limit</text>`);
+  if (refM !== undefined) items.push(`<line x1="400" y1="${y2}" x2="422" y2="${y2}" stroke="${STYLE.orange}" stroke-width="1.4" stroke-dasharray="6 3"/><text x="428" y="${y2 + 4}">m = ${n(refM, 3)}</text>`);
+  return `<g class="legend" font-size="${STYLE.smallFont}" fill="${STYLE.ink}">${items.join('')}</g>`;
+}
