@@ -36,7 +36,8 @@ export interface DeratingPoint {
  * minimum changes form only where one of its ends (at φ + const) crosses a hull vertex or facet
  * normal direction of its polarity's diagram: those φ are computed in closed form. Between two
  * such φ each sector minimum is smooth, so the remaining kinks are where the minimising sector
- * changes; those are located by bisection to 1e-9°.
+ * changes; those are located by bisection to 1e-9°. Candidates where the one-sided slopes agree
+ * (a flat stretch, say) are not reported as breakpoints.
  *
  * @param atlas - diagrams of the faulted and healthy leg
  * @param options - range, step and margin
@@ -63,7 +64,14 @@ export function deratingCurve(atlas: DiagramAtlas, options: DeratingCurveOptions
     const x = minimiserChange(atlas, cuts[i] as number, cuts[i + 1] as number, margin);
     if (x !== null) crossings.push(x);
   }
-  const breaks = new Set([...structural, ...crossings]);
+  // keep the candidates where the curve really bends: one-sided slopes differ
+  const h = 1e-4;
+  const at = (phi: number) => modulationLimit(atlas.faulted, phi, margin).mMax;
+  const kink = (phi: number) => {
+    const m0 = at(phi);
+    return Math.abs((at(phi + h) - m0) / h - (m0 - at(phi - h)) / h) > 1e-6;
+  };
+  const breaks = new Set([...structural, ...crossings].filter(kink));
   const all = [...new Set([...grid, ...breaks])].sort((x, y) => x - y);
   return all.map((phi) => {
     const f = modulationLimit(atlas.faulted, phi, margin);

@@ -38,3 +38,4 @@ export { cycleCheck, type CycleCheckOptions, type CycleReport } from './cycleChe
 export { CSV_COLUMNS, exportCsv } from './exportCsv.js';
 export { EXPORT_SCHEMA_VERSION, exportDocument, type ExportDocument } from './exportJson.js';
 export { exportC, type ExportCOptions } from './exportC.js';
+export { evaluateClaim, type ClaimVerdict, type DeratingClaim } from './evaluateClaim.js';

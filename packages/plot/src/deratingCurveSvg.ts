@@ -32,11 +32,12 @@ const DASHES = ['', '6 3', '2 2', '8 3 2 3', '4 4', '1 3'];
 export function deratingCurveSvg(series: readonly DeratingSeries[], options: DeratingCurveSvgOptions = {}): string {
   const healthy = options.healthy ?? 2 / Math.sqrt(3);
   const W = 640;
-  const H = 380;
+  const legendRows = Math.ceil(series.length / 2) + 1;
+  const H = 344 + 14 * legendRows;
   const L = 64;
   const R = W - 64;
   const T = 40;
-  const B = H - 86;
+  const B = 294;
   const xs = series.flatMap((s) => s.points.map((p) => p.loadAngleDeg));
   const x0 = Math.min(...xs, -90);
   const x1 = Math.max(...xs, 90);
@@ -64,11 +65,12 @@ export function deratingCurveSvg(series: readonly DeratingSeries[], options: Der
     const d = s.points.map((p, j) => `${j ? 'L' : 'M'}${X(p.loadAngleDeg)},${Y(p.mMax)}`).join(' ');
     body.push(`<path class="series" d="${d}" fill="none" stroke="${c}" stroke-width="2"${dash ? ` stroke-dasharray="${dash}"` : ''}/>`);
     for (const p of s.points.filter((q) => q.breakpoint)) body.push(`<circle class="breakpoint" cx="${X(p.loadAngleDeg)}" cy="${Y(p.mMax)}" r="2.6" fill="#fff" stroke="${c}" stroke-width="1.4"/>`);
-    const ly = H - 36 + Math.floor(i / 2) * 14;
+    const ly = B + 56 + Math.floor(i / 2) * 14;
     const lx = L + (i % 2) * 270;
     body.push(`<line x1="${lx}" y1="${ly}" x2="${lx + 26}" y2="${ly}" stroke="${c}" stroke-width="2"${dash ? ` stroke-dasharray="${dash}"` : ''}/><text x="${lx + 32}" y="${ly + 4}">${esc(s.label)}</text>`);
   });
-  body.push(`<g font-size="${STYLE.smallFont}"><circle cx="${R - 120}" cy="${H - 36}" r="2.6" fill="#fff" stroke="${STYLE.ink}"/><text x="${R - 112}" y="${H - 32}">computed breakpoint</text></g>`);
+  const by = B + 56 + (legendRows - 1) * 14;
+  body.push(`<g font-size="${STYLE.smallFont}"><circle cx="${L + 13}" cy="${by}" r="2.6" fill="#fff" stroke="${STYLE.ink}"/><text x="${L + 32}" y="${by + 4}">computed breakpoint (a kink of the curve)</text></g>`);
   return svgFrame({
     width: W,
     height: H,

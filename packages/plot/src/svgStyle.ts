@@ -74,13 +74,25 @@ export interface SvgFrameOptions {
  */
 export function svgFrame(frame: SvgFrameOptions, body: string): string {
   const { width, height } = frame;
+  // ids must stay unique when several plots are inlined in one HTML page, and byte-stable: derive
+  // them from the plot's own title and description
+  const id = `hs${fnv1a(`${frame.title}\n${frame.desc}`)}`;
   return [
-    `<svg xmlns="http://www.w3.org/2000/svg" width="${width}" height="${height}" viewBox="0 0 ${width} ${height}" font-family="${esc(STYLE.font)}" font-size="${STYLE.fontSize}" role="img" aria-labelledby="t d">`,
-    `<title id="t">${esc(frame.title)}</title>`,
-    `<desc id="d">${esc(frame.desc)}</desc>`,
+    `<svg xmlns="http://www.w3.org/2000/svg" width="${width}" height="${height}" viewBox="0 0 ${width} ${height}" font-family="${esc(STYLE.font)}" font-size="${STYLE.fontSize}" role="img" aria-labelledby="${id}-t ${id}-d">`,
+    `<title id="${id}-t">${esc(frame.title)}</title>`,
+    `<desc id="${id}-d">${esc(frame.desc)}</desc>`,
     `<rect x="0" y="0" width="${width}" height="${height}" fill="#ffffff"/>`,
     `<text x="12" y="20" font-size="${STYLE.titleFont}" font-weight="bold" fill="${STYLE.ink}">${esc(frame.title)}</text>`,
     body,
     '</svg>',
   ].join('\n');
+}
+
+function fnv1a(s: string): string {
+  let h = 0x811c9dc5;
+  for (let i = 0; i < s.length; i++) {
+    h ^= s.charCodeAt(i);
+    h = Math.imul(h, 0x01000193) >>> 0;
+  }
+  return h.toString(16).padStart(8, '0');
 }

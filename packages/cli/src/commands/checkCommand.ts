@@ -1,0 +1,54 @@
+import { CAUTIONS, evaluateClaim, HexsalvageInputError, type ClaimVerdict } from '@hexsalvage/core';
+import { usage } from '../args.js';
+import { HELP_OPTION, JSON_OPTION, type Command } from '../command.js';
+import { cautionBlock, fmt, textTable } from '../format.js';
+import { readClaims } from '../readClaims.js';
+
+/** `hexsalvage check`: verdicts on derating claims, exit 1 when any fails. */
+export const checkCommand: Command = {
+  name: 'check',
+  summary: 'decide derating claims exactly over their load-angle ranges (exit 1 if any fails)',
+  usage: 'check CLAIMS.json [--json]',
+  options: [JSON_OPTION, HELP_OPTION],
+  run: async (args, io) => {
+    const file = args.positionals[0];
+    if (file === undefined || args.positionals.length > 1) throw usage('CLAIMS.json', 'one claims file');
+    const verdicts = readClaims(file).map((c) => {
+      try {
+        return evaluateClaim(c);
+      } catch (e) {
+        if (e instanceof HexsalvageInputError) throw new HexsalvageInputError('claims', file, `claim "${c.name}"`, e.message);
+        throw e;
+      }
+    });
+    if (args.flags.has('json')) await io.stdout(`${JSON.stringify({ claims: verdicts })}\n`);
+    else await io.stdout(`${checkText(verdicts)}\n`);
+    return verdicts.every((v) => v.holds) ? 0 : 1;
+  },
+};
+
+/**
+ * Readable verdicts.
+ *
+ * @param verdicts - from `evaluateClaim`
+ * @returns terminal text
+ * @example
+ * ```ts
+ * checkText([evaluateClaim(claim)]);
+ * ```
+ */
+export function checkText(verdicts: readonly ClaimVerdict[]): string {
+  const rows = verdicts.map((v) => [v.name, v.holds ? 'HOLDS' : 'FAILS', fmt(v.m, 4), fmt(v.mMaxAtWorst, 6), fmt(v.worstLoadAngleDeg, 3), v.holds ? '-' : fmt(v.shortfall, 6), edgeText(v)]);
+  const failing = verdicts.filter((v) => !v.holds).length;
+  return [
+    textTable(['claim', 'verdict', 'm promised', 'worst mMax', 'at load deg', 'short by', 'binding edge there'], rows),
+    '',
+    failing ? `${failing} of ${verdicts.length} claims FAIL.` : `All ${verdicts.length} claims hold over their whole load-angle ranges.`,
+    cautionBlock(CAUTIONS),
+  ].join('\n');
+}
+
+function edgeText(v: ClaimVerdict): string {
+  if (!v.bindingEdge) return 'none (hull does not contain the origin)';
+  return `${v.bindingEdge.map((e) => `${e.class} ${e.levels[0]?.join('/')}`).join(' – ')} (θ ${fmt(v.limitingAngleDeg, 1)}°, ${v.limitingPolarity})`;
+}

@@ -1,0 +1,44 @@
+import { readFileSync } from 'node:fs';
+import { diagramAtlas, evaluateClaim, planFromAtlas, switchingTableFromAtlas } from '@hexsalvage/core';
+import { usage } from '../args.js';
+import { ANGLE_OPTIONS, HELP_OPTION, LEG_OPTIONS, type Command } from '../command.js';
+import { angleInputs, legInputs } from '../legInputs.js';
+import { writeFileAtomic } from '../output.js';
+import { readClaims } from '../readClaims.js';
+import { buildReport } from '../report/buildReport.js';
+
+const VERSION = (JSON.parse(readFileSync(new URL('../../package.json', import.meta.url), 'utf8')) as { version: string }).version;
+
+/** `hexsalvage report`: one self-contained HTML file for a design review. */
+export const reportCommand: Command = {
+  name: 'report',
+  summary: 'write a self-contained HTML design-review report (limit, plots, table, flags, claims)',
+  usage: 'report --topology T [--fault F]... [--load-angle DEG] [--polarity-margin DEG] [--claims FILE] --out FILE.html',
+  options: [
+    ...LEG_OPTIONS,
+    ...ANGLE_OPTIONS,
+    { name: 'claims', type: 'string', value: 'FILE', help: 'also show the verdicts of a claims file' },
+    { name: 'out', type: 'string', value: 'FILE', help: 'output .html file (replaced atomically)' },
+    HELP_OPTION,
+  ],
+  run: async (args, io) => {
+    const out = args.values.get('out');
+    if (typeof out !== 'string' || !out.endsWith('.html')) throw usage('--out', 'a file name ending in .html', out);
+    const { topology, faults, topologyText } = legInputs(args);
+    const { loadAngleDeg, polarityMarginDeg } = angleInputs(args);
+    const claimsFile = args.values.get('claims') as string | undefined;
+    const verdicts = claimsFile ? readClaims(claimsFile).map(evaluateClaim) : undefined;
+    const atlas = diagramAtlas({ topology, faults });
+    const html = buildReport({
+      atlas,
+      plan: planFromAtlas(atlas, loadAngleDeg, polarityMarginDeg),
+      table: switchingTableFromAtlas(atlas),
+      topologyText,
+      ...(verdicts ? { verdicts } : {}),
+      generatedBy: `hexsalvage ${VERSION}`,
+    });
+    writeFileAtomic(out, html);
+    await io.stdout(`wrote ${out} (review report, ${Buffer.byteLength(html)} bytes)\n`);
+    return 0;
+  },
+};

@@ -1,0 +1,55 @@
+import { readFileSync } from 'node:fs';
+import { dirname } from 'node:path';
+import { HexsalvageInputError, type DeratingClaim } from '@hexsalvage/core';
+import { loadTopology } from './loadTopology.js';
+
+/**
+ * Reads and validates a claims file; netlist paths are taken relative to the file.
+ *
+ * @param path - the claims JSON file
+ * @returns the claims with topologies resolved
+ * @throws HexsalvageInputError naming the file, the key path (`claims[1].m`) and what was expected
+ * @example
+ * ```ts
+ * readClaims('examples/pump-claims.json');
+ * ```
+ */
+export function readClaims(path: string): DeratingClaim[] {
+  const err = (key: string, expected: string, got?: unknown) => new HexsalvageInputError('claims', path, key, expected, got);
+  let doc: unknown;
+  try {
+    doc = JSON.parse(readFileSync(path, 'utf8'));
+  } catch (e) {
+    throw err('(document)', (e as NodeJS.ErrnoException).code ? 'a readable claims file' : `valid JSON (${(e as Error).message.split('\n')[0]})`);
+  }
+  if (typeof doc !== 'object' || doc === null || Array.isArray(doc)) throw err('(document)', 'an object { "claims": [...] }', doc);
+  const list = (doc as Record<string, unknown>).claims;
+  if (!Array.isArray(list) || list.length === 0) throw err('claims', 'a non-empty array of claims', list);
+  const names = new Set<string>();
+  return list.map((c, i) => {
+    const at = `claims[${i}]`;
+    if (typeof c !== 'object' || c === null || Array.isArray(c)) throw err(at, 'a claim object', c);
+    const o = c as Record<string, unknown>;
+    for (const k of Object.keys(o)) if (!['name', 'topology', 'faults', 'm', 'loadAngleDeg', 'polarityMarginDeg'].includes(k)) throw err(`${at}.${k}`, 'one of the keys name, topology, faults, m, loadAngleDeg, polarityMarginDeg', k);
+    if (typeof o.name !== 'string' || o.name === '') throw err(`${at}.name`, 'a non-empty name', o.name);
+    if (names.has(o.name)) throw err(`${at}.name`, 'a name not used by another claim', o.name);
+    names.add(o.name);
+    if (typeof o.topology !== 'string') throw err(`${at}.topology`, 'a built-in leg id or a netlist path relative to the claims file', o.topology);
+    if (!Array.isArray(o.faults) || o.faults.some((f) => typeof f !== 'string')) throw err(`${at}.faults`, 'an array of fault strings PHASE.DEVICE[:MODE]', o.faults);
+    if (typeof o.m !== 'number' || !Number.isFinite(o.m) || o.m < 0) throw err(`${at}.m`, 'a modulation index ≥ 0 (units of Vdc/2)', o.m);
+    const r = o.loadAngleDeg;
+    if (!Array.isArray(r) || r.length !== 2 || r.some((x) => typeof x !== 'number' || !Number.isFinite(x)) || (r[0] as number) > (r[1] as number) || (r[0] as number) < -180 || (r[1] as number) > 180) {
+      throw err(`${at}.loadAngleDeg`, '[LO, HI] in degrees with -180 ≤ LO ≤ HI ≤ 180', r);
+    }
+    const d = o.polarityMarginDeg;
+    if (d !== undefined && (typeof d !== 'number' || !(d >= 0 && d < 60))) throw err(`${at}.polarityMarginDeg`, 'degrees in [0, 60)', d);
+    let topology: unknown;
+    try {
+      topology = loadTopology(o.topology, dirname(path));
+    } catch (e) {
+      if (e instanceof HexsalvageInputError) throw err(`${at}.topology`, e.message, o.topology);
+      throw e;
+    }
+    return { name: o.name, topology, faults: o.faults as string[], m: o.m, loadAngleDeg: [r[0], r[1]] as [number, number], ...(d !== undefined ? { polarityMarginDeg: d as number } : {}) };
+  });
+}

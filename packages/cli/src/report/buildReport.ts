@@ -1,0 +1,159 @@
+import {
+  CAUTIONS, deratingCurve, gatedDeviceIds, locateReference, PHASES, type ClaimVerdict, type DiagramAtlas, type PatternResult,
+  type RemedialPlan, type SwitchingTable,
+} from '@hexsalvage/core';
+import { deratingCurveSvg, esc, legSchematicSvg, sectorOverviewSvg, switchingPeriodSvg, vectorDiagramSvg } from '@hexsalvage/plot';
+import { fmt, levelText } from '../format.js';
+import { REPORT_CSS } from './reportStyles.js';
+
+/** Inputs of {@link buildReport}. */
+export interface ReportInputs {
+  readonly atlas: DiagramAtlas;
+  readonly plan: RemedialPlan;
+  readonly table: SwitchingTable;
+  /** The `--topology` value as the user gave it. */
+  readonly topologyText: string;
+  readonly verdicts?: readonly ClaimVerdict[];
+  /** Shown in the header; default the ISO date of today is not used so that output is reproducible. */
+  readonly generatedBy: string;
+}
+
+/**
+ * The design-review report: one self-contained HTML file (inline CSS and SVG, no scripts, no
+ * external requests) that prints on A4.
+ *
+ * @param r - atlas, plan, table and optional claim verdicts
+ * @returns the HTML document
+ * @example
+ * ```ts
+ * writeFileSync('review.html', buildReport({ atlas, plan, table, topologyText: 'npc', generatedBy: 'hexsalvage 0.1.0' }));
+ * ```
+ */
+export function buildReport(r: ReportInputs): string {
+  const { atlas, plan, table } = r;
+  const leg = atlas.analysis.leg;
+  const faultText = plan.faults.join(', ') || 'none (healthy leg)';
+  const s: string[] = [];
+  s.push(`<h1>Remedial operation review: ${esc(plan.topology)}</h1>`);
+  s.push(`<p class="muted">Faults: <strong>${esc(faultText)}</strong> · load angle ${fmt(plan.loadAngleDeg, 1)}° · polarity margin ${fmt(plan.polarityMarginDeg, 1)}° · ${esc(r.generatedBy)}</p>`);
+  s.push(`<div class="caution" role="note"><strong>Caution.</strong><ul>${CAUTIONS.map((c) => `<li>${esc(c)}</li>`).join('')}</ul></div>`);
+
+  s.push('<h2>1. Inputs and assumptions</h2>');
+  s.push(`<table><tr><th>leg</th><td>${esc(leg.name)} (from <code>${esc(r.topologyText)}</code>), ${leg.devices.length} devices, DC nodes ${Object.entries(leg.dcNodes).map(([k, v]) => `${esc(k)} = ${fmt(v, 2)}`).join(', ')} (units of Vdc/2)</td></tr>`
+    + `<tr><th>faults</th><td>${esc(faultText)}</td></tr>`
+    + `<tr><th>operating point</th><td>load angle φ = ${fmt(plan.loadAngleDeg, 2)}° (currents lag the voltage reference); polarity margin δ = ${fmt(plan.polarityMarginDeg, 2)}° (within δ of a current zero crossing the sign counts as unknown)</td></tr>`
+    + '<tr><th>model</th><td>ideal switches and diodes; an open fault removes all conduction of the element; levels from the highest (i &gt; 0) or lowest (i &lt; 0) reachable DC node; no dead time, commutation or thermal effects</td></tr>'
+    + '<tr><th>units</th><td>potentials and modulation index m in units of Vdc/2 (m = peak fundamental phase voltage / (Vdc/2)); healthy linear limit 2/√3 ≈ 1.1547</td></tr></table>');
+
+  s.push('<h2>2. Limit and derating</h2>');
+  s.push(`<table><tr><th>maximum modulation index, faulted</th><td><strong>${fmt(plan.mMax, 6)}</strong></td></tr><tr><th>healthy</th><td>${fmt(plan.mMaxHealthy, 6)}</td></tr><tr><th>derating ratio</th><td><strong>${fmt(plan.deratingRatio * 100, 2)} %</strong></td></tr></table>`);
+  s.push(`<p>${esc(bindingExplanation(plan))}</p>`);
+
+  s.push('<h2>3. What each phase leg can still do</h2>');
+  for (const ph of PHASES) {
+    const t = atlas.analysis.phases[ph];
+    if (t === atlas.analysis.healthy) continue;
+    s.push(`<h3>Phase ${ph}</h3><table><tr><th>pattern</th><th>gates on</th><th>i &gt; 0</th><th>i &lt; 0</th></tr>`);
+    t.patterns.forEach((p, i) => {
+      const h = atlas.analysis.healthy.patterns[i] as PatternResult;
+      const cell = (sg: '+' | '-') => {
+        if (p.status !== 'allowed') return '<span class="flag">forbidden</span>';
+        const l = p.bySign[sg].level;
+        const was = h.status === 'allowed' ? h.bySign[sg].level : null;
+        const txt = l === null ? '<span class="flag">interrupted (forbidden)</span>' : levelText(l);
+        return l === was ? txt : `${txt} <span class="flag">(was ${levelText(was)})</span>`;
+      };
+      s.push(`<tr><td>${esc(p.name)}</td><td>${esc(p.gates.join(', '))}</td><td>${cell('+')}</td><td>${cell('-')}</td></tr>`);
+    });
+    s.push('</table>');
+    s.push(`<p>Level sets — i &gt; 0: ${t.levels['+'].map(levelText).join(' ') || 'none'}; i &lt; 0: ${t.levels['-'].map(levelText).join(' ') || 'none'}; unknown sign: ${t.levels['?'].map(levelText).join(' ') || 'none'}.</p>`);
+  }
+  if (PHASES.every((ph) => atlas.analysis.phases[ph] === atlas.analysis.healthy)) s.push('<p>No phase is faulted.</p>');
+
+  const fph = atlas.analysis.faults[0]?.phase ?? 'a';
+  const ft = atlas.analysis.phases[fph];
+  const changed = ft.patterns.find((p, i) => JSON.stringify(p) !== JSON.stringify(atlas.analysis.healthy.patterns[i])) ?? ft.patterns[0];
+  // draw the current sign for which the fault changed that pattern's level
+  const healthyOf = changed ? (atlas.analysis.healthy.patterns.find((x) => x.name === changed.name) as PatternResult) : undefined;
+  const levelOf = (p: PatternResult | undefined, sg: '+' | '-') => (p?.status === 'allowed' ? p.bySign[sg].level : undefined);
+  const sign: '+' | '-' = levelOf(changed, '+') !== levelOf(healthyOf, '+') ? '+' : levelOf(changed, '-') !== levelOf(healthyOf, '-') ? '-' : '+';
+  const outcome = changed?.status === 'allowed' ? changed.bySign[sign] : null;
+  s.push(figure(legSchematicSvg(leg, {
+    failed: atlas.analysis.faults.filter((f) => f.phase === fph).map((f) => f.element),
+    ...(changed ? { pattern: { name: changed.name, gates: changed.gates } } : {}),
+    sign,
+    path: outcome?.path ?? [],
+    level: outcome ? outcome.level : null,
+    title: `Leg schematic, phase ${fph}`,
+  }), `Leg of phase ${fph} drawn from the netlist. The failed element is crossed out; the thick path is where the current flows for pattern ${changed?.name ?? '—'} with ${sign === '+' ? 'i > 0' : 'i < 0'}.`));
+
+  s.push('<h2>4. Vectors and polarity sectors</h2>');
+  s.push(figure(vectorDiagramSvg(plan, plan.limitingPolarity), `Vector diagram of the polarity ${plan.limitingPolarity} in force where the limit binds. Filled dots survive, hollow squares marked × are lost; the thick edge is the binding hull edge; the green circle is mMax.`));
+  s.push(figure(sectorOverviewSvg(plan), 'One diagram per polarity sector over the fundamental cycle; the arc shows the sector’s range of θ, the framed sector sets the limit.'));
+
+  s.push('<h2>5. Derating versus load angle</h2>');
+  const curve = deratingCurve(atlas, { polarityMarginDeg: plan.polarityMarginDeg });
+  s.push(figure(deratingCurveSvg([{ label: faultText, points: curve }], { healthy: plan.mMaxHealthy, title: 'Maximum modulation index versus load angle' }), `mMax from −90° to 90° (exact at every point, breakpoints circled); worst ${fmt(Math.min(...curve.map((p) => p.mMax)), 4)}, best ${fmt(Math.max(...curve.map((p) => p.mMax)), 4)}.`));
+
+  s.push('<h2>6. Degraded switching-state table</h2>');
+  const f = table.flags;
+  s.push(`<p>${Object.keys(table.polarities).length} polarity strings, ${Object.values(table.polarities).reduce((n, p) => n + p.tableTriangles.length, 0)} triangles in all. Export with <code>hexsalvage export --format json|csv|c</code>.</p>`);
+  s.push(`<table><tr><th>flag</th><th>triangles</th><th>examples</th></tr>`
+    + flagRow('line-frequency devices driven at PWM rate', f.lineDevicesAtPwm)
+    + flagRow('midpoint (neutral-point) control lost', f.midpointAuthorityLost)
+    + flagRow('phase jumps between non-adjacent levels', f.levelJumps)
+    + '</table>');
+  s.push('<table><tr><th>polarity</th><th>vectors</th><th>lost</th><th>triangles</th><th>radius</th><th>midpoint authority full / partial / none</th></tr>');
+  for (const pol of table.polarityOrder) {
+    const p = table.polarities[pol]!;
+    const count = (a: string) => p.tableTriangles.filter((t) => t.midpointAuthority === a).length;
+    s.push(`<tr><td><code>${esc(pol)}</code></td><td>${p.vectors.length}</td><td>${p.lost.length}</td><td>${p.tableTriangles.length}</td><td>${fmt(p.radius, 4)}</td><td>${count('full')} / ${count('partial')} / ${count('none')}</td></tr>`);
+  }
+  s.push('</table>');
+  const entry = table.polarities[plan.limitingPolarity]!;
+  const th = (plan.limitingAngleDeg * Math.PI) / 180;
+  const at = locateReference(entry, 0.7 * plan.mMax * Math.cos(th), 0.7 * plan.mMax * Math.sin(th));
+  if (at.ok) {
+    s.push(figure(switchingPeriodSvg(entry.tableTriangles[at.triangle]!, { dwell: [...at.dwell] as [number, number, number], switches: gatedDeviceIds(leg), levels: table.levels, title: `Switching period, polarity ${plan.limitingPolarity}, triangle ${at.triangle}` }), `One centre-aligned switching period at 0.7·mMax in the direction where the limit binds: phase levels and gate signals, gate changes counted per device.`));
+  }
+
+  if (r.verdicts && r.verdicts.length) {
+    s.push('<h2>7. Derating claims</h2><table><tr><th>claim</th><th>verdict</th><th>m promised</th><th>worst mMax</th><th>at load angle</th><th>short by</th><th>binding edge</th></tr>');
+    for (const v of r.verdicts) {
+      s.push(`<tr><td>${esc(v.name)}</td><td class="${v.holds ? 'verdict-holds' : 'verdict-fails'}">${v.holds ? 'holds' : 'FAILS'}</td><td>${fmt(v.m, 4)}</td><td>${fmt(v.mMaxAtWorst, 6)}</td><td>${fmt(v.worstLoadAngleDeg, 2)}°</td><td>${v.holds ? '—' : fmt(v.shortfall, 6)}</td><td>${esc(v.bindingEdge ? v.bindingEdge.map((e) => `${e.class} ${e.levels[0]?.join('/')}`).join(' – ') : 'none')}</td></tr>`);
+    }
+    s.push('</table><p class="muted">Each verdict is exact over the whole load-angle range of the claim, not sampled.</p>');
+  }
+  s.push(`<div class="caution" role="note"><strong>Before operating with a failed device:</strong> confirm the remaining devices' current, voltage and thermal stress, the DC-link capacitor ripple and midpoint balance, and the load, by test and against the device ratings. Local electrical codes and licensed practice come first.</div>`);
+  return `<!DOCTYPE html>
+<html lang="en">
+<head>
+<meta charset="utf-8">
+<meta name="viewport" content="width=device-width, initial-scale=1">
+<title>Remedial operation review: ${esc(plan.topology)}, ${esc(faultText)}</title>
+<style>${REPORT_CSS}</style>
+</head>
+<body>
+${s.join('\n')}
+</body>
+</html>
+`;
+}
+
+function figure(svg: string, caption: string): string {
+  return `<div class="figure">${svg.replace(/^<\?xml[^>]*>\s*/, '')}<p>${esc(caption)}</p></div>`;
+}
+
+function flagRow(label: string, list: readonly { polarity: string; triangle: number; detail: readonly string[] }[]): string {
+  const ex = list.slice(0, 3).map((x) => `${x.polarity} #${x.triangle}: ${x.detail.join(' ')}`).join('; ');
+  return `<tr><td>${esc(label)}</td><td${list.length ? ' class="flag"' : ''}>${list.length}</td><td>${esc(ex || '—')}${list.length > 3 ? ' …' : ''}</td></tr>`;
+}
+
+function bindingExplanation(plan: RemedialPlan): string {
+  if (!plan.bindingEdge) {
+    return `The limit is 0: under the polarity ${plan.limitingPolarity} (around θ = ${fmt(plan.limitingAngleDeg, 1)}°) the surviving vectors do not surround the origin, so no balanced three-phase voltage can be synthesised through that part of the cycle.`;
+  }
+  const [a, b] = plan.bindingEdge;
+  const v = (x: typeof a) => `the ${x.class} vector ${x.levels[0]?.map(levelText).join('')} (α ${fmt(x.alpha, 3)}, β ${fmt(x.beta, 3)})`;
+  return `The limit binds at θ = ${fmt(plan.limitingAngleDeg, 2)}°, where the phase currents read ${plan.limitingPolarity} (a, b, c). There the reference leaves the convex hull of the vectors still available through the hull edge from ${v(a)} to ${v(b)}: the reference vector can be no longer than ${fmt(plan.mMax, 4)} in that direction, against ${fmt(plan.mMaxHealthy, 4)} for the healthy leg.`;
+}

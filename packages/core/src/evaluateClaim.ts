@@ -1,0 +1,74 @@
+import { diagramAtlas } from './diagramAtlas.js';
+import { HexsalvageInputError } from './errors.js';
+import { limitOverLoadAngles } from './modulationLimit.js';
+import type { PolarityDiagram } from './polarityDiagram.js';
+
+/** A derating claim: the leg keeps at least modulation index `m` over a load-angle range. */
+export interface DeratingClaim {
+  readonly name: string;
+  /** Built-in topology id or a netlist object. */
+  readonly topology: unknown;
+  readonly faults: readonly string[];
+  readonly m: number;
+  /** [LO, HI] in degrees, −180 ≤ LO ≤ HI ≤ 180. */
+  readonly loadAngleDeg: readonly [number, number];
+  /** Default 0. */
+  readonly polarityMarginDeg?: number;
+}
+
+/** The verdict on one claim. */
+export interface ClaimVerdict {
+  readonly name: string;
+  readonly holds: boolean;
+  /** A load angle of the range where mMax is smallest. */
+  readonly worstLoadAngleDeg: number;
+  /** min of mMax over the range. */
+  readonly mMaxAtWorst: number;
+  /** max(0, m − mMaxAtWorst). */
+  readonly shortfall: number;
+  readonly m: number;
+  readonly limitingAngleDeg: number;
+  readonly limitingPolarity: string;
+  /** The binding hull edge as its two vectors' level triplets and classes, or null. */
+  readonly bindingEdge: readonly { readonly alpha: number; readonly beta: number; readonly class: string; readonly levels: readonly (readonly number[])[] }[] | null;
+}
+
+/**
+ * Decides a derating claim exactly over its whole load-angle range.
+ *
+ * @param claim - the claim
+ * @returns holds or not, the worst load angle, the limit there, the shortfall and the binding edge
+ * @throws HexsalvageInputError on a bad topology, fault, m or range
+ * @example
+ * ```ts
+ * evaluateClaim({ name: 'pump', topology: 'npc', faults: ['a.outerUpper'], m: 0.55, loadAngleDeg: [0, 40] }).holds; // true
+ * ```
+ */
+export function evaluateClaim(claim: DeratingClaim): ClaimVerdict {
+  const [lo, hi] = claim.loadAngleDeg;
+  const bad = (key: string, expected: string, got: unknown) => new HexsalvageInputError('claims', claim.name, key, expected, got);
+  if (!(Number.isFinite(claim.m) && claim.m >= 0)) throw bad('m', 'a modulation index ≥ 0', claim.m);
+  if (!(Number.isFinite(lo) && Number.isFinite(hi) && lo >= -180 && hi <= 180 && lo <= hi)) throw bad('loadAngleDeg', '[LO, HI] with −180 ≤ LO ≤ HI ≤ 180', claim.loadAngleDeg);
+  const delta = claim.polarityMarginDeg ?? 0;
+  if (!(Number.isFinite(delta) && delta >= 0 && delta < 60)) throw bad('polarityMarginDeg', 'degrees in [0, 60)', delta);
+  const atlas = diagramAtlas({ topology: claim.topology, faults: claim.faults });
+  const r = limitOverLoadAngles(atlas.faulted, lo, hi, delta);
+  const d = atlas.faulted.get(r.limitingPolarity) as PolarityDiagram;
+  const edge = r.bindingEdge ? r.bindingEdge.map((i) => {
+    const v = d.vectors[i] as PolarityDiagram['vectors'][number];
+    return { alpha: v.alpha, beta: v.beta, class: v.class, levels: v.levels };
+  }) : null;
+  // exact comparison up to the rounding of the closed-form limit
+  const holds = r.mMax >= claim.m - 1e-12;
+  return {
+    name: claim.name,
+    holds,
+    worstLoadAngleDeg: r.loadAngleDeg,
+    mMaxAtWorst: r.mMax,
+    shortfall: Math.max(0, claim.m - r.mMax),
+    m: claim.m,
+    limitingAngleDeg: r.limitingAngleDeg,
+    limitingPolarity: r.limitingPolarity,
+    bindingEdge: edge,
+  };
+}

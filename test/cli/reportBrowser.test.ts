@@ -1,0 +1,49 @@
+import { existsSync, mkdirSync } from 'node:fs';
+import { join } from 'node:path';
+import { describe, expect, it } from 'vitest';
+import { ROOT, runBin } from '../support/cli.js';
+
+// The review report opened in a real headless browser: Debian's chromium driven by playwright-core.
+// CI installs chromium (.ci/run), so there the test must run; elsewhere it may skip, saying why.
+const CHROMIUM = process.env.HEXSALVAGE_CHROMIUM ?? '/usr/bin/chromium';
+const available = existsSync(CHROMIUM);
+if (!available && !process.env.CI) console.warn(`reportBrowser: skipped, no browser at ${CHROMIUM} (apt-get install chromium, or set HEXSALVAGE_CHROMIUM)`);
+
+describe.skipIf(!available && !process.env.CI)('report in a headless browser', () => {
+  it('opens without console errors or network requests, every SVG has a box, and a screenshot is saved', async () => {
+    expect(existsSync(CHROMIUM)).toBe(true);
+    const artefacts = join(ROOT, 'test-artifacts');
+    mkdirSync(artefacts, { recursive: true });
+    const html = join(artefacts, 'review.html');
+    const r = runBin(['report', '--topology', 'anpc-hybrid', '--fault', 'a.innerUpper', '--load-angle', '25', '--polarity-margin', '3', '--claims', 'examples/pump-claims.json', '--out', html]);
+    expect(r.code).toBe(0);
+    const { chromium } = await import('playwright-core');
+    const browser = await chromium.launch({
+      executablePath: CHROMIUM,
+      args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+    });
+    try {
+      const page = await browser.newPage({ viewport: { width: 1000, height: 1400 } });
+      const errors: string[] = [];
+      const requests: string[] = [];
+      page.on('console', (m) => { if (m.type() === 'error') errors.push(m.text()); });
+      page.on('pageerror', (e) => errors.push(String(e)));
+      page.on('request', (q) => requests.push(q.url()));
+      await page.goto(`file://${html}`, { waitUntil: 'load' });
+      const boxes = await page.$$eval('svg', (svgs) => svgs.map((s) => { const b = s.getBoundingClientRect(); return [b.width, b.height]; }));
+      expect(boxes.length).toBeGreaterThanOrEqual(5);
+      for (const [w, h] of boxes) {
+        expect(w).toBeGreaterThan(50);
+        expect(h).toBeGreaterThan(50);
+      }
+      expect(errors).toEqual([]);
+      expect(requests.filter((u) => u !== `file://${html}`)).toEqual([]);
+      await page.screenshot({ path: join(artefacts, 'review.png'), fullPage: true });
+      await page.emulateMedia({ media: 'print' });
+      const pdf = await page.pdf({ format: 'A4', printBackground: true });
+      expect(pdf.length).toBeGreaterThan(10000);
+    } finally {
+      await browser.close();
+    }
+  });
+});

@@ -1,0 +1,130 @@
+import { existsSync, readFileSync, writeFileSync } from 'node:fs';
+import { XMLParser, XMLValidator } from 'fast-xml-parser';
+import { describe, expect, it } from 'vitest';
+import {
+  builtinLeg, deratingCurve, diagramAtlas, gatedDeviceIds, parseNetlist, planFromAtlas, planRemedial, switchingTableFromAtlas,
+} from '@hexsalvage/core';
+import { deratingCurveSvg, legSchematicSvg, sectorOverviewSvg, switchingPeriodSvg, vectorDiagramSvg } from '@hexsalvage/plot';
+
+// Golden files: regenerate with UPDATE_GOLDEN=1 pnpm test (then review the diff like code).
+function golden(name: string, svg: string): void {
+  const url = new URL(`./golden/${name}.svg`, import.meta.url);
+  if (process.env.UPDATE_GOLDEN === '1') writeFileSync(url, svg);
+  if (!existsSync(url)) throw new Error(`golden file ${name}.svg missing: run UPDATE_GOLDEN=1 pnpm test and review it`);
+  expect(svg).toBe(readFileSync(url, 'utf8'));
+}
+
+const parser = new XMLParser({ ignoreAttributes: false, attributeNamePrefix: '@', isArray: (_name: string, _path: unknown, _leaf: boolean, isAttribute: boolean) => !isAttribute });
+// every element with a given class, anywhere in the tree
+function byClass(svg: string, cls: string): unknown[] {
+  const found: unknown[] = [];
+  const walk = (node: unknown) => {
+    if (Array.isArray(node)) return node.forEach(walk);
+    if (node && typeof node === 'object') {
+      const o = node as Record<string, unknown>;
+      const c = o['@class'];
+      if (typeof c === 'string' && c.split(' ').includes(cls)) found.push(o);
+      for (const [k, v] of Object.entries(o)) if (!k.startsWith('@')) walk(v);
+    }
+  };
+  walk(parser.parse(svg));
+  return found;
+}
+function wellFormed(svg: string): void {
+  // fast-xml-parser (npm) as an independent XML well-formedness check
+  expect(XMLValidator.validate(svg)).toBe(true);
+  expect(svg).toMatch(/<title id="hs[0-9a-f]{8}-t">/);
+  expect(svg).toMatch(/<desc id="hs[0-9a-f]{8}-d">/);
+}
+
+const atlas = diagramAtlas({ topology: 'npc', faults: ['a.outerUpper.diode'] });
+const plan = planFromAtlas(atlas, 30, 0);
+
+describe('vectorDiagramSvg', () => {
+  it('draws one marker per surviving and per lost vector and one path per triangle', () => {
+    for (const pol of ['--+', '+--', '?-+']) {
+      const svg = vectorDiagramSvg(plan, pol, { referenceM: 0.5 });
+      wellFormed(svg);
+      const d = plan.polarities[pol]!;
+      expect(byClass(svg, 'surviving')).toHaveLength(d.vectors.length);
+      expect(byClass(svg, 'lost')).toHaveLength(d.lost.length);
+      expect(byClass(svg, 'lost-label')).toHaveLength(d.lost.length); // a text mark, not colour alone
+      expect(byClass(svg, 'triangle')).toHaveLength(d.triangles.length);
+      expect(byClass(svg, 'hull')).toHaveLength(1);
+      expect(byClass(svg, 'reference')).toHaveLength(1);
+    }
+    expect(byClass(vectorDiagramSvg(plan, '--+'), 'binding-edge')).toHaveLength(1);
+  });
+  it('matches its golden file', () => golden('diagram-npc-outerUpperDiode-30', vectorDiagramSvg(plan, '--+', { referenceM: 0.6 })));
+});
+
+describe('sectorOverviewSvg', () => {
+  it('draws one diagram per sector and marks the binding one', () => {
+    const svg = sectorOverviewSvg(plan);
+    wellFormed(svg);
+    expect(byClass(svg, 'sector')).toHaveLength(plan.sectors.length);
+    expect(byClass(svg, 'theta-arc')).toHaveLength(plan.sectors.length);
+    expect(byClass(svg, 'binding')).toHaveLength(1);
+  });
+  it('matches its golden file', () => golden('sectors-npc-outerUpperDiode-30', sectorOverviewSvg(plan)));
+});
+
+describe('deratingCurveSvg', () => {
+  const a = deratingCurve(atlas, { stepDeg: 5 });
+  const b = deratingCurve(diagramAtlas({ topology: 'npc', faults: ['a.outerUpper'] }), { stepDeg: 5 });
+  it('draws one path per fault case and a marker per breakpoint', () => {
+    const svg = deratingCurveSvg([{ label: 'a.outerUpper.diode', points: a }, { label: 'a.outerUpper', points: b }]);
+    wellFormed(svg);
+    expect(byClass(svg, 'series')).toHaveLength(2);
+    expect(byClass(svg, 'breakpoint')).toHaveLength([...a, ...b].filter((p) => p.breakpoint).length);
+    expect(byClass(svg, 'healthy')).toHaveLength(1);
+    expect(byClass(svg, 'tick').length).toBeGreaterThan(10);
+  });
+  it('matches its golden file', () => golden('derating-npc', deratingCurveSvg([{ label: 'a.outerUpper.diode', points: a }])));
+});
+
+describe('legSchematicSvg', () => {
+  it('draws every device of a built-in leg and of a netlist file, marking the failed one', () => {
+    const five = parseNetlist(JSON.parse(readFileSync(new URL('../../examples/five-level-leg.json', import.meta.url), 'utf8')), 'five');
+    for (const leg of [builtinLeg('anpc'), builtinLeg('tnpc'), five]) {
+      const svg = legSchematicSvg(leg, { failed: [leg.devices[0]!.id] });
+      wellFormed(svg);
+      expect(byClass(svg, 'device')).toHaveLength(leg.devices.length);
+      expect(byClass(svg, 'failed-mark')).toHaveLength(1);
+      expect(byClass(svg, 'dc-node')).toHaveLength(Object.keys(leg.dcNodes).length);
+    }
+  });
+  it('highlights the conduction path and writes out an interrupted one', () => {
+    const leg = builtinLeg('npc');
+    const lit = legSchematicSvg(leg, { pattern: { name: 'P', gates: ['outerUpper', 'innerUpper'] }, sign: '+', path: ['outerUpper', 'innerUpper'], level: 1 });
+    expect(byClass(lit, 'conduction')).toHaveLength(2);
+    const cut = legSchematicSvg(leg, { failed: ['outerUpper.diode'], pattern: { name: 'P', gates: ['outerUpper', 'innerUpper'] }, sign: '-', path: [], level: null });
+    expect(byClass(cut, 'interrupted')).toHaveLength(1);
+    expect(cut).toContain('current interrupted');
+  });
+  it('matches its golden file', () => golden('leg-anpc-clampUpper', legSchematicSvg(builtinLeg('anpc'), { failed: ['clampUpper'], pattern: { name: 'O-upper', gates: ['clampUpper', 'innerUpper'] }, sign: '-', path: ['outerUpper.diode', 'innerUpper.diode'], level: 1 })));
+});
+
+describe('switchingPeriodSvg', () => {
+  const table = switchingTableFromAtlas(diagramAtlas({ topology: 'anpc-hybrid', faults: ['a.innerUpper'] }));
+  const switches = gatedDeviceIds(builtinLeg('anpc-hybrid'));
+  it('draws a level trace per phase and gate rows whose changes add up to the sequence count', () => {
+    const tri = table.polarities['+--']!.tableTriangles[7]!;
+    const svg = switchingPeriodSvg(tri, { switches, levels: table.levels, dwell: [0.2, 0.3, 0.5] });
+    wellFormed(svg);
+    expect(byClass(svg, 'level-trace')).toHaveLength(3);
+    const counts = [...svg.matchAll(/>(\d+) ch\.</g)].map((m) => Number(m[1]));
+    expect(counts).toHaveLength(3 * switches.length);
+    expect(counts.reduce((a, b) => a + b, 0)).toBe(tri.sequence!.totalGateChanges);
+    expect(svg).toContain('LINE-RATE DEVICES AT PWM');
+  });
+  it('matches its golden file', () => golden('sequence-anpcHybrid-innerUpper', switchingPeriodSvg(table.polarities['+--']!.tableTriangles[7]!, { switches, levels: table.levels })));
+});
+
+describe('plots are byte-stable', () => {
+  it('gives identical SVG for identical input', () => {
+    const p2 = planRemedial({ topology: 'npc', faults: ['a.outerUpper.diode'], loadAngleDeg: 30 });
+    expect(vectorDiagramSvg(p2, '--+')).toBe(vectorDiagramSvg(plan, '--+'));
+    expect(sectorOverviewSvg(p2)).toBe(sectorOverviewSvg(plan));
+  });
+});
