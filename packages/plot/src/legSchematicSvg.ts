@@ -114,7 +114,7 @@ export function legSchematicSvg(leg: LegNetlist, options: LegSchematicOptions = 
 function captionText(o: LegSchematicOptions): string {
   if (!o.pattern || !o.sign) return 'No pattern selected.';
   const dir = o.sign === '+' ? 'i > 0 (out of the leg)' : 'i < 0 (into the leg)';
-  if (o.level === null) return `Pattern ${o.pattern.name}, ${dir}: current interrupted, no conducting path — forbidden for this sign.`;
+  if (o.level === null) return `Pattern ${o.pattern.name}, ${o.sign === '+' ? 'i > 0' : 'i < 0'}: current interrupted (no path), forbidden for this sign.`;
   return `Pattern ${o.pattern.name}, ${dir}: output at ${n(o.level ?? 0, 2)}·Vdc/2 through ${(o.path ?? []).join(', ') || '(none)'}.`;
 }
 

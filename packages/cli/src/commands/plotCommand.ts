@@ -1,12 +1,10 @@
-import {
-  analyseLeg, diagramAtlas, deratingCurve, gatedDeviceIds, locateReference, planFromAtlas, switchingTableFromAtlas,
-  type PatternResult, type Phase,
-} from '@hexsalvage/core';
+import { diagramAtlas, deratingCurve, gatedDeviceIds, locateReference, planFromAtlas, switchingTableFromAtlas } from '@hexsalvage/core';
 import { deratingCurveSvg, legSchematicSvg, sectorOverviewSvg, switchingPeriodSvg, vectorDiagramSvg } from '@hexsalvage/plot';
 import { usage } from '../args.js';
 import { ANGLE_OPTIONS, HELP_OPTION, LEG_OPTIONS, type Command } from '../command.js';
 import { angleInputs, legInputs } from '../legInputs.js';
 import { writeSvgOrPng } from '../renderFile.js';
+import { schematicFocus } from '../schematicFocus.js';
 
 const KINDS = ['diagram', 'sectors', 'derating', 'leg', 'sequence'] as const;
 
@@ -53,7 +51,7 @@ export const plotCommand: Command = {
       }
       svg = deratingCurveSvg(series, { healthy: plan.mMaxHealthy, title: `Maximum modulation index versus load angle: ${atlas.analysis.topology}` });
     } else if (kind === 'leg') {
-      svg = legSvg(atlas.analysis, args.values.get('phase') as string | undefined, args.values.get('pattern') as string | undefined, args.values.get('sign') as string | undefined);
+      svg = legSchematicSvg(atlas.analysis.leg, schematicFocus(atlas.analysis, args.values.get('phase') as string | undefined, args.values.get('pattern') as string | undefined, args.values.get('sign') as string | undefined));
     } else {
       const table = switchingTableFromAtlas(atlas);
       const entry = table.polarities[polarity]!;
@@ -78,25 +76,3 @@ export const plotCommand: Command = {
     return 0;
   },
 };
-
-function legSvg(analysis: ReturnType<typeof analyseLeg>, phaseArg?: string, patternArg?: string, signArg?: string): string {
-  const phase = (phaseArg ?? analysis.faults[0]?.phase ?? 'a') as Phase;
-  if (!['a', 'b', 'c'].includes(phase)) throw usage('--phase', 'a, b or c', phaseArg);
-  const sign = (signArg ?? '+') as '+' | '-';
-  if (sign !== '+' && sign !== '-') throw usage('--sign', '+ or -', signArg);
-  const table = analysis.phases[phase];
-  const changed = table.patterns.find((p, i) => JSON.stringify(p) !== JSON.stringify(analysis.healthy.patterns[i]));
-  const pick = patternArg ?? changed?.name ?? table.patterns[0]?.name;
-  const p = table.patterns.find((x) => x.name === pick) as PatternResult | undefined;
-  if (!p) throw usage('--pattern', `one of ${table.patterns.map((x) => x.name).join(', ')}`, patternArg);
-  const failed = analysis.faults.filter((f) => f.phase === phase).map((f) => f.element);
-  const outcome = p.status === 'allowed' ? p.bySign[sign] : null;
-  return legSchematicSvg(analysis.leg, {
-    failed,
-    pattern: { name: p.name, gates: p.gates },
-    sign,
-    path: outcome?.path ?? [],
-    level: outcome ? outcome.level : null,
-    title: `Leg ${analysis.topology}, phase ${phase}${failed.length ? `, failed: ${failed.join(', ')}` : ''}`,
-  });
-}

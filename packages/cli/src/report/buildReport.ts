@@ -4,6 +4,7 @@ import {
 } from '@hexsalvage/core';
 import { deratingCurveSvg, esc, legSchematicSvg, sectorOverviewSvg, switchingPeriodSvg, vectorDiagramSvg } from '@hexsalvage/plot';
 import { fmt, levelText } from '../format.js';
+import { schematicFocus } from '../schematicFocus.js';
 import { REPORT_CSS } from './reportStyles.js';
 
 /** Inputs of {@link buildReport}. */
@@ -70,22 +71,8 @@ export function buildReport(r: ReportInputs): string {
   }
   if (PHASES.every((ph) => atlas.analysis.phases[ph] === atlas.analysis.healthy)) s.push('<p>No phase is faulted.</p>');
 
-  const fph = atlas.analysis.faults[0]?.phase ?? 'a';
-  const ft = atlas.analysis.phases[fph];
-  const changed = ft.patterns.find((p, i) => JSON.stringify(p) !== JSON.stringify(atlas.analysis.healthy.patterns[i])) ?? ft.patterns[0];
-  // draw the current sign for which the fault changed that pattern's level
-  const healthyOf = changed ? (atlas.analysis.healthy.patterns.find((x) => x.name === changed.name) as PatternResult) : undefined;
-  const levelOf = (p: PatternResult | undefined, sg: '+' | '-') => (p?.status === 'allowed' ? p.bySign[sg].level : undefined);
-  const sign: '+' | '-' = levelOf(changed, '+') !== levelOf(healthyOf, '+') ? '+' : levelOf(changed, '-') !== levelOf(healthyOf, '-') ? '-' : '+';
-  const outcome = changed?.status === 'allowed' ? changed.bySign[sign] : null;
-  s.push(figure(legSchematicSvg(leg, {
-    failed: atlas.analysis.faults.filter((f) => f.phase === fph).map((f) => f.element),
-    ...(changed ? { pattern: { name: changed.name, gates: changed.gates } } : {}),
-    sign,
-    path: outcome?.path ?? [],
-    level: outcome ? outcome.level : null,
-    title: `Leg schematic, phase ${fph}`,
-  }), `Leg of phase ${fph} drawn from the netlist. The failed element is crossed out; the thick path is where the current flows for pattern ${changed?.name ?? '—'} with ${sign === '+' ? 'i > 0' : 'i < 0'}.`));
+  const focus = schematicFocus(atlas.analysis);
+  s.push(figure(legSchematicSvg(leg, focus), `Leg drawn from the netlist. The failed element is crossed out; the thick path is where the current flows for pattern ${focus.pattern?.name ?? '—'} with ${focus.sign === '-' ? 'i < 0' : 'i > 0'}.`));
 
   s.push('<h2>4. Vectors and polarity sectors</h2>');
   s.push(figure(vectorDiagramSvg(plan, plan.limitingPolarity), `Vector diagram of the polarity ${plan.limitingPolarity} in force where the limit binds. Filled dots survive, hollow squares marked × are lost; the thick edge is the binding hull edge; the green circle is mMax.`));

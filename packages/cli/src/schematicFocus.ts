@@ -1,0 +1,43 @@
+import type { LegAnalysis, PatternResult, Phase } from '@hexsalvage/core';
+import type { LegSchematicOptions } from '@hexsalvage/plot';
+import { usage } from './args.js';
+
+/**
+ * Chooses what a leg schematic shows: the phase (default the first faulted one), the pattern
+ * (default the first one a fault changes) and the current sign (default the one whose level the
+ * fault changed, else `+`), with that pattern's conduction path.
+ *
+ * @param analysis - solved leg
+ * @param phaseArg - `--phase`, optional
+ * @param patternArg - `--pattern`, optional
+ * @param signArg - `--sign`, optional
+ * @returns schematic options (with a title)
+ * @throws HexsalvageInputError for an unknown phase, pattern or sign
+ * @example
+ * ```ts
+ * legSchematicSvg(analysis.leg, schematicFocus(analysis));
+ * ```
+ */
+export function schematicFocus(analysis: LegAnalysis, phaseArg?: string, patternArg?: string, signArg?: string): LegSchematicOptions {
+  const phase = (phaseArg ?? analysis.faults[0]?.phase ?? 'a') as Phase;
+  if (!['a', 'b', 'c'].includes(phase)) throw usage('--phase', 'a, b or c', phaseArg);
+  const table = analysis.phases[phase];
+  const healthyOf = (p: PatternResult) => analysis.healthy.patterns.find((x) => x.name === p.name) as PatternResult;
+  const levelOf = (p: PatternResult | undefined, sg: '+' | '-') => (p?.status === 'allowed' ? p.bySign[sg].level : undefined);
+  const differs = (p: PatternResult, sg: '+' | '-') => levelOf(p, sg) !== levelOf(healthyOf(p), sg) || p.status !== healthyOf(p).status;
+  const pick = patternArg ?? (table.patterns.find((p) => differs(p, '+') || differs(p, '-')) ?? table.patterns[0])?.name;
+  const p = table.patterns.find((x) => x.name === pick);
+  if (!p) throw usage('--pattern', `one of ${table.patterns.map((x) => x.name).join(', ')}`, patternArg);
+  const sign = (signArg ?? (differs(p, '+') || !differs(p, '-') ? '+' : '-')) as '+' | '-';
+  if (sign !== '+' && sign !== '-') throw usage('--sign', '+ or -', signArg);
+  const failed = analysis.faults.filter((f) => f.phase === phase).map((f) => f.element);
+  const outcome = p.status === 'allowed' ? p.bySign[sign] : null;
+  return {
+    failed,
+    pattern: { name: p.name, gates: p.gates },
+    sign,
+    path: outcome?.path ?? [],
+    level: outcome ? outcome.level : null,
+    title: `Leg ${analysis.topology}, phase ${phase}${failed.length ? `, failed: ${failed.join(', ')}` : ''}`,
+  };
+}
