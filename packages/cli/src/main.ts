@@ -11,10 +11,11 @@ import { exportCommand } from './commands/exportCommand.js';
 import { plotCommand } from './commands/plotCommand.js';
 import { checkCommand } from './commands/checkCommand.js';
 import { reportCommand } from './commands/reportCommand.js';
+import { cycleCommand } from './commands/cycleCommand.js';
 import type { CommandIO } from './output.js';
 
 /** Every command, in the order `--help` lists them. */
-export const COMMANDS: readonly Command[] = [legCommand, vectorsCommand, planCommand, sweepCommand, tableCommand, exportCommand, plotCommand, reportCommand, checkCommand];
+export const COMMANDS: readonly Command[] = [legCommand, vectorsCommand, planCommand, sweepCommand, tableCommand, cycleCommand, exportCommand, plotCommand, reportCommand, checkCommand];
 
 const VERSION = (JSON.parse(readFileSync(new URL('../package.json', import.meta.url), 'utf8')) as { version: string }).version;
 

@@ -1,0 +1,41 @@
+import { mkdtempSync, readFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { XMLValidator } from 'fast-xml-parser';
+import { describe, expect, it } from 'vitest';
+import { BUILTIN_TOPOLOGIES, builtinLeg, expandElements } from '@hexsalvage/core';
+import { runBin, runInProcess } from '../support/cli.js';
+
+const dir = mkdtempSync(join(tmpdir(), 'hexsalvage-all-'));
+
+describe('every plot kind and the report for every built-in leg', () => {
+  it.each(BUILTIN_TOPOLOGIES)('works for %s with its first element open', async (t) => {
+    const fault = `b.${expandElements(builtinLeg(t))[0]!.id}`;
+    for (const kind of ['diagram', 'sectors', 'derating', 'leg', 'sequence']) {
+      const out = join(dir, `${t}-${kind}.svg`);
+      expect((await runInProcess(['plot', kind, '--topology', t, '--fault', fault, '--load-angle', '15', '--out', out])).code).toBe(0);
+      expect(XMLValidator.validate(readFileSync(out, 'utf8'))).toBe(true);
+    }
+    const html = join(dir, `${t}.html`);
+    expect((await runInProcess(['report', '--topology', t, '--fault', fault, '--out', html])).code).toBe(0);
+    expect(readFileSync(html, 'utf8')).toContain('Remedial operation review');
+  });
+});
+
+describe('hexsalvage cycle', () => {
+  it('reports volt-second balance and flags midpoint drift', async () => {
+    const r = await runInProcess(['cycle', '--topology', 'tnpc', '--fault', 'a.neutralToOut', '--m', '1.1', '--load-angle', '80', '--ratio', '240', '--json']);
+    expect(r.code).toBe(0);
+    const d = JSON.parse(r.stdout);
+    expect(d.voltSecondErrorMax).toBeLessThan(1e-12);
+    expect(d.midpointDrift).toBe(true);
+    const ok = JSON.parse((await runInProcess(['cycle', '--topology', 'npc', '--m', '1', '--load-angle', '30', '--json'])).stdout);
+    expect(ok.midpointDrift).toBe(false);
+  });
+  it('refuses an m above the limit with one line', () => {
+    const r = runBin(['cycle', '--topology', 'npc', '--fault', 'a.outerUpper', '--m', '0.9']);
+    expect(r.code).toBe(2);
+    expect(r.stderr).toContain('at most mMax = 0.577350');
+    expect(r.stderr.trim().split('\n')).toHaveLength(1);
+  });
+});
