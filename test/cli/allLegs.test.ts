@@ -39,3 +39,16 @@ describe('hexsalvage cycle', () => {
     expect(r.stderr.trim().split('\n')).toHaveLength(1);
   });
 });
+
+describe('vectors, plan and sweep on a netlist file', () => {
+  const five = 'examples/five-level-leg.json';
+  it('print the contract documents', async () => {
+    const v = JSON.parse((await runInProcess(['vectors', '--topology', five, '--fault', 'a.s1', '--polarity', '+-?', '--json'])).stdout);
+    expect(v.vectors.length).toBeGreaterThan(19);
+    const p = JSON.parse((await runInProcess(['plan', '--topology', five, '--fault', 'a.s1', '--load-angle', '20', '--json'])).stdout);
+    expect(p.mMax).toBeLessThanOrEqual(p.mMaxHealthy);
+    expect(p.mMaxHealthy).toBeCloseTo(2 / Math.sqrt(3), 12);
+    const s = JSON.parse((await runInProcess(['sweep', '--topology', five, '--fault', 'a.s1', '--step', '30', '--json'])).stdout);
+    expect(s.points.length).toBeGreaterThanOrEqual(7);
+  });
+});

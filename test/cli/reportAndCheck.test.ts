@@ -10,7 +10,7 @@ const dir = mkdtempSync(join(tmpdir(), 'hexsalvage-report-'));
 
 describe('hexsalvage plot', () => {
   it.each(['diagram', 'sectors', 'derating', 'leg', 'sequence'])('writes a %s SVG for a built-in leg and for a netlist file', async (kind) => {
-    for (const [topology, fault] of [['tnpc', 'b.neutralToOut'], [join(ROOT, 'examples/five-level-leg.json'), 'a.s2']]) {
+    for (const [topology, fault] of [['tnpc', 'b.neutralToOut'], [join(ROOT, 'examples/five-level-leg.json'), 'a.s2']] as const) {
       const out = join(dir, `${kind}-${fault}.svg`);
       const r = await runInProcess(['plot', kind, '--topology', topology, '--fault', fault, '--load-angle', '20', '--out', out]);
       expect(r.code).toBe(0);

@@ -2,7 +2,7 @@ import { execFileSync, spawnSync } from 'node:child_process';
 import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import Ajv from 'ajv';
+import { Ajv } from 'ajv';
 import { describe, expect, it } from 'vitest';
 import { createModulator, CSV_COLUMNS, exportC, exportCsv, exportDocument, HexsalvageInputError, planRemedial, POLARITY_STRINGS, switchingTable } from '@hexsalvage/core';
 import { fc, FC_SEED } from '../support/fc.js';

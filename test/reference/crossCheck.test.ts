@@ -36,7 +36,7 @@ describe('radialExtent against an LP solver (yalps)', () => {
         // contract: r = 0 there; the LP must confirm the origin is not strictly inside, i.e. some
         // direction (an outward normal of an independent hull) has no positive extent
         if (pts.length < 3) return;
-        const hull = (monotoneHull(pts as number[][]) as number[]).map((i) => pts[i] as Point);
+        const hull = (monotoneHull(pts.map((p) => [p[0], p[1]])) as number[]).map((i) => pts[i] as Point);
         const normals = hull.map((a, i) => { const b = hull[(i + 1) % hull.length] as Point; return Math.atan2(a[0] - b[0], b[1] - a[1]); });
         expect(normals.some((n) => (lpExtent(pts, n) ?? 0) <= 1e-9)).toBe(true);
         return;
@@ -57,7 +57,7 @@ describe('convexHull against monotone-convex-hull-2d (npm)', () => {
       const pts: Point[] = d.vectors.map((v) => [v.alpha, v.beta]);
       if (pts.length < 3) return;
       const ours = convexHull(pts).map((i) => pts[i] as Point);
-      const theirs = (monotoneHull(pts as number[][]) as number[]).map((i) => pts[i] as Point);
+      const theirs = (monotoneHull(pts.map((p) => [p[0], p[1]])) as number[]).map((i) => pts[i] as Point);
       const key = (p: Point) => `${p[0].toFixed(9)},${p[1].toFixed(9)}`;
       if (ours.length < 3) return; // collinear: that library returns its own degenerate form
       // that library's exact predicates keep points that are collinear only up to rounding (the

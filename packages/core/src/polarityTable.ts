@@ -2,7 +2,6 @@ import { choosePattern, patternCandidates } from './choosePattern.js';
 import type { LevelTriplet } from './clarke.js';
 import type { DiagramAtlas } from './diagramAtlas.js';
 import type { DwellMatrix } from './dwell.js';
-import { PHASES } from './faults.js';
 import type { LegTable, PhasePolarity } from './legTable.js';
 import { locateReference } from './locateReference.js';
 import { midpointCoefficients, midpointSign, type MidpointSign } from './midpointCurrent.js';

@@ -90,13 +90,13 @@ export function buildReport(r: ReportInputs): string {
     + flagRow('midpoint (neutral-point) control lost', f.midpointAuthorityLost)
     + flagRow('phase jumps between non-adjacent levels', f.levelJumps)
     + '</table>');
-  s.push('<table><tr><th>polarity</th><th>vectors</th><th>lost</th><th>triangles</th><th>radius</th><th>midpoint authority full / partial / none</th></tr>');
+  s.push('<table><thead><tr><th>polarity</th><th>vectors</th><th>lost</th><th>triangles</th><th>radius</th><th>midpoint authority full / partial / none</th></tr></thead><tbody>');
   for (const pol of table.polarityOrder) {
     const p = table.polarities[pol]!;
     const count = (a: string) => p.tableTriangles.filter((t) => t.midpointAuthority === a).length;
     s.push(`<tr><td><code>${esc(pol)}</code></td><td>${p.vectors.length}</td><td>${p.lost.length}</td><td>${p.tableTriangles.length}</td><td>${fmt(p.radius, 4)}</td><td>${count('full')} / ${count('partial')} / ${count('none')}</td></tr>`);
   }
-  s.push('</table>');
+  s.push('</tbody></table>');
   const entry = table.polarities[plan.limitingPolarity]!;
   const th = (plan.limitingAngleDeg * Math.PI) / 180;
   const at = locateReference(entry, 0.7 * plan.mMax * Math.cos(th), 0.7 * plan.mMax * Math.sin(th));

@@ -9,6 +9,8 @@ h3 { font-size: 11pt; margin: 4mm 0 1mm; }
 table { border-collapse: collapse; margin: 2mm 0; font-size: 9.5pt; }
 th, td { border: 1px solid #ccc; padding: 1mm 2mm; text-align: left; vertical-align: top; }
 th { background: #f2f2f2; }
+thead { display: table-header-group; }
+tr { page-break-inside: avoid; }
 .caution { border: 2px solid #D55E00; background: #fff6ef; padding: 2mm 4mm; margin: 3mm 0; }
 .caution strong { color: #a13f00; }
 .figure { page-break-inside: avoid; margin: 3mm 0; }
