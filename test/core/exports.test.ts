@@ -42,6 +42,20 @@ describe('exportC', () => {
   });
 
   const cc = ['cc', 'gcc', 'clang'].find((c) => spawnSync(c, ['--version']).status === 0);
+  it.skipIf(!cc)('escapes awkward leg and pattern names so the header still compiles', () => {
+    const leg = {
+      name: 'odd */ names??', dcNodes: { 'DC+': 1, 'DC-': -1 }, output: 'phase out',
+      devices: [{ id: 'T1', kind: 'igbt', from: 'DC+', to: 'phase out', antiparallelDiode: true }, { id: 'T2', kind: 'igbt', from: 'phase out', to: 'DC-', antiparallelDiode: true }],
+      patterns: { 'hi "q" ü?': ['T1'], lo: ['T2'] },
+    };
+    const header = exportC(switchingTable({ topology: leg }));
+    expect(header).toContain('"hi \\"q\\" \\303\\274\\?"');
+    const dir = mkdtempSync(join(tmpdir(), 'hexsalvage-c-odd-'));
+    writeFileSync(join(dir, 'hs_table.h'), header);
+    writeFileSync(join(dir, 'main.c'), '#include "hs_table.h"\nint main(void) { return hs_pattern_names[0][0] == 104 ? 0 : 1; }\n');
+    execFileSync(cc as string, ['-std=c99', '-Wall', '-Werror', '-Wno-unused-function', '-o', join(dir, 'main'), join(dir, 'main.c'), '-lm']);
+    expect(spawnSync(join(dir, 'main')).status).toBe(0);
+  });
   it.skipIf(!cc)('compiles with the machine C compiler and matches the TypeScript modulator on every polarity', () => {
     const table = switchingTable({ topology: 'anpc-hybrid', faults: ['a.innerUpper', 'c.clampLower'] });
     const dir = mkdtempSync(join(tmpdir(), 'hexsalvage-c-'));

@@ -7,8 +7,10 @@ const TOP_KEYS = ['name', 'description', 'dcNodes', 'output', 'devices', 'patter
 const DEVICE_KEYS = ['id', 'kind', 'from', 'to', 'antiparallelDiode', 'switching', 'technology'];
 // Keys that would reach Object.prototype when a parsed file is spread or indexed.
 const POISON_KEYS = new Set(['__proto__', 'constructor', 'prototype']);
-// Ids and node names must survive the fault syntax PHASE.DEVICE[:MODE] and CSV/C exports.
-const NAME_RE = /^[A-Za-z_][A-Za-z0-9_-]*$/;
+// Device ids must survive the fault syntax PHASE.DEVICE[:MODE] and the CSV export; node names
+// only need to be visible text.
+const ID_RE = /^[^\s.:,;"'\\]{1,64}$/;
+const NODE_RE = /^\S(.{0,62}\S)?$/;
 
 type Obj = Record<string, unknown>;
 
@@ -40,7 +42,7 @@ export function parseNetlist(value: unknown, input: string): LegNetlist {
   const dcObj = asObject(doc.dcNodes, 'dcNodes', 'an object mapping DC node names to potentials in units of Vdc/2', err);
   const dcNodes: Record<string, number> = {};
   for (const [node, v] of Object.entries(dcObj)) {
-    checkName(node, `dcNodes.${node}`, err);
+    checkNode(node, `dcNodes.${node}`, err);
     if (typeof v !== 'number' || !Number.isFinite(v)) throw err(`dcNodes.${node}`, 'a finite potential in units of Vdc/2', v);
     dcNodes[node] = v;
   }
@@ -48,7 +50,7 @@ export function parseNetlist(value: unknown, input: string): LegNetlist {
 
   const output = doc.output;
   if (typeof output !== 'string') throw err('output', 'the name of the output node (string)', output);
-  checkName(output, 'output', err);
+  checkNode(output, 'output', err);
   if (output in dcNodes) throw err('output', 'a node that is not a DC node', output);
 
   if (!Array.isArray(doc.devices) || doc.devices.length === 0) throw err('devices', 'a non-empty array of devices', doc.devices);
@@ -94,12 +96,12 @@ function parseDevice(raw: unknown, at: string, err: (k: string, e: string, g?: u
   for (const k of Object.keys(d)) if (!DEVICE_KEYS.includes(k)) throw err(`${at}.${k}`, `one of the keys ${DEVICE_KEYS.join(', ')}`, k);
   const { id, kind, from, to, antiparallelDiode, switching, technology } = d;
   if (typeof id !== 'string') throw err(`${at}.id`, 'a device id (string)', id);
-  checkName(id, `${at}.id`, err);
+  if (!ID_RE.test(id)) throw err(`${at}.id`, 'an id of up to 64 characters without spaces, ".", ":", ",", ";" or quotes', id);
   if (typeof kind !== 'string' || !KINDS.includes(kind as DeviceKind)) throw err(`${at}.kind`, `one of ${KINDS.join(', ')}`, kind);
   if (typeof from !== 'string') throw err(`${at}.from`, 'a node name (string)', from);
   if (typeof to !== 'string') throw err(`${at}.to`, 'a node name (string)', to);
-  checkName(from, `${at}.from`, err);
-  checkName(to, `${at}.to`, err);
+  checkNode(from, `${at}.from`, err);
+  checkNode(to, `${at}.to`, err);
   if (from === to) throw err(`${at}.to`, 'a node different from "from"', to);
   if (antiparallelDiode !== undefined && typeof antiparallelDiode !== 'boolean') throw err(`${at}.antiparallelDiode`, 'true or false', antiparallelDiode);
   if (antiparallelDiode === true && kind === 'diode') throw err(`${at}.antiparallelDiode`, 'false or absent on a diode', antiparallelDiode);
@@ -131,8 +133,8 @@ function checkNodes(devices: DeviceSpec[], dcNodes: Record<string, number>, outp
   });
 }
 
-function checkName(s: string, key: string, err: (k: string, e: string, g?: unknown) => HexsalvageInputError): void {
-  if (!NAME_RE.test(s)) throw err(key, 'a name of letters, digits, "_" or "-" starting with a letter or "_"', s);
+function checkNode(s: string, key: string, err: (k: string, e: string, g?: unknown) => HexsalvageInputError): void {
+  if (!NODE_RE.test(s)) throw err(key, 'a node name of 1 to 64 characters, not starting or ending with a space', s);
 }
 
 function asObject(v: unknown, key: string, expected: string, err: (k: string, e: string, g?: unknown) => HexsalvageInputError): Obj {
