@@ -1,7 +1,7 @@
 import type { DiagramAtlas } from './diagramAtlas.js';
 import { modulationLimit } from './modulationLimit.js';
 import type { PolarityDiagram } from './polarityDiagram.js';
-import { polaritySectors } from './polaritySectors.js';
+import { polaritySectors, type PolaritySector } from './polaritySectors.js';
 import { minRadialExtent } from './radialExtent.js';
 
 const RAD = Math.PI / 180;
@@ -57,11 +57,13 @@ export function deratingCurve(atlas: DiagramAtlas, options: DeratingCurveOptions
   for (let k = 0; k <= n; k++) grid.push(fromDeg + k * stepDeg);
   if (grid[grid.length - 1] !== toDeg) grid.push(toDeg);
 
-  const structural = structuralBreakpoints(atlas.faulted, fromDeg, toDeg, margin);
+  // the sectors relative to φ (the φ = 0 partition): computed once, shared by every search below
+  const rel = polaritySectors(0, margin);
+  const structural = structuralBreakpoints(atlas.faulted, fromDeg, toDeg, rel);
   const cuts = [...new Set([fromDeg, ...structural, toDeg])].sort((x, y) => x - y);
   const crossings: number[] = [];
   for (let i = 0; i + 1 < cuts.length; i++) {
-    const x = minimiserChange(atlas, cuts[i] as number, cuts[i + 1] as number, margin);
+    const x = minimiserChange(atlas.faulted, cuts[i] as number, cuts[i + 1] as number, rel);
     if (x !== null) crossings.push(x);
   }
   // keep the candidates where the curve really bends: one-sided slopes differ
@@ -88,9 +90,9 @@ export function deratingCurve(atlas: DiagramAtlas, options: DeratingCurveOptions
 }
 
 // Load angles where a sector end crosses a vertex or facet-normal direction of its hull.
-function structuralBreakpoints(diagrams: ReadonlyMap<string, PolarityDiagram>, fromDeg: number, toDeg: number, margin: number): number[] {
+function structuralBreakpoints(diagrams: ReadonlyMap<string, PolarityDiagram>, fromDeg: number, toDeg: number, rel: readonly PolaritySector[]): number[] {
   const out = new Set<number>();
-  for (const s of polaritySectors(0, margin)) {
+  for (const s of rel) {
     const d = diagrams.get(s.polarity) as PolarityDiagram;
     if (!d.geometry.containsOrigin) continue;
     const dirs = [
@@ -109,12 +111,11 @@ function structuralBreakpoints(diagrams: ReadonlyMap<string, PolarityDiagram>, f
 
 // Within [lo, hi] each sector minimum is smooth; if the minimising sector differs at the two ends,
 // bisect the difference of the two sector minima to find where they cross.
-function minimiserChange(atlas: DiagramAtlas, lo: number, hi: number, margin: number): number | null {
-  const which = (phi: number) => sectorMinimum(atlas.faulted, phi, margin);
-  const a = which(lo);
-  const b = which(hi);
+function minimiserChange(diagrams: ReadonlyMap<string, PolarityDiagram>, lo: number, hi: number, rel: readonly PolaritySector[]): number | null {
+  const a = sectorMinimum(diagrams, lo, rel);
+  const b = sectorMinimum(diagrams, hi, rel);
   if (a.key === b.key || hi - lo < 1e-9) return null;
-  const diff = (phi: number) => sectorValue(atlas.faulted, phi, margin, a.key) - sectorValue(atlas.faulted, phi, margin, b.key);
+  const diff = (phi: number) => sectorValue(diagrams, phi, rel[a.key] as PolaritySector) - sectorValue(diagrams, phi, rel[b.key] as PolaritySector);
   let [x0, x1] = [lo, hi];
   const s0 = Math.sign(diff(x0));
   if (s0 === 0 || Math.sign(diff(x1)) === s0) return null;
@@ -128,18 +129,16 @@ function minimiserChange(atlas: DiagramAtlas, lo: number, hi: number, margin: nu
 
 // Sectors keep their identity across φ by their position relative to φ (the index in the φ = 0
 // partition), which is what makes "the minimising sector" meaningful as φ moves.
-function sectorMinimum(diagrams: ReadonlyMap<string, PolarityDiagram>, phi: number, margin: number): { key: number; value: number } {
-  const rel = polaritySectors(0, margin);
+function sectorMinimum(diagrams: ReadonlyMap<string, PolarityDiagram>, phi: number, rel: readonly PolaritySector[]): { key: number; value: number } {
   let best = { key: -1, value: Infinity };
-  rel.forEach((_, k) => {
-    const v = sectorValue(diagrams, phi, margin, k);
+  rel.forEach((s, k) => {
+    const v = sectorValue(diagrams, phi, s);
     if (v < best.value) best = { key: k, value: v };
   });
   return best;
 }
 
-function sectorValue(diagrams: ReadonlyMap<string, PolarityDiagram>, phi: number, margin: number, k: number): number {
-  const s = polaritySectors(0, margin)[k] as ReturnType<typeof polaritySectors>[number];
+function sectorValue(diagrams: ReadonlyMap<string, PolarityDiagram>, phi: number, s: PolaritySector): number {
   const d = diagrams.get(s.polarity) as PolarityDiagram;
   return minRadialExtent(d.geometry, (phi + s.fromDeg) * RAD, (phi + s.toDeg) * RAD).value;
 }
