@@ -30,6 +30,28 @@ describe('createModulator', () => {
     });
   }
 
+  it('agrees exactly on the degenerate spots: vertices, edge midpoints and the origin', () => {
+    for (const source of [plan, table]) {
+      const mod = createModulator(source);
+      const out = new Float64Array(4);
+      for (const p of POLARITY_STRINGS) {
+        const d = source.polarities[p]!;
+        const spots: [number, number][] = [[0, 0], ...d.vectors.map((v) => [v.alpha, v.beta] as [number, number])];
+        for (const t of d.triangles) for (let k = 0; k < 3; k++) {
+          const a = d.vectors[t[k]!]!;
+          const b = d.vectors[t[(k + 1) % 3]!]!;
+          spots.push([(a.alpha + b.alpha) / 2, (a.beta + b.beta) / 2]);
+        }
+        for (const [x, y] of spots) {
+          const plain = locateReference(d, x, y);
+          const tri = mod.modulateInto(x, y, mod.polarityIndex(p), out);
+          expect(tri).toBe(plain.ok ? plain.triangle : -1);
+          if (plain.ok) expect([out[0], out[1], out[2], out[3] === 1]).toEqual([...plain.dwell, plain.clamped]);
+        }
+      }
+    }
+  });
+
   it('rebuilds references inside the hull with dwell times in [0, 1] summing to 1', () => {
     const mod = createModulator(table);
     fc.assert(fc.property(point, ({ a, b, p }) => {

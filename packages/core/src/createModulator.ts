@@ -58,7 +58,9 @@ interface Prepared {
   readonly cell: number;
   readonly nx: number;
   readonly ny: number;
-  readonly cells: readonly Int32Array[];
+  // cell c holds triangles cellTri[cellStart[c] … cellStart[c+1]-1], ascending
+  readonly cellStart: Int32Array;
+  readonly cellTri: Int32Array;
 }
 
 /**
@@ -139,23 +141,48 @@ function prepare(d: PlanPolarity & { readonly tableTriangles?: readonly TableTri
   const y0 = Math.min(...ys, 0);
   const w = Math.max(...xs, 0) - x0;
   const h = Math.max(...ys, 0) - y0;
-  const n = Math.max(1, Math.ceil(Math.sqrt(count)));
+  // about nine cells per triangle, so that most cells meet a single triangle
+  const n = Math.max(1, Math.ceil(3 * Math.sqrt(count)));
   const cell = Math.max(w, h, 1e-9) / n;
   const nx = Math.max(1, Math.ceil(w / cell));
   const ny = Math.max(1, Math.ceil(h / cell));
   const lists: number[][] = Array.from({ length: nx * ny }, () => []);
+  // a pad far above the locator's tolerance, so that every triangle that can claim a point of
+  // the cell is listed for it (the lowest such index is what the plain search returns)
+  const pad = 1e-6;
   d.triangles.forEach((tri, t) => {
-    const px = tri.map((i) => d.vectors[i]!.alpha);
-    const py = tri.map((i) => d.vectors[i]!.beta);
-    // a small pad so that points on a cell border find every triangle touching them
-    const pad = 1e-6;
+    const P = tri.map((i) => [d.vectors[i]!.alpha, d.vectors[i]!.beta] as const);
+    const px = P.map((p) => p[0]);
+    const py = P.map((p) => p[1]);
     const i0 = clampIdx(Math.floor((Math.min(...px) - pad - x0) / cell), nx);
     const i1 = clampIdx(Math.floor((Math.max(...px) + pad - x0) / cell), nx);
     const j0 = clampIdx(Math.floor((Math.min(...py) - pad - y0) / cell), ny);
     const j1 = clampIdx(Math.floor((Math.max(...py) + pad - y0) / cell), ny);
-    for (let i = i0; i <= i1; i++) for (let j = j0; j <= j1; j++) lists[j * nx + i]!.push(t);
+    for (let i = i0; i <= i1; i++) for (let j = j0; j <= j1; j++) {
+      if (boxMeetsTriangle(x0 + i * cell, y0 + j * cell, cell, P, pad)) lists[j * nx + i]!.push(t);
+    }
   });
-  return { count, m, hull: d.hull, vertices, x0, y0, cell, nx, ny, cells: lists.map((l) => Int32Array.from(l)) };
+  const cellStart = new Int32Array(nx * ny + 1);
+  lists.forEach((l, c) => { cellStart[c + 1] = (cellStart[c] as number) + l.length; });
+  const cellTri = Int32Array.from(lists.flat());
+  return { count, m, hull: d.hull, vertices, x0, y0, cell, nx, ny, cellStart, cellTri };
+}
+
+// Separating-axis test of a square cell against a triangle, both grown by `pad`.
+function boxMeetsTriangle(bx: number, by: number, size: number, P: readonly (readonly [number, number])[], pad: number): boolean {
+  const corners = [[bx, by], [bx + size, by], [bx, by + size], [bx + size, by + size]] as const;
+  for (let e = 0; e < 3; e++) {
+    const [ax, ay] = P[e] as readonly [number, number];
+    const [cx, cy] = P[(e + 1) % 3] as readonly [number, number];
+    const nx = cy - ay;
+    const ny = -(cx - ax);
+    const len = Math.hypot(nx, ny);
+    const third = P[(e + 2) % 3] as readonly [number, number];
+    const side = Math.sign(nx * (third[0] - ax) + ny * (third[1] - ay));
+    // every corner strictly on the far side of this edge (beyond the pad): separated
+    if (corners.every(([x, y]) => side * (nx * (x - ax) + ny * (y - ay)) < -pad * len)) return false;
+  }
+  return true;
 }
 
 function clampIdx(i: number, n: number): number {
@@ -167,9 +194,10 @@ function search(pr: Prepared, a: number, b: number, out: Float64Array): number {
   const i = Math.floor((a - pr.x0) / pr.cell);
   const j = Math.floor((b - pr.y0) / pr.cell);
   if (i < 0 || j < 0 || i >= pr.nx || j >= pr.ny) return linear(pr, a, b, out);
-  const list = pr.cells[j * pr.nx + i] as Int32Array;
-  for (let k = 0; k < list.length; k++) {
-    const t = list[k] as number;
+  const c = j * pr.nx + i;
+  const end = pr.cellStart[c + 1] as number;
+  for (let k = pr.cellStart[c] as number; k < end; k++) {
+    const t = pr.cellTri[k] as number;
     if (inside(pr.m, t, a, b, out)) return t;
   }
   // a point on the grid's far border or rounding at a cell edge: fall back to the full scan
@@ -182,11 +210,14 @@ function linear(pr: Prepared, a: number, b: number, out: Float64Array): number {
 }
 
 function inside(m: Float64Array, t: number, a: number, b: number, out: Float64Array): boolean {
+  // early exits per vertex; equivalent to min(d0, d1, d2) >= -tolerance as in locateReference
   const o = 9 * t;
   const d0 = (m[o] as number) * a + (m[o + 1] as number) * b + (m[o + 2] as number);
+  if (d0 < -DWELL_TOLERANCE) return false;
   const d1 = (m[o + 3] as number) * a + (m[o + 4] as number) * b + (m[o + 5] as number);
+  if (d1 < -DWELL_TOLERANCE) return false;
   const d2 = (m[o + 6] as number) * a + (m[o + 7] as number) * b + (m[o + 8] as number);
-  if (Math.min(d0, d1, d2) < -DWELL_TOLERANCE) return false;
+  if (d2 < -DWELL_TOLERANCE) return false;
   normaliseInto(d0, d1, d2, out);
   return true;
 }
