@@ -1,0 +1,42 @@
+import { describe, expect, it } from 'vitest';
+import { BUILTIN_TOPOLOGIES, builtinLeg, diagramAtlas, expandElements, polygonArea, POLARITY_STRINGS, triangleArea, type Point } from '@hexsalvage/core';
+import { fc, fcParams } from '../support/fc.js';
+
+const caseArb = fc.constantFrom(...BUILTIN_TOPOLOGIES).chain((t) => {
+  const ids = expandElements(builtinLeg(t)).map((e) => e.id);
+  const fault = fc.tuple(fc.constantFrom('a', 'b', 'c'), fc.constantFrom(...ids)).map(([p, id]) => `${p}.${id}`);
+  return fc.tuple(fc.constant(t), fc.uniqueArray(fault, { maxLength: 3 }), fc.constantFrom(...POLARITY_STRINGS), fc.array(fc.tuple(fc.double({ min: 0, max: 1, noNaN: true }), fc.double({ min: 0, max: 1, noNaN: true })), { minLength: 20, maxLength: 20 }));
+});
+
+describe('triangulate properties', () => {
+  it('tiles the hull exactly on random faulted diagrams: areas add up, no gap, no overlap', () => {
+    fc.assert(fc.property(caseArb, ([t, faults, pol, samples]) => {
+      const d = diagramAtlas({ topology: t, faults }).faulted.get(pol)!;
+      const pts: Point[] = d.vectors.map((v) => [v.alpha, v.beta]);
+      const hull = d.hull.map((i) => pts[i] as Point);
+      if (d.triangles.length === 0) {
+        expect(Math.abs(hull.length >= 3 ? polygonArea(hull) : 0)).toBeLessThan(1e-12);
+        return;
+      }
+      for (const tri of d.triangles) expect(triangleArea(pts, tri)).toBeGreaterThan(1e-12);
+      const sum = d.triangles.reduce((s, tri) => s + triangleArea(pts, tri), 0);
+      expect(sum).toBeCloseTo(polygonArea(hull), 10);
+      // random points of the hull's bounding box: inside the hull ⇔ covered, and by one triangle
+      // only (points within 1e-9 of an edge are skipped: there two triangles legitimately meet)
+      const xs = hull.map((p) => p[0]);
+      const ys = hull.map((p) => p[1]);
+      for (const [u, w] of samples) {
+        const x = Math.min(...xs) + u * (Math.max(...xs) - Math.min(...xs));
+        const y = Math.min(...ys) + w * (Math.max(...ys) - Math.min(...ys));
+        const bary = d.dwell.map((m) => m.map((r) => r[0] * x + r[1] * y + r[2]));
+        if (bary.some((b) => b.some((v) => Math.abs(v) < 1e-9))) continue;
+        const covering = bary.filter((b) => b.every((v) => v > 0)).length;
+        const inHull = hull.every((a, i) => {
+          const b = hull[(i + 1) % hull.length] as Point;
+          return (b[0] - a[0]) * (y - a[1]) - (b[1] - a[1]) * (x - a[0]) > 0;
+        });
+        expect(covering).toBe(inHull ? 1 : 0);
+      }
+    }), fcParams(200));
+  });
+});
