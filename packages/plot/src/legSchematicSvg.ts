@@ -73,8 +73,8 @@ export function legSchematicSvg(leg: LegNetlist, options: LegSchematicOptions = 
     if (onPath) body.push(`<path class="conduction" d="M${n(x1)},${n(y1)} L${n(mx)},${n(my)} L${n(x2)},${n(y2)}" stroke="${STYLE.green}" stroke-width="7" stroke-linecap="round" fill="none" opacity="0.55"/>`);
     body.push(`<path class="wire" d="M${n(x1)},${n(y1)} L${n(mx)},${n(my)} L${n(x2)},${n(y2)}" stroke="${STYLE.ink}" stroke-width="1.3" fill="none"/>`);
     const angle = (Math.atan2(uy, ux) * 180) / Math.PI;
-    // labels go to the side away from the drawing's centre line, antiparallel diodes to the other
-    // side, so that mirror-image devices (upper/lower) never print on top of each other
+    // antiparallel diodes and labels go to the side away from the drawing's centre line (label
+    // outermost), so that mirror-image devices (upper/lower) never crowd into the middle
     const centre = (T + B) / 2;
     const away = Math.abs(ux) > 1e-9 ? (my < centre ? -Math.sign(ux) : Math.sign(ux)) : mx < (L + R) / 2 ? Math.sign(uy) : -Math.sign(uy);
     const side = away === 0 ? 1 : away;
@@ -84,15 +84,15 @@ export function legSchematicSvg(leg: LegNetlist, options: LegSchematicOptions = 
       const on = gates.has(d.id);
       g.push(`<rect x="-13" y="-8" width="26" height="16" rx="2" fill="${on ? STYLE.blue : '#ffffff'}" stroke="${STYLE.ink}" stroke-width="1.2"/>`);
       g.push(`<path d="M-6,0 L5,0 M1,-3.5 L5,0 L1,3.5" stroke="${on ? '#ffffff' : STYLE.ink}" stroke-width="1.3" fill="none"/>`);
-      if (d.kind === 'mosfet') g.push(`<circle cx="0" cy="-11" r="2" fill="${STYLE.ink}"/>`);
-      if (d.antiparallelDiode) g.push(`<g transform="translate(0 ${-side * 17}) rotate(180)">${diodeSymbol(0, path.has(`${d.id}.diode`))}</g>`);
+      if (d.kind === 'mosfet') g.push(`<circle class="mosfet-mark" cx="0" cy="${-side * 11}" r="2" fill="${STYLE.ink}"/>`);
+      if (d.antiparallelDiode) g.push(`<g transform="translate(0 ${side * 17}) rotate(180)">${diodeSymbol(0, path.has(`${d.id}.diode`))}</g>`);
     }
     if (failed.has(d.id)) g.push(crossMark(0, 0));
-    if (d.antiparallelDiode && failed.has(`${d.id}.diode`)) g.push(crossMark(0, -side * 17));
+    if (d.antiparallelDiode && failed.has(`${d.id}.diode`)) g.push(crossMark(0, side * 17));
     g.push('</g>');
     body.push(g.join(''));
     const tag = [d.id, failed.has(d.id) ? 'OPEN' : '', failed.has(`${d.id}.diode`) ? 'diode OPEN' : ''].filter(Boolean).join(' · ');
-    body.push(`<text class="device-label${tag.includes('OPEN') ? ' failed' : ''}" x="${n(mx - uy * 24 * side)}" y="${n(my + ux * 24 * side + 4)}" text-anchor="middle" font-size="${STYLE.smallFont}" fill="${tag.includes('OPEN') ? STYLE.vermillion : STYLE.ink}"${tag.includes('OPEN') ? ' font-weight="bold"' : ''}>${esc(tag)}</text>`);
+    body.push(`<text class="device-label${tag.includes('OPEN') ? ' failed' : ''}" x="${n(mx - uy * (d.antiparallelDiode ? 36 : 22) * side)}" y="${n(my + ux * (d.antiparallelDiode ? 36 : 22) * side + 4)}" text-anchor="middle" font-size="${STYLE.smallFont}" fill="${tag.includes('OPEN') ? STYLE.vermillion : STYLE.ink}"${tag.includes('OPEN') ? ' font-weight="bold"' : ''}>${esc(tag)}</text>`);
   }
   const [ox, oy] = P(leg.output);
   body.push(`<g class="output"><circle cx="${n(ox)}" cy="${n(oy)}" r="5" fill="${STYLE.ink}"/><line x1="${n(ox)}" y1="${n(oy)}" x2="${n(ox + 40)}" y2="${n(oy)}" stroke="${STYLE.ink}" stroke-width="1.3"/><text x="${n(ox + 44)}" y="${n(oy + 4)}" font-weight="bold">${esc(leg.output)}</text></g>`);
@@ -102,7 +102,7 @@ export function legSchematicSvg(leg: LegNetlist, options: LegSchematicOptions = 
   }
   const caption = captionText(options);
   body.push(`<text class="caption${options.level === null ? ' interrupted' : ''}" x="12" y="${H - 40}" fill="${options.level === null ? STYLE.vermillion : STYLE.ink}"${options.level === null ? ' font-weight="bold"' : ''}>${esc(caption)}</text>`);
-  body.push(`<text x="12" y="${H - 22}" font-size="${STYLE.smallFont}" fill="${STYLE.ink}">Arrow: forward direction. Filled box: switch gated on. Thick green: conducting path. × and OPEN: failed element.</text>`);
+  body.push(`<text x="12" y="${H - 22}" font-size="${STYLE.smallFont}" fill="${STYLE.ink}">Arrow: forward direction. Filled box: switch gated on. Dot: MOSFET (conducts both ways when on). Thick green: conducting path. × and OPEN: failed element.</text>`);
   return svgFrame({
     width: W,
     height: H,
