@@ -36,11 +36,11 @@ export function legSchematicSvg(leg: LegNetlist, options: LegSchematicOptions = 
   const pots = Object.values(leg.dcNodes);
   const span = Math.max(...pots) - Math.min(...pots) || 1;
   const W = 600;
-  const H = Math.max(360, 120 * Object.keys(leg.dcNodes).length + 80);
+  const H = Math.max(374, 120 * Object.keys(leg.dcNodes).length + 94);
   const L = 80;
   const R = W - 90;
   const T = 56;
-  const B = H - 104;
+  const B = H - 118;
   const P = (node: string): [number, number] => {
     const [x, y] = layout.get(node) ?? [0.5, 0];
     return [L + x * (R - L), T + ((Math.max(...pots) - y) / span) * (B - T)];
@@ -101,8 +101,9 @@ export function legSchematicSvg(leg: LegNetlist, options: LegSchematicOptions = 
     body.push(`<circle class="node" cx="${n(x)}" cy="${n(y)}" r="3" fill="${STYLE.ink}"/><text x="${n(x + 5)}" y="${n(y - 6)}" font-size="${STYLE.smallFont}" fill="#666666">${esc(node)}</text>`);
   }
   const caption = captionText(options);
-  body.push(`<text class="caption${options.level === null ? ' interrupted' : ''}" x="12" y="${H - 40}" fill="${options.level === null ? STYLE.vermillion : STYLE.ink}"${options.level === null ? ' font-weight="bold"' : ''}>${esc(caption)}</text>`);
-  body.push(`<text x="12" y="${H - 22}" font-size="${STYLE.smallFont}" fill="${STYLE.ink}">Arrow: forward direction. Filled box: switch gated on. Dot: MOSFET (conducts both ways when on). Thick green: conducting path. × and OPEN: failed element.</text>`);
+  body.push(`<text class="caption${options.level === null ? ' interrupted' : ''}" x="12" y="${H - 54}" fill="${options.level === null ? STYLE.vermillion : STYLE.ink}"${options.level === null ? ' font-weight="bold"' : ''}>${esc(caption)}</text>`);
+  body.push(`<text x="12" y="${H - 34}" font-size="${STYLE.smallFont}" fill="${STYLE.ink}">Arrow: forward direction. Filled box: switch gated on. Dot: MOSFET (conducts both ways when on).</text>`);
+  body.push(`<text x="12" y="${H - 20}" font-size="${STYLE.smallFont}" fill="${STYLE.ink}">Thick green: conducting path. × and OPEN: failed element.</text>`);
   return svgFrame({
     width: W,
     height: H,
