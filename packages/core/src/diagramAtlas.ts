@@ -34,8 +34,10 @@ export function diagramAtlas(options: AnalyseLegOptions): DiagramAtlas {
   const healthyVectors = survivingVectors([h['?'], h['?'], h['?']]);
   const levelCount = new Set([...h['+'], ...h['-']]).size;
   const shells = vectorShells(healthyVectors, levelCount);
+  // one cache for both maps: the healthy diagram is also what unfaulted level sets give
+  const cache = new Map<string, PolarityDiagram>();
   const build = (levels: Readonly<Record<Phase, LevelSets>>) =>
-    new Map(POLARITY_STRINGS.map((p) => [p, polarityDiagram(levels, p, healthyVectors, shells)] as const));
+    new Map(POLARITY_STRINGS.map((p) => [p, polarityDiagram(levels, p, healthyVectors, shells, cache)] as const));
   const p = analysis.phases;
   return {
     analysis,

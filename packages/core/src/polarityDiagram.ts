@@ -44,6 +44,9 @@ export interface PolarityDiagram {
  * @param polarity - polarity string, e.g. `+-?`
  * @param healthy - vectors of the healthy diagram, for lost-vector reporting
  * @param shells - healthy shells for classification
+ * @param cache - diagrams already built, keyed by phase level sets: polarity strings that select the
+ *   same three level sets share one diagram (a fault in one phase leaves most strings alike), so
+ *   pass one map per set of `healthy`/`shells` to build each distinct diagram once
  * @returns the diagram
  * @example
  * ```ts
@@ -55,9 +58,13 @@ export function polarityDiagram(
   polarity: PolarityString,
   healthy: readonly SpaceVector[],
   shells: readonly VectorShell[],
+  cache?: Map<string, PolarityDiagram>,
 ): PolarityDiagram {
   const [pa, pb, pc] = parsePolarity(polarity);
   const phaseLevels = [phases.a[pa], phases.b[pb], phases.c[pc]] as const;
+  const key = JSON.stringify(phaseLevels);
+  const known = cache?.get(key);
+  if (known) return { ...known, polarity };
   const raw = survivingVectors(phaseLevels);
   const vectors = raw.map((v) => ({ ...v, class: classifyVector(shells, v) }));
   const points: Point[] = vectors.map((v) => [v.alpha, v.beta]);
@@ -69,7 +76,7 @@ export function polarityDiagram(
   const lost = healthy.filter((h) => indexOfVector(vectors, [h.alpha, h.beta]) < 0).map((v) => ({ ...v, class: classifyVector(shells, v) }));
   const have = new Set(vectors.flatMap((v) => v.levels.map(tripletKey)));
   const lostTriplets = healthy.reduce((n, h) => n + h.levels.filter((t) => !have.has(tripletKey(t))).length, 0);
-  return {
+  const diagram: PolarityDiagram = {
     polarity,
     phaseLevels,
     vectors,
@@ -82,6 +89,8 @@ export function polarityDiagram(
     lostTriplets,
     geometry,
   };
+  cache?.set(key, diagram);
+  return diagram;
 }
 
 function tripletKey(t: LevelTriplet): string {
