@@ -1,5 +1,5 @@
 import type { LegAnalysis } from './analyseLeg.js';
-import { PHASES, type Phase } from './faults.js';
+import { formatFault, PHASES, type Phase } from './faults.js';
 import type { LegTable } from './legTable.js';
 
 /** One pattern in the `leg` JSON document. */
@@ -43,5 +43,5 @@ export function legDocument(analysis: LegAnalysis): LegDocument {
     }
     phases[ph] = { patterns, levels: table.levels, paths };
   }
-  return { topology: analysis.topology, faults: analysis.faults.map((f) => `${f.phase}.${f.element}:${f.mode}`), phases };
+  return { topology: analysis.topology, faults: analysis.faults.map(formatFault), phases };
 }

@@ -1,4 +1,4 @@
-export { esc, n, STYLE, svgFrame, type SvgFrameOptions } from './svgStyle.js';
+export { esc, levelLetter, n, STYLE, svgFrame, type SvgFrameOptions } from './svgStyle.js';
 export { vectorDiagramSvg, type VectorDiagramOptions } from './vectorDiagramSvg.js';
 export { sectorOverviewSvg } from './sectorOverviewSvg.js';
 export { deratingCurveSvg, type DeratingCurveSvgOptions, type DeratingSeries } from './deratingCurveSvg.js';

@@ -38,6 +38,21 @@ export function n(x: number, digits = 2): string {
 }
 
 /**
+ * A phase level as drawn: P, O, N for +1, 0, −1 (units of Vdc/2), else the number.
+ *
+ * @param level - potential in units of Vdc/2
+ * @param digits - decimals for levels other than ±1 and 0
+ * @returns the label
+ * @example
+ * ```ts
+ * levelLetter(-1); // 'N'
+ * ```
+ */
+export function levelLetter(level: number, digits = 1): string {
+  return level === 1 ? 'P' : level === 0 ? 'O' : level === -1 ? 'N' : n(level, digits);
+}
+
+/**
  * Escapes text for SVG/XML content and attribute values.
  *
  * @param s - raw text

@@ -1,5 +1,5 @@
 import type { PlanPolarity, PlanVector, RemedialPlan } from '@hexsalvage/core';
-import { esc, n, STYLE, svgFrame } from './svgStyle.js';
+import { esc, levelLetter, n, STYLE, svgFrame } from './svgStyle.js';
 
 /** Options of {@link vectorDiagramSvg}. */
 export interface VectorDiagramOptions {
@@ -84,8 +84,7 @@ export function vectorDiagramSvg(plan: RemedialPlan, polarity: string, options: 
 function levelLabel(v: PlanVector): string {
   const t = v.levels[0];
   if (!t) return '';
-  const s = (l: number) => (l === 1 ? 'P' : l === 0 ? 'O' : l === -1 ? 'N' : n(l, 1));
-  return t.map(s).join('') + (v.levels.length > 1 ? `+${v.levels.length - 1}` : '');
+  return t.map((l) => levelLetter(l)).join('') + (v.levels.length > 1 ? `+${v.levels.length - 1}` : '');
 }
 
 function bindingEdge(d: PlanPolarity): [readonly [number, number], readonly [number, number]] | null {

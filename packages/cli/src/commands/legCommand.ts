@@ -1,4 +1,4 @@
-import { analyseLeg, CAUTIONS, exploreLeg, legDocument, PHASES, type LegTable, type PatternResult, type PhasePolarity } from '@hexsalvage/core';
+import { analyseLeg, CAUTIONS, exploreLeg, formatFault, legDocument, PHASES, type LegTable, type PatternResult, type PhasePolarity } from '@hexsalvage/core';
 import { HELP_OPTION, JSON_OPTION, LEG_OPTIONS, type Command } from '../command.js';
 import { cautionBlock, levelText, textTable } from '../format.js';
 import { legInputs } from '../legInputs.js';
@@ -20,7 +20,7 @@ export const legCommand: Command = {
       await io.stdout(`${JSON.stringify({ ...doc, ...extra })}\n`);
       return 0;
     }
-    const lines: string[] = [`Leg: ${analysis.topology}   faults: ${analysis.faults.length === 0 ? 'none' : analysis.faults.map((f) => `${f.phase}.${f.element}:${f.mode}`).join(', ')}`];
+    const lines: string[] = [`Leg: ${analysis.topology}   faults: ${analysis.faults.length === 0 ? 'none' : analysis.faults.map(formatFault).join(', ')}`];
     const healthyPhases = PHASES.filter((p) => analysis.phases[p] === analysis.healthy);
     for (const ph of PHASES) {
       if (analysis.phases[ph] === analysis.healthy && ph !== healthyPhases[0]) continue;

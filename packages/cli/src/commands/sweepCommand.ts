@@ -1,4 +1,4 @@
-import { CAUTIONS, diagramAtlas, deratingCurve } from '@hexsalvage/core';
+import { CAUTIONS, diagramAtlas, deratingCurve, formatFault } from '@hexsalvage/core';
 import { usage } from '../args.js';
 import { HELP_OPTION, JSON_OPTION, LEG_OPTIONS, type Command } from '../command.js';
 import { cautionBlock, fmt, textTable } from '../format.js';
@@ -32,7 +32,7 @@ export const sweepCommand: Command = {
     const atlas = diagramAtlas({ topology, faults });
     const points = deratingCurve(atlas, { fromDeg, toDeg, stepDeg, polarityMarginDeg });
     if (args.flags.has('json')) {
-      await io.stdout(`${JSON.stringify({ topology: atlas.analysis.topology, faults: atlas.analysis.faults.map((f) => `${f.phase}.${f.element}:${f.mode}`), polarityMarginDeg, points })}\n`);
+      await io.stdout(`${JSON.stringify({ topology: atlas.analysis.topology, faults: atlas.analysis.faults.map(formatFault), polarityMarginDeg, points })}\n`);
       return 0;
     }
     if (args.flags.has('csv')) {
