@@ -1,10 +1,12 @@
+import { unratedDevices } from './expandElements.js';
 import { faultsByPhase, PHASES, type Fault, type Phase } from './faults.js';
 import { legTable, type LegTable } from './legTable.js';
 import type { LegNetlist } from './netlist.js';
 import { resolveTopology } from './resolveTopology.js';
+import { resolveRules, type LimitRuleOptions, type LimitRules } from './rules.js';
 
-/** Options of {@link analyseLeg}. */
-export interface AnalyseLegOptions {
+/** Options of {@link analyseLeg}: the leg, its faults and the rules (`ignoreRatings`, `levelSteps`). */
+export interface AnalyseLegOptions extends LimitRuleOptions {
   /** A built-in topology id or a netlist object in the file format. */
   readonly topology: unknown;
   /** Fault strings `PHASE.DEVICE[:MODE]`; default none. */
@@ -20,6 +22,10 @@ export interface LegAnalysis {
   readonly phases: Readonly<Record<Phase, LegTable>>;
   /** The same leg without faults, for "lost level" comparisons. */
   readonly healthy: LegTable;
+  /** Rules applied (ratings, level steps). */
+  readonly rules: LimitRules;
+  /** Devices without a voltage rating (not checked). */
+  readonly unrated: readonly string[];
 }
 
 /**
@@ -34,12 +40,13 @@ export interface LegAnalysis {
  * ```
  */
 export function analyseLeg(options: AnalyseLegOptions): LegAnalysis {
+  const rules = resolveRules(options);
   const leg = resolveTopology(options.topology);
   const texts = options.faults ?? [];
   const byPhase = faultsByPhase(texts, leg, 'faults');
-  const healthy = legTable(leg, new Map());
+  const healthy = legTable(leg, new Map(), rules.ratings);
   const phases = {} as Record<Phase, LegTable>;
-  for (const p of PHASES) phases[p] = byPhase[p].size === 0 ? healthy : legTable(leg, byPhase[p]);
+  for (const p of PHASES) phases[p] = byPhase[p].size === 0 ? healthy : legTable(leg, byPhase[p], rules.ratings);
   const faults: Fault[] = PHASES.flatMap((p) => [...byPhase[p]].map(([element, mode]) => ({ phase: p, element, mode })));
-  return { topology: typeof options.topology === 'string' ? options.topology : leg.name, leg, faults, phases, healthy };
+  return { topology: typeof options.topology === 'string' ? options.topology : leg.name, leg, faults, phases, healthy, rules, unrated: unratedDevices(leg) };
 }

@@ -8,7 +8,12 @@ export type BuiltinTopology = (typeof BUILTIN_TOPOLOGIES)[number];
 
 const THREE_LEVEL = { P: 1, O: 0, N: -1 } as const;
 
-function igbt(id: string, from: string, to: string, extra: Partial<DeviceSpec> = {}): DeviceSpec {
+// Ratings (common practice, fixed by the contract): clamped legs rate every device for half the
+// link; a two-level leg and the outer switches of a T-type leg block the whole link.
+const HALF = { rating: 1 } as const;
+const FULL = { rating: 2 } as const;
+
+function igbt(id: string, from: string, to: string, extra: Partial<DeviceSpec> = HALF): DeviceSpec {
   return { id, kind: 'igbt', from, to, antiparallelDiode: true, ...extra };
 }
 
@@ -23,7 +28,7 @@ const LEGS: Record<BuiltinTopology, LegNetlist> = {
     name: 'two-level',
     dcNodes: { P: 1, N: -1 },
     output: 'out',
-    devices: [igbt('upper', 'P', 'out'), igbt('lower', 'out', 'N')],
+    devices: [igbt('upper', 'P', 'out', FULL), igbt('lower', 'out', 'N', FULL)],
     patterns: { P: ['upper'], N: ['lower'] },
   },
   npc: {
@@ -32,8 +37,8 @@ const LEGS: Record<BuiltinTopology, LegNetlist> = {
     output: 'out',
     devices: [
       ...clampedChain(igbt),
-      { id: 'clampUpper', kind: 'diode', from: 'O', to: 'X' },
-      { id: 'clampLower', kind: 'diode', from: 'Y', to: 'O' },
+      { id: 'clampUpper', kind: 'diode', from: 'O', to: 'X', ...HALF },
+      { id: 'clampLower', kind: 'diode', from: 'Y', to: 'O', ...HALF },
     ],
     patterns: {
       P: ['outerUpper', 'innerUpper'],
@@ -59,9 +64,9 @@ const LEGS: Record<BuiltinTopology, LegNetlist> = {
     dcNodes: THREE_LEVEL,
     output: 'out',
     devices: (() => {
-      const line = { switching: 'line', technology: 'Si IGBT' } as const;
+      const line = { switching: 'line', technology: 'Si IGBT', ...HALF } as const;
       const sic = (id: string, from: string, to: string): DeviceSpec => ({
-        id, kind: 'mosfet', from, to, antiparallelDiode: true, switching: 'pwm', technology: 'SiC MOSFET',
+        id, kind: 'mosfet', from, to, antiparallelDiode: true, switching: 'pwm', technology: 'SiC MOSFET', ...HALF,
       });
       return [
         ...clampedChain(sic, (id, from, to) => igbt(id, from, to, line)),
@@ -80,7 +85,7 @@ const LEGS: Record<BuiltinTopology, LegNetlist> = {
     name: 'tnpc',
     dcNodes: THREE_LEVEL,
     output: 'out',
-    devices: [igbt('upper', 'P', 'out'), igbt('lower', 'out', 'N'), igbt('neutralToOut', 'O', 'M'), igbt('outToNeutral', 'out', 'M')],
+    devices: [igbt('upper', 'P', 'out', FULL), igbt('lower', 'out', 'N', FULL), igbt('neutralToOut', 'O', 'M'), igbt('outToNeutral', 'out', 'M')],
     patterns: {
       P: ['upper', 'neutralToOut'],
       O: ['neutralToOut', 'outToNeutral'],

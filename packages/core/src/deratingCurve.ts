@@ -1,5 +1,5 @@
 import type { DiagramAtlas } from './diagramAtlas.js';
-import { modulationLimit } from './modulationLimit.js';
+import { extentGeometry, modulationLimit, type ExtentKind } from './modulationLimit.js';
 import type { PolarityDiagram } from './polarityDiagram.js';
 import { polaritySectors, type PolaritySector } from './polaritySectors.js';
 import { minRadialExtent } from './radialExtent.js';
@@ -16,6 +16,8 @@ export interface DeratingCurveOptions {
   readonly stepDeg?: number;
   /** Polarity margin δ, degrees. Default 0. */
   readonly polarityMarginDeg?: number;
+  /** `tiling` (default): the safe limit mMax; `hull`: the first version's convex-hull limit. */
+  readonly extent?: ExtentKind;
 }
 
 /** One point of the derating curve. */
@@ -52,6 +54,7 @@ export function deratingCurve(atlas: DiagramAtlas, options: DeratingCurveOptions
   const toDeg = options.toDeg ?? 90;
   const stepDeg = options.stepDeg ?? 1;
   const margin = options.polarityMarginDeg ?? 0;
+  const kind = options.extent ?? 'tiling';
   const grid: number[] = [];
   const n = Math.floor((toDeg - fromDeg) / stepDeg + 1e-9);
   for (let k = 0; k <= n; k++) grid.push(fromDeg + k * stepDeg);
@@ -59,16 +62,16 @@ export function deratingCurve(atlas: DiagramAtlas, options: DeratingCurveOptions
 
   // the sectors relative to φ (the φ = 0 partition): computed once, shared by every search below
   const rel = polaritySectors(0, margin);
-  const structural = structuralBreakpoints(atlas.faulted, fromDeg, toDeg, rel);
+  const structural = structuralBreakpoints(atlas.faulted, fromDeg, toDeg, rel, kind);
   const cuts = [...new Set([fromDeg, ...structural, toDeg])].sort((x, y) => x - y);
   const crossings: number[] = [];
   for (let i = 0; i + 1 < cuts.length; i++) {
-    const x = minimiserChange(atlas.faulted, cuts[i] as number, cuts[i + 1] as number, rel);
+    const x = minimiserChange(atlas.faulted, cuts[i] as number, cuts[i + 1] as number, rel, kind);
     if (x !== null) crossings.push(x);
   }
   // keep the candidates where the curve really bends: one-sided slopes differ
   const h = 1e-4;
-  const at = (phi: number) => modulationLimit(atlas.faulted, phi, margin).mMax;
+  const at = (phi: number) => modulationLimit(atlas.faulted, phi, margin, kind).mMax;
   const kink = (phi: number) => {
     const m0 = at(phi);
     return Math.abs((at(phi + h) - m0) / h - (m0 - at(phi - h)) / h) > 1e-6;
@@ -76,8 +79,8 @@ export function deratingCurve(atlas: DiagramAtlas, options: DeratingCurveOptions
   const breaks = new Set([...structural, ...crossings].filter(kink));
   const all = [...new Set([...grid, ...breaks])].sort((x, y) => x - y);
   return all.map((phi) => {
-    const f = modulationLimit(atlas.faulted, phi, margin);
-    const h = modulationLimit(atlas.healthy, phi, margin);
+    const f = modulationLimit(atlas.faulted, phi, margin, kind);
+    const h = modulationLimit(atlas.healthy, phi, margin, kind);
     return {
       loadAngleDeg: phi,
       mMax: f.mMax,
@@ -89,15 +92,19 @@ export function deratingCurve(atlas: DiagramAtlas, options: DeratingCurveOptions
   });
 }
 
-// Load angles where a sector end crosses a vertex or facet-normal direction of its hull.
-function structuralBreakpoints(diagrams: ReadonlyMap<string, PolarityDiagram>, fromDeg: number, toDeg: number, rel: readonly PolaritySector[]): number[] {
+// Load angles where a sector end crosses a corner or facet-normal direction of its extent.
+function structuralBreakpoints(diagrams: ReadonlyMap<string, PolarityDiagram>, fromDeg: number, toDeg: number, rel: readonly PolaritySector[], kind: ExtentKind): number[] {
   const out = new Set<number>();
   for (const s of rel) {
     const d = diagrams.get(s.polarity) as PolarityDiagram;
-    if (!d.geometry.containsOrigin) continue;
+    const g = extentGeometry(d, kind);
+    if (!g.containsOrigin) continue;
+    const outlined = g.edges.some((e) => e.span);
     const dirs = [
-      ...d.geometry.edges.map((e) => e.normalAngle / RAD),
-      ...d.hull.map((i) => Math.atan2((d.vectors[i] as PolarityDiagram['vectors'][number]).beta, (d.vectors[i] as PolarityDiagram['vectors'][number]).alpha) / RAD),
+      ...g.edges.map((e) => e.normalAngle / RAD),
+      ...(outlined
+        ? g.edges.flatMap((e) => (e.span ? [e.span[0] / RAD, e.span[1] / RAD] : []))
+        : d.hull.map((i) => Math.atan2((d.vectors[i] as PolarityDiagram['vectors'][number]).beta, (d.vectors[i] as PolarityDiagram['vectors'][number]).alpha) / RAD)),
     ];
     for (const psi of dirs) for (const end of [s.fromDeg, s.toDeg]) {
       for (let k = -2; k <= 2; k++) {
@@ -111,11 +118,11 @@ function structuralBreakpoints(diagrams: ReadonlyMap<string, PolarityDiagram>, f
 
 // Within [lo, hi] each sector minimum is smooth; if the minimising sector differs at the two ends,
 // bisect the difference of the two sector minima to find where they cross.
-function minimiserChange(diagrams: ReadonlyMap<string, PolarityDiagram>, lo: number, hi: number, rel: readonly PolaritySector[]): number | null {
-  const a = sectorMinimum(diagrams, lo, rel);
-  const b = sectorMinimum(diagrams, hi, rel);
+function minimiserChange(diagrams: ReadonlyMap<string, PolarityDiagram>, lo: number, hi: number, rel: readonly PolaritySector[], kind: ExtentKind): number | null {
+  const a = sectorMinimum(diagrams, lo, rel, kind);
+  const b = sectorMinimum(diagrams, hi, rel, kind);
   if (a.key === b.key || hi - lo < 1e-9) return null;
-  const diff = (phi: number) => sectorValue(diagrams, phi, rel[a.key] as PolaritySector) - sectorValue(diagrams, phi, rel[b.key] as PolaritySector);
+  const diff = (phi: number) => sectorValue(diagrams, phi, rel[a.key] as PolaritySector, kind) - sectorValue(diagrams, phi, rel[b.key] as PolaritySector, kind);
   let [x0, x1] = [lo, hi];
   const s0 = Math.sign(diff(x0));
   if (s0 === 0 || Math.sign(diff(x1)) === s0) return null;
@@ -129,18 +136,18 @@ function minimiserChange(diagrams: ReadonlyMap<string, PolarityDiagram>, lo: num
 
 // Sectors keep their identity across φ by their position relative to φ (the index in the φ = 0
 // partition), which is what makes "the minimising sector" meaningful as φ moves.
-function sectorMinimum(diagrams: ReadonlyMap<string, PolarityDiagram>, phi: number, rel: readonly PolaritySector[]): { key: number; value: number } {
+function sectorMinimum(diagrams: ReadonlyMap<string, PolarityDiagram>, phi: number, rel: readonly PolaritySector[], kind: ExtentKind): { key: number; value: number } {
   let best = { key: -1, value: Infinity };
   rel.forEach((s, k) => {
-    const v = sectorValue(diagrams, phi, s);
+    const v = sectorValue(diagrams, phi, s, kind);
     if (v < best.value) best = { key: k, value: v };
   });
   return best;
 }
 
-function sectorValue(diagrams: ReadonlyMap<string, PolarityDiagram>, phi: number, s: PolaritySector): number {
-  const d = diagrams.get(s.polarity) as PolarityDiagram;
-  return minRadialExtent(d.geometry, (phi + s.fromDeg) * RAD, (phi + s.toDeg) * RAD).value;
+function sectorValue(diagrams: ReadonlyMap<string, PolarityDiagram>, phi: number, s: PolaritySector, kind: ExtentKind): number {
+  const g = extentGeometry(diagrams.get(s.polarity) as PolarityDiagram, kind);
+  return minRadialExtent(g, (phi + s.fromDeg) * RAD, (phi + s.toDeg) * RAD).value;
 }
 
 function roundDeg(x: number): number {

@@ -1,9 +1,11 @@
 import { analyseLeg, type AnalyseLegOptions, type LegAnalysis } from './analyseLeg.js';
 import { vectorShells, type VectorShell } from './classifyVectors.js';
+import type { LevelMove } from './commutation.js';
 import type { Phase } from './faults.js';
-import type { LevelSets } from './legTable.js';
+import type { LegTable, PhasePolarity } from './legTable.js';
 import { POLARITY_STRINGS, type PolarityString } from './polarity.js';
-import { polarityDiagram, type PolarityDiagram } from './polarityDiagram.js';
+import { polarityDiagram, type PhaseOffer, type PolarityDiagram } from './polarityDiagram.js';
+import type { LimitRules } from './rules.js';
 import { survivingVectors, type SpaceVector } from './survivingVectors.js';
 
 /** The diagrams of all 25 polarity strings for a faulted leg and for the same leg healthy. */
@@ -36,14 +38,38 @@ export function diagramAtlas(options: AnalyseLegOptions): DiagramAtlas {
   const shells = vectorShells(healthyVectors, levelCount);
   // one cache for both maps: the healthy diagram is also what unfaulted level sets give
   const cache = new Map<string, PolarityDiagram>();
-  const build = (levels: Readonly<Record<Phase, LevelSets>>) =>
-    new Map(POLARITY_STRINGS.map((p) => [p, polarityDiagram(levels, p, healthyVectors, shells, cache)] as const));
+  const rules = analysis.rules;
+  const dc = [...new Set(Object.values(analysis.leg.dcNodes))].sort((x, y) => x - y);
+  const offer = (t: LegTable): PhaseOffer => ({ levels: t.levels, moves: phaseMoves(t, rules, dc) });
+  const build = (offers: Readonly<Record<Phase, PhaseOffer>>) =>
+    new Map(POLARITY_STRINGS.map((p) => [p, polarityDiagram(offers, p, healthyVectors, shells, rules, cache)] as const));
   const p = analysis.phases;
+  const healthyOffer = offer(analysis.healthy);
   return {
     analysis,
     shells,
     healthyVectors,
-    faulted: build({ a: p.a.levels, b: p.b.levels, c: p.c.levels }),
-    healthy: build({ a: h, b: h, c: h }),
+    faulted: build({ a: offer(p.a), b: offer(p.b), c: offer(p.c) }),
+    healthy: build({ a: healthyOffer, b: healthyOffer, c: healthyOffer }),
   };
+}
+
+/**
+ * The level moves a phase may make under the rules: the commutable moves of its table, restricted
+ * to neighbouring DC potentials under `adjacent` (none are used under `any`).
+ *
+ * @param table - the phase's leg table
+ * @param rules - the rules
+ * @param levels - the leg's DC potentials, ascending
+ * @returns moves per polarity character
+ * @example
+ * ```ts
+ * phaseMoves(table, { ratings: true, levelSteps: 'adjacent' }, [-1, 0, 1])['+'];
+ * ```
+ */
+export function phaseMoves(table: LegTable, rules: LimitRules, levels: readonly number[]): Readonly<Record<PhasePolarity, readonly LevelMove[]>> {
+  const all = table.commutations.moves;
+  if (rules.levelSteps !== 'adjacent') return all;
+  const near = (m: LevelMove) => Math.abs(levels.indexOf(m[0]) - levels.indexOf(m[1])) === 1;
+  return { '+': all['+'].filter(near), '-': all['-'].filter(near), '?': all['?'].filter(near) };
 }

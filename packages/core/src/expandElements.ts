@@ -14,9 +14,10 @@ import type { LegElement, LegNetlist } from './netlist.js';
 export function expandElements(leg: LegNetlist): LegElement[] {
   const out: LegElement[] = [];
   for (const d of leg.devices) {
-    out.push({ id: d.id, kind: d.kind, from: d.from, to: d.to, device: d.id, gated: d.kind !== 'diode' });
+    const rating = d.rating === undefined ? {} : { rating: d.rating };
+    out.push({ id: d.id, kind: d.kind, from: d.from, to: d.to, device: d.id, gated: d.kind !== 'diode', ...rating });
     if (d.antiparallelDiode && d.kind !== 'diode') {
-      out.push({ id: `${d.id}.diode`, kind: 'diode', from: d.to, to: d.from, device: d.id, gated: false });
+      out.push({ id: `${d.id}.diode`, kind: 'diode', from: d.to, to: d.from, device: d.id, gated: false, ...rating });
     }
   }
   return out;
@@ -34,4 +35,18 @@ export function expandElements(leg: LegNetlist): LegElement[] {
  */
 export function gatedDeviceIds(leg: LegNetlist): string[] {
   return leg.devices.filter((d) => d.kind !== 'diode').map((d) => d.id);
+}
+
+/**
+ * Ids of the devices without a voltage rating (their blocking voltage is not checked).
+ *
+ * @param leg - a leg netlist
+ * @returns device ids in netlist order
+ * @example
+ * ```ts
+ * unratedDevices(builtinLeg('npc')); // [] (every built-in device is rated)
+ * ```
+ */
+export function unratedDevices(leg: LegNetlist): string[] {
+  return leg.devices.filter((d) => d.rating === undefined).map((d) => d.id);
 }

@@ -1,6 +1,7 @@
-import { conductionEdges, findShootThrough, outputForSign, type CurrentSign, type ShootThrough, type SignOutcome } from './conduction.js';
-import { expandElements } from './expandElements.js';
+import { phaseCommutations, type PhaseCommutations } from './commutation.js';
+import type { CurrentSign, ShootThrough, SignOutcome } from './conduction.js';
 import type { PhaseFaults } from './faults.js';
+import { gateSetSolver, type GateSetSolver } from './gateSetSolver.js';
 import type { LegNetlist } from './netlist.js';
 
 /** Polarity of one phase as used in level sets: a measured sign, or `?` (unknown: robust). */
@@ -12,8 +13,10 @@ export type PatternResult =
       readonly name: string;
       readonly gates: readonly string[];
       readonly status: 'allowed';
-      /** Outcome for each current sign; `level: null` means the current is interrupted. */
+      /** Outcome for each current sign; `level: null` means interrupted or not within ratings. */
       readonly bySign: Readonly<Record<CurrentSign, SignOutcome>>;
+      /** Per sign, why the pattern is not used although it gives a level (a device overstressed). */
+      readonly unsafe: Readonly<Partial<Record<CurrentSign, string>>>;
     }
   | {
       readonly name: string;
@@ -27,39 +30,47 @@ export type PatternResult =
 /** Levels a phase can produce, per polarity, each sorted ascending. */
 export type LevelSets = Readonly<Record<PhasePolarity, readonly number[]>>;
 
-/** The per-phase leg table: every pattern × sign, and the resulting level sets. */
+/** The per-phase leg table: every pattern × sign, the resulting level sets and level moves. */
 export interface LegTable {
   readonly patterns: readonly PatternResult[];
   readonly levels: LevelSets;
+  /** Level changes and commutating pattern pairs per polarity character. */
+  readonly commutations: PhaseCommutations;
+  /** Whether the static voltage check was applied. */
+  readonly ratings: boolean;
+  /** The phase's gate-set solver (memoised), for intermediate states and exploration. */
+  readonly solve: GateSetSolver;
 }
 
 /**
  * Solves every named gate pattern of a leg under the given faults.
  *
- * Level sets follow the contract: for `+`/`-` every level some allowed pattern gives for that sign;
- * for `?` every level one pattern gives for both signs (a robust pattern).
+ * Level sets follow the contract: for `+`/`-` every level some usable pattern gives for that sign;
+ * for `?` every level one pattern gives for both signs (a robust pattern). With `ratings` a pattern
+ * whose state would make a device block more than its rating is not usable for that sign
+ * (Version 2); its reason is kept in `unsafe`.
  *
  * @param leg - the leg netlist
  * @param faults - element id → fault mode for this phase (empty for a healthy phase)
- * @returns the table of pattern outcomes and the level sets
+ * @param ratings - apply the static voltage check (default true)
+ * @returns the table of pattern outcomes, the level sets and the level moves
  * @example
  * ```ts
  * legTable(builtinLeg('npc'), new Map([['outerUpper', 'open']])).levels['+']; // [-1, 0]
  * ```
  */
-export function legTable(leg: LegNetlist, faults: PhaseFaults): LegTable {
-  const elements = expandElements(leg);
-  const patterns = Object.entries(leg.patterns).map(([name, gates]) => solvePattern(leg, elements, name, gates, faults));
-  return { patterns, levels: levelSets(patterns) };
-}
-
-function solvePattern(leg: LegNetlist, elements: ReturnType<typeof expandElements>, name: string, gates: readonly string[], faults: PhaseFaults): PatternResult {
-  const edges = conductionEdges(elements, new Set(gates), faults);
-  const st = findShootThrough(leg, edges);
-  if (st) {
-    return { name, gates, status: 'forbidden', reason: `shoot-through ${st.from}→${st.to} via ${st.path.join(', ')}`, shootThrough: st };
-  }
-  return { name, gates, status: 'allowed', bySign: { '+': outputForSign(leg, edges, '+'), '-': outputForSign(leg, edges, '-') } };
+export function legTable(leg: LegNetlist, faults: PhaseFaults, ratings = true): LegTable {
+  const solve = gateSetSolver(leg, faults, ratings);
+  const patterns = Object.entries(leg.patterns).map(([name, gates]): PatternResult => {
+    const o = solve(gates);
+    if (o.status === 'forbidden') {
+      const st = o.shootThrough;
+      return { name, gates, status: 'forbidden', reason: `shoot-through ${st.from}→${st.to} via ${st.path.join(', ')}`, shootThrough: st };
+    }
+    return { name, gates, status: 'allowed', bySign: o.bySign, unsafe: o.unsafe };
+  });
+  const commutations = phaseCommutations(solve, Object.values(leg.patterns));
+  return { patterns, levels: levelSets(patterns), commutations, ratings, solve };
 }
 
 /**

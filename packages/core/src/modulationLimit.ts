@@ -5,6 +5,27 @@ import { minRadialExtent } from './radialExtent.js';
 
 const RAD = Math.PI / 180;
 
+/**
+ * Which extent a limit is taken over: `tiling` — the admissible tiling (the safe limit, `mMax`);
+ * `hull` — the convex hull of the surviving vectors (the first version's limit, `mMaxHull`).
+ */
+export type ExtentKind = 'tiling' | 'hull';
+
+/**
+ * The radial geometry of a diagram for an extent kind.
+ *
+ * @param d - a polarity diagram
+ * @param kind - `tiling` or `hull`
+ * @returns the geometry the limit is taken over
+ * @example
+ * ```ts
+ * extentGeometry(diagram, 'hull').containsOrigin;
+ * ```
+ */
+export function extentGeometry(d: PolarityDiagram, kind: ExtentKind): PolarityDiagram['geometry'] {
+  return kind === 'hull' ? d.hullGeometry : d.geometry;
+}
+
 /** The exact modulation limit and where it binds. */
 export interface ModulationLimit {
   /** min over θ of r(θ), units of Vdc/2. */
@@ -29,19 +50,20 @@ export interface ModulationLimit {
  * @param diagrams - diagram per polarity string
  * @param loadAngleDeg - load angle φ, degrees
  * @param marginDeg - polarity margin δ, degrees
+ * @param kind - extent the limit is taken over (default `tiling`: the safe limit)
  * @returns mMax with the limiting angle, polarity and binding edge
  * @example
  * ```ts
  * modulationLimit(atlas.faulted, 30, 0).mMax;
  * ```
  */
-export function modulationLimit(diagrams: ReadonlyMap<PolarityString, PolarityDiagram>, loadAngleDeg: number, marginDeg: number): ModulationLimit {
+export function modulationLimit(diagrams: ReadonlyMap<PolarityString, PolarityDiagram>, loadAngleDeg: number, marginDeg: number, kind: ExtentKind = 'tiling'): ModulationLimit {
   const sectors = polaritySectors(loadAngleDeg, marginDeg);
   let best: { value: number; theta: number; polarity: PolarityString; edge: readonly [number, number] | null } | null = null;
   const sectorMinima = sectors.map((s) => {
-    const d = diagrams.get(s.polarity) as PolarityDiagram;
-    const m = minRadialExtent(d.geometry, s.fromDeg * RAD, s.toDeg * RAD);
-    const e = m.edge === null ? null : d.geometry.edges[m.edge];
+    const g = extentGeometry(diagrams.get(s.polarity) as PolarityDiagram, kind);
+    const m = minRadialExtent(g, s.fromDeg * RAD, s.toDeg * RAD);
+    const e = m.edge === null ? null : g.edges[m.edge];
     if (best === null || m.value < best.value) best = { value: m.value, theta: m.theta, polarity: s.polarity, edge: e ? [e.from, e.to] : null };
     return { value: m.value, thetaDeg: mod360(m.theta / RAD) };
   });
@@ -72,26 +94,27 @@ export interface LimitOverRange {
  * @param fromDeg - lowest load angle
  * @param toDeg - highest load angle (≥ fromDeg)
  * @param marginDeg - polarity margin δ
+ * @param kind - extent the limit is taken over (default `tiling`)
  * @returns the worst limit, a load angle where it occurs, and where it binds
  * @example
  * ```ts
  * limitOverLoadAngles(atlas.faulted, -30, 30, 5).mMax;
  * ```
  */
-export function limitOverLoadAngles(diagrams: ReadonlyMap<PolarityString, PolarityDiagram>, fromDeg: number, toDeg: number, marginDeg: number): LimitOverRange {
+export function limitOverLoadAngles(diagrams: ReadonlyMap<PolarityString, PolarityDiagram>, fromDeg: number, toDeg: number, marginDeg: number, kind: ExtentKind = 'tiling'): LimitOverRange {
   let best: LimitOverRange | null = null;
   for (const s of polaritySectors(0, marginDeg)) {
-    const d = diagrams.get(s.polarity) as PolarityDiagram;
+    const g = extentGeometry(diagrams.get(s.polarity) as PolarityDiagram, kind);
     const lo = fromDeg + s.fromDeg;
     const hi = Math.min(toDeg + s.toDeg, lo + 360);
-    const m = minRadialExtent(d.geometry, lo * RAD, hi * RAD);
+    const m = minRadialExtent(g, lo * RAD, hi * RAD);
     if (best !== null && !(m.value < best.mMax)) continue;
     const theta = m.theta / RAD;
     // Any φ in the range with θ − φ inside the sector; the lowest one keeps the answer stable.
     // When the widened interval was capped at a full turn, θ may need a shift by a turn first.
     const shifted = [theta, theta - 360, theta + 360].find((t) => t >= fromDeg + s.fromDeg - 1e-9 && t <= toDeg + s.toDeg + 1e-9) ?? theta;
     const phi = Math.min(toDeg, Math.max(fromDeg, shifted - s.toDeg));
-    const e = m.edge === null ? null : d.geometry.edges[m.edge];
+    const e = m.edge === null ? null : g.edges[m.edge];
     best = { mMax: m.value, loadAngleDeg: phi, limitingAngleDeg: mod360(theta), limitingPolarity: s.polarity, bindingEdge: e ? [e.from, e.to] : null };
   }
   return best as LimitOverRange;

@@ -20,6 +20,11 @@ export interface DeviceSpec {
   readonly switching?: SwitchingClass;
   /** Free technology label, e.g. `Si IGBT`, `SiC MOSFET`. */
   readonly technology?: string;
+  /**
+   * Voltage the device may block, units of Vdc/2 (> 0). It applies to the switch and to its
+   * antiparallel diode. Absent: the device is not checked and documents list it as unrated.
+   */
+  readonly rating?: number;
 }
 
 /**
@@ -49,4 +54,6 @@ export interface LegElement {
   readonly device: string;
   /** True for switch channels (they take a gate signal). */
   readonly gated: boolean;
+  /** Blocking rating of the device, units of Vdc/2; `undefined` when unrated. */
+  readonly rating?: number;
 }

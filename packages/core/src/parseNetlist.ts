@@ -4,7 +4,7 @@ import type { DeviceKind, DeviceSpec, LegNetlist, SwitchingClass } from './netli
 const KINDS: readonly DeviceKind[] = ['igbt', 'mosfet', 'diode'];
 const SWITCHING: readonly SwitchingClass[] = ['pwm', 'line'];
 const TOP_KEYS = ['name', 'description', 'dcNodes', 'output', 'devices', 'patterns'];
-const DEVICE_KEYS = ['id', 'kind', 'from', 'to', 'antiparallelDiode', 'switching', 'technology'];
+const DEVICE_KEYS = ['id', 'kind', 'from', 'to', 'antiparallelDiode', 'switching', 'technology', 'rating'];
 // Keys that would reach Object.prototype when a parsed file is spread or indexed.
 const POISON_KEYS = new Set(['__proto__', 'constructor', 'prototype']);
 // Device ids must survive the fault syntax PHASE.DEVICE[:MODE] and the CSV export; node names
@@ -94,7 +94,7 @@ export function parseNetlist(value: unknown, input: string): LegNetlist {
 function parseDevice(raw: unknown, at: string, err: (k: string, e: string, g?: unknown) => HexsalvageInputError): DeviceSpec {
   const d = asObject(raw, at, 'a device object', err);
   for (const k of Object.keys(d)) if (!DEVICE_KEYS.includes(k)) throw err(`${at}.${k}`, `one of the keys ${DEVICE_KEYS.join(', ')}`, k);
-  const { id, kind, from, to, antiparallelDiode, switching, technology } = d;
+  const { id, kind, from, to, antiparallelDiode, switching, technology, rating } = d;
   if (typeof id !== 'string') throw err(`${at}.id`, 'a device id (string)', id);
   if (!ID_RE.test(id)) throw err(`${at}.id`, 'an id of up to 64 characters without spaces, ".", ":", ",", ";" or quotes', id);
   if (typeof kind !== 'string' || !KINDS.includes(kind as DeviceKind)) throw err(`${at}.kind`, `one of ${KINDS.join(', ')}`, kind);
@@ -107,12 +107,16 @@ function parseDevice(raw: unknown, at: string, err: (k: string, e: string, g?: u
   if (antiparallelDiode === true && kind === 'diode') throw err(`${at}.antiparallelDiode`, 'false or absent on a diode', antiparallelDiode);
   if (switching !== undefined && !SWITCHING.includes(switching as SwitchingClass)) throw err(`${at}.switching`, `one of ${SWITCHING.join(', ')}`, switching);
   if (technology !== undefined && typeof technology !== 'string') throw err(`${at}.technology`, 'a text label', technology);
+  if (rating !== undefined && !(typeof rating === 'number' && Number.isFinite(rating) && rating > 0)) {
+    throw err(`${at}.rating`, 'a blocking voltage > 0 in units of Vdc/2 (or no key: unrated)', rating);
+  }
   const spec: DeviceSpec = { id, kind: kind as DeviceKind, from, to };
   return {
     ...spec,
     ...(antiparallelDiode ? { antiparallelDiode: true } : {}),
     ...(switching !== undefined ? { switching: switching as SwitchingClass } : {}),
     ...(technology !== undefined ? { technology: technology as string } : {}),
+    ...(rating !== undefined ? { rating: rating as number } : {}),
   };
 }
 

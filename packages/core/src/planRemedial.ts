@@ -5,15 +5,21 @@ import type { DwellMatrix } from './dwell.js';
 import { HexsalvageInputError } from './errors.js';
 import { formatFault, PHASES, type Phase } from './faults.js';
 import type { LevelSets } from './legTable.js';
+import { balancedLimit, midpointProfile } from './midpointBalance.js';
 import { modulationLimit } from './modulationLimit.js';
 import { POLARITY_STRINGS, type PolarityString } from './polarity.js';
 import type { ClassifiedVector, PolarityDiagram } from './polarityDiagram.js';
+import { explainRestrictions } from './restrictions.js';
+import type { LimitRuleOptions, LimitRules } from './rules.js';
 
 /** Version of the plan document layout; bumped on any incompatible change. */
-export const PLAN_SCHEMA_VERSION = 1;
+export const PLAN_SCHEMA_VERSION = 2;
 
-/** Options of {@link planRemedial}. */
-export interface PlanOptions {
+/**
+ * Options of {@link planRemedial}. The rules default to the safe limit: device ratings applied
+ * (`ignoreRatings: false`) and `levelSteps: 'commutable'`.
+ */
+export interface PlanOptions extends LimitRuleOptions {
   /** Built-in topology id or a netlist object in the file format. */
   readonly topology: unknown;
   /** Fault strings `PHASE.DEVICE[:MODE]`. Default: none (healthy). */
@@ -36,8 +42,17 @@ export interface PlanVector {
 export interface PlanPolarity {
   readonly vectors: readonly PlanVector[];
   readonly hull: readonly (readonly [number, number])[];
+  /** The admissible tiling (Delaunay under `levelSteps: any`). */
   readonly triangles: readonly (readonly [number, number, number])[];
+  /** First-version meaning: the largest origin-centred circle inside the hull. */
   readonly radius: number;
+  /** min over θ of the extent of the union of admissible triangles (Version 2). */
+  readonly reach: number;
+  /**
+   * Outline of the tiling as segments `[[α0, β0], [α1, β1]]` (the tiling on their left) when it does
+   * not fill the hull; `null` when it does. References outside are clamped to it along their ray.
+   */
+  readonly outline: readonly (readonly [readonly [number, number], readonly [number, number]])[] | null;
   /** Dwell-time matrix per triangle: `[d0 d1 d2]ᵀ = M·[alpha beta 1]ᵀ`. */
   readonly dwell: readonly DwellMatrix[];
   /** Healthy vectors not available under this polarity. */
@@ -64,13 +79,25 @@ export interface RemedialPlan {
   readonly faults: readonly string[];
   readonly loadAngleDeg: number;
   readonly polarityMarginDeg: number;
+  /** The safe limit: the extent of the admissible tiling, min over θ (Version 2). */
   readonly mMax: number;
   readonly mMaxHealthy: number;
   readonly deratingRatio: number;
+  /** The first version's convex-hull limit (level sets with the ratings rule applied). */
+  readonly mMaxHull: number;
+  /** Largest m ≤ mMax up to which the average midpoint current can be held at zero. */
+  readonly mMaxBalanced: number;
   readonly limitingAngleDeg: number;
   readonly limitingPolarity: PolarityString;
-  /** The hull edge that binds, as its two vectors; `null` when mMax is 0 because a hull is degenerate. */
+  /** The outline edge that binds, as its two vectors; `null` when mMax is 0 because the origin is not inside. */
   readonly bindingEdge: readonly [PlanVector, PlanVector] | null;
+  readonly rules: LimitRules;
+  /** Devices without a voltage rating (not checked). */
+  readonly unrated: readonly string[];
+  /** What the rules take away from the faulted phases, in words. */
+  readonly restrictions: readonly string[];
+  /** Remarks on how the limit was obtained (e.g. a tiling that could not reach the whole union). */
+  readonly notes: readonly string[];
   readonly levels: Readonly<Record<Phase, LevelSets>>;
   readonly sectors: readonly PlanSector[];
   readonly polarities: Readonly<Record<PolarityString, PlanPolarity>>;
@@ -93,7 +120,8 @@ export interface RemedialPlan {
 export function planRemedial(options: PlanOptions): RemedialPlan {
   const loadAngleDeg = checkAngle(options.loadAngleDeg ?? 0, 'loadAngleDeg', -180, 180, true);
   const polarityMarginDeg = checkAngle(options.polarityMarginDeg ?? 0, 'polarityMarginDeg', 0, 60, false);
-  return planFromAtlas(diagramAtlas({ topology: options.topology, faults: options.faults ?? [] }), loadAngleDeg, polarityMarginDeg);
+  const { topology, faults, ignoreRatings, levelSteps } = options;
+  return planFromAtlas(diagramAtlas({ topology, faults: faults ?? [], ignoreRatings, levelSteps }), loadAngleDeg, polarityMarginDeg);
 }
 
 /**
@@ -111,6 +139,15 @@ export function planRemedial(options: PlanOptions): RemedialPlan {
 export function planFromAtlas(atlas: DiagramAtlas, loadAngleDeg: number, polarityMarginDeg: number): RemedialPlan {
   const lim = modulationLimit(atlas.faulted, loadAngleDeg, polarityMarginDeg);
   const healthy = modulationLimit(atlas.healthy, loadAngleDeg, polarityMarginDeg);
+  const hull = modulationLimit(atlas.faulted, loadAngleDeg, polarityMarginDeg, 'hull');
+  const leg = atlas.analysis.leg;
+  const dc = new Set(Object.values(leg.dcNodes));
+  const hasMidpoint = dc.has(0) && dc.size >= 3;
+  // a healthy leg draws no average midpoint current from a symmetric set (contract): no search
+  const balanced = atlas.analysis.faults.length === 0 || !hasMidpoint || lim.mMax <= 0 ? lim.mMax : balancedLimit(midpointProfile(atlas.faulted, lim.mMax, loadAngleDeg, polarityMarginDeg));
+  const notes = [...new Set(lim.sectors.map((s) => s.polarity))]
+    .filter((p) => !(atlas.faulted.get(p) as PolarityDiagram).exactTiling)
+    .map((p) => `polarity ${p}: no non-overlapping set of admissible triangles reaches as far as their union in every direction; mMax uses the tiling (${(atlas.faulted.get(p) as PolarityDiagram).reach.toFixed(4)} is the union's reach)`);
   const polarities: Record<PolarityString, PlanPolarity> = {};
   for (const p of POLARITY_STRINGS) polarities[p] = polarityDocument(atlas.faulted.get(p) as PolarityDiagram);
   const limitDiagram = atlas.faulted.get(lim.limitingPolarity) as PolarityDiagram;
@@ -125,9 +162,15 @@ export function planFromAtlas(atlas: DiagramAtlas, loadAngleDeg: number, polarit
     mMax: lim.mMax,
     mMaxHealthy: healthy.mMax,
     deratingRatio: healthy.mMax > 0 ? lim.mMax / healthy.mMax : 0,
+    mMaxHull: hull.mMax,
+    mMaxBalanced: balanced,
     limitingAngleDeg: lim.limitingAngleDeg,
     limitingPolarity: lim.limitingPolarity,
     bindingEdge: lim.bindingEdge ? [vectorDocument(limitDiagram.vectors[lim.bindingEdge[0]] as ClassifiedVector), vectorDocument(limitDiagram.vectors[lim.bindingEdge[1]] as ClassifiedVector)] : null,
+    rules: atlas.analysis.rules,
+    unrated: atlas.analysis.unrated,
+    restrictions: explainRestrictions(atlas.analysis),
+    notes,
     levels,
     sectors: lim.sectors.map((s, i) => {
       const d = atlas.faulted.get(s.polarity) as PolarityDiagram;
@@ -155,6 +198,8 @@ export function polarityDocument(d: PolarityDiagram): PlanPolarity {
     hull: d.hull.map((i) => [(d.vectors[i] as ClassifiedVector).alpha, (d.vectors[i] as ClassifiedVector).beta] as const),
     triangles: d.triangles,
     radius: d.radius,
+    reach: d.reach,
+    outline: d.outline ? d.outline.map((e) => e.segment) : null,
     dwell: d.dwell,
     lost: d.lost.map(vectorDocument),
     lostTriplets: d.lostTriplets,

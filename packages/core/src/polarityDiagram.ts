@@ -1,12 +1,17 @@
+import { admissibleChain, admissibleTriangles, type PhaseMoves } from './admissibleTriangles.js';
+import { admissibleTiling } from './admissibleTiling.js';
 import type { LevelTriplet, Point } from './clarke.js';
 import { classifyVector, type VectorShell } from './classifyVectors.js';
 import { dwellMatrix, type DwellMatrix } from './dwell.js';
 import type { Phase } from './faults.js';
 import { convexHull } from './hull.js';
-import type { LevelSets } from './legTable.js';
+import type { LevelMove } from './commutation.js';
+import type { LevelSets, PhasePolarity } from './legTable.js';
 import { parsePolarity, type PolarityString } from './polarity.js';
 import { hullGeometry, minRadialExtent, type HullGeometry } from './radialExtent.js';
+import type { LimitRules } from './rules.js';
 import { indexOfVector, survivingVectors, type SpaceVector } from './survivingVectors.js';
+import type { OutlineEdge } from './triangleUnion.js';
 import { triangulate, type Triangle } from './triangulate.js';
 
 /** A surviving vector with its healthy-diagram class. */
@@ -23,6 +28,7 @@ export interface PolarityDiagram {
   readonly vectors: readonly ClassifiedVector[];
   /** Hull vertex indices into `vectors`, counter-clockwise, no collinear points. */
   readonly hull: readonly number[];
+  /** The tiling a modulator uses: admissible triangles (Delaunay under `levelSteps: any`). */
   readonly triangles: readonly Triangle[];
   /** Dwell-time matrix per triangle (same order as `triangles`). */
   readonly dwell: readonly DwellMatrix[];
@@ -34,45 +40,73 @@ export interface PolarityDiagram {
   readonly lost: readonly ClassifiedVector[];
   /** Healthy realising triplets missing here (redundancy lost even where the vector survives). */
   readonly lostTriplets: number;
+  /** Radial geometry of the tiling: the extent e(θ) the limit uses. */
   readonly geometry: HullGeometry;
+  /** Radial geometry of the convex hull (first version): the extent behind `mMaxHull`. */
+  readonly hullGeometry: HullGeometry;
+  /** min over θ of the extent of the union of all admissible triangles (contract `reach`). */
+  readonly reach: number;
+  /**
+   * Outline of the tiling when it does not fill the convex hull (references are clamped to it),
+   * `null` when the tiling is the hull's triangulation.
+   */
+  readonly outline: readonly OutlineEdge[] | null;
+  /** False when the tiling could not reach as far as the union of admissible triangles everywhere. */
+  readonly exactTiling: boolean;
+}
+
+/** What one phase offers a diagram: its level sets and, per polarity character, its level moves. */
+export interface PhaseOffer {
+  readonly levels: LevelSets;
+  readonly moves: Readonly<Record<PhasePolarity, readonly LevelMove[]>>;
 }
 
 /**
- * Builds the surviving vectors, hull, triangulation and dwell matrices for one polarity string.
+ * Builds the surviving vectors, hull, admissible tiling and dwell matrices for one polarity string.
  *
- * @param phases - level sets of phases a, b, c
+ * Under `levelSteps: any` the tiling is the Delaunay triangulation of the surviving vectors and the
+ * extent is the convex hull's (the first version). Otherwise the triangles are admissible: when
+ * every Delaunay triangle already is, the Delaunay tiling stands (it covers the hull, so the union
+ * of admissible triangles too) and the extent is the hull's; else the admissible triangles are
+ * enumerated and tiled (`admissibleTiling`), and the extent is the tiling's outline.
+ *
+ * @param phases - per phase a, b, c: level sets and level moves
  * @param polarity - polarity string, e.g. `+-?`
  * @param healthy - vectors of the healthy diagram, for lost-vector reporting
  * @param shells - healthy shells for classification
- * @param cache - diagrams already built, keyed by phase level sets: polarity strings that select the
- *   same three level sets share one diagram (a fault in one phase leaves most strings alike), so
- *   pass one map per set of `healthy`/`shells` to build each distinct diagram once
+ * @param rules - level-step rule (`ratings` is already applied in the level sets)
+ * @param cache - diagrams already built, keyed by phase level sets and moves: polarity strings that
+ *   select the same sets share one diagram (a fault in one phase leaves most strings alike), so pass
+ *   one map per set of `healthy`/`shells`/`rules` to build each distinct diagram once
  * @returns the diagram
  * @example
  * ```ts
- * polarityDiagram(levelsByPhase, '+--', healthyVectors, shells).radius;
+ * polarityDiagram(offers, '+--', healthyVectors, shells, DEFAULT_RULES).reach;
  * ```
  */
 export function polarityDiagram(
-  phases: Readonly<Record<Phase, LevelSets>>,
+  phases: Readonly<Record<Phase, PhaseOffer>>,
   polarity: PolarityString,
   healthy: readonly SpaceVector[],
   shells: readonly VectorShell[],
+  rules: LimitRules,
   cache?: Map<string, PolarityDiagram>,
 ): PolarityDiagram {
   const [pa, pb, pc] = parsePolarity(polarity);
-  const phaseLevels = [phases.a[pa], phases.b[pb], phases.c[pc]] as const;
-  const key = JSON.stringify(phaseLevels);
+  const phaseLevels = [phases.a.levels[pa], phases.b.levels[pb], phases.c.levels[pc]] as const;
+  const moves: PhaseMoves = [phases.a.moves[pa], phases.b.moves[pb], phases.c.moves[pc]];
+  const key = rules.levelSteps === 'any' ? JSON.stringify(phaseLevels) : JSON.stringify([phaseLevels, moves]);
   const known = cache?.get(key);
   if (known) return { ...known, polarity };
   const raw = survivingVectors(phaseLevels);
   const vectors = raw.map((v) => ({ ...v, class: classifyVector(shells, v) }));
   const points: Point[] = vectors.map((v) => [v.alpha, v.beta]);
   const hull = convexHull(points);
-  const triangles = triangulate(points);
-  const geometry = hullGeometry(points, hull);
-  const min = minRadialExtent(geometry, 0, 2 * Math.PI);
-  const e = min.edge === null ? null : geometry.edges[min.edge];
+  const delaunay = triangulate(points);
+  const convex = hullGeometry(points, hull);
+  const min = minRadialExtent(convex, 0, 2 * Math.PI);
+  const e = min.edge === null ? null : convex.edges[min.edge];
+  const tiling = tile(vectors, points, delaunay, convex, min.value, moves, rules);
   const lost = healthy.filter((h) => indexOfVector(vectors, [h.alpha, h.beta]) < 0).map((v) => ({ ...v, class: classifyVector(shells, v) }));
   const have = new Set(vectors.flatMap((v) => v.levels.map(tripletKey)));
   const lostTriplets = healthy.reduce((n, h) => n + h.levels.filter((t) => !have.has(tripletKey(t))).length, 0);
@@ -81,16 +115,37 @@ export function polarityDiagram(
     phaseLevels,
     vectors,
     hull,
-    triangles,
-    dwell: triangles.map((t) => dwellMatrix(points, t)),
+    triangles: tiling.triangles,
+    dwell: tiling.triangles.map((t) => dwellMatrix(points, t)),
     radius: min.value,
     radiusEdge: e ? [e.from, e.to] : null,
     lost,
     lostTriplets,
-    geometry,
+    geometry: tiling.geometry,
+    hullGeometry: convex,
+    reach: tiling.reach,
+    outline: tiling.outline,
+    exactTiling: tiling.exact,
   };
   cache?.set(key, diagram);
   return diagram;
+}
+
+interface Tiling {
+  readonly triangles: readonly Triangle[];
+  readonly geometry: HullGeometry;
+  readonly reach: number;
+  readonly outline: readonly OutlineEdge[] | null;
+  readonly exact: boolean;
+}
+
+function tile(vectors: readonly SpaceVector[], points: readonly Point[], delaunay: readonly Triangle[], convex: HullGeometry, radius: number, moves: PhaseMoves, rules: LimitRules): Tiling {
+  const whole = { triangles: delaunay, geometry: convex, reach: radius, outline: null, exact: true };
+  if (rules.levelSteps === 'any') return whole;
+  if (delaunay.length > 0 && delaunay.every((t) => admissibleChain(vectors, t, moves) !== null)) return whole;
+  const scale = Math.max(1e-300, ...points.map((p) => Math.hypot(p[0], p[1])));
+  const t = admissibleTiling(points, admissibleTriangles(vectors, moves, points), 1e-9 * scale);
+  return { triangles: t.triangles, geometry: t.geometry, reach: t.reach, outline: t.outline, exact: t.exact };
 }
 
 function tripletKey(t: LevelTriplet): string {

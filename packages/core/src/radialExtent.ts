@@ -11,6 +11,12 @@ export interface HullEdge {
   readonly normalAngle: number;
   /** Distance from the origin to the edge's line (positive when the origin is inside). */
   readonly offset: number;
+  /**
+   * Directions (radians, `span[0] ≤ span[1]`) along which this edge is where the region ends. Absent
+   * on a convex hull, whose boundary along any direction is its nearest edge line; present on the
+   * outline of a non-convex union, where an edge only bounds the directions it is seen in first.
+   */
+  readonly span?: readonly [number, number];
 }
 
 /** A hull prepared for radial queries. */
@@ -75,6 +81,7 @@ export function radialExtent(g: HullGeometry, theta: number): RadialValue {
   let best = Infinity;
   let edge = 0;
   g.edges.forEach((e, i) => {
+    if (e.span && !inSpan(e.span, theta)) return;
     const c = Math.cos(theta - e.normalAngle);
     if (c <= 0) return;
     const r = e.offset / c;
@@ -104,6 +111,7 @@ export function radialExtent(g: HullGeometry, theta: number): RadialValue {
  */
 export function minRadialExtent(g: HullGeometry, from: number, to: number): RadialValue {
   if (!g.containsOrigin) return { value: 0, theta: from, edge: null };
+  if (g.edges.some((e) => e.span)) return minOverSpans(g, from, to);
   let best = radialExtent(g, from);
   const consider = (c: RadialValue) => {
     if (c.value < best.value || (c.value === best.value && c.theta < best.theta)) best = c;
@@ -114,4 +122,33 @@ export function minRadialExtent(g: HullGeometry, from: number, to: number): Radi
     for (let k = k0; e.normalAngle + 2 * Math.PI * k <= to; k++) consider({ value: e.offset, theta: e.normalAngle + 2 * Math.PI * k, edge: i });
   });
   return best;
+}
+
+// On an outline each edge bounds only its span: the minimum over [from, to] is among the ends of
+// each span's overlap with the interval and the edge normals that fall inside such an overlap.
+function minOverSpans(g: HullGeometry, from: number, to: number): RadialValue {
+  let best: RadialValue = { value: Infinity, theta: from, edge: null };
+  const consider = (value: number, theta: number, edge: number) => {
+    if (value < best.value || (value === best.value && theta < best.theta)) best = { value, theta, edge };
+  };
+  g.edges.forEach((e, i) => {
+    const [lo, hi] = e.span as readonly [number, number];
+    const turn = 2 * Math.PI;
+    for (let k = Math.floor((from - hi) / turn); lo + k * turn <= to; k++) {
+      const a = Math.max(from, lo + k * turn);
+      const b = Math.min(to, hi + k * turn);
+      if (a > b) continue;
+      consider(e.offset / Math.cos(a - e.normalAngle), a, i);
+      consider(e.offset / Math.cos(b - e.normalAngle), b, i);
+      for (let j = Math.ceil((a - e.normalAngle) / turn); e.normalAngle + j * turn <= b; j++) consider(e.offset, e.normalAngle + j * turn, i);
+    }
+  });
+  return best;
+}
+
+function inSpan(span: readonly [number, number], theta: number): boolean {
+  const turn = 2 * Math.PI;
+  const k = Math.floor((theta - span[0]) / turn);
+  const t = theta - k * turn;
+  return t <= span[1] + 1e-12 || t >= span[0] + turn - 1e-12;
 }

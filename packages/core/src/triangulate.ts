@@ -52,7 +52,18 @@ export function triangleArea(points: readonly Point[], tri: Triangle): number {
   return ((b[0] - a[0]) * (c[1] - a[1]) - (b[1] - a[1]) * (c[0] - a[0])) / 2;
 }
 
-function rotateToMin(t: [number, number, number]): Triangle {
+/**
+ * A triangle's indices rotated to start at the smallest one (orientation kept), so that equal
+ * triangles compare equal.
+ *
+ * @param t - three indices
+ * @returns the same cycle starting at its smallest index
+ * @example
+ * ```ts
+ * rotateToMin([4, 1, 2]); // [1, 2, 4]
+ * ```
+ */
+export function rotateToMin(t: readonly [number, number, number]): Triangle {
   const m = Math.min(...t);
   const i = t.indexOf(m);
   return [t[i], t[(i + 1) % 3], t[(i + 2) % 3]] as Triangle;

@@ -1,0 +1,137 @@
+import type { CurrentSign } from './conduction.js';
+import { usableLevel, type GateSetSolver } from './gateSetSolver.js';
+import type { PhasePolarity } from './legTable.js';
+
+/** A level change a phase may make: [from, to], units of Vdc/2. */
+export type LevelMove = readonly [number, number];
+
+/** What a phase can do between its named patterns, per polarity character. */
+export interface PhaseCommutations {
+  /** Level changes allowed by the contract's sequence rule (both ways commutable), sorted. */
+  readonly moves: Readonly<Record<PhasePolarity, readonly LevelMove[]>>;
+  /** Ordered pattern-index pairs `i>j` whose change commutates, per polarity character. */
+  readonly pairs: Readonly<Record<PhasePolarity, ReadonlySet<string>>>;
+}
+
+const POLARITIES: readonly PhasePolarity[] = ['+', '-', '?'];
+
+/**
+ * Whether a change of gate set commutates for a polarity (contract, Version 2): the switches gated
+ * in `from` but not in `to` are turned off one at a time, then those in `to` but not in `from` are
+ * turned on one at a time, in some order, such that every intermediate gate set and `to` are usable
+ * for the sign. For `?` one order must serve both signs, since the firmware does not know which
+ * sign it is switching (the safe reading of "for both signs").
+ *
+ * The search walks the subsets between `from ∩ to` and `from`, then between `from ∩ to` and `to`,
+ * remembering dead ends, so at most 2^|off| + 2^|on| gate sets are solved.
+ *
+ * @param solve - gate-set solver of the phase
+ * @param from - gates of the pattern before
+ * @param to - gates of the pattern after
+ * @param polarity - current polarity of the phase
+ * @returns true when a safe order exists
+ * @example
+ * ```ts
+ * commutates(solve, ['outerUpper', 'innerUpper'], ['innerUpper', 'innerLower'], '+'); // healthy NPC: true
+ * ```
+ */
+export function commutates(solve: GateSetSolver, from: readonly string[], to: readonly string[], polarity: PhasePolarity): boolean {
+  const signs: readonly CurrentSign[] = polarity === '?' ? ['+', '-'] : [polarity];
+  const usable = (gates: readonly string[]) => {
+    const o = solve(gates);
+    return signs.every((s) => usableLevel(o, s) !== null);
+  };
+  const off = from.filter((g) => !to.includes(g));
+  const on = to.filter((g) => !from.includes(g));
+  if (off.length === 0 && on.length === 0) return true;
+  const common = from.filter((g) => to.includes(g));
+  const upDead = new Set<number>();
+  // `mask`: which of `on` are already on; every set reached is usable
+  const up = (mask: number): boolean => {
+    if (mask === (1 << on.length) - 1) return true;
+    if (upDead.has(mask)) return false;
+    for (let i = 0; i < on.length; i++) {
+      if (mask & (1 << i)) continue;
+      const next = mask | (1 << i);
+      if (usable([...common, ...on.filter((_, k) => next & (1 << k))]) && up(next)) return true;
+    }
+    upDead.add(mask);
+    return false;
+  };
+  const downDead = new Set<number>();
+  // `mask`: which of `off` are already off
+  const down = (mask: number): boolean => {
+    if (mask === (1 << off.length) - 1) return up(0);
+    if (downDead.has(mask)) return false;
+    for (let i = 0; i < off.length; i++) {
+      if (mask & (1 << i)) continue;
+      const next = mask | (1 << i);
+      if (usable([...common, ...off.filter((_, k) => !(next & (1 << k)))]) && down(next)) return true;
+    }
+    downDead.add(mask);
+    return false;
+  };
+  return down(0);
+}
+
+/**
+ * The level each named pattern gives for a polarity character: for `+`/`-` its usable level for
+ * that sign, for `?` the level it gives for both signs alike (else `null`).
+ *
+ * @param solve - gate-set solver of the phase
+ * @param gates - the pattern's gates
+ * @param polarity - polarity character
+ * @returns the level, or `null` when the pattern cannot serve that polarity
+ * @example
+ * ```ts
+ * patternLevel(solve, ['upper'], '?'); // 1 on a healthy two-level leg
+ * ```
+ */
+export function patternLevel(solve: GateSetSolver, gates: readonly string[], polarity: PhasePolarity): number | null {
+  const o = solve(gates);
+  if (polarity !== '?') return usableLevel(o, polarity);
+  const p = usableLevel(o, '+');
+  return p !== null && p === usableLevel(o, '-') ? p : null;
+}
+
+/**
+ * Which level changes a phase may make, per polarity character (contract, Version 2): l1 → l2 is
+ * allowed when some pattern giving l1 commutates to some pattern giving l2, and some pattern giving
+ * l2 commutates back to some pattern giving l1.
+ *
+ * @param solve - gate-set solver of the phase
+ * @param patterns - the named patterns' gate lists, in netlist order
+ * @returns the moves and the commutating pattern pairs per polarity character
+ * @example
+ * ```ts
+ * phaseCommutations(solve, Object.values(builtinLeg('npc').patterns)).moves['+']; // [[-1, 0], [0, -1], [0, 1], [1, 0]]
+ * ```
+ */
+export function phaseCommutations(solve: GateSetSolver, patterns: readonly (readonly string[])[]): PhaseCommutations {
+  const moves = {} as Record<PhasePolarity, LevelMove[]>;
+  const pairs = {} as Record<PhasePolarity, Set<string>>;
+  for (const pol of POLARITIES) {
+    const level = patterns.map((g) => patternLevel(solve, g, pol));
+    const ok = new Set<string>();
+    const forward = new Set<string>();
+    patterns.forEach((a, i) => {
+      const li = level[i];
+      if (li === null || li === undefined) return;
+      patterns.forEach((b, j) => {
+        const lj = level[j];
+        if (i === j || lj === null || lj === undefined) return;
+        if (!commutates(solve, a, b, pol)) return;
+        ok.add(`${i}>${j}`);
+        if (li !== lj) forward.add(`${li}>${lj}`);
+      });
+    });
+    const list: LevelMove[] = [];
+    for (const f of forward) {
+      const [l1, l2] = f.split('>').map(Number) as [number, number];
+      if (forward.has(`${l2}>${l1}`)) list.push([l1, l2]);
+    }
+    moves[pol] = list.sort((x, y) => x[0] - y[0] || x[1] - y[1]);
+    pairs[pol] = ok;
+  }
+  return { moves, pairs };
+}

@@ -1,0 +1,270 @@
+import type { PolarityString } from './polarity.js';
+import type { PolarityDiagram } from './polarityDiagram.js';
+import { polarityAt } from './polaritySectors.js';
+
+/** Samples of θ per fundamental period (every 0.5°). */
+export const MIDPOINT_SAMPLES = 720;
+/** |average midpoint current| (per unit of the current amplitude) still counted as zero. */
+export const MIDPOINT_TOLERANCE = 1e-6;
+
+/**
+ * The average midpoint current that the choice among redundant realisations can reach over one
+ * fundamental period, as a function of the modulation index m on [0, mTop].
+ *
+ * How it is computed: θ is sampled at {@link MIDPOINT_SAMPLES} equal steps (midpoint rule). At each
+ * θ the reference m·(cos θ, sin θ) lies in one triangle of the polarity's tiling; inside it the dwell
+ * of vertex j is affine in m, d_j = a_j·m + b_j, and the vertex may draw the midpoint current
+ * Σ c_k·i_k of any of its realisations (c_k = 1 for a phase at the midpoint potential), or split its
+ * dwell between them. So along the ray the lowest and highest reachable charge are piecewise linear
+ * in m, with breaks where the ray crosses a triangle edge. Summing the rays gives the period
+ * averages `low(m)` and `high(m)` exactly as piecewise-linear functions (for the sampled θ).
+ */
+export interface MidpointProfile {
+  /** Upper end of the m range covered. */
+  readonly mTop: number;
+  /** Smallest m where some ray leaves the tiling (`Infinity` when none below mTop). */
+  readonly gapAt: number;
+  /** Break points of `low`/`high` in m, ascending, starting at 0. */
+  readonly breaks: readonly number[];
+  /** Per segment k (between breaks k and k+1): low(m) = lowSlope·m + lowConst, likewise high. */
+  readonly lowSlope: readonly number[];
+  readonly lowConst: readonly number[];
+  readonly highSlope: readonly number[];
+  readonly highConst: readonly number[];
+}
+
+/**
+ * Builds the {@link MidpointProfile} of a set of diagrams at a load angle and margin.
+ *
+ * @param diagrams - diagram per polarity string
+ * @param mTop - largest m of interest (normally mMax)
+ * @param loadAngleDeg - load angle φ (currents of unit amplitude lag the reference by φ)
+ * @param marginDeg - polarity margin δ (which polarity's tiling is in force)
+ * @returns the profile
+ * @example
+ * ```ts
+ * midpointRangeAt(midpointProfile(atlas.faulted, plan.mMax, 25, 0), 0.8);
+ * ```
+ */
+export function midpointProfile(diagrams: ReadonlyMap<PolarityString, PolarityDiagram>, mTop: number, loadAngleDeg: number, marginDeg: number): MidpointProfile {
+  const phi = (loadAngleDeg * Math.PI) / 180;
+  const prepared = new Map<PolarityDiagram, Prepared>();
+  // events: start (+) and end (−) of each ray piece, in flat arrays (no garbage in the hot loop)
+  let cap = 4 * MIDPOINT_SAMPLES;
+  let er = new Float64Array(cap);
+  let ev = new Float64Array(4 * cap);
+  let n = 0;
+  const push = (r: number, sign: number, ls: number, lc: number, hs: number, hc: number) => {
+    if (n === cap) {
+      cap *= 2;
+      const r2 = new Float64Array(cap);
+      r2.set(er);
+      er = r2;
+      const v2 = new Float64Array(4 * cap);
+      v2.set(ev);
+      ev = v2;
+    }
+    er[n] = r;
+    ev[4 * n] = sign * ls;
+    ev[4 * n + 1] = sign * lc;
+    ev[4 * n + 2] = sign * hs;
+    ev[4 * n + 3] = sign * hc;
+    n++;
+  };
+  const q = new Float64Array(8);
+  const r0s: number[] = [];
+  const r1s: number[] = [];
+  let gapAt = Infinity;
+  for (let k = 0; k < MIDPOINT_SAMPLES; k++) {
+    const theta = ((k + 0.5) * 2 * Math.PI) / MIDPOINT_SAMPLES;
+    const d = diagrams.get(polarityAt((theta * 180) / Math.PI, loadAngleDeg, marginDeg)) as PolarityDiagram;
+    let pd = prepared.get(d);
+    if (!pd) {
+      pd = prepare(d);
+      prepared.set(d, pd);
+    }
+    const c = Math.cos(theta);
+    const s = Math.sin(theta);
+    const i0 = Math.cos(theta - phi);
+    const i1 = Math.cos(theta - phi - (2 * Math.PI) / 3);
+    const i2 = Math.cos(theta - phi - (4 * Math.PI) / 3);
+    // midpoint current of a realisation by its mask of phases at the midpoint potential
+    for (let mask = 0; mask < 8; mask++) q[mask] = (mask & 1 ? i0 : 0) + (mask & 2 ? i1 : 0) + (mask & 4 ? i2 : 0);
+    r0s.length = 0;
+    r1s.length = 0;
+    for (let t = 0; t < pd.count; t++) {
+      if (!inSpan(pd, t, theta)) continue;
+      let r0 = 0;
+      let r1 = mTop;
+      let ls = 0;
+      let lc = 0;
+      let hs = 0;
+      let hc = 0;
+      for (let j = 0; j < 3; j++) {
+        const o = 9 * t + 3 * j;
+        const aj = (pd.rows[o] as number) * c + (pd.rows[o + 1] as number) * s;
+        const bj = pd.rows[o + 2] as number;
+        // d_j(r) = aj·r + bj ≥ 0
+        if (Math.abs(aj) < 1e-15) {
+          if (bj < -1e-12) r1 = -1;
+        } else if (aj > 0) r0 = Math.max(r0, -bj / aj);
+        else r1 = Math.min(r1, -bj / aj);
+        let mn = Infinity;
+        let mx = -Infinity;
+        for (const mask of pd.masks[3 * t + j] as readonly number[]) {
+          const v = q[mask] as number;
+          if (v < mn) mn = v;
+          if (v > mx) mx = v;
+        }
+        ls += aj * mn;
+        lc += bj * mn;
+        hs += aj * mx;
+        hc += bj * mx;
+      }
+      if (r1 - r0 <= 1e-12) continue;
+      r0s.push(r0);
+      r1s.push(r1);
+      push(r0, 1, ls, lc, hs, hc);
+      push(r1, -1, ls, lc, hs, hc);
+    }
+    // the pieces of one ray must join up from 0; where they do not, the reference leaves the tiling
+    let reach = 0;
+    for (let grew = true; grew; ) {
+      grew = false;
+      for (let p = 0; p < r0s.length; p++) {
+        if ((r0s[p] as number) <= reach + 1e-9 && (r1s[p] as number) > reach) {
+          reach = r1s[p] as number;
+          grew = true;
+        }
+      }
+    }
+    if (reach < mTop - 1e-9) gapAt = Math.min(gapAt, reach);
+  }
+  const order = new Uint32Array(n);
+  for (let e = 0; e < n; e++) order[e] = e;
+  order.sort((x, y) => (er[x] as number) - (er[y] as number));
+  // segment k runs from breaks[k] to breaks[k + 1] (or mTop); every piece starting at or before
+  // breaks[k] and not yet ended there is active on it
+  const breaks: number[] = [0];
+  for (let e = 0; e < n; e++) {
+    const r = er[order[e] as number] as number;
+    if (r < mTop && r > (breaks[breaks.length - 1] as number)) breaks.push(r);
+  }
+  const lowSlope: number[] = [];
+  const lowConst: number[] = [];
+  const highSlope: number[] = [];
+  const highConst: number[] = [];
+  let [ls, lc, hs, hc] = [0, 0, 0, 0];
+  let e = 0;
+  for (const r of breaks) {
+    for (; e < n && (er[order[e] as number] as number) <= r; e++) {
+      const o = 4 * (order[e] as number);
+      ls += ev[o] as number;
+      lc += ev[o + 1] as number;
+      hs += ev[o + 2] as number;
+      hc += ev[o + 3] as number;
+    }
+    lowSlope.push(ls / MIDPOINT_SAMPLES);
+    lowConst.push(lc / MIDPOINT_SAMPLES);
+    highSlope.push(hs / MIDPOINT_SAMPLES);
+    highConst.push(hc / MIDPOINT_SAMPLES);
+  }
+  return { mTop, gapAt, breaks, lowSlope, lowConst, highSlope, highConst };
+}
+
+/** A diagram prepared for ray sweeps: flat dwell rows, realisation masks and angular spans. */
+interface Prepared {
+  readonly count: number;
+  /** 9 numbers per triangle: the dwell matrix by rows. */
+  readonly rows: Float64Array;
+  /** Per triangle vertex (3 per triangle): the midpoint masks of its realisations. */
+  readonly masks: readonly (readonly number[])[];
+  /** Per triangle: centre direction and half width of the directions that can meet it (−1: all). */
+  readonly centre: Float64Array;
+  readonly half: Float64Array;
+}
+
+function prepare(d: PolarityDiagram): Prepared {
+  const count = d.triangles.length;
+  const rows = new Float64Array(9 * count);
+  const masks: number[][] = [];
+  const centre = new Float64Array(count);
+  const half = new Float64Array(count);
+  d.triangles.forEach((tri, t) => {
+    (d.dwell[t] as PolarityDiagram['dwell'][number]).forEach((row, j) => rows.set(row, 9 * t + 3 * j));
+    const corners = tri.map((v) => d.vectors[v] as PolarityDiagram['vectors'][number]);
+    for (const v of corners) masks.push(v.levels.map((r) => (r[0] === 0 ? 1 : 0) | (r[1] === 0 ? 2 : 0) | (r[2] === 0 ? 4 : 0)));
+    const cx = corners.reduce((acc, v) => acc + v.alpha, 0) / 3;
+    const cy = corners.reduce((acc, v) => acc + v.beta, 0) / 3;
+    const at = Math.atan2(cy, cx);
+    let w = 0;
+    for (const v of corners) {
+      if (Math.hypot(v.alpha, v.beta) < 1e-9) continue;
+      w = Math.max(w, Math.abs(wrap(Math.atan2(v.beta, v.alpha) - at)));
+    }
+    const containsOrigin = (d.dwell[t] as PolarityDiagram['dwell'][number]).every((row) => row[2] >= -1e-12);
+    centre[t] = at;
+    half[t] = containsOrigin || w >= Math.PI / 2 ? -1 : w + 1e-9;
+  });
+  return { count, rows, masks, centre, half };
+}
+
+function inSpan(p: Prepared, t: number, theta: number): boolean {
+  const h = p.half[t] as number;
+  return h < 0 || Math.abs(wrap(theta - (p.centre[t] as number))) <= h;
+}
+
+function wrap(x: number): number {
+  let y = x % (2 * Math.PI);
+  if (y > Math.PI) y -= 2 * Math.PI;
+  if (y < -Math.PI) y += 2 * Math.PI;
+  return y;
+}
+
+/**
+ * The reachable range of the average midpoint current at one m, from a profile.
+ *
+ * @param p - the profile
+ * @param m - modulation index in [0, p.mTop]
+ * @returns `[lowest, highest]` per unit of current amplitude, or `null` where the reference leaves
+ *   the tiling at m
+ * @example
+ * ```ts
+ * midpointRangeAt(profile, 0.5); // e.g. [-0.1, 0.08]
+ * ```
+ */
+export function midpointRangeAt(p: MidpointProfile, m: number): readonly [number, number] | null {
+  if (m >= p.gapAt || m > p.mTop) return null;
+  let k = 0;
+  while (k + 1 < p.lowSlope.length && (p.breaks[k + 1] as number) <= m) k++;
+  return [(p.lowSlope[k] ?? 0) * m + (p.lowConst[k] ?? 0), (p.highSlope[k] ?? 0) * m + (p.highConst[k] ?? 0)];
+}
+
+/**
+ * mMaxBalanced (contract, Version 2) from a profile: the largest m ≤ mTop such that zero average
+ * midpoint current is reachable at every m' ≤ m. Exact for the sampled θ: each linear piece of
+ * `low` and `high` is solved for where it leaves [−tolerance, +tolerance].
+ *
+ * @param p - the profile (built with mTop = mMax)
+ * @returns mMaxBalanced
+ * @example
+ * ```ts
+ * balancedLimit(midpointProfile(atlas.faulted, plan.mMax, 25, 0));
+ * ```
+ */
+export function balancedLimit(p: MidpointProfile): number {
+  const tol = MIDPOINT_TOLERANCE;
+  for (let k = 0; k < p.lowSlope.length; k++) {
+    const a = p.breaks[k] as number;
+    const b = Math.min(p.breaks[k + 1] ?? p.mTop, p.mTop, p.gapAt);
+    const lo = (m: number) => (p.lowSlope[k] as number) * m + (p.lowConst[k] as number);
+    const hi = (m: number) => (p.highSlope[k] as number) * m + (p.highConst[k] as number);
+    if (lo(a) > tol || hi(a) < -tol) return a;
+    let end = b;
+    if (lo(b) > tol) end = Math.min(end, a + ((tol - lo(a)) / (lo(b) - lo(a))) * (b - a));
+    if (hi(b) < -tol) end = Math.min(end, a + ((-tol - hi(a)) / (hi(b) - hi(a))) * (b - a));
+    if (end < b) return end;
+    if (b >= p.gapAt) return p.gapAt;
+  }
+  return Math.min(p.mTop, p.gapAt);
+}

@@ -1,0 +1,169 @@
+import type { PhaseFaults } from './faults.js';
+import type { LegElement, LegNetlist } from './netlist.js';
+
+/** Result of the static voltage check of one gate set for one current sign. */
+export type RatingCheck =
+  | { readonly ok: true }
+  | {
+      readonly ok: false;
+      /** Plain words, e.g. `innerUpper.diode blocks 2 > rating 1`. */
+      readonly reason: string;
+      /** The element that would be overstressed, `null` when no single element is to blame. */
+      readonly element: string | null;
+      /** The voltage it would have to block at least, units of Vdc/2 (`null` with `element`). */
+      readonly voltage: number | null;
+      readonly rating: number | null;
+    };
+
+/** One difference constraint `x[to] − x[from] ≤ weight`, i.e. a graph edge from → to. */
+interface Arc {
+  readonly from: number;
+  readonly to: number;
+  readonly weight: number;
+  /** Index of the rated element this arc expresses, or -1 for conduction and fixed potentials. */
+  readonly rated: number;
+}
+
+/**
+ * Static voltage check of a gate set (contract, Version 2): is there a distribution of node
+ * potentials that every element can hold?
+ *
+ * DC nodes sit at their potentials and the output at `outputLevel`. Every element that can conduct
+ * forward in this state (a healthy diode, a gated healthy IGBT, a gated healthy MOSFET both ways)
+ * imposes V(from) ≤ V(to); a shorted element imposes V(from) = V(to); every rated element that is
+ * not faulted imposes |V(from) − V(to)| ≤ rating. These are difference constraints: they have a
+ * solution exactly when their constraint graph has no negative cycle, which Bellman–Ford decides
+ * (Cormen et al., Introduction to Algorithms, 3rd ed. 2009, §24.4, from memory).
+ *
+ * When there is no solution the reason names the element whose rating cannot be met: each rated
+ * element is tried with its own rating dropped; where the rest is then solvable, the least voltage
+ * it must block is −(shortest path) between its terminals. The largest excess wins, ties in
+ * netlist order.
+ *
+ * @param leg - the leg netlist (DC potentials, output node)
+ * @param elements - expanded elements (with ratings)
+ * @param gates - switches gated on
+ * @param faults - element id → fault mode for this phase
+ * @param outputLevel - potential of the output node for the current sign considered
+ * @returns `{ ok: true }` or the reason with the element, its voltage and rating
+ * @example
+ * ```ts
+ * // NPC with innerUpper open, pattern P, positive current: the output freewheels to N
+ * ratingCheck(leg, expandElements(leg), new Set(['outerUpper', 'innerUpper']), new Map([['innerUpper', 'open']]), -1);
+ * // { ok: false, reason: 'innerUpper.diode blocks 2 > rating 1', … }
+ * ```
+ */
+export function ratingCheck(leg: LegNetlist, elements: readonly LegElement[], gates: ReadonlySet<string>, faults: PhaseFaults, outputLevel: number): RatingCheck {
+  const nodes = new Map<string, number>();
+  const id = (n: string): number => {
+    let k = nodes.get(n);
+    if (k === undefined) {
+      k = nodes.size + 1; // 0 is the reference node
+      nodes.set(n, k);
+    }
+    return k;
+  };
+  const arcs: Arc[] = [];
+  const fix = (n: string, v: number) => {
+    arcs.push({ from: 0, to: id(n), weight: v, rated: -1 }, { from: id(n), to: 0, weight: -v, rated: -1 });
+  };
+  for (const [n, v] of Object.entries(leg.dcNodes)) fix(n, v);
+  fix(leg.output, outputLevel);
+  // V(a) ≤ V(b) is x[a] − x[b] ≤ 0: an arc b → a of weight 0
+  const notAbove = (a: string, b: string) => arcs.push({ from: id(b), to: id(a), weight: 0, rated: -1 });
+  elements.forEach((e, i) => {
+    const mode = faults.get(e.id);
+    if (mode === 'open') return;
+    if (mode === 'short') {
+      notAbove(e.from, e.to);
+      notAbove(e.to, e.from);
+      return;
+    }
+    const conducts = !e.gated || gates.has(e.id);
+    if (conducts) {
+      notAbove(e.from, e.to);
+      if (e.kind === 'mosfet') notAbove(e.to, e.from);
+    }
+    if (e.rating !== undefined) {
+      arcs.push({ from: id(e.to), to: id(e.from), weight: e.rating, rated: i }, { from: id(e.from), to: id(e.to), weight: e.rating, rated: i });
+    }
+  });
+  const n = nodes.size + 1;
+  const eps = tolerance(leg);
+  if (feasible(n, arcs, eps)) return { ok: true };
+
+  // Blame a device, not an element: a switch and its antiparallel diode share one rating, so
+  // dropping only one of them would leave the other holding the same constraint.
+  let worst: { element: LegElement; voltage: number; excess: number } | null = null;
+  const byDevice = new Map<string, number[]>();
+  elements.forEach((e, i) => {
+    if (e.rating === undefined || faults.get(e.id) !== undefined) return;
+    byDevice.set(e.device, [...(byDevice.get(e.device) ?? []), i]);
+  });
+  for (const members of byDevice.values()) {
+    const e = elements[members[0] as number] as LegElement;
+    const rest = arcs.filter((a) => !members.includes(a.rated));
+    if (!feasible(n, rest, eps)) continue;
+    const a = nodes.get(e.from) as number;
+    const b = nodes.get(e.to) as number;
+    const da = shortest(n, rest, a, eps);
+    const db = shortest(n, rest, b, eps);
+    if (da === null || db === null) continue;
+    const voltage = Math.max(-(da[b] as number), -(db[a] as number));
+    const excess = voltage - (e.rating as number);
+    if (excess > eps && (worst === null || excess > worst.excess + eps)) worst = { element: e, voltage, excess };
+  }
+  if (worst === null) {
+    return { ok: false, reason: 'no static voltage distribution meets the ratings of the off devices together', element: null, voltage: null, rating: null };
+  }
+  const w = worst as { element: LegElement; voltage: number };
+  const voltage = roundVoltage(w.voltage);
+  return { ok: false, reason: `${w.element.id} blocks ${voltage} > rating ${w.element.rating}`, element: w.element.id, voltage, rating: w.element.rating as number };
+}
+
+// Relative to the link span, so that a leg written in other units of potential behaves the same.
+function tolerance(leg: LegNetlist): number {
+  const pots = Object.values(leg.dcNodes);
+  return 1e-9 * Math.max(Math.max(...pots) - Math.min(...pots), Number.MIN_VALUE);
+}
+
+// Bellman–Ford from a virtual source joined to every node at distance 0: no negative cycle ⇔ feasible.
+function feasible(n: number, arcs: readonly Arc[], eps: number): boolean {
+  const d = new Float64Array(n);
+  for (let round = 0; round < n; round++) {
+    let changed = false;
+    for (const a of arcs) {
+      const v = (d[a.from] as number) + a.weight;
+      if (v < (d[a.to] as number) - eps) {
+        d[a.to] = v;
+        changed = true;
+      }
+    }
+    if (!changed) return true;
+  }
+  return false;
+}
+
+// Shortest distances from `src`, or null when a negative cycle is reachable (the rest is unsolvable).
+function shortest(n: number, arcs: readonly Arc[], src: number, eps: number): Float64Array | null {
+  const d = new Float64Array(n).fill(Infinity);
+  d[src] = 0;
+  for (let round = 0; round < n; round++) {
+    let changed = false;
+    for (const a of arcs) {
+      const from = d[a.from] as number;
+      if (from === Infinity) continue;
+      const v = from + a.weight;
+      if (v < (d[a.to] as number) - eps) {
+        d[a.to] = v;
+        changed = true;
+      }
+    }
+    if (!changed) return d;
+  }
+  return null;
+}
+
+function roundVoltage(v: number): number {
+  return Number(v.toPrecision(6));
+}

@@ -1,0 +1,247 @@
+import type { Point } from './clarke.js';
+import type { Triangle } from './triangulate.js';
+
+/** A boundary segment of a region, oriented so that the region lies on its left. */
+export type Segment = readonly [Point, Point];
+
+/** An outline segment between two vectors: indices into the vector list and their positions. */
+export interface OutlineEdge {
+  readonly from: number;
+  readonly to: number;
+  readonly segment: Segment;
+}
+
+/**
+ * Whether the interiors of two counter-clockwise triangles intersect.
+ *
+ * Two convex polygons have disjoint interiors exactly when an edge line of one of them separates
+ * them (separating-axis theorem), so six half-plane tests decide it. Touching along an edge or at a
+ * corner is not an overlap.
+ *
+ * @param points - vector positions
+ * @param a - a triangle (indices, counter-clockwise)
+ * @param b - another triangle
+ * @param eps - distance below which a point counts as on a line
+ * @returns true when the interiors overlap
+ * @example
+ * ```ts
+ * trianglesOverlap(points, [0, 1, 2], [0, 2, 3], 1e-9); // false: they share an edge
+ * ```
+ */
+export function trianglesOverlap(points: readonly Point[], a: Triangle, b: Triangle, eps: number): boolean {
+  return !(separates(points, a, b, eps) || separates(points, b, a, eps));
+}
+
+// Some edge of `a` has every corner of `b` on its outer side (or on the line).
+function separates(points: readonly Point[], a: Triangle, b: Triangle, eps: number): boolean {
+  for (let k = 0; k < 3; k++) {
+    const p = points[a[k] as number] as Point;
+    const q = points[a[(k + 1) % 3] as number] as Point;
+    const ex = q[0] - p[0];
+    const ey = q[1] - p[1];
+    const len = Math.hypot(ex, ey);
+    let outside = true;
+    for (const i of b) {
+      const r = points[i] as Point;
+      // signed distance to the left of p→q (inside is left for a counter-clockwise triangle)
+      if ((ex * (r[1] - p[1]) - ey * (r[0] - p[0])) / len > eps) {
+        outside = false;
+        break;
+      }
+    }
+    if (outside) return true;
+  }
+  return false;
+}
+
+/**
+ * The outline of a set of non-overlapping triangles whose corners are all among `points`: every
+ * edge piece that only one triangle has. Edges are first split at any corner lying on them, so a
+ * large triangle beside two small ones (a T-junction) is handled.
+ *
+ * @param points - vector positions
+ * @param triangles - non-overlapping, counter-clockwise triangles
+ * @param eps - distance below which a point lies on an edge
+ * @returns boundary edges (vector indices and segment), the region on their left, in a deterministic order
+ * @example
+ * ```ts
+ * tilingOutline(points, [[0, 1, 2]], 1e-9).length; // 3
+ * ```
+ */
+export function tilingOutline(points: readonly Point[], triangles: readonly Triangle[], eps: number): OutlineEdge[] {
+  const corners = [...new Set(triangles.flat())];
+  const count = new Map<string, { from: number; to: number; n: number }>();
+  for (const t of triangles) for (let k = 0; k < 3; k++) {
+    const a = t[k] as number;
+    const b = t[(k + 1) % 3] as number;
+    const pa = points[a] as Point;
+    const pb = points[b] as Point;
+    const ex = pb[0] - pa[0];
+    const ey = pb[1] - pa[1];
+    const len2 = ex * ex + ey * ey;
+    const inner = corners
+      .filter((c) => c !== a && c !== b)
+      .map((c) => {
+        const pc = points[c] as Point;
+        const s = ((pc[0] - pa[0]) * ex + (pc[1] - pa[1]) * ey) / len2;
+        const d = Math.abs(ex * (pc[1] - pa[1]) - ey * (pc[0] - pa[0])) / Math.sqrt(len2);
+        return { c, s, d };
+      })
+      .filter((x) => x.d <= eps && x.s > 0 && x.s < 1)
+      .sort((x, y) => x.s - y.s)
+      .map((x) => x.c);
+    const chain = [a, ...inner, b];
+    for (let i = 0; i + 1 < chain.length; i++) {
+      const u = chain[i] as number;
+      const v = chain[i + 1] as number;
+      const k2 = u < v ? `${u},${v}` : `${v},${u}`;
+      const e = count.get(k2);
+      if (e) e.n++;
+      else count.set(k2, { from: u, to: v, n: 1 });
+    }
+  }
+  return [...count.values()].filter((e) => e.n === 1).map((e) => ({ from: e.from, to: e.to, segment: [points[e.from] as Point, points[e.to] as Point] as const }));
+}
+
+/**
+ * The outline of a union of possibly overlapping triangles: every piece of a triangle edge with
+ * the union on exactly one side. Each edge is cut wherever another triangle's edge crosses or
+ * touches it, and each piece is kept when a point just to its left is covered and one just to its
+ * right is not (or the reverse, then flipped). Quadratic in the number of triangles; used to check
+ * a tiling against the union it was chosen from.
+ *
+ * @param points - vector positions
+ * @param triangles - counter-clockwise triangles
+ * @param eps - length scale of the tolerance
+ * @returns boundary segments with the union on their left
+ * @example
+ * ```ts
+ * unionOutline(points, admissible, 1e-9);
+ * ```
+ */
+export function unionOutline(points: readonly Point[], triangles: readonly Triangle[], eps: number): Segment[] {
+  const edges: Segment[] = triangles.flatMap((t) => [0, 1, 2].map((k) => [points[t[k] as number] as Point, points[t[(k + 1) % 3] as number] as Point] as const));
+  const out: Segment[] = [];
+  const seen = new Set<string>();
+  const probe = 1e3 * eps;
+  for (const [p, q] of edges) {
+    const ex = q[0] - p[0];
+    const ey = q[1] - p[1];
+    const len = Math.hypot(ex, ey);
+    const cuts = [0, 1];
+    for (const [r, s] of edges) {
+      const x = cutParameters(p, q, r, s, eps);
+      for (const c of x) cuts.push(c);
+    }
+    cuts.sort((x, y) => x - y);
+    for (let i = 0; i + 1 < cuts.length; i++) {
+      const s0 = cuts[i] as number;
+      const s1 = cuts[i + 1] as number;
+      if ((s1 - s0) * len <= probe) continue;
+      const sm = (s0 + s1) / 2;
+      const mx = p[0] + sm * ex;
+      const my = p[1] + sm * ey;
+      const nx = -ey / len;
+      const ny = ex / len;
+      const left = coveredBy(points, triangles, [mx + probe * nx, my + probe * ny], eps);
+      const right = coveredBy(points, triangles, [mx - probe * nx, my - probe * ny], eps);
+      if (left === right) continue;
+      const a: Point = [p[0] + s0 * ex, p[1] + s0 * ey];
+      const b: Point = [p[0] + s1 * ex, p[1] + s1 * ey];
+      const seg: Segment = left ? [a, b] : [b, a];
+      const k = seg.flat().map((v) => Math.round(v / (probe * 10))).join(',');
+      if (seen.has(k)) continue;
+      seen.add(k);
+      out.push(seg);
+    }
+  }
+  return out;
+}
+
+// Parameters along p→q where segment r→s crosses or touches it (its ends, where they lie on p→q).
+function cutParameters(p: Point, q: Point, r: Point, s: Point, eps: number): number[] {
+  const ex = q[0] - p[0];
+  const ey = q[1] - p[1];
+  const fx = s[0] - r[0];
+  const fy = s[1] - r[1];
+  const len2 = ex * ex + ey * ey;
+  const out: number[] = [];
+  const den = ex * fy - ey * fx;
+  if (Math.abs(den) > eps * Math.sqrt(len2 * (fx * fx + fy * fy))) {
+    const t = ((r[0] - p[0]) * fy - (r[1] - p[1]) * fx) / den;
+    const u = ((r[0] - p[0]) * ey - (r[1] - p[1]) * ex) / den;
+    if (t > 0 && t < 1 && u >= -eps && u <= 1 + eps) out.push(t);
+  }
+  for (const c of [r, s]) {
+    const t = ((c[0] - p[0]) * ex + (c[1] - p[1]) * ey) / len2;
+    const d = Math.abs(ex * (c[1] - p[1]) - ey * (c[0] - p[0])) / Math.sqrt(len2);
+    if (d <= eps && t > 0 && t < 1) out.push(t);
+  }
+  return out;
+}
+
+/**
+ * Whether a point lies in one of the triangles (closed, with tolerance).
+ *
+ * @param points - vector positions
+ * @param triangles - counter-clockwise triangles
+ * @param x - the point
+ * @param eps - distance tolerance
+ * @returns true when some triangle contains it
+ * @example
+ * ```ts
+ * coveredBy(points, [[0, 1, 2]], [0.1, 0.1], 1e-9);
+ * ```
+ */
+export function coveredBy(points: readonly Point[], triangles: readonly Triangle[], x: Point, eps: number): boolean {
+  return triangles.some((t) => {
+    for (let k = 0; k < 3; k++) {
+      const p = points[t[k] as number] as Point;
+      const q = points[t[(k + 1) % 3] as number] as Point;
+      const ex = q[0] - p[0];
+      const ey = q[1] - p[1];
+      if ((ex * (x[1] - p[1]) - ey * (x[0] - p[0])) / Math.hypot(ex, ey) < -eps) return false;
+    }
+    return true;
+  });
+}
+
+/**
+ * Whether a segment passes through the interior of a triangle (more than touching its boundary).
+ *
+ * @param points - vector positions
+ * @param t - counter-clockwise triangle
+ * @param seg - the segment
+ * @param eps - distance tolerance
+ * @returns true when a stretch of the segment longer than `eps` lies strictly inside
+ * @example
+ * ```ts
+ * segmentEntersTriangle(points, [0, 1, 2], [[0, 0], [1, 1]], 1e-9);
+ * ```
+ */
+export function segmentEntersTriangle(points: readonly Point[], t: Triangle, seg: Segment, eps: number): boolean {
+  const [a, b] = seg;
+  const dx = b[0] - a[0];
+  const dy = b[1] - a[1];
+  const len = Math.hypot(dx, dy);
+  let lo = 0;
+  let hi = 1;
+  for (let k = 0; k < 3; k++) {
+    const p = points[t[k] as number] as Point;
+    const q = points[t[(k + 1) % 3] as number] as Point;
+    const ex = q[0] - p[0];
+    const ey = q[1] - p[1];
+    const el = Math.hypot(ex, ey);
+    // inside (shrunk by eps): (e × (x − p))/|e| > eps, linear in the segment parameter
+    const f0 = (ex * (a[1] - p[1]) - ey * (a[0] - p[0])) / el - eps;
+    const f1 = (ex * dy - ey * dx) / el;
+    if (Math.abs(f1) < 1e-300) {
+      if (f0 <= 0) return false;
+      continue;
+    }
+    const s = -f0 / f1;
+    if (f1 > 0) lo = Math.max(lo, s);
+    else hi = Math.min(hi, s);
+  }
+  return (hi - lo) * len > eps;
+}
