@@ -28,7 +28,7 @@ describe('hexsalvage leg', () => {
     const r = await runInProcess(['leg', '--topology', 'npc', '--fault', 'a.outerUpper.diode']);
     expect(r.code).toBe(0);
     expect(r.stdout).toContain('Phase a (faulted)');
-    expect(r.stdout).toContain('forbidden for i<0: current interrupted');
+    expect(r.stdout).toContain('not used for i<0: current interrupted');
     expect(r.stdout).toMatch(/current in \(-\)\s+N O\s+LOST: P/);
     expect(r.stdout).toContain('Cautions:');
   });

@@ -37,8 +37,9 @@ describe('hexsalvage plan', () => {
   });
   it('prints a readable summary with the binding edge and the cautions', async () => {
     const r = await runInProcess(['plan', '--topology', 'npc', '--fault', 'a.outerUpper']);
-    expect(r.stdout).toContain('Maximum modulation index (faulted): 0.577350');
-    expect(r.stdout).toContain('on the hull edge between');
+    expect(r.stdout).toMatch(/Maximum modulation index \(faulted, safe\): +0\.577350/);
+    expect(r.stdout).toContain('on the outline edge between');
+    expect(r.stdout).toContain('Rules: device voltage ratings applied');
     expect(r.stdout).toContain('Cautions:');
   });
 });
@@ -47,7 +48,7 @@ describe('hexsalvage sweep', () => {
   it('prints CSV with a header and one row per point', async () => {
     const r = await runInProcess(['sweep', '--topology', 'npc', '--fault', 'a.outerUpper.diode', '--from', '-30', '--to', '30', '--step', '10', '--csv']);
     const lines = r.stdout.trim().split('\n');
-    expect(lines[0]).toBe('load_angle_deg,m_max,derating_ratio,limiting_angle_deg,limiting_polarity,breakpoint');
+    expect(lines[0]).toBe('load_angle_deg,m_max,derating_ratio,limiting_angle_deg,limiting_polarity,breakpoint,m_max_hull');
     expect(lines.length).toBeGreaterThanOrEqual(8);
   });
   it('prints JSON points', async () => {

@@ -1,56 +1,27 @@
 import { describe, expect, it } from 'vitest';
-import { analyseLeg, blockingBudget, blockingVoltages, builtinLeg, conductionEdges, expandElements, exploreLeg, outputForSign } from '@hexsalvage/core';
-
-describe('blockingVoltages', () => {
-  it('finds an ANPC leg with every switch off unclamped', () => {
-    // All off, i>0: the output sits at N through innerLower/outerLower diodes. X is held only
-    // between O (clampUpper.diode O→X) and P (outerUpper.diode X→P), so innerUpper, between X and
-    // the output, may have to block up to P−N = 2 steps: the node X is unclamped.
-    const leg = builtinLeg('anpc');
-    const edges = conductionEdges(expandElements(leg), new Set(), new Map());
-    const out = outputForSign(leg, edges, '+');
-    expect(out.level).toBe(-1);
-    const v = blockingVoltages(leg, edges, -1);
-    expect(v.get('innerUpper')).toBe(2);
-    expect(v.get('innerLower')).toBe(0);
-    expect(v.get('outerLower')).toBe(0);
-  });
-
-  it('shows the NPC P state clamps the outer lower switch but not the inner one', () => {
-    // P state, i>0: out = X = P. Y is held below O by clampLower (Y→O) and above N by the
-    // outerLower diode, so outerLower blocks at most one step while innerLower, between P and Y,
-    // may block up to two: static sharing there rests on leakage, which the bounds do not assume.
-    const leg = builtinLeg('npc');
-    const edges = conductionEdges(expandElements(leg), new Set(['outerUpper', 'innerUpper']), new Map());
-    const v = blockingVoltages(leg, edges, 1);
-    expect(v.get('outerLower')).toBe(1);
-    expect(v.get('innerLower')).toBe(2);
-    expect(v.get('clampLower')).toBe(1);
-    // …which is why the exploration budget of a device is what the leg's own patterns ask of it
-    expect(blockingBudget(leg).get('innerLower')).toBe(2);
-    expect(blockingBudget(leg).get('outerLower')).toBe(1);
-  });
-});
-
-describe('blockingBudget', () => {
-  it('gives the T-type outer switches the full link and the neutral branch one step', () => {
-    const b = blockingBudget(builtinLeg('tnpc'));
-    expect(b.get('upper')).toBe(2);
-    expect(b.get('lower')).toBe(2);
-    expect(b.get('neutralToOut')).toBe(1);
-    expect(b.get('outToNeutral')).toBe(1);
-  });
-});
+import { analyseLeg, builtinLeg, exploreLeg } from '@hexsalvage/core';
 
 describe('exploreLeg', () => {
-  it('drops shoot-through and unclamped combinations and finds no extra level on a healthy ANPC leg', () => {
+  it('drops shoot-through and overstressing combinations and finds no extra level on a healthy ANPC leg', () => {
     const x = exploreLeg(analyseLeg({ topology: 'anpc' }));
     expect(x.ok).toBe(true);
     if (!x.ok) return;
     expect(x.phases.a.combinations).toBe(64);
     expect(x.phases.a.shootThrough).toBeGreaterThan(0);
-    expect(x.phases.a.unclamped).toBeGreaterThan(0);
+    // e.g. {outerUpper, innerLower} with i<0: out drains to N through innerLower while X sits at P,
+    // so innerUpper would block the whole link (the static check of contract Version 2)
+    expect(x.phases.a.overstressed).toBeGreaterThan(0);
     expect(x.phases.a.extraLevels).toEqual({ '+': [], '-': [], '?': [] });
+  });
+
+  it('uses the same static check as the leg table: ignoring ratings drops nothing for overstress', () => {
+    const x = exploreLeg(analyseLeg({ topology: 'anpc', ignoreRatings: true }));
+    if (!x.ok) throw new Error(x.reason);
+    expect(x.phases.a.overstressed).toBe(0);
+    const npc = analyseLeg({ topology: 'npc', faults: ['a.innerUpper'] });
+    const p = npc.phases.a.patterns.find((q) => q.name === 'P');
+    // the named pattern's verdict and the solver's verdict for the same gate set are one and the same
+    expect(p?.status === 'allowed' && p.unsafe['+']).toBe(npc.phases.a.solve(['outerUpper', 'innerUpper']).status === 'allowed' && (npc.phases.a.solve(['outerUpper', 'innerUpper']) as { unsafe: { '+'?: string } }).unsafe['+']);
   });
 
   it('finds the zero level a sparse pattern list misses once a clamp path fails', () => {

@@ -94,14 +94,14 @@ describe('cycleCheck', () => {
     expect(r.voltSecondErrorMax).toBeLessThan(1e-12);
     expect(r.clampedPeriods).toBe(0);
     expect(r.midpointDrift).toBe(false);
-    expect(r.midpointCurrent.reachable[0]).toBeLessThan(0);
-    expect(r.midpointCurrent.reachable[1]).toBeGreaterThan(0);
+    expect(r.midpointCurrent.reachable![0]).toBeLessThan(0);
+    expect(r.midpointCurrent.reachable![1]).toBeGreaterThan(0);
   });
 
   it('flags midpoint drift when a T-type neutral switch fault leaves one direction only', () => {
     const r = cycleCheck(switchingTable({ topology: 'tnpc', faults: ['a.neutralToOut'] }), { m: 1.1, loadAngleDeg: 80, frequencyRatio: 240 });
     expect(r.midpointDrift).toBe(true);
-    expect(r.midpointCurrent.reachable[1]).toBeLessThan(0);
+    expect(r.midpointCurrent.reachable![1]).toBeLessThan(0);
   });
 
   it('counts gate changes per fundamental, line devices of a healthy hybrid leg about twice per cycle', () => {

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { BUILTIN_TOPOLOGIES, builtinLeg, diagramAtlas, expandElements, polygonArea, POLARITY_STRINGS, triangleArea, type Point } from '@hexsalvage/core';
+import { admissibleChain, BUILTIN_TOPOLOGIES, builtinLeg, diagramAtlas, expandElements, parsePolarity, phaseMoves, polygonArea, POLARITY_STRINGS, triangleArea, type Point } from '@hexsalvage/core';
 import { fc, fcParams } from '../support/fc.js';
 
 const caseArb = fc.constantFrom(...BUILTIN_TOPOLOGIES).chain((t) => {
@@ -9,9 +9,9 @@ const caseArb = fc.constantFrom(...BUILTIN_TOPOLOGIES).chain((t) => {
 });
 
 describe('triangulate properties', () => {
-  it('tiles the hull exactly on random faulted diagrams: areas add up, no gap, no overlap', () => {
+  it('tiles the hull exactly under --level-steps any (first version): areas add up, no gap, no overlap', () => {
     fc.assert(fc.property(caseArb, ([t, faults, pol, samples]) => {
-      const d = diagramAtlas({ topology: t, faults }).faulted.get(pol)!;
+      const d = diagramAtlas({ topology: t, faults, levelSteps: 'any' }).faulted.get(pol)!;
       const pts: Point[] = d.vectors.map((v) => [v.alpha, v.beta]);
       const hull = d.hull.map((i) => pts[i] as Point);
       if (d.triangles.length === 0) {
@@ -36,6 +36,34 @@ describe('triangulate properties', () => {
           return (b[0] - a[0]) * (y - a[1]) - (b[1] - a[1]) * (x - a[0]) > 0;
         });
         expect(covering).toBe(inHull ? 1 : 0);
+      }
+    }), fcParams(200));
+  });
+
+  const rules = fc.constantFrom('commutable' as const, 'adjacent' as const);
+  it('reports only admissible triangles, never overlapping, inside the hull (Version 2)', () => {
+    fc.assert(fc.property(caseArb, rules, fc.boolean(), ([t, faults, pol, samples], levelSteps, ignoreRatings) => {
+      const atlas = diagramAtlas({ topology: t, faults, levelSteps, ignoreRatings });
+      const d = atlas.faulted.get(pol)!;
+      const pts: Point[] = d.vectors.map((v) => [v.alpha, v.beta]);
+      const hull = d.hull.map((i) => pts[i] as Point);
+      const levels = [...new Set(Object.values(atlas.analysis.leg.dcNodes))].sort((x, y) => x - y);
+      const chars = parsePolarity(pol);
+      const moves = (['a', 'b', 'c'] as const).map((ph, k) => phaseMoves(atlas.analysis.phases[ph], atlas.analysis.rules, levels)[chars[k]!]) as never;
+      for (const tri of d.triangles) {
+        expect(triangleArea(pts, tri)).toBeGreaterThan(1e-12);
+        expect(admissibleChain(d.vectors, tri, moves)).not.toBeNull();
+      }
+      const sum = d.triangles.reduce((s, tri) => s + triangleArea(pts, tri), 0);
+      expect(sum).toBeLessThanOrEqual((hull.length >= 3 ? polygonArea(hull) : 0) + 1e-9);
+      const xs = hull.map((p) => p[0]);
+      const ys = hull.map((p) => p[1]);
+      for (const [u, w] of samples) {
+        const x = Math.min(...xs, 0) + u * (Math.max(...xs, 0) - Math.min(...xs, 0));
+        const y = Math.min(...ys, 0) + w * (Math.max(...ys, 0) - Math.min(...ys, 0));
+        const bary = d.dwell.map((m) => m.map((r) => r[0] * x + r[1] * y + r[2]));
+        if (bary.some((b) => b.some((v) => Math.abs(v) < 1e-9))) continue;
+        expect(bary.filter((b) => b.every((v) => v > 0)).length).toBeLessThanOrEqual(1);
       }
     }), fcParams(200));
   });

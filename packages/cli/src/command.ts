@@ -13,10 +13,17 @@ export interface Command {
   readonly run: (args: ParsedArgs, io: CommandIO) => Promise<number>;
 }
 
-/** Options shared by the commands that take a leg. */
+/** The rules of the safe limit (contract, Version 2), as every leg command takes them. */
+export const RULE_OPTIONS: readonly OptionSpec[] = [
+  { name: 'ignore-ratings', type: 'flag', help: 'skip the device voltage-rating check (reproduces the first version; unsafe)' },
+  { name: 'level-steps', type: 'string', value: 'R', help: 'level changes a sequence may make: commutable (default), adjacent, or any (first version, unsafe)' },
+];
+
+/** Options shared by the commands that take a leg (with the rules of the limit). */
 export const LEG_OPTIONS: readonly OptionSpec[] = [
   { name: 'topology', type: 'string', value: 'T', help: 'built-in leg (two-level, npc, anpc, anpc-hybrid, tnpc) or a netlist .json file' },
   { name: 'fault', type: 'list', value: 'F', help: 'failed element PHASE.DEVICE[:open|short], e.g. a.outerUpper; repeatable' },
+  ...RULE_OPTIONS,
 ];
 
 /** The `--json` switch. */
@@ -28,3 +35,4 @@ export const ANGLE_OPTIONS: readonly OptionSpec[] = [
   { name: 'load-angle', type: 'number', value: 'DEG', help: 'load angle φ in degrees, −180…180, currents lag the voltage (default 0)' },
   { name: 'polarity-margin', type: 'number', value: 'DEG', help: 'polarity margin δ in degrees, 0 ≤ δ < 60 (default 0)' },
 ];
+

@@ -1,4 +1,4 @@
-import type { LegNetlist } from '@hexsalvage/core';
+import { LEVEL_STEP_RULES, type LegNetlist, type LevelStepRule } from '@hexsalvage/core';
 import { usage, type ParsedArgs } from './args.js';
 import { loadTopology } from './loadTopology.js';
 
@@ -8,6 +8,8 @@ export interface LegInputs {
   /** The `--topology` text as given (built-in id or path), for display. */
   readonly topologyText: string;
   readonly faults: readonly string[];
+  /** `--ignore-ratings` and `--level-steps`. */
+  readonly rules: { readonly ignoreRatings: boolean; readonly levelSteps: LevelStepRule };
 }
 
 /**
@@ -24,7 +26,7 @@ export interface LegInputs {
 export function legInputs(args: ParsedArgs): LegInputs {
   const t = args.values.get('topology');
   if (typeof t !== 'string') throw usage('--topology', 'a built-in leg id or a netlist file');
-  return { topology: loadTopology(t), topologyText: t, faults: args.lists.get('fault') ?? [] };
+  return { topology: loadTopology(t), topologyText: t, faults: args.lists.get('fault') ?? [], rules: ruleInputs(args) };
 }
 
 /**
@@ -44,4 +46,21 @@ export function angleInputs(args: ParsedArgs): { loadAngleDeg: number; polarityM
   if (loadAngleDeg < -180 || loadAngleDeg > 180) throw usage('--load-angle', 'degrees in [-180, 180]', loadAngleDeg);
   if (polarityMarginDeg < 0 || polarityMarginDeg >= 60) throw usage('--polarity-margin', 'degrees in [0, 60)', polarityMarginDeg);
   return { loadAngleDeg, polarityMarginDeg };
+}
+
+/**
+ * Reads `--ignore-ratings` and `--level-steps` (contract, Version 2).
+ *
+ * @param args - parsed command line
+ * @returns rule options for the core (absent keys keep the safe defaults)
+ * @throws HexsalvageInputError for an unknown level-step rule
+ * @example
+ * ```ts
+ * ruleInputs(args); // { ignoreRatings: false, levelSteps: 'commutable' }
+ * ```
+ */
+export function ruleInputs(args: ParsedArgs): { ignoreRatings: boolean; levelSteps: LevelStepRule } {
+  const steps = args.values.get('level-steps') ?? 'commutable';
+  if (!(LEVEL_STEP_RULES as readonly unknown[]).includes(steps)) throw usage('--level-steps', `one of ${LEVEL_STEP_RULES.join(', ')}`, steps);
+  return { ignoreRatings: args.flags.has('ignore-ratings'), levelSteps: steps as LevelStepRule };
 }

@@ -1,6 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { dirname } from 'node:path';
-import { HexsalvageInputError, type DeratingClaim } from '@hexsalvage/core';
+import { HexsalvageInputError, LEVEL_STEP_RULES, type DeratingClaim, type LevelStepRule } from '@hexsalvage/core';
 import { loadTopology } from './loadTopology.js';
 
 /**
@@ -30,7 +30,8 @@ export function readClaims(path: string): DeratingClaim[] {
     const at = `claims[${i}]`;
     if (typeof c !== 'object' || c === null || Array.isArray(c)) throw err(at, 'a claim object', c);
     const o = c as Record<string, unknown>;
-    for (const k of Object.keys(o)) if (!['name', 'topology', 'faults', 'm', 'loadAngleDeg', 'polarityMarginDeg'].includes(k)) throw err(`${at}.${k}`, 'one of the keys name, topology, faults, m, loadAngleDeg, polarityMarginDeg', k);
+    const keys = ['name', 'topology', 'faults', 'm', 'loadAngleDeg', 'polarityMarginDeg', 'levelSteps'];
+    for (const k of Object.keys(o)) if (!keys.includes(k)) throw err(`${at}.${k}`, `one of the keys ${keys.join(', ')}`, k);
     if (typeof o.name !== 'string' || o.name === '') throw err(`${at}.name`, 'a non-empty name', o.name);
     if (names.has(o.name)) throw err(`${at}.name`, 'a name not used by another claim', o.name);
     names.add(o.name);
@@ -43,6 +44,8 @@ export function readClaims(path: string): DeratingClaim[] {
     }
     const d = o.polarityMarginDeg;
     if (d !== undefined && (typeof d !== 'number' || !(d >= 0 && d < 60))) throw err(`${at}.polarityMarginDeg`, 'degrees in [0, 60)', d);
+    const steps = o.levelSteps;
+    if (steps !== undefined && !(LEVEL_STEP_RULES as readonly unknown[]).includes(steps)) throw err(`${at}.levelSteps`, `one of ${LEVEL_STEP_RULES.join(', ')}`, steps);
     let topology: unknown;
     try {
       topology = loadTopology(o.topology, dirname(path));
@@ -50,6 +53,10 @@ export function readClaims(path: string): DeratingClaim[] {
       if (e instanceof HexsalvageInputError) throw err(`${at}.topology`, e.message, o.topology);
       throw e;
     }
-    return { name: o.name, topology, faults: o.faults as string[], m: o.m, loadAngleDeg: [r[0], r[1]] as [number, number], ...(d !== undefined ? { polarityMarginDeg: d as number } : {}) };
+    return {
+      name: o.name, topology, faults: o.faults as string[], m: o.m, loadAngleDeg: [r[0], r[1]] as [number, number],
+      ...(d !== undefined ? { polarityMarginDeg: d as number } : {}),
+      ...(steps !== undefined ? { levelSteps: steps as LevelStepRule } : {}),
+    };
   });
 }

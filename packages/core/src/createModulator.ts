@@ -1,7 +1,7 @@
 import type { LevelTriplet } from './clarke.js';
 import type { DwellMatrix } from './dwell.js';
 import { HexsalvageInputError } from './errors.js';
-import { clampInto } from './locateReference.js';
+import { clampInto, clampToOutline, type OutlineSegment } from './locateReference.js';
 import { parsePolarity, POLARITY_STRINGS, type PolarityString } from './polarity.js';
 import type { PlanPolarity } from './planRemedial.js';
 import type { TableTriangle } from './polarityTable.js';
@@ -51,6 +51,8 @@ interface Prepared {
   readonly count: number;
   readonly m: Float64Array; // 9 per triangle, row-major
   readonly hull: readonly (readonly [number, number])[];
+  /** The tiling's outline where it does not fill the hull (clamping then follows it). */
+  readonly outline: readonly OutlineSegment[] | null;
   readonly vertices: readonly (readonly LevelTriplet[])[];
   // uniform grid over the hull's bounding box: cell → triangle indices, ascending
   readonly x0: number;
@@ -96,7 +98,8 @@ export function createModulator(source: ModulatorSource): Modulator {
       out[3] = 0;
       return t;
     }
-    clampInto(pr.hull, alpha, beta, clampBuf);
+    if (pr.outline) clampToOutline(pr.outline, alpha, beta, clampBuf);
+    else clampInto(pr.hull, alpha, beta, clampBuf);
     const ca = clampBuf[0] as number;
     const cb = clampBuf[1] as number;
     t = search(pr, ca, cb, out);
@@ -165,7 +168,8 @@ function prepare(d: PlanPolarity & { readonly tableTriangles?: readonly TableTri
   const cellStart = new Int32Array(nx * ny + 1);
   lists.forEach((l, c) => { cellStart[c + 1] = (cellStart[c] as number) + l.length; });
   const cellTri = Int32Array.from(lists.flat());
-  return { count, m, hull: d.hull, vertices, x0, y0, cell, nx, ny, cellStart, cellTri };
+  const outline = d.outline && d.outline.length > 0 ? d.outline : null;
+  return { count, m, hull: d.hull, outline, vertices, x0, y0, cell, nx, ny, cellStart, cellTri };
 }
 
 // Separating-axis test of a square cell against a triangle, both grown by `pad`.

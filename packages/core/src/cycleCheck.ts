@@ -1,6 +1,7 @@
 import { clarke } from './clarke.js';
 import { createModulator } from './createModulator.js';
 import { HexsalvageInputError } from './errors.js';
+import { MIDPOINT_TOLERANCE, midpointProfile, midpointRangeAt } from './midpointBalance.js';
 import { PHASES } from './faults.js';
 import { polarityAt } from './polaritySectors.js';
 import type { VertexRealisation } from './polarityTable.js';
@@ -34,12 +35,12 @@ export interface CycleReport {
   readonly midpointCurrent: {
     /** With the table's realisations (the minimum-switching sequence). */
     readonly tablePolicy: number;
-    /** With redundant dwell split freely between realisations to bring the cycle average to zero. */
-    readonly bestPolicy: number;
-    /** The range of cycle averages the redundancy can reach. */
-    readonly reachable: readonly [number, number];
+    /** With redundant dwell split freely between realisations to bring the cycle average to zero (null: m leaves the tiling). */
+    readonly bestPolicy: number | null;
+    /** The range of cycle averages the redundancy can reach (the same computation as `mMaxBalanced`). */
+    readonly reachable: readonly [number, number] | null;
   };
-  /** True when even the best policy leaves an average midpoint current above the threshold. */
+  /** True when zero average midpoint current is out of reach (m above the plan's `mMaxBalanced`). */
   readonly midpointDrift: boolean;
   /** True when the table's own realisations leave an average midpoint current above the threshold. */
   readonly tablePolicyDrift: boolean;
@@ -82,8 +83,6 @@ export function cycleCheck(table: SwitchingTable, options: CycleCheckOptions): C
   let err = 0;
   let clamped = 0;
   let qTable = 0;
-  let qLow = 0;
-  let qHigh = 0;
   const changes: Record<string, number> = {};
   let previousStart: LegState | null = null;
   let firstStart: LegState | null = null;
@@ -111,13 +110,6 @@ export function cycleCheck(table: SwitchingTable, options: CycleCheckOptions): C
     if (!tri?.sequence) continue;
     const seq = tri.sequence;
     qTable += tri.vertices.reduce((s, v, j) => s + (r.dwell[j] as number) * np(v.realisations[seq.choice[j] as number] as VertexRealisation), 0);
-    // best policy: a redundant vertex's dwell may be split between its realisations, so a period
-    // can draw any midpoint charge between the sums of each vertex's lowest and highest choice
-    tri.vertices.forEach((v, j) => {
-      const charges = v.realisations.map((rz) => (r.dwell[j] as number) * np(rz));
-      qLow += Math.min(...charges);
-      qHigh += Math.max(...charges);
-    });
     for (const [dev, c] of Object.entries(seq.gateChanges)) changes[dev] = (changes[dev] ?? 0) + c;
     const start = seq.states[0];
     if (previousStart) addTransitions(changes, previousStart, start);
@@ -126,14 +118,19 @@ export function cycleCheck(table: SwitchingTable, options: CycleCheckOptions): C
   }
   if (previousStart && firstStart) addTransitions(changes, previousStart, firstStart);
   const avgTable = qTable / n;
-  // the cycle's total can be steered anywhere in [qLow, qHigh]: the best is the point nearest zero
-  const avgBest = Math.min(Math.max(0, qLow), qHigh) / n;
+  // Best policy: a redundant vertex's dwell may be split between its realisations, so each period
+  // can draw any midpoint charge between its lowest and highest choice. The reachable range of the
+  // cycle average is the one `mMaxBalanced` is decided on (same sweep, same tolerance), so the
+  // plan and this check always agree; the best is the point of the range nearest zero.
+  const range = midpointRangeAt(midpointProfile(table.polarities, m, phi, delta), m);
+  const [lo, hi] = range ? [range[0] * amp, range[1] * amp] : [0, 0];
+  const avgBest = range ? Math.min(Math.max(0, lo), hi) : null;
   return {
     periods: n,
     voltSecondErrorMax: err,
     clampedPeriods: clamped,
-    midpointCurrent: { tablePolicy: avgTable, bestPolicy: avgBest, reachable: [qLow / n, qHigh / n] },
-    midpointDrift: Math.abs(avgBest) > threshold * amp,
+    midpointCurrent: { tablePolicy: avgTable, bestPolicy: avgBest, reachable: range ? [lo, hi] : null },
+    midpointDrift: !range || lo > MIDPOINT_TOLERANCE * amp || hi < -MIDPOINT_TOLERANCE * amp,
     tablePolicyDrift: Math.abs(avgTable) > threshold * amp,
     gateChangesPerCycle: Object.fromEntries(Object.entries(changes).sort(([a], [b]) => (a < b ? -1 : 1))),
   };

@@ -27,6 +27,8 @@ export interface DeratingPoint {
   readonly deratingRatio: number;
   readonly limitingAngleDeg: number;
   readonly limitingPolarity: string;
+  /** The first version's convex-hull limit at the same load angle (for comparison; not safe). */
+  readonly mMaxHull: number;
   /** True where the curve may have a kink (see {@link deratingCurve}); false on plain grid points. */
   readonly breakpoint: boolean;
 }
@@ -87,6 +89,7 @@ export function deratingCurve(atlas: DiagramAtlas, options: DeratingCurveOptions
       deratingRatio: h.mMax > 0 ? f.mMax / h.mMax : 0,
       limitingAngleDeg: f.limitingAngleDeg,
       limitingPolarity: f.limitingPolarity,
+      mMaxHull: kind === 'hull' ? f.mMax : modulationLimit(atlas.faulted, phi, margin, 'hull').mMax,
       breakpoint: breaks.has(phi),
     };
   });

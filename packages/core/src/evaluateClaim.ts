@@ -2,6 +2,7 @@ import { diagramAtlas } from './diagramAtlas.js';
 import { HexsalvageInputError } from './errors.js';
 import { limitOverLoadAngles } from './modulationLimit.js';
 import type { PolarityDiagram } from './polarityDiagram.js';
+import { resolveRules, type LevelStepRule, type LimitRules } from './rules.js';
 
 /** A derating claim: the leg keeps at least modulation index `m` over a load-angle range. */
 export interface DeratingClaim {
@@ -14,6 +15,10 @@ export interface DeratingClaim {
   readonly loadAngleDeg: readonly [number, number];
   /** Default 0. */
   readonly polarityMarginDeg?: number;
+  /** Level-step rule of the verdict (contract, Version 2). Default `commutable`. */
+  readonly levelSteps?: LevelStepRule;
+  /** Skip the device-rating check (unsafe; reproduces the first version). Default false. */
+  readonly ignoreRatings?: boolean;
 }
 
 /** The verdict on one claim. */
@@ -29,7 +34,11 @@ export interface ClaimVerdict {
   readonly m: number;
   readonly limitingAngleDeg: number;
   readonly limitingPolarity: string;
-  /** The binding hull edge as its two vectors' level triplets and classes, or null. */
+  /** min over the range of the first version's convex-hull limit, for comparison. */
+  readonly mMaxHullAtWorst: number;
+  /** The rules the verdict was made under. */
+  readonly rules: LimitRules;
+  /** The binding outline edge as its two vectors' level triplets and classes, or null. */
   readonly bindingEdge: readonly { readonly alpha: number; readonly beta: number; readonly class: string; readonly levels: readonly (readonly number[])[] }[] | null;
 }
 
@@ -51,8 +60,10 @@ export function evaluateClaim(claim: DeratingClaim): ClaimVerdict {
   if (!(Number.isFinite(lo) && Number.isFinite(hi) && lo >= -180 && hi <= 180 && lo <= hi)) throw bad('loadAngleDeg', '[LO, HI] with −180 ≤ LO ≤ HI ≤ 180', claim.loadAngleDeg);
   const delta = claim.polarityMarginDeg ?? 0;
   if (!(Number.isFinite(delta) && delta >= 0 && delta < 60)) throw bad('polarityMarginDeg', 'degrees in [0, 60)', delta);
-  const atlas = diagramAtlas({ topology: claim.topology, faults: claim.faults });
+  const rules = resolveRules({ levelSteps: claim.levelSteps, ignoreRatings: claim.ignoreRatings }, claim.name);
+  const atlas = diagramAtlas({ topology: claim.topology, faults: claim.faults, levelSteps: rules.levelSteps, ignoreRatings: !rules.ratings });
   const r = limitOverLoadAngles(atlas.faulted, lo, hi, delta);
+  const hull = limitOverLoadAngles(atlas.faulted, lo, hi, delta, 'hull');
   const d = atlas.faulted.get(r.limitingPolarity) as PolarityDiagram;
   const edge = r.bindingEdge ? r.bindingEdge.map((i) => {
     const v = d.vectors[i] as PolarityDiagram['vectors'][number];
@@ -67,6 +78,8 @@ export function evaluateClaim(claim: DeratingClaim): ClaimVerdict {
     mMaxAtWorst: r.mMax,
     shortfall: Math.max(0, claim.m - r.mMax),
     m: claim.m,
+    mMaxHullAtWorst: hull.mMax,
+    rules,
     limitingAngleDeg: r.limitingAngleDeg,
     limitingPolarity: r.limitingPolarity,
     bindingEdge: edge,

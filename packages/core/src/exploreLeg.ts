@@ -1,17 +1,16 @@
 import type { LegAnalysis } from './analyseLeg.js';
-import { blockingVoltages } from './blockingVoltages.js';
-import { conductionEdges, findShootThrough, outputForSign, type CurrentSign } from './conduction.js';
-import { expandElements, gatedDeviceIds } from './expandElements.js';
-import { PHASES, type Phase, type PhaseFaults } from './faults.js';
-import type { LegNetlist } from './netlist.js';
+import type { CurrentSign } from './conduction.js';
+import { gatedDeviceIds } from './expandElements.js';
+import { PHASES, type Phase } from './faults.js';
+import { usableLevel, type GateSetSolver } from './gateSetSolver.js';
 
 /** Legs with more switches than this are not enumerated (2^n combinations). */
 export const EXPLORE_MAX_SWITCHES = 16;
 
-/** A gate combination that is safe to use for at least one current sign. */
+/** A gate combination that is usable for at least one current sign. */
 export interface ExploredCombination {
   readonly gates: readonly string[];
-  /** Level per sign, `null` where interrupted or unclamped (not usable for that sign). */
+  /** Level per sign, `null` where interrupted or overstressing a device (not usable for that sign). */
   readonly '+': number | null;
   readonly '-': number | null;
 }
@@ -20,8 +19,8 @@ export interface ExploredCombination {
 export interface PhaseExploration {
   readonly combinations: number;
   readonly shootThrough: number;
-  /** Combinations dropped for a sign because an off device could block more than its budget. */
-  readonly unclamped: number;
+  /** Sign cases dropped because no static voltage distribution keeps every device within its rating. */
+  readonly overstressed: number;
   /** Levels the usable combinations give that the named patterns do not. */
   readonly extraLevels: Readonly<Record<CurrentSign | '?', readonly number[]>>;
   /** Usable combinations that give one of the extra levels. */
@@ -30,18 +29,18 @@ export interface PhaseExploration {
 
 /** Result of {@link exploreLeg}. */
 export type LegExploration =
-  | { readonly ok: true; readonly blockingBudget: Readonly<Record<string, number>>; readonly phases: Readonly<Record<Phase, PhaseExploration>> }
+  | { readonly ok: true; readonly phases: Readonly<Record<Phase, PhaseExploration>> }
   | { readonly ok: false; readonly reason: string };
 
 /**
  * Enumerates every gate combination of the leg and reports which extra levels the hardware can
  * still give under the faults, beyond the named patterns.
  *
- * A combination is dropped when it shoots through, and dropped for a current sign when the current
- * is interrupted or when it leaves a node unclamped: some off device could then have to block more
- * than its budget. A device's budget is the larger of one DC-link step (the widest gap between
- * adjacent DC potentials) and the most it blocks in the leg's own healthy named patterns — so a
- * T-type leg's outer switches, rated for the full link by design, are not held to one step.
+ * A combination is dropped when it shoots through, and dropped for a current sign when it is not
+ * usable for it: the current is interrupted, or (with ratings applied) the static voltage check
+ * finds no distribution of node potentials within the device ratings — the same check that the
+ * leg table applies to the named patterns, so there is one notion of "this state overstresses a
+ * device". Unrated devices are not checked.
  *
  * @param analysis - from `analyseLeg`
  * @returns per phase the counts and extra levels, or `{ ok: false }` for too many switches
@@ -51,40 +50,32 @@ export type LegExploration =
  * ```
  */
 export function exploreLeg(analysis: LegAnalysis): LegExploration {
-  const leg = analysis.leg;
-  const switches = gatedDeviceIds(leg);
+  const switches = gatedDeviceIds(analysis.leg);
   if (switches.length > EXPLORE_MAX_SWITCHES) {
     return { ok: false, reason: `leg has ${switches.length} switches; exploration enumerates 2^n combinations and stops at ${EXPLORE_MAX_SWITCHES}` };
   }
-  const budget = blockingBudget(leg);
-  const faultsOf = (ph: Phase): PhaseFaults => new Map(analysis.faults.filter((f) => f.phase === ph).map((f) => [f.element, f.mode]));
   const phases = {} as Record<Phase, PhaseExploration>;
   for (const ph of PHASES) {
     const t = analysis.phases[ph];
-    phases[ph] = explorePhase(leg, switches, faultsOf(ph), budget, t.levels);
+    phases[ph] = explorePhase(switches, t.solve, t.levels);
   }
-  return { ok: true, blockingBudget: Object.fromEntries(budget), phases };
+  return { ok: true, phases };
 }
 
-function explorePhase(leg: LegNetlist, switches: readonly string[], faults: PhaseFaults, budget: Map<string, number>, named: Record<CurrentSign | '?', readonly number[]>): PhaseExploration {
-  const elements = expandElements(leg);
+function explorePhase(switches: readonly string[], solve: GateSetSolver, named: Record<CurrentSign | '?', readonly number[]>): PhaseExploration {
   let shootThrough = 0;
-  let unclamped = 0;
+  let overstressed = 0;
   const usable: ExploredCombination[] = [];
   for (let mask = 0; mask < 1 << switches.length; mask++) {
     const gates = switches.filter((_, i) => mask & (1 << i));
-    const edges = conductionEdges(elements, new Set(gates), faults);
-    if (findShootThrough(leg, edges)) {
+    const o = solve(gates);
+    if (o.status === 'forbidden') {
       shootThrough++;
       continue;
     }
     const level = (s: CurrentSign): number | null => {
-      const l = outputForSign(leg, edges, s).level;
-      if (l === null) return null;
-      const v = blockingVoltages(leg, edges, l);
-      const over = [...v].some(([id, x]) => x > (budget.get(id) as number) + 1e-9);
-      if (over) unclamped++;
-      return over ? null : l;
+      if (o.unsafe[s]) overstressed++;
+      return usableLevel(o, s);
     };
     const c = { gates, '+': level('+'), '-': level('-') };
     if (c['+'] !== null || c['-'] !== null) usable.push(c);
@@ -100,32 +91,5 @@ function explorePhase(leg: LegNetlist, switches: readonly string[], faults: Phas
   const extraLevels = { '+': extra('+'), '-': extra('-'), '?': extra('?') };
   const extraCombinations = usable.filter((c) =>
     (c['+'] !== null && extraLevels['+'].includes(c['+'])) || (c['-'] !== null && extraLevels['-'].includes(c['-'])) || (c['+'] !== null && c['+'] === c['-'] && extraLevels['?'].includes(c['+'])));
-  return { combinations: 1 << switches.length, shootThrough, unclamped, extraLevels, extraCombinations };
-}
-
-/**
- * Per-device blocking budget: max(one DC-link step, most it blocks in the healthy named patterns).
- *
- * @param leg - the leg netlist
- * @returns device id → budget, units of Vdc/2
- * @example
- * ```ts
- * blockingBudget(builtinLeg('tnpc')).get('upper'); // 2 (full link, by design)
- * ```
- */
-export function blockingBudget(leg: LegNetlist): Map<string, number> {
-  const pots = [...new Set(Object.values(leg.dcNodes))].sort((x, y) => x - y);
-  const step = Math.max(...pots.slice(1).map((p, i) => p - (pots[i] as number)));
-  const budget = new Map(leg.devices.map((d) => [d.id, step]));
-  const elements = expandElements(leg);
-  for (const gates of Object.values(leg.patterns)) {
-    const edges = conductionEdges(elements, new Set(gates), new Map());
-    if (findShootThrough(leg, edges)) continue;
-    for (const s of ['+', '-'] as const) {
-      const l = outputForSign(leg, edges, s).level;
-      if (l === null) continue;
-      for (const [id, v] of blockingVoltages(leg, edges, l)) budget.set(id, Math.max(budget.get(id) as number, v));
-    }
-  }
-  return budget;
+  return { combinations: 1 << switches.length, shootThrough, overstressed, extraLevels, extraCombinations };
 }

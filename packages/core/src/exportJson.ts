@@ -2,7 +2,7 @@ import type { RemedialPlan } from './planRemedial.js';
 import type { SwitchingTable } from './switchingTable.js';
 
 /** Version of the export document; the JSON Schema in docs/schema describes this version. */
-export const EXPORT_SCHEMA_VERSION = 1;
+export const EXPORT_SCHEMA_VERSION = 2;
 
 /** The export document: the plan at one load angle and the full switching table. */
 export interface ExportDocument {

@@ -2,12 +2,17 @@ import type { Point } from './clarke.js';
 import { dwellTimes, type DwellMatrix } from './dwell.js';
 import { DWELL_TOLERANCE } from './tolerance.js';
 
+/** An outline segment `[[α0, β0], [α1, β1]]`, the tiling on its left. */
+export type OutlineSegment = readonly [readonly [number, number], readonly [number, number]];
+
 /** The parts of a polarity diagram the locator needs (a `PlanPolarity` from a plan fits). */
 export interface LocatableDiagram {
   readonly vectors: readonly { readonly alpha: number; readonly beta: number }[];
   readonly hull: readonly (readonly [number, number])[];
   readonly triangles: readonly (readonly [number, number, number])[];
   readonly dwell: readonly DwellMatrix[];
+  /** Outline of the tiling where it does not fill the hull; references are then clamped to it. */
+  readonly outline?: readonly OutlineSegment[] | null;
 }
 
 /** Where a reference vector falls and for how long each vertex is applied. */
@@ -48,7 +53,11 @@ export function locateReference(d: LocatableDiagram, alpha: number, beta: number
   if (d.triangles.length === 0) return { ok: false, reason: 'no-triangles' };
   const direct = findTriangle(d, alpha, beta);
   if (direct) return { ok: true, ...direct, clamped: false, alpha, beta };
-  const [ca, cb] = clampToHull(d.hull, [alpha, beta]);
+  const scratch = new Float64Array(2);
+  if (d.outline && d.outline.length > 0) clampToOutline(d.outline, alpha, beta, scratch);
+  else clampInto(d.hull, alpha, beta, scratch);
+  const ca = scratch[0] as number;
+  const cb = scratch[1] as number;
   const found = findTriangle(d, ca, cb) ?? nearestTriangle(d, ca, cb);
   return { ok: true, ...found, clamped: true, alpha: ca, beta: cb };
 }
@@ -139,6 +148,66 @@ export function clampInto(hull: readonly (readonly [number, number])[], x: numbe
   for (let i = 0; i < n; i++) {
     const a = hull[i] as readonly [number, number];
     const b = hull[(i + 1) % n] as readonly [number, number];
+    const ex = b[0] - a[0];
+    const ey = b[1] - a[1];
+    const s = Math.min(1, Math.max(0, ((x - a[0]) * ex + (y - a[1]) * ey) / (ex * ex + ey * ey)));
+    const qx = a[0] + s * ex;
+    const qy = a[1] + s * ey;
+    const dq = Math.hypot(qx - x, qy - y);
+    if (dq < dist) {
+      dist = dq;
+      out[0] = qx;
+      out[1] = qy;
+    }
+  }
+}
+
+/**
+ * Brings a point back into a tiling that does not fill its hull, along the ray from the origin
+ * through it: to the farthest point where the ray leaves the tiling before the point, else to the
+ * nearest point where it enters after it, else (the ray misses the tiling) to the nearest outline
+ * point. On a convex outline this is what {@link clampInto} does. The modulator's fast path, this
+ * locator and the C header share the arithmetic, so they agree bit for bit.
+ *
+ * @param outline - outline segments, the tiling on their left
+ * @param x - point α
+ * @param y - point β
+ * @param out - receives [α, β]
+ * @example
+ * ```ts
+ * clampToOutline(plan.polarities['+--'].outline!, 2, 0, scratch);
+ * ```
+ */
+export function clampToOutline(outline: readonly OutlineSegment[], x: number, y: number, out: Float64Array): void {
+  const len = Math.hypot(x, y);
+  if (len > 0) {
+    const ux = x / len;
+    const uy = y / len;
+    let exit = -1;
+    let entry = Infinity;
+    for (let i = 0; i < outline.length; i++) {
+      const [p, q] = outline[i] as OutlineSegment;
+      const dx = q[0] - p[0];
+      const dy = q[1] - p[1];
+      const den = ux * dy - uy * dx;
+      if (Math.abs(den) < 1e-15) continue;
+      const t = (p[0] * dy - p[1] * dx) / den;
+      const s = (p[0] * uy - p[1] * ux) / den;
+      if (t <= 0 || s < 0 || s > 1) continue;
+      // the tiling is on the left of p→q: the ray leaves it where it crosses left to right (den > 0)
+      if (den > 0 && t <= len && t > exit) exit = t;
+      if (den < 0 && t >= len && t < entry) entry = t;
+    }
+    const t = exit >= 0 ? exit : entry;
+    if (t < Infinity) {
+      out[0] = t * ux;
+      out[1] = t * uy;
+      return;
+    }
+  }
+  let dist = Infinity;
+  for (let i = 0; i < outline.length; i++) {
+    const [a, b] = outline[i] as OutlineSegment;
     const ex = b[0] - a[0];
     const ey = b[1] - a[1];
     const s = Math.min(1, Math.max(0, ((x - a[0]) * ex + (y - a[1]) * ey) / (ex * ex + ey * ey)));

@@ -1,6 +1,25 @@
+import type { LevelTriplet } from './clarke.js';
+import type { DwellMatrix } from './dwell.js';
 import type { PolarityString } from './polarity.js';
-import type { PolarityDiagram } from './polarityDiagram.js';
 import { polarityAt } from './polaritySectors.js';
+
+/** What the midpoint sweep reads of a polarity's tiling (a diagram, a plan or a table polarity fits). */
+export interface MidpointTiling {
+  readonly vectors: readonly { readonly alpha: number; readonly beta: number; readonly levels: readonly LevelTriplet[] }[];
+  readonly triangles: readonly (readonly [number, number, number])[];
+  readonly dwell: readonly DwellMatrix[];
+}
+
+type PolarityDiagram = MidpointTiling;
+
+/** Tilings by polarity string: a `Map` (diagram atlas) or a record (plan or table polarities). */
+export type MidpointSource = ReadonlyMap<PolarityString, MidpointTiling> | Readonly<Record<PolarityString, MidpointTiling>>;
+
+function tilingOf(src: MidpointSource, p: PolarityString): MidpointTiling {
+  const d = src instanceof Map ? src.get(p) : Object.prototype.hasOwnProperty.call(src, p) ? (src as Record<string, MidpointTiling>)[p] : undefined;
+  if (!d) throw new Error(`no tiling for polarity ${p}`);
+  return d;
+}
 
 /** Samples of θ per fundamental period (every 0.5°). */
 export const MIDPOINT_SAMPLES = 720;
@@ -36,7 +55,7 @@ export interface MidpointProfile {
 /**
  * Builds the {@link MidpointProfile} of a set of diagrams at a load angle and margin.
  *
- * @param diagrams - diagram per polarity string
+ * @param diagrams - tiling per polarity string (diagram atlas map, plan or table polarities)
  * @param mTop - largest m of interest (normally mMax)
  * @param loadAngleDeg - load angle φ (currents of unit amplitude lag the reference by φ)
  * @param marginDeg - polarity margin δ (which polarity's tiling is in force)
@@ -46,7 +65,7 @@ export interface MidpointProfile {
  * midpointRangeAt(midpointProfile(atlas.faulted, plan.mMax, 25, 0), 0.8);
  * ```
  */
-export function midpointProfile(diagrams: ReadonlyMap<PolarityString, PolarityDiagram>, mTop: number, loadAngleDeg: number, marginDeg: number): MidpointProfile {
+export function midpointProfile(diagrams: MidpointSource, mTop: number, loadAngleDeg: number, marginDeg: number): MidpointProfile {
   const phi = (loadAngleDeg * Math.PI) / 180;
   const prepared = new Map<PolarityDiagram, Prepared>();
   // events: start (+) and end (−) of each ray piece, in flat arrays (no garbage in the hot loop)
@@ -77,7 +96,7 @@ export function midpointProfile(diagrams: ReadonlyMap<PolarityString, PolarityDi
   let gapAt = Infinity;
   for (let k = 0; k < MIDPOINT_SAMPLES; k++) {
     const theta = ((k + 0.5) * 2 * Math.PI) / MIDPOINT_SAMPLES;
-    const d = diagrams.get(polarityAt((theta * 180) / Math.PI, loadAngleDeg, marginDeg)) as PolarityDiagram;
+    const d = tilingOf(diagrams, polarityAt((theta * 180) / Math.PI, loadAngleDeg, marginDeg));
     let pd = prepared.get(d);
     if (!pd) {
       pd = prepare(d);

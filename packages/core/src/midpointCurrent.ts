@@ -25,8 +25,9 @@ export function midpointCoefficients(levels: LevelTriplet, hasMidpoint: boolean)
 /**
  * Sign of the midpoint current for a polarity string, using i_a + i_b + i_c = 0.
  *
- * One phase at the midpoint: its own sign. Two: minus the sign of the third. None or all three: 0.
- * A needed phase reading `?` makes the sign unknown (`null`).
+ * One phase at the midpoint: its own sign. Two: minus the sign of the third, or, where the third
+ * reads `?`, the common sign of the two when they share one. None or all three: 0. Otherwise the
+ * sign is unknown (`null`).
  *
  * @param c - midpoint coefficients
  * @param polarity - per-phase polarity
@@ -39,9 +40,15 @@ export function midpointCoefficients(levels: LevelTriplet, hasMidpoint: boolean)
 export function midpointSign(c: readonly (0 | 1)[], polarity: readonly PhasePolarity[]): MidpointSign {
   const n = c.filter((x) => x === 1).length;
   if (n === 0 || n === 3) return 0;
-  const k = n === 1 ? c.indexOf(1) : c.indexOf(0);
-  const p = polarity[k];
-  if (p === '?') return null;
-  const s = p === '+' ? 1 : -1;
-  return (n === 1 ? s : -s) as 1 | -1;
+  const sign = (p: PhasePolarity | undefined) => (p === '+' ? 1 : p === '-' ? -1 : 0);
+  if (n === 1) {
+    const s = sign(polarity[c.indexOf(1)]);
+    return s === 0 ? null : (s as 1 | -1);
+  }
+  // two phases at the midpoint: i_x + i_y = −i_z. Either the third phase's sign is known, or the
+  // two share one known sign; a `?` is then resolved by the three currents summing to zero.
+  const third = sign(polarity[c.indexOf(0)]);
+  if (third !== 0) return -third as 1 | -1;
+  const [x, y] = [0, 1, 2].filter((k) => c[k] === 1).map((k) => sign(polarity[k]));
+  return x !== 0 && x === y ? (x as 1 | -1) : null;
 }

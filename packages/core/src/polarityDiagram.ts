@@ -4,7 +4,7 @@ import type { LevelTriplet, Point } from './clarke.js';
 import { classifyVector, type VectorShell } from './classifyVectors.js';
 import { dwellMatrix, type DwellMatrix } from './dwell.js';
 import type { Phase } from './faults.js';
-import { convexHull } from './hull.js';
+import { convexHull, polygonArea } from './hull.js';
 import type { LevelMove } from './commutation.js';
 import type { LevelSets, PhasePolarity } from './legTable.js';
 import { parsePolarity, type PolarityString } from './polarity.js';
@@ -12,7 +12,7 @@ import { hullGeometry, minRadialExtent, type HullGeometry } from './radialExtent
 import type { LimitRules } from './rules.js';
 import { indexOfVector, survivingVectors, type SpaceVector } from './survivingVectors.js';
 import type { OutlineEdge } from './triangleUnion.js';
-import { triangulate, type Triangle } from './triangulate.js';
+import { triangleArea, triangulate, type Triangle } from './triangulate.js';
 
 /** A surviving vector with its healthy-diagram class. */
 export interface ClassifiedVector extends SpaceVector {
@@ -145,7 +145,15 @@ function tile(vectors: readonly SpaceVector[], points: readonly Point[], delauna
   if (delaunay.length > 0 && delaunay.every((t) => admissibleChain(vectors, t, moves) !== null)) return whole;
   const scale = Math.max(1e-300, ...points.map((p) => Math.hypot(p[0], p[1])));
   const t = admissibleTiling(points, admissibleTriangles(vectors, moves, points), 1e-9 * scale);
+  // a tiling that fills the hull has the hull as its region: keep the hull's geometry and clamp
+  const area = t.triangles.reduce((acc, tri) => acc + triangleArea(points, tri), 0);
+  const hullPts = hullOf(points);
+  if (hullPts.length >= 3 && area >= polygonArea(hullPts) - 1e-9 * scale * scale) return { ...whole, triangles: t.triangles };
   return { triangles: t.triangles, geometry: t.geometry, reach: t.reach, outline: t.outline, exact: t.exact };
+}
+
+function hullOf(points: readonly Point[]): Point[] {
+  return convexHull(points).map((i) => points[i] as Point);
 }
 
 function tripletKey(t: LevelTriplet): string {

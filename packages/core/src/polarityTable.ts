@@ -7,7 +7,7 @@ import { locateReference } from './locateReference.js';
 import { midpointCoefficients, midpointSign, type MidpointSign } from './midpointCurrent.js';
 import { parsePolarity, type PolarityString } from './polarity.js';
 import type { ClassifiedVector, PolarityDiagram } from './polarityDiagram.js';
-import { chooseSequence, type LegState, type PhaseState, type SwitchingSequence } from './switchingSequence.js';
+import { chooseSequence, type LegState, type PhaseState, type StepAllowed, type SwitchingSequence } from './switchingSequence.js';
 
 /** One way of producing a vertex: a level triplet and the pattern of each phase. */
 export interface VertexRealisation {
@@ -107,6 +107,7 @@ function buildTriangles(atlas: DiagramAtlas, d: PolarityDiagram, tables: readonl
     }
     return c;
   };
+  const step = sequenceRule(atlas, tables, pol, levels);
   const vertexOf = (vi: number): TableVertex => {
     const v = d.vectors[vi] as ClassifiedVector;
     const realisations = v.levels.flatMap((t) => {
@@ -125,9 +126,26 @@ function buildTriangles(atlas: DiagramAtlas, d: PolarityDiagram, tables: readonl
       vertices,
       dwell: d.dwell[i] as DwellMatrix,
       midpointAuthority: authority(vertices),
-      sequence: withSequence ? chooseSequence(vertices.map((v) => v.realisations.map((r) => r.levels)), candidatesOf, levels, line, memo) : null,
+      sequence: withSequence ? chooseSequence(vertices.map((v) => v.realisations.map((r) => r.levels)), candidatesOf, levels, line, memo, step) : null,
     };
   });
+}
+
+// The sequence rule of the atlas's rules: a level change needs one pattern pair that commutates both
+// ways (and neighbouring levels under `adjacent`); a phase keeping its level keeps its pattern or
+// changes it by a commutating pair. No rule under `levelSteps: any`.
+function sequenceRule(atlas: DiagramAtlas, tables: readonly [LegTable, LegTable, LegTable], pol: readonly PhasePolarity[], levels: readonly number[]): StepAllowed | undefined {
+  const rules = atlas.analysis.rules;
+  if (rules.levelSteps === 'any') return undefined;
+  const index = new Map(Object.keys(atlas.analysis.leg.patterns).map((n, i) => [n, i]));
+  return (k, a, b) => {
+    if (a.pattern === b.pattern) return true;
+    if (rules.levelSteps === 'adjacent' && a.level !== b.level && Math.abs(levels.indexOf(a.level) - levels.indexOf(b.level)) !== 1) return false;
+    const pairs = (tables[k] as LegTable).commutations.pairs[pol[k] as PhasePolarity];
+    const i = index.get(a.pattern);
+    const j = index.get(b.pattern);
+    return pairs.has(`${i}>${j}`) && pairs.has(`${j}>${i}`);
+  };
 }
 
 function realise(t: LevelTriplet, tables: readonly [LegTable, LegTable, LegTable], healthy: LegTable, pol: readonly PhasePolarity[]): LegState | null {

@@ -39,6 +39,12 @@ export interface SwitchingSequence {
 export type PatternCandidatesOf = (phase: number, level: number) => readonly PhaseState[];
 
 /**
+ * The sequence rule (contract, Version 2): whether phase k may go from state `a` to state `b` in
+ * one step of a sequence and back again. Absent: every step is allowed (`levelSteps: any`).
+ */
+export type StepAllowed = (phase: number, a: PhaseState, b: PhaseState) => boolean;
+
+/**
  * Chooses the order, the triplet of each vertex and each phase's pattern for a centre-aligned,
  * symmetric period s1 → s2 → s3 → s2 → s1.
  *
@@ -54,7 +60,9 @@ export type PatternCandidatesOf = (phase: number, level: number) => readonly Pha
  * @param lineDevices - device ids marked `switching: line`
  * @param memo - cache of per-phase solutions; share one across the triangles of one polarity
  *   (same candidates) to solve each phase/level combination once
- * @returns the chosen sequence, or `null` when a vertex cannot be realised
+ * @param step - the sequence rule; with it consecutive states differ in exactly one phase, by a step
+ *   it allows (the same pattern pair both ways), and the other phases keep their pattern
+ * @returns the chosen sequence, or `null` when a vertex cannot be realised (or no order obeys the rule)
  * @example
  * ```ts
  * chooseSequence([[[0, 0, 0]], [[1, 0, 0]], [[1, 1, 0]]], candidates, [-1, 0, 1], new Set())?.order;
@@ -66,19 +74,21 @@ export function chooseSequence(
   levels: readonly number[],
   lineDevices: ReadonlySet<string>,
   memo: Map<string, unknown> = new Map(),
+  step?: StepAllowed,
 ): SwitchingSequence | null {
   if (triplets.length !== 3 || triplets.some((r) => r.length === 0)) return null;
   let best: { rank: number[]; seq: SwitchingSequence } | null = null;
   // the same three levels of one phase recur across orders, triplets and triangles: solve each once
   const phasePath = (ph: Phase, k: number, lv: number[]) => {
     const key = `${k}:${lv.join(',')}`;
-    if (!memo.has(key)) memo.set(key, bestPhasePath(ph, lv, (l) => candidates(k, l), lineDevices));
+    if (!memo.has(key)) memo.set(key, bestPhasePath(ph, lv, (l) => candidates(k, l), lineDevices, step && ((a, b) => step(k, a, b))));
     return memo.get(key) as PhasePath | null;
   };
   for (const order of PERMUTATIONS) {
     const lists = order.map((k) => triplets[k] as readonly LevelTriplet[]);
     for (let c0 = 0; c0 < (lists[0] as LevelTriplet[]).length; c0++) for (let c1 = 0; c1 < (lists[1] as LevelTriplet[]).length; c1++) for (let c2 = 0; c2 < (lists[2] as LevelTriplet[]).length; c2++) {
       const t = [lists[0]![c0], lists[1]![c1], lists[2]![c2]] as LevelTriplet[];
+      if (step && !(onePhaseApart(t[0]!, t[1]!) && onePhaseApart(t[1]!, t[2]!))) continue;
       const perPhase = PHASES.map((ph, k) => phasePath(ph, k, [t[0]![k], t[1]![k], t[2]![k]] as number[]));
       if (perPhase.some((p) => p === null)) continue;
       const paths = perPhase as PhasePath[];
@@ -119,11 +129,12 @@ interface PhasePath {
   readonly lineSwitching: string[];
 }
 
-function bestPhasePath(ph: Phase, lv: readonly number[], cands: (level: number) => readonly PhaseState[], lineDevices: ReadonlySet<string>): PhasePath | null {
+function bestPhasePath(ph: Phase, lv: readonly number[], cands: (level: number) => readonly PhaseState[], lineDevices: ReadonlySet<string>, step?: (a: PhaseState, b: PhaseState) => boolean): PhasePath | null {
   const [x, y, z] = lv.map(cands) as [readonly PhaseState[], readonly PhaseState[], readonly PhaseState[]];
   let best: PhasePath | null = null;
   for (let i = 0; i < x.length; i++) for (let j = 0; j < y.length; j++) for (let k = 0; k < z.length; k++) {
     const st = [x[i], y[j], z[k]] as PhaseState[];
+    if (step && !(step(st[0]!, st[1]!) && step(st[1]!, st[2]!))) continue;
     const changes: Record<string, number> = {};
     for (const [a, b] of [[st[0], st[1]], [st[1], st[2]]] as [PhaseState, PhaseState][]) {
       for (const d of gateDifference(a.gates, b.gates)) changes[`${ph}.${d}`] = (changes[`${ph}.${d}`] ?? 0) + 2;
@@ -148,6 +159,10 @@ function bestPhasePath(ph: Phase, lv: readonly number[], cands: (level: number) 
  */
 export function gateDifference(a: readonly string[], b: readonly string[]): string[] {
   return [...a.filter((g) => !b.includes(g)), ...b.filter((g) => !a.includes(g))];
+}
+
+function onePhaseApart(a: LevelTriplet, b: LevelTriplet): boolean {
+  return (a[0] !== b[0] ? 1 : 0) + (a[1] !== b[1] ? 1 : 0) + (a[2] !== b[2] ? 1 : 0) === 1;
 }
 
 const PERMUTATIONS: readonly (readonly [number, number, number])[] = [[0, 1, 2], [0, 2, 1], [1, 0, 2], [1, 2, 0], [2, 0, 1], [2, 1, 0]];

@@ -8,7 +8,7 @@ import type { PolarityDiagram } from './polarityDiagram.js';
 import { polarityTable, type TableTriangle } from './polarityTable.js';
 
 /** Version of the switching-table document layout. */
-export const TABLE_SCHEMA_VERSION = 1;
+export const TABLE_SCHEMA_VERSION = 2;
 
 /** One polarity of the switching table: its diagram plus the per-triangle table. */
 export interface TablePolarity extends PlanPolarity {
@@ -42,6 +42,8 @@ export interface SwitchingTable {
     readonly lineDevicesAtPwm: readonly TriangleFlag[];
     readonly levelJumps: readonly TriangleFlag[];
     readonly midpointAuthorityLost: readonly TriangleFlag[];
+    /** Triangles for which no switching sequence obeys the sequence rule (never on built-in legs). */
+    readonly noSequence: readonly TriangleFlag[];
   };
   readonly cautions: readonly string[];
 }
@@ -77,6 +79,7 @@ export function switchingTableFromAtlas(atlas: DiagramAtlas): SwitchingTable {
   const lineDevicesAtPwm: TriangleFlag[] = [];
   const levelJumps: TriangleFlag[] = [];
   const midpointAuthorityLost: TriangleFlag[] = [];
+  const noSequence: TriangleFlag[] = [];
   POLARITY_STRINGS.forEach((p, index) => {
     const t = polarityTable(atlas, p);
     polarities[p] = { index, ...polarityDocument(atlas.faulted.get(p) as PolarityDiagram), tableTriangles: t.triangles };
@@ -84,6 +87,7 @@ export function switchingTableFromAtlas(atlas: DiagramAtlas): SwitchingTable {
       const s = tri.sequence;
       if (s && s.lineDevicesSwitching.length > 0) lineDevicesAtPwm.push({ polarity: p, triangle: i, detail: s.lineDevicesSwitching });
       if (s && s.levelJumps.length > 0) levelJumps.push({ polarity: p, triangle: i, detail: s.levelJumps.map((j: { phase: Phase; from: number; to: number }) => `${j.phase}: ${j.from}→${j.to}`) });
+      if (!s) noSequence.push({ polarity: p, triangle: i, detail: ['no sequence obeys the sequence rule'] });
       if (tri.authorityLost) midpointAuthorityLost.push({ polarity: p, triangle: i, detail: [`${tri.healthyMidpointAuthority}→${tri.midpointAuthority}`] });
     });
   });
@@ -97,7 +101,7 @@ export function switchingTableFromAtlas(atlas: DiagramAtlas): SwitchingTable {
     patterns: Object.keys(leg.patterns),
     polarityOrder: POLARITY_STRINGS,
     polarities,
-    flags: { lineDevicesAtPwm, levelJumps, midpointAuthorityLost },
+    flags: { lineDevicesAtPwm, levelJumps, midpointAuthorityLost, noSequence },
     cautions: CAUTIONS,
   };
 }

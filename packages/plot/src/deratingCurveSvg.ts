@@ -20,6 +20,8 @@ const DASHES = ['', '6 3', '2 2', '8 3 2 3', '4 4', '1 3'];
 /**
  * mMax versus load angle for one or several fault cases, with the derating ratio on a second axis,
  * the healthy limit as reference and breakpoints marked. Series differ by colour and dash pattern.
+ * Where the safe limit lies below the first version's convex-hull bound, that bound is drawn as a
+ * thin dotted line of the same colour, so a reviewer sees what the geometry alone would promise.
  *
  * @param series - fault cases (points from `deratingCurve`)
  * @param options - healthy reference, title
@@ -59,9 +61,15 @@ export function deratingCurveSvg(series: readonly DeratingSeries[], options: Der
   body.push(`<text transform="translate(18 ${n((T + B) / 2)}) rotate(-90)" text-anchor="middle">mMax (peak phase voltage / (Vdc/2))</text>`);
   body.push(`<text transform="translate(${W - 10} ${n((T + B) / 2)}) rotate(90)" text-anchor="middle">derating ratio mMax / healthy</text>`);
   body.push(`<line class="healthy" x1="${L}" y1="${Y(healthy)}" x2="${R}" y2="${Y(healthy)}" stroke="${STYLE.ink}" stroke-dasharray="3 3"/><text x="${L + 4}" y="${n(Number(Y(healthy)) - 4)}" font-size="${STYLE.smallFont}">healthy ${n(healthy, 4)}</text>`);
+  // the first version's hull bound, thin and faint, wherever it differs from the safe limit
+  const hullShown = series.some((s) => s.points.some((p) => Math.abs(p.mMaxHull - p.mMax) > 1e-9));
   series.forEach((s, i) => {
     const c = COLOURS[i % COLOURS.length] as string;
     const dash = DASHES[i % DASHES.length] as string;
+    if (s.points.some((p) => Math.abs(p.mMaxHull - p.mMax) > 1e-9)) {
+      const h = s.points.map((p, j) => `${j ? 'L' : 'M'}${X(p.loadAngleDeg)},${Y(p.mMaxHull)}`).join(' ');
+      body.push(`<path class="hull-series" d="${h}" fill="none" stroke="${c}" stroke-width="1" stroke-opacity="0.6" stroke-dasharray="1 3"/>`);
+    }
     const d = s.points.map((p, j) => `${j ? 'L' : 'M'}${X(p.loadAngleDeg)},${Y(p.mMax)}`).join(' ');
     body.push(`<path class="series" d="${d}" fill="none" stroke="${c}" stroke-width="2"${dash ? ` stroke-dasharray="${dash}"` : ''}/>`);
     for (const p of s.points.filter((q) => q.breakpoint)) body.push(`<circle class="breakpoint" cx="${X(p.loadAngleDeg)}" cy="${Y(p.mMax)}" r="2.6" fill="#fff" stroke="${c}" stroke-width="1.4"/>`);
@@ -71,6 +79,7 @@ export function deratingCurveSvg(series: readonly DeratingSeries[], options: Der
   });
   const by = B + 56 + (legendRows - 1) * 14;
   body.push(`<g font-size="${STYLE.smallFont}"><circle cx="${L + 13}" cy="${by}" r="2.6" fill="#fff" stroke="${STYLE.ink}"/><text x="${L + 32}" y="${by + 4}">computed breakpoint (a kink of the curve)</text></g>`);
+  if (hullShown) body.push(`<g font-size="${STYLE.smallFont}"><line x1="${L + 270}" y1="${by}" x2="${L + 296}" y2="${by}" stroke="${STYLE.ink}" stroke-width="1" stroke-dasharray="1 3"/><text x="${L + 302}" y="${by + 4}">convex-hull bound (first version, not safe)</text></g>`);
   return svgFrame({
     width: W,
     height: H,

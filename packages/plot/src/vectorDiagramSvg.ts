@@ -49,12 +49,18 @@ export function vectorDiagramSvg(plan: RemedialPlan, polarity: string, options: 
     body.push(`<path class="triangle" d="M${pts.split(' ').join(' L')} Z"/>`);
   }
   body.push('</g>');
-  // hull
-  if (d.hull.length >= 2) body.push(`<polygon class="hull" points="${d.hull.map(([a, b]) => `${X(a)},${Y(b)}`).join(' ')}" fill="none" stroke="${STYLE.blue}" stroke-width="1.6"/>`);
+  // hull; where the admissible triangles do not fill it, the hull is drawn faint (not safe) and the
+  // outline of the admissible tiling is the boundary that counts
+  if (d.hull.length >= 2) {
+    const faint = d.outline ? ` stroke-dasharray="5 4" stroke-opacity="0.55"` : '';
+    body.push(`<polygon class="hull" points="${d.hull.map(([a, b]) => `${X(a)},${Y(b)}`).join(' ')}" fill="none" stroke="${STYLE.blue}" stroke-width="1.6"${faint}/>`);
+  }
+  if (d.outline) body.push(`<path class="outline" d="${d.outline.map(([a, b]) => `M${X(a[0])},${Y(a[1])} L${X(b[0])},${Y(b[1])}`).join(' ')}" fill="none" stroke="${STYLE.blue}" stroke-width="2.2"/>`);
   // achievable circle: the plan's mMax over the whole cycle at its load angle
   body.push(`<circle class="mmax" cx="${X(0)}" cy="${Y(0)}" r="${n(k * plan.mMax)}" fill="none" stroke="${STYLE.green}" stroke-width="1.6"/>`);
   if (options.referenceM !== undefined) body.push(`<circle class="reference" cx="${X(0)}" cy="${Y(0)}" r="${n(k * options.referenceM)}" fill="none" stroke="${STYLE.orange}" stroke-width="1.4" stroke-dasharray="6 3"/>`);
-  // binding edge: the plan's, where this polarity is the limiting one; else this hull's nearest edge
+  // binding edge: the plan's, where this polarity is the limiting one; else the nearest edge of the
+  // tiling's boundary (its outline, or the hull where the tiling fills it)
   const bind = plan.limitingPolarity === polarity && plan.bindingEdge
     ? ([[plan.bindingEdge[0].alpha, plan.bindingEdge[0].beta], [plan.bindingEdge[1].alpha, plan.bindingEdge[1].beta]] as [readonly [number, number], readonly [number, number]])
     : bindingEdge(d);
@@ -72,12 +78,12 @@ export function vectorDiagramSvg(plan: RemedialPlan, polarity: string, options: 
     if (labels) body.push(`<text class="label lost-label" x="${n(x + 6)}" y="${n(y - 6)}" font-size="${STYLE.smallFont}" fill="${STYLE.vermillion}">× ${esc(levelLabel(v))}</text>`);
   }
   body.push('</g>');
-  body.push(legend(size, plan, options.referenceM));
+  body.push(legend(size, plan, options.referenceM, d.outline !== null, bind !== null));
   return svgFrame({
     width: size,
-    height: size + 74,
+    height: size + (d.outline ? 90 : 74),
     title: `Vector diagram, polarity ${polarity}: ${plan.topology}${plan.faults.length ? `, ${plan.faults.join(', ')}` : ''}`,
-    desc: `${d.vectors.length} surviving vectors (filled dots), ${d.lost.length} lost vectors (hollow squares marked ×), ${d.triangles.length} triangles, hull radius ${n(d.radius, 4)} of healthy ${n(plan.mMaxHealthy, 4)} (units of Vdc/2).`,
+    desc: `${d.vectors.length} surviving vectors (filled dots), ${d.lost.length} lost vectors (hollow squares marked ×), ${d.triangles.length} admissible triangles, reach ${n(d.reach, 4)} (hull radius ${n(d.radius, 4)}) of healthy ${n(plan.mMaxHealthy, 4)} (units of Vdc/2).`,
   }, body.join('\n'));
 }
 
@@ -88,28 +94,36 @@ function levelLabel(v: PlanVector): string {
 }
 
 function bindingEdge(d: PlanPolarity): [readonly [number, number], readonly [number, number]] | null {
-  if (d.radius <= 0 || d.hull.length < 3) return null;
+  if (d.reach <= 0 || d.hull.length < 3) return null;
+  const edges = d.outline ?? d.hull.map((a, i) => [a, d.hull[(i + 1) % d.hull.length] as readonly [number, number]] as const);
   let best: [readonly [number, number], readonly [number, number]] | null = null;
   let dist = Infinity;
-  d.hull.forEach((a, i) => {
-    const b = d.hull[(i + 1) % d.hull.length] as readonly [number, number];
-    const len = Math.hypot(b[0] - a[0], b[1] - a[1]);
-    const h = Math.abs(a[0] * b[1] - a[1] * b[0]) / len;
+  for (const [a, b] of edges) {
+    // distance from the origin to the segment (on a hull, the foot of the perpendicular lies on it)
+    const ex = b[0] - a[0];
+    const ey = b[1] - a[1];
+    const s = Math.min(1, Math.max(0, -(a[0] * ex + a[1] * ey) / (ex * ex + ey * ey)));
+    const h = Math.hypot(a[0] + s * ex, a[1] + s * ey);
     if (h < dist - 1e-12) [best, dist] = [[a, b], h];
-  });
+  }
   return best;
 }
 
-function legend(size: number, plan: RemedialPlan, refM?: number): string {
+function legend(size: number, plan: RemedialPlan, refM: number | undefined, outlined: boolean, bound: boolean): string {
   const y = size + 34;
   const items = [
     `<circle cx="20" cy="${y}" r="3.6" fill="${STYLE.ink}"/><text x="30" y="${y + 4}">surviving vector</text>`,
     `<rect x="136" y="${y - 4}" width="8" height="8" fill="#fff" stroke="${STYLE.vermillion}" stroke-width="1.4"/><text x="150" y="${y + 4}" fill="${STYLE.vermillion}">× lost vector</text>`,
-    `<line x1="240" y1="${y}" x2="262" y2="${y}" stroke="${STYLE.blue}" stroke-width="1.6"/><text x="268" y="${y + 4}">hull</text>`,
-    `<line x1="304" y1="${y}" x2="326" y2="${y}" stroke="${STYLE.vermillion}" stroke-width="3.2"/><text x="332" y="${y + 4}">binding edge</text>`,
+    outlined
+      ? `<line x1="240" y1="${y}" x2="262" y2="${y}" stroke="${STYLE.blue}" stroke-width="2.2"/><text x="268" y="${y + 4}">safe region</text><line x1="340" y1="${y}" x2="362" y2="${y}" stroke="${STYLE.blue}" stroke-width="1.6" stroke-dasharray="5 4" stroke-opacity="0.55"/><text x="368" y="${y + 4}">hull (not safe)</text>`
+      : `<line x1="240" y1="${y}" x2="262" y2="${y}" stroke="${STYLE.blue}" stroke-width="1.6"/><text x="268" y="${y + 4}">hull</text>`,
   ];
+  // the binding edge goes on the first row beside the hull, or under the legend where the
+  // safe-region entry takes that room
+  const yb = outlined ? y + 36 : y;
+  if (bound || !outlined) items.push(`<line x1="${outlined ? 240 : 304}" y1="${yb}" x2="${outlined ? 262 : 326}" y2="${yb}" stroke="${STYLE.vermillion}" stroke-width="3.2"/><text x="${outlined ? 268 : 332}" y="${yb + 4}">binding edge</text>`);
   const y2 = y + 18;
-  items.push(`<circle cx="31" cy="${y2}" r="8" fill="none" stroke="${STYLE.green}" stroke-width="1.6"/><text x="44" y="${y2 + 4}">mMax = ${n(plan.mMax, 4)} over the cycle at φ = ${n(plan.loadAngleDeg, 1)}°</text>`);
+  items.push(`<circle cx="31" cy="${y2}" r="8" fill="none" stroke="${STYLE.green}" stroke-width="1.6"/><text x="44" y="${y2 + 4}">${plan.mMax > 0 ? `mMax = ${n(plan.mMax, 4)} over the cycle at φ = ${n(plan.loadAngleDeg, 1)}°` : `mMax = 0 at φ = ${n(plan.loadAngleDeg, 1)}°: cannot run`}</text>`);
   items.push(`<line x1="290" y1="${y2}" x2="312" y2="${y2}" stroke="${STYLE.faint}" stroke-dasharray="2 3"/><text x="318" y="${y2 + 4}">healthy limit</text>`);
   if (refM !== undefined) items.push(`<line x1="400" y1="${y2}" x2="422" y2="${y2}" stroke="${STYLE.orange}" stroke-width="1.4" stroke-dasharray="6 3"/><text x="428" y="${y2 + 4}">m = ${n(refM, 3)}</text>`);
   return `<g class="legend" font-size="${STYLE.smallFont}" fill="${STYLE.ink}">${items.join('')}</g>`;

@@ -8,14 +8,14 @@ import { readClaims } from '../readClaims.js';
 export const checkCommand: Command = {
   name: 'check',
   summary: 'decide derating claims exactly over their load-angle ranges (exit 1 if any fails)',
-  usage: 'check CLAIMS.json [--json]',
-  options: [JSON_OPTION, HELP_OPTION],
+  usage: 'check CLAIMS.json [--ignore-ratings] [--json]',
+  options: [{ name: 'ignore-ratings', type: 'flag', help: 'judge every claim without the device voltage-rating check (unsafe; first version)' }, JSON_OPTION, HELP_OPTION],
   run: async (args, io) => {
     const file = args.positionals[0];
     if (file === undefined || args.positionals.length > 1) throw usage('CLAIMS.json', 'one claims file');
     const verdicts = readClaims(file).map((c) => {
       try {
-        return evaluateClaim(c);
+        return evaluateClaim(args.flags.has('ignore-ratings') ? { ...c, ignoreRatings: true } : c);
       } catch (e) {
         if (e instanceof HexsalvageInputError) throw new HexsalvageInputError('claims', file, `claim "${c.name}"`, e.message);
         throw e;
@@ -38,17 +38,24 @@ export const checkCommand: Command = {
  * ```
  */
 export function checkText(verdicts: readonly ClaimVerdict[]): string {
-  const rows = verdicts.map((v) => [v.name, v.holds ? 'HOLDS' : 'FAILS', fmt(v.m, 4), fmt(v.mMaxAtWorst, 6), fmt(v.worstLoadAngleDeg, 3), v.holds ? '-' : fmt(v.shortfall, 6), edgeText(v)]);
+  const rows = verdicts.map((v) => [v.name, v.holds ? 'HOLDS' : 'FAILS', fmt(v.m, 4), fmt(v.mMaxAtWorst, 6), fmt(v.mMaxHullAtWorst, 6), fmt(v.worstLoadAngleDeg, 3), v.holds ? '-' : fmt(v.shortfall, 6), rulesText(v), edgeText(v)]);
   const failing = verdicts.filter((v) => !v.holds).length;
+  const unsafeRules = verdicts.filter((v) => !v.rules.ratings || v.rules.levelSteps === 'any');
   return [
-    textTable(['claim', 'verdict', 'm promised', 'worst mMax', 'at load deg', 'short by', 'binding edge there'], rows),
+    textTable(['claim', 'verdict', 'm promised', 'worst mMax', 'hull limit', 'at load deg', 'short by', 'rules', 'binding edge there'], rows),
     '',
+    'worst mMax: the safe limit (ratings and commutation respected); hull limit: the first version\'s convex-hull bound, shown for comparison only.',
+    ...(unsafeRules.length ? [`WARNING: ${unsafeRules.map((v) => v.name).join(', ')} judged with relaxed rules; such a verdict does not show the hardware survives.`] : []),
     failing ? `${failing} of ${verdicts.length} claims FAIL.` : `All ${verdicts.length} claims hold over their whole load-angle ranges.`,
     cautionBlock(CAUTIONS),
   ].join('\n');
 }
 
+function rulesText(v: ClaimVerdict): string {
+  return `${v.rules.ratings ? 'ratings' : 'NO ratings'}, ${v.rules.levelSteps}`;
+}
+
 function edgeText(v: ClaimVerdict): string {
-  if (!v.bindingEdge) return 'none (hull does not contain the origin)';
+  if (!v.bindingEdge) return v.mMaxAtWorst === 0 ? 'none: cannot run in this state' : 'none';
   return `${v.bindingEdge.map((e) => `${e.class} ${e.levels[0]?.join('/')}`).join(' – ')} (θ ${fmt(v.limitingAngleDeg, 1)}°, ${v.limitingPolarity})`;
 }

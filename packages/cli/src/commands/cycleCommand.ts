@@ -19,11 +19,11 @@ export const cycleCommand: Command = {
     HELP_OPTION,
   ],
   run: async (args, io) => {
-    const { topology, faults } = legInputs(args);
+    const { topology, faults, rules } = legInputs(args);
     const { loadAngleDeg, polarityMarginDeg } = angleInputs(args);
     const m = args.values.get('m');
     if (typeof m !== 'number') throw usage('--m', 'the modulation index to run at');
-    const atlas = diagramAtlas({ topology, faults });
+    const atlas = diagramAtlas({ topology, faults, ...rules });
     const plan = planFromAtlas(atlas, loadAngleDeg, polarityMarginDeg);
     if (m > plan.mMax + 1e-12) throw usage('--m', `at most mMax = ${fmt(plan.mMax, 6)} at this load angle (the reference would be clamped)`, m);
     const report = cycleCheck(switchingTableFromAtlas(atlas), {
@@ -32,16 +32,18 @@ export const cycleCommand: Command = {
       currentAmplitude: (args.values.get('current') as number | undefined) ?? 1,
     });
     if (args.flags.has('json')) {
-      await io.stdout(`${JSON.stringify({ topology: plan.topology, faults: plan.faults, m, loadAngleDeg, polarityMarginDeg, mMax: plan.mMax, ...report })}\n`);
+      await io.stdout(`${JSON.stringify({ topology: plan.topology, faults: plan.faults, m, loadAngleDeg, polarityMarginDeg, mMax: plan.mMax, mMaxBalanced: plan.mMaxBalanced, rules: plan.rules, ...report })}\n`);
       return 0;
     }
     const rows = Object.entries(report.gateChangesPerCycle).map(([dev, c]) => [dev, String(c)]);
     await io.stdout(`${[
-      `Leg: ${plan.topology}   faults: ${plan.faults.join(', ') || 'none'}   m = ${fmt(m, 4)} (mMax ${fmt(plan.mMax, 4)})   load angle ${fmt(loadAngleDeg, 1)} deg`,
+      `Leg: ${plan.topology}   faults: ${plan.faults.join(', ') || 'none'}   m = ${fmt(m, 4)} (mMax ${fmt(plan.mMax, 4)}, mMaxBalanced ${fmt(plan.mMaxBalanced, 4)})   load angle ${fmt(loadAngleDeg, 1)} deg`,
       `Switching periods per fundamental: ${report.periods}`,
       `Volt-second balance: largest error ${report.voltSecondErrorMax.toExponential(2)} x Vdc/2 over ${report.periods - report.clampedPeriods} periods${report.clampedPeriods ? `; ${report.clampedPeriods} periods clamped` : ''}`,
-      `Average midpoint current: ${fmt(report.midpointCurrent.tablePolicy, 5)} with the table's realisations, ${fmt(report.midpointCurrent.bestPolicy, 5)} at best (reachable ${fmt(report.midpointCurrent.reachable[0], 5)} … ${fmt(report.midpointCurrent.reachable[1], 5)})`,
-      report.midpointDrift ? 'MIDPOINT WOULD DRIFT: no split of the redundant states balances it over the cycle.' : report.tablePolicyDrift ? 'Midpoint: balanced only with active redundancy control (the table’s own realisations drift).' : 'Midpoint: balanced.',
+      `Average midpoint current: ${fmt(report.midpointCurrent.tablePolicy, 5)} with the table's realisations${report.midpointCurrent.reachable ? `, ${fmt(report.midpointCurrent.bestPolicy ?? 0, 5)} at best (reachable ${fmt(report.midpointCurrent.reachable[0], 5)} ... ${fmt(report.midpointCurrent.reachable[1], 5)})` : ''}`,
+      report.midpointDrift
+        ? `MIDPOINT WOULD DRIFT: no split of the redundant states balances it over the cycle (zero average is reachable only up to m = ${fmt(plan.mMaxBalanced, 4)}).`
+        : report.tablePolicyDrift ? `Midpoint: balanced only with active redundancy control (the table's own realisations drift; balance holds up to m = ${fmt(plan.mMaxBalanced, 4)}).` : 'Midpoint: balanced.',
       '',
       'Gate changes per fundamental period:',
       textTable(['device', 'changes'], rows),

@@ -24,11 +24,11 @@ export const exportCommand: Command = {
     if (!FORMATS.includes(format as (typeof FORMATS)[number])) throw usage('--format', `one of ${FORMATS.join(', ')}`, format);
     const out = args.values.get('out');
     if (typeof out !== 'string' || out === '') throw usage('--out', 'an output file path');
-    const { topology, faults } = legInputs(args);
+    const { topology, faults, rules } = legInputs(args);
     const angles = angleInputs(args);
-    const table = switchingTable({ topology, faults });
+    const table = switchingTable({ topology, faults, ...rules });
     let text: string;
-    if (format === 'json') text = `${JSON.stringify(exportDocument(planRemedial({ topology, faults, ...angles }), table))}\n`;
+    if (format === 'json') text = `${JSON.stringify(exportDocument(planRemedial({ topology, faults, ...rules, ...angles }), table))}\n`;
     else if (format === 'csv') text = exportCsv(table);
     else text = exportC(table, { prefix: (args.values.get('prefix') as string | undefined) ?? 'hs' });
     writeFileAtomic(out, text);

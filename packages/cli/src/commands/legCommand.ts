@@ -1,4 +1,4 @@
-import { analyseLeg, CAUTIONS, exploreLeg, formatFault, legDocument, PHASES, type LegTable, type PatternResult, type PhasePolarity } from '@hexsalvage/core';
+import { analyseLeg, CAUTIONS, describeRules, exploreLeg, formatFault, legDocument, PHASES, type LegDocument, type LegTable, type PatternResult, type PhasePolarity } from '@hexsalvage/core';
 import { HELP_OPTION, JSON_OPTION, LEG_OPTIONS, type Command } from '../command.js';
 import { cautionBlock, levelText, textTable } from '../format.js';
 import { legInputs } from '../legInputs.js';
@@ -11,8 +11,8 @@ export const legCommand: Command = {
   usage: 'leg --topology T [--fault F]... [--explore] [--json]',
   options: [...LEG_OPTIONS, { name: 'explore', type: 'flag', help: 'also enumerate every gate combination and list the extra levels it offers' }, JSON_OPTION, HELP_OPTION],
   run: async (args, io) => {
-    const { topology, faults } = legInputs(args);
-    const analysis = analyseLeg({ topology, faults });
+    const { topology, faults, rules } = legInputs(args);
+    const analysis = analyseLeg({ topology, faults, ...rules });
     const explore = args.flags.has('explore');
     if (args.flags.has('json')) {
       const doc = legDocument(analysis);
@@ -20,15 +20,19 @@ export const legCommand: Command = {
       await io.stdout(`${JSON.stringify({ ...doc, ...extra })}\n`);
       return 0;
     }
-    const lines: string[] = [`Leg: ${analysis.topology}   faults: ${analysis.faults.length === 0 ? 'none' : analysis.faults.map(formatFault).join(', ')}`];
+    const doc = legDocument(analysis);
+    const lines: string[] = [
+      `Leg: ${analysis.topology}   faults: ${analysis.faults.length === 0 ? 'none' : analysis.faults.map(formatFault).join(', ')}`,
+      `Rules: ${describeRules(analysis.rules)}${analysis.unrated.length ? `; unrated (not checked): ${analysis.unrated.join(', ')}` : ''}`,
+    ];
     const healthyPhases = PHASES.filter((p) => analysis.phases[p] === analysis.healthy);
     for (const ph of PHASES) {
       if (analysis.phases[ph] === analysis.healthy && ph !== healthyPhases[0]) continue;
       const title = analysis.phases[ph] === analysis.healthy ? `Phase ${healthyPhases.join(', ')} (healthy)` : `Phase ${ph} (faulted)`;
-      lines.push('', title, phaseTable(analysis.phases[ph], analysis.healthy));
+      lines.push('', title, phaseTable(analysis.phases[ph], analysis.healthy), movesText(doc.phases[ph].moves));
     }
     if (explore) lines.push('', exploreText(analysis));
-    lines.push('', 'Levels: P = +1, O = 0, N = -1 (units of Vdc/2); "open" = current interrupted, the pattern must not be used for that sign.');
+    lines.push('', 'Levels: P = +1, O = 0, N = -1 (units of Vdc/2); "open" = current interrupted, "unsafe" = a device would block more than its rating: the pattern must not be used for that sign.');
     lines.push(cautionBlock(CAUTIONS));
     await io.stdout(`${lines.join('\n')}\n`);
     return 0;
@@ -42,9 +46,10 @@ function phaseTable(t: LegTable, healthy: LegTable): string {
     const cell = (s: '+' | '-') => {
       const lv = p.bySign[s].level;
       const was = h.status === 'allowed' ? h.bySign[s].level : null;
-      return lv === was ? levelText(lv) : `${levelText(lv)} (was ${levelText(was)})`;
+      const shown = lv === null && p.unsafe[s] ? 'unsafe' : levelText(lv);
+      return lv === was ? shown : `${shown} (was ${levelText(was)})`;
     };
-    const notes = (['+', '-'] as const).filter((s) => p.bySign[s].level === null).map((s) => `forbidden for i${s === '+' ? '>0' : '<0'}: current interrupted`);
+    const notes = (['+', '-'] as const).filter((s) => p.bySign[s].level === null).map((s) => `not used for i${s === '+' ? '>0' : '<0'}: ${p.unsafe[s] ? `unsafe, ${p.unsafe[s]}` : 'current interrupted'}`);
     return [p.name, p.gates.join('+') || '(none)', cell('+'), cell('-'), notes.join('; ')];
   });
   const sets = (['+', '-', '?'] as PhasePolarity[]).map((s) => {
@@ -53,4 +58,12 @@ function phaseTable(t: LegTable, healthy: LegTable): string {
     return `  ${label.padEnd(22)} ${t.levels[s].map(levelText).join(' ') || '(none)'}${lost.length ? `   LOST: ${lost.map(levelText).join(' ')}` : ''}`;
   });
   return `${textTable(['pattern', 'gates on', 'i>0 (+)', 'i<0 (-)', 'note'], rows)}\nLevel sets:\n${sets.join('\n')}`;
+}
+
+function movesText(moves: LegDocument['phases']['a']['moves']): string {
+  const one = (s: PhasePolarity) => {
+    const pairs = moves[s].filter(([a, b]) => a < b).map(([a, b]) => `${levelText(a)}<->${levelText(b)}`);
+    return pairs.join(' ') || '(none: the phase cannot change level)';
+  };
+  return `Level changes a sequence may make:\n  current out (+)        ${one('+')}\n  current in (-)         ${one('-')}\n  either sign (robust)   ${one('?')}`;
 }

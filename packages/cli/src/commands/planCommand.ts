@@ -1,4 +1,4 @@
-import { planRemedial, type RemedialPlan } from '@hexsalvage/core';
+import { describeRules, planRemedial, type RemedialPlan } from '@hexsalvage/core';
 import { ANGLE_OPTIONS, HELP_OPTION, JSON_OPTION, LEG_OPTIONS, type Command } from '../command.js';
 import { cautionBlock, fmt, textTable } from '../format.js';
 import { angleInputs, legInputs } from '../legInputs.js';
@@ -10,8 +10,8 @@ export const planCommand: Command = {
   usage: 'plan --topology T [--fault F]... [--load-angle DEG] [--polarity-margin DEG] [--json]',
   options: [...LEG_OPTIONS, ...ANGLE_OPTIONS, JSON_OPTION, HELP_OPTION],
   run: async (args, io) => {
-    const { topology, faults } = legInputs(args);
-    const plan = planRemedial({ topology, faults, ...angleInputs(args) });
+    const { topology, faults, rules } = legInputs(args);
+    const plan = planRemedial({ topology, faults, ...rules, ...angleInputs(args) });
     await io.stdout(args.flags.has('json') ? `${JSON.stringify(plan)}\n` : `${planText(plan)}\n`);
     return 0;
   },
@@ -30,20 +30,33 @@ export const planCommand: Command = {
 export function planText(plan: RemedialPlan): string {
   const edge = plan.bindingEdge
     ? `between ${plan.bindingEdge.map((v) => `${v.class} vector ${v.levels[0]?.join('/')} (${fmt(v.alpha, 3)}, ${fmt(v.beta, 3)})`).join(' and ')}`
-    : 'none: the hull of the surviving vectors does not strictly contain the origin there';
+    : '';
+  const verdict = plan.mMax === 0
+    ? ['CANNOT RUN in this state: no modulation index above 0 can be produced safely at this load angle.', `The surviving triangles do not surround the origin for polarity ${plan.limitingPolarity} (theta = ${fmt(plan.limitingAngleDeg, 3)} deg).`]
+    : [`Limit binds at theta = ${fmt(plan.limitingAngleDeg, 3)} deg with polarity ${plan.limitingPolarity}, on the outline edge ${edge}.`];
+  const hullNote = Math.abs(plan.mMaxHull - plan.mMax) > 1e-9
+    ? [`The convex hull of the surviving vectors would promise ${fmt(plan.mMaxHull, 6)}; that is NOT safe: the rules above leave only the admissible triangles.`]
+    : [];
   const lostFor = (pol: string) => plan.polarities[pol]?.lost.length ?? 0;
   const rows = plan.sectors.map((s) => [`${fmt(s.fromDeg, 2)}`, `${fmt(s.toDeg, 2)}`, s.polarity, String(s.vectors.length), String(lostFor(s.polarity)), String(s.triangles.length), fmt(s.minExtent, 4), fmt(s.minExtentAngleDeg, 2)]);
   return [
     `Leg: ${plan.topology}   faults: ${plan.faults.join(', ') || 'none'}`,
     `Load angle: ${fmt(plan.loadAngleDeg, 2)} deg   polarity margin: ${fmt(plan.polarityMarginDeg, 2)} deg`,
     '',
-    `Maximum modulation index (faulted): ${fmt(plan.mMax, 6)}`,
-    `Maximum modulation index (healthy): ${fmt(plan.mMaxHealthy, 6)}`,
-    `Derating ratio:                     ${fmt(plan.deratingRatio, 6)}`,
-    `Limit binds at theta = ${fmt(plan.limitingAngleDeg, 3)} deg with polarity ${plan.limitingPolarity}, on the hull edge ${edge}.`,
+    `Rules: ${describeRules(plan.rules)}${plan.unrated.length ? `; unrated (not checked): ${plan.unrated.join(', ')}` : ''}`,
+    '',
+    `Maximum modulation index (faulted, safe):      ${fmt(plan.mMax, 6)}`,
+    `Maximum modulation index (healthy):            ${fmt(plan.mMaxHealthy, 6)}`,
+    `Derating ratio:                                ${fmt(plan.deratingRatio, 6)}`,
+    `Convex-hull bound (first version, for review): ${fmt(plan.mMaxHull, 6)}`,
+    `Midpoint held at zero average up to m =        ${fmt(plan.mMaxBalanced, 6)}`,
+    ...verdict,
+    ...hullNote,
+    ...(plan.restrictions.length ? ['', 'What the rules take away:', ...plan.restrictions.map((r) => `  - ${r}`)] : []),
+    ...(plan.notes.length ? ['', 'Notes:', ...plan.notes.map((n) => `  - ${n}`)] : []),
     '',
     'Polarity sectors of the fundamental cycle:',
-    textTable(['from deg', 'to deg', 'polarity', 'vectors', 'lost', 'triangles', 'min r', 'at deg'], rows),
+    textTable(['from deg', 'to deg', 'polarity', 'vectors', 'lost', 'triangles', 'min extent', 'at deg'], rows),
     '',
     'm is the peak fundamental phase voltage over Vdc/2; the healthy linear limit is 2/sqrt(3) = 1.1547.',
     cautionBlock(plan.cautions),

@@ -31,9 +31,9 @@ export const plotCommand: Command = {
     if (!KINDS.includes(kind as (typeof KINDS)[number])) throw usage('KIND', `one of ${KINDS.join(', ')}`, kind);
     const out = args.values.get('out');
     if (typeof out !== 'string' || !/\.(svg|png)$/.test(out)) throw usage('--out', 'a file name ending in .svg or .png', out);
-    const { topology, faults } = legInputs(args);
+    const { topology, faults, rules } = legInputs(args);
     const { loadAngleDeg, polarityMarginDeg } = angleInputs(args);
-    const atlas = diagramAtlas({ topology, faults });
+    const atlas = diagramAtlas({ topology, faults, ...rules });
     const plan = planFromAtlas(atlas, loadAngleDeg, polarityMarginDeg);
     const polarity = (args.values.get('polarity') as string | undefined) ?? plan.limitingPolarity;
     if (!plan.polarities[polarity]) throw usage('--polarity', 'one of the 25 polarity strings, e.g. +-?', polarity);
@@ -47,7 +47,7 @@ export const plotCommand: Command = {
       const series = [{ label, points: deratingCurve(atlas, { stepDeg: 1, polarityMarginDeg }) }];
       for (const c of args.lists.get('compare') ?? []) {
         const f = c.split(',').map((x) => x.trim()).filter(Boolean);
-        series.push({ label: f.join(', ') || 'healthy', points: deratingCurve(diagramAtlas({ topology, faults: f }), { stepDeg: 1, polarityMarginDeg }) });
+        series.push({ label: f.join(', ') || 'healthy', points: deratingCurve(diagramAtlas({ topology, faults: f, ...rules }), { stepDeg: 1, polarityMarginDeg }) });
       }
       svg = deratingCurveSvg(series, { healthy: plan.mMaxHealthy, title: `Maximum modulation index versus load angle: ${atlas.analysis.topology}` });
     } else if (kind === 'leg') {

@@ -24,11 +24,11 @@ export const reportCommand: Command = {
   run: async (args, io) => {
     const out = args.values.get('out');
     if (typeof out !== 'string' || !out.endsWith('.html')) throw usage('--out', 'a file name ending in .html', out);
-    const { topology, faults, topologyText } = legInputs(args);
+    const { topology, faults, topologyText, rules } = legInputs(args);
     const { loadAngleDeg, polarityMarginDeg } = angleInputs(args);
     const claimsFile = args.values.get('claims') as string | undefined;
-    const verdicts = claimsFile ? readClaims(claimsFile).map(evaluateClaim) : undefined;
-    const atlas = diagramAtlas({ topology, faults });
+    const verdicts = claimsFile ? readClaims(claimsFile).map((c) => evaluateClaim(rules.ignoreRatings ? { ...c, ignoreRatings: true } : c)) : undefined;
+    const atlas = diagramAtlas({ topology, faults, ...rules });
     const html = buildReport({
       atlas,
       plan: planFromAtlas(atlas, loadAngleDeg, polarityMarginDeg),

@@ -1,4 +1,4 @@
-import { CAUTIONS, diagramAtlas, deratingCurve, formatFault } from '@hexsalvage/core';
+import { CAUTIONS, describeRules, diagramAtlas, deratingCurve, formatFault } from '@hexsalvage/core';
 import { usage } from '../args.js';
 import { HELP_OPTION, JSON_OPTION, LEG_OPTIONS, type Command } from '../command.js';
 import { cautionBlock, fmt, textTable } from '../format.js';
@@ -15,12 +15,12 @@ export const sweepCommand: Command = {
     { name: 'to', type: 'number', value: 'DEG', help: 'last load angle (default 90)' },
     { name: 'step', type: 'number', value: 'DEG', help: 'grid step (default 1)' },
     { name: 'polarity-margin', type: 'number', value: 'DEG', help: 'polarity margin δ in degrees, 0 ≤ δ < 60 (default 0)' },
-    { name: 'csv', type: 'flag', help: 'print CSV (load_angle_deg,m_max,derating_ratio,limiting_angle_deg,limiting_polarity,breakpoint)' },
+    { name: 'csv', type: 'flag', help: 'print CSV (load_angle_deg,m_max,derating_ratio,limiting_angle_deg,limiting_polarity,breakpoint,m_max_hull)' },
     JSON_OPTION,
     HELP_OPTION,
   ],
   run: async (args, io) => {
-    const { topology, faults } = legInputs(args);
+    const { topology, faults, rules } = legInputs(args);
     const { polarityMarginDeg } = angleInputs(args);
     const fromDeg = (args.values.get('from') as number | undefined) ?? -90;
     const toDeg = (args.values.get('to') as number | undefined) ?? 90;
@@ -29,19 +29,20 @@ export const sweepCommand: Command = {
     if (toDeg < fromDeg || toDeg > 180) throw usage('--to', `degrees in [${fromDeg}, 180]`, toDeg);
     if (!(stepDeg > 0) || (toDeg - fromDeg) / stepDeg > 100000) throw usage('--step', 'a positive step giving at most 100000 points', stepDeg);
     if (args.flags.has('csv') && args.flags.has('json')) throw usage('--csv', 'either --csv or --json, not both');
-    const atlas = diagramAtlas({ topology, faults });
+    const atlas = diagramAtlas({ topology, faults, ...rules });
     const points = deratingCurve(atlas, { fromDeg, toDeg, stepDeg, polarityMarginDeg });
     if (args.flags.has('json')) {
-      await io.stdout(`${JSON.stringify({ topology: atlas.analysis.topology, faults: atlas.analysis.faults.map(formatFault), polarityMarginDeg, points })}\n`);
+      await io.stdout(`${JSON.stringify({ topology: atlas.analysis.topology, faults: atlas.analysis.faults.map(formatFault), polarityMarginDeg, rules: atlas.analysis.rules, points })}\n`);
       return 0;
     }
     if (args.flags.has('csv')) {
-      const rows = points.map((p) => [p.loadAngleDeg, p.mMax.toFixed(9), p.deratingRatio.toFixed(9), p.limitingAngleDeg.toFixed(6), p.limitingPolarity, p.breakpoint ? 1 : 0].join(','));
-      await io.stdout(`load_angle_deg,m_max,derating_ratio,limiting_angle_deg,limiting_polarity,breakpoint\n${rows.join('\n')}\n`);
+      const rows = points.map((p) => [p.loadAngleDeg, p.mMax.toFixed(9), p.deratingRatio.toFixed(9), p.limitingAngleDeg.toFixed(6), p.limitingPolarity, p.breakpoint ? 1 : 0, p.mMaxHull.toFixed(9)].join(','));
+      await io.stdout(`load_angle_deg,m_max,derating_ratio,limiting_angle_deg,limiting_polarity,breakpoint,m_max_hull\n${rows.join('\n')}\n`);
       return 0;
     }
-    const rows = points.map((p) => [fmt(p.loadAngleDeg, 3), fmt(p.mMax, 5), fmt(p.deratingRatio, 4), fmt(p.limitingAngleDeg, 2), p.limitingPolarity, p.breakpoint ? '*' : '']);
-    await io.stdout(`${textTable(['load deg', 'mMax', 'ratio', 'binds at', 'polarity', 'kink'], rows)}\n\n* = breakpoint of the curve (computed, not a grid point)${cautionBlock(CAUTIONS)}\n`);
+    const rows = points.map((p) => [fmt(p.loadAngleDeg, 3), fmt(p.mMax, 5), fmt(p.deratingRatio, 4), fmt(p.mMaxHull, 5), fmt(p.limitingAngleDeg, 2), p.limitingPolarity, p.breakpoint ? '*' : '']);
+    const head = `Rules: ${describeRules(atlas.analysis.rules)}\nmMax is the safe limit; "hull" is the first version's convex-hull bound, shown for comparison (not safe by itself).\n\n`;
+    await io.stdout(`${head}${textTable(['load deg', 'mMax', 'ratio', 'hull', 'binds at', 'polarity', 'kink'], rows)}\n\n* = breakpoint of the curve (computed, not a grid point)${cautionBlock(CAUTIONS)}\n`);
     return 0;
   },
 };

@@ -11,8 +11,8 @@ export const tableCommand: Command = {
   usage: 'table --topology T [--fault F]... [--polarity XYZ] [--json]',
   options: [...LEG_OPTIONS, { name: 'polarity', type: 'string', value: 'XYZ', help: 'show one polarity string only (default: all 25)' }, JSON_OPTION, HELP_OPTION],
   run: async (args, io) => {
-    const { topology, faults } = legInputs(args);
-    const table = switchingTable({ topology, faults });
+    const { topology, faults, rules } = legInputs(args);
+    const table = switchingTable({ topology, faults, ...rules });
     const only = args.values.get('polarity') as string | undefined;
     if (only !== undefined && !table.polarities[only]) throw usage('--polarity', 'one of the 25 polarity strings, e.g. +-?', only);
     if (args.flags.has('json')) {

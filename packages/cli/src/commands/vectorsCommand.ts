@@ -1,4 +1,4 @@
-import { CAUTIONS, diagramAtlas, parsePolarity, polarityDocument, type PlanVector } from '@hexsalvage/core';
+import { CAUTIONS, describeRules, diagramAtlas, formatFault, parsePolarity, polarityDocument, type PlanVector } from '@hexsalvage/core';
 import { usage } from '../args.js';
 import { HELP_OPTION, JSON_OPTION, LEG_OPTIONS, type Command } from '../command.js';
 import { cautionBlock, fmt, textTable } from '../format.js';
@@ -11,11 +11,11 @@ export const vectorsCommand: Command = {
   usage: 'vectors --topology T [--fault F]... --polarity XYZ [--json]',
   options: [...LEG_OPTIONS, { name: 'polarity', type: 'string', value: 'XYZ', help: 'current polarity of phases a, b, c: each +, - or ?, e.g. +-?' }, JSON_OPTION, HELP_OPTION],
   run: async (args, io) => {
-    const { topology, faults } = legInputs(args);
+    const { topology, faults, rules } = legInputs(args);
     const pol = args.values.get('polarity');
     if (pol === undefined) throw usage('--polarity', 'a polarity string such as +-? (phases a, b, c)');
     parsePolarity(pol, '--polarity');
-    const atlas = diagramAtlas({ topology, faults });
+    const atlas = diagramAtlas({ topology, faults, ...rules });
     const d = atlas.faulted.get(pol as string);
     if (!d) throw usage('--polarity', 'a polarity string such as +-?', pol);
     const doc = polarityDocument(d);
@@ -25,7 +25,8 @@ export const vectorsCommand: Command = {
     }
     const vec = (v: PlanVector) => [fmt(v.alpha), fmt(v.beta), fmt(Math.hypot(v.alpha, v.beta)), v.class, v.levels.map((t) => t.join('/')).join(' ')];
     const lines = [
-      `Leg: ${atlas.analysis.topology}   faults: ${atlas.analysis.faults.map((f) => `${f.phase}.${f.element}`).join(', ') || 'none'}   polarity: ${pol}`,
+      `Leg: ${atlas.analysis.topology}   faults: ${atlas.analysis.faults.map(formatFault).join(', ') || 'none'}   polarity: ${pol}`,
+      `Rules: ${describeRules(atlas.analysis.rules)}`,
       `Phase levels used: a ${d.phaseLevels[0].join(',') || '(none)'} | b ${d.phaseLevels[1].join(',') || '(none)'} | c ${d.phaseLevels[2].join(',') || '(none)'}`,
       '',
       `Surviving vectors (${doc.vectors.length}):`,
@@ -35,8 +36,9 @@ export const vectorsCommand: Command = {
       doc.lost.length ? textTable(['alpha', 'beta', '|v|', 'class', 'triplets'], doc.lost.map(vec)) : '  none',
       '',
       `Hull (${doc.hull.length} corners, counter-clockwise): ${doc.hull.map(([a, b]) => `(${fmt(a, 3)}, ${fmt(b, 3)})`).join(' ')}`,
-      `Triangles: ${doc.triangles.length}`,
-      `Radius (largest origin-centred circle inside the hull): ${fmt(doc.radius, 6)} x Vdc/2${doc.radius === 0 ? '  (origin not strictly inside the hull: no continuous modulation with this pattern)' : ''}`,
+      `Triangles (admissible, non-overlapping): ${doc.triangles.length}${doc.outline ? '  (they do not fill the hull)' : ''}`,
+      `Reach (largest origin-centred circle inside the admissible triangles): ${fmt(doc.reach, 6)} x Vdc/2${doc.reach === 0 ? '  (cannot run with this pattern alone: the admissible triangles do not surround the origin)' : ''}`,
+      `Radius of the hull (first version, not safe by itself): ${fmt(doc.radius, 6)} x Vdc/2`,
       cautionBlock(CAUTIONS),
     ];
     await io.stdout(`${lines.join('\n')}\n`);

@@ -1,6 +1,6 @@
 import {
-  CAUTIONS, deratingCurve, gatedDeviceIds, locateReference, PHASES, type ClaimVerdict, type DiagramAtlas, type PatternResult,
-  type RemedialPlan, type SwitchingTable,
+  CAUTIONS, deratingCurve, describeRules, gatedDeviceIds, locateReference, PHASES, type ClaimVerdict, type DiagramAtlas, type PatternResult,
+  type PhasePolarity, type RemedialPlan, type SwitchingTable,
 } from '@hexsalvage/core';
 import { deratingCurveSvg, esc, legSchematicSvg, sectorOverviewSvg, switchingPeriodSvg, vectorDiagramSvg } from '@hexsalvage/plot';
 import { fmt, levelText } from '../format.js';
@@ -43,12 +43,19 @@ export function buildReport(r: ReportInputs): string {
   s.push(`<table><tr><th>leg</th><td>${esc(leg.name)} (from <code>${esc(r.topologyText)}</code>), ${leg.devices.length} devices, DC nodes ${Object.entries(leg.dcNodes).map(([k, v]) => `${esc(k)} = ${fmt(v, 2)}`).join(', ')} (units of Vdc/2)</td></tr>`
     + `<tr><th>faults</th><td>${esc(faultText)}</td></tr>`
     + `<tr><th>operating point</th><td>load angle φ = ${fmt(plan.loadAngleDeg, 2)}° (currents lag the voltage reference); polarity margin δ = ${fmt(plan.polarityMarginDeg, 2)}° (within δ of a current zero crossing the sign counts as unknown)</td></tr>`
-    + '<tr><th>model</th><td>ideal switches and diodes; an open fault removes all conduction of the element; levels from the highest (i &gt; 0) or lowest (i &lt; 0) reachable DC node; no dead time, commutation or thermal effects</td></tr>'
+    + `<tr><th>rules applied</th><td>${esc(describeRules(plan.rules))}${plan.unrated.length ? `; <span class="flag">unrated devices, not checked: ${esc(plan.unrated.join(', '))}</span>` : ''}</td></tr>`
+    + '<tr><th>model</th><td>ideal switches and diodes; an open fault removes all conduction of the element, a short makes it conduct both ways; levels from the highest (i &gt; 0) or lowest (i &lt; 0) reachable DC node; a state is used only if a static distribution of node voltages keeps every rated device within its rating; a phase changes level only by switch actions, one at a time, that pass through such states; no dead time, switching transients or thermal effects</td></tr>'
     + '<tr><th>units</th><td>potentials and modulation index m in units of Vdc/2 (m = peak fundamental phase voltage / (Vdc/2)); healthy linear limit 2/√3 ≈ 1.1547</td></tr></table>');
 
   s.push('<h2>2. Limit and derating</h2>');
-  s.push(`<table><tr><th>maximum modulation index, faulted</th><td><strong>${fmt(plan.mMax, 6)}</strong></td></tr><tr><th>healthy</th><td>${fmt(plan.mMaxHealthy, 6)}</td></tr><tr><th>derating ratio</th><td><strong>${fmt(plan.deratingRatio * 100, 2)} %</strong></td></tr></table>`);
+  if (plan.mMax === 0) s.push(`<p class="verdict-fails"><strong>The drive cannot run in this state</strong> at this load angle: no modulation index above 0 can be produced without overstressing a device or breaking a current.</p>`);
+  const hullDiffers = Math.abs(plan.mMaxHull - plan.mMax) > 1e-9;
+  s.push(`<table><tr><th>maximum modulation index, faulted (safe)</th><td><strong>${fmt(plan.mMax, 6)}</strong></td></tr><tr><th>healthy</th><td>${fmt(plan.mMaxHealthy, 6)}</td></tr><tr><th>derating ratio</th><td><strong>${fmt(plan.deratingRatio * 100, 2)} %</strong></td></tr>`
+    + `<tr><th>convex-hull bound (first version)</th><td>${fmt(plan.mMaxHull, 6)}${hullDiffers ? ' <span class="flag">not safe: it ignores what the rules below take away</span>' : ''}</td></tr>`
+    + `<tr><th>midpoint balance holds up to</th><td>m = ${fmt(plan.mMaxBalanced, 6)}${plan.mMaxBalanced < plan.mMax - 1e-9 ? ' <span class="flag">above this the average midpoint current cannot be held at zero</span>' : ''}</td></tr></table>`);
   s.push(`<p>${esc(bindingExplanation(plan))}</p>`);
+  if (plan.restrictions.length) s.push(`<p>What the rules take away:</p><ul>${plan.restrictions.map((x) => `<li>${esc(x)}</li>`).join('')}</ul>`);
+  if (plan.notes.length) s.push(`<ul>${plan.notes.map((x) => `<li class="flag">${esc(x)}</li>`).join('')}</ul>`);
 
   s.push('<h2>3. What each phase leg can still do</h2>');
   for (const ph of PHASES) {
@@ -61,13 +68,16 @@ export function buildReport(r: ReportInputs): string {
         if (p.status !== 'allowed') return '<span class="flag">forbidden</span>';
         const l = p.bySign[sg].level;
         const was = h.status === 'allowed' ? h.bySign[sg].level : null;
-        const txt = l === null ? '<span class="flag">interrupted (forbidden)</span>' : levelText(l);
+        const why = p.unsafe[sg];
+        const txt = l === null ? (why ? `<span class="flag">unsafe: ${esc(why)}</span>` : '<span class="flag">interrupted (forbidden)</span>') : levelText(l);
         return l === was ? txt : `${txt} <span class="flag">(was ${levelText(was)})</span>`;
       };
       s.push(`<tr><td>${esc(p.name)}</td><td>${esc(p.gates.join(', '))}</td><td>${cell('+')}</td><td>${cell('-')}</td></tr>`);
     });
     s.push('</table>');
     s.push(`<p>Level sets — i &gt; 0: ${t.levels['+'].map(levelText).join(' ') || 'none'}; i &lt; 0: ${t.levels['-'].map(levelText).join(' ') || 'none'}; unknown sign: ${t.levels['?'].map(levelText).join(' ') || 'none'}.</p>`);
+    const mv = (sg: PhasePolarity) => t.commutations.moves[sg].filter(([a, b]) => a < b).map(([a, b]) => `${levelText(a)}↔${levelText(b)}`).join(' ') || 'none (the phase cannot change level)';
+    s.push(`<p>Safe level changes — i &gt; 0: ${mv('+')}; i &lt; 0: ${mv('-')}; unknown sign: ${mv('?')}.</p>`);
   }
   if (PHASES.every((ph) => atlas.analysis.phases[ph] === atlas.analysis.healthy)) s.push('<p>No phase is faulted.</p>');
 
@@ -75,12 +85,12 @@ export function buildReport(r: ReportInputs): string {
   s.push(figure(legSchematicSvg(leg, focus), `Leg drawn from the netlist. The failed element is crossed out; the thick path is where the current flows for pattern ${focus.pattern?.name ?? '—'} with ${focus.sign === '-' ? 'i < 0' : 'i > 0'}.`));
 
   s.push('<h2>4. Vectors and polarity sectors</h2>');
-  s.push(figure(vectorDiagramSvg(plan, plan.limitingPolarity), `Vector diagram of the polarity ${plan.limitingPolarity} in force where the limit binds. Filled dots survive, hollow squares marked × are lost; the thick edge is the binding hull edge; the green circle is mMax.`));
+  s.push(figure(vectorDiagramSvg(plan, plan.limitingPolarity), `Vector diagram of the polarity ${plan.limitingPolarity} in force where the limit binds. Filled dots survive, hollow squares marked × are lost; the grey triangles are the admissible ones a switching sequence can run; the thick red edge is where the limit binds; the green circle is mMax.`));
   s.push(figure(sectorOverviewSvg(plan), 'One diagram per polarity sector over the fundamental cycle; the arc shows the sector’s range of θ, the framed sector sets the limit.'));
 
   s.push('<h2>5. Derating versus load angle</h2>');
   const curve = deratingCurve(atlas, { polarityMarginDeg: plan.polarityMarginDeg });
-  s.push(figure(deratingCurveSvg([{ label: faultText, points: curve }], { healthy: plan.mMaxHealthy, title: 'Maximum modulation index versus load angle' }), `mMax from −90° to 90° (exact at every point, breakpoints circled); worst ${fmt(Math.min(...curve.map((p) => p.mMax)), 4)}, best ${fmt(Math.max(...curve.map((p) => p.mMax)), 4)}.`));
+  s.push(figure(deratingCurveSvg([{ label: faultText, points: curve }], { healthy: plan.mMaxHealthy, title: 'Maximum modulation index versus load angle' }), `Safe mMax from −90° to 90° (exact at every point, breakpoints circled); worst ${fmt(Math.min(...curve.map((p) => p.mMax)), 4)}, best ${fmt(Math.max(...curve.map((p) => p.mMax)), 4)}. Where drawn, the thin dotted line is the first version's convex-hull bound, which the hardware would not survive.`));
 
   s.push('<h2>6. Degraded switching-state table</h2>');
   const f = table.flags;
@@ -89,12 +99,13 @@ export function buildReport(r: ReportInputs): string {
     + flagRow('line-frequency devices driven at PWM rate', f.lineDevicesAtPwm)
     + flagRow('midpoint (neutral-point) control lost', f.midpointAuthorityLost)
     + flagRow('phase jumps between non-adjacent levels', f.levelJumps)
+    + flagRow('no sequence obeys the sequence rule', f.noSequence)
     + '</table>');
-  s.push('<table><thead><tr><th>polarity</th><th>vectors</th><th>lost</th><th>triangles</th><th>radius</th><th>midpoint authority full / partial / none</th></tr></thead><tbody>');
+  s.push('<table><thead><tr><th>polarity</th><th>vectors</th><th>lost</th><th>triangles</th><th>reach</th><th>midpoint authority full / partial / none</th></tr></thead><tbody>');
   for (const pol of table.polarityOrder) {
     const p = table.polarities[pol]!;
     const count = (a: string) => p.tableTriangles.filter((t) => t.midpointAuthority === a).length;
-    s.push(`<tr><td><code>${esc(pol)}</code></td><td>${p.vectors.length}</td><td>${p.lost.length}</td><td>${p.tableTriangles.length}</td><td>${fmt(p.radius, 4)}</td><td>${count('full')} / ${count('partial')} / ${count('none')}</td></tr>`);
+    s.push(`<tr><td><code>${esc(pol)}</code></td><td>${p.vectors.length}</td><td>${p.lost.length}</td><td>${p.tableTriangles.length}</td><td>${fmt(p.reach, 4)}</td><td>${count('full')} / ${count('partial')} / ${count('none')}</td></tr>`);
   }
   s.push('</tbody></table>');
   const entry = table.polarities[plan.limitingPolarity]!;
@@ -105,9 +116,11 @@ export function buildReport(r: ReportInputs): string {
   }
 
   if (r.verdicts && r.verdicts.length) {
-    s.push('<h2>7. Derating claims</h2><table><tr><th>claim</th><th>verdict</th><th>m promised</th><th>worst mMax</th><th>at load angle</th><th>short by</th><th>binding edge</th></tr>');
+    s.push('<h2>7. Derating claims</h2><table><tr><th>claim</th><th>verdict</th><th>m promised</th><th>worst mMax</th><th>hull bound</th><th>at load angle</th><th>short by</th><th>rules</th><th>binding edge</th></tr>');
     for (const v of r.verdicts) {
-      s.push(`<tr><td>${esc(v.name)}</td><td class="${v.holds ? 'verdict-holds' : 'verdict-fails'}">${v.holds ? 'holds' : 'FAILS'}</td><td>${fmt(v.m, 4)}</td><td>${fmt(v.mMaxAtWorst, 6)}</td><td>${fmt(v.worstLoadAngleDeg, 2)}°</td><td>${v.holds ? '—' : fmt(v.shortfall, 6)}</td><td>${esc(v.bindingEdge ? v.bindingEdge.map((e) => `${e.class} ${e.levels[0]?.join('/')}`).join(' – ') : 'none')}</td></tr>`);
+      const edge = v.bindingEdge ? v.bindingEdge.map((e) => `${e.class} ${e.levels[0]?.join('/')}`).join(' – ') : v.mMaxAtWorst === 0 ? 'none: cannot run in this state' : 'none';
+      const rules = `${v.rules.ratings ? 'ratings' : 'ratings IGNORED'}, ${v.rules.levelSteps}`;
+      s.push(`<tr><td>${esc(v.name)}</td><td class="${v.holds ? 'verdict-holds' : 'verdict-fails'}">${v.holds ? 'holds' : 'FAILS'}</td><td>${fmt(v.m, 4)}</td><td>${fmt(v.mMaxAtWorst, 6)}</td><td>${fmt(v.mMaxHullAtWorst, 6)}</td><td>${fmt(v.worstLoadAngleDeg, 2)}°</td><td>${v.holds ? '—' : fmt(v.shortfall, 6)}</td><td>${esc(rules)}</td><td>${esc(edge)}</td></tr>`);
     }
     s.push('</table><p class="muted">Each verdict is exact over the whole load-angle range of the claim, not sampled.</p>');
   }
@@ -138,9 +151,9 @@ function flagRow(label: string, list: readonly { polarity: string; triangle: num
 
 function bindingExplanation(plan: RemedialPlan): string {
   if (!plan.bindingEdge) {
-    return `The limit is 0: under the polarity ${plan.limitingPolarity} (around θ = ${fmt(plan.limitingAngleDeg, 1)}°) the surviving vectors do not surround the origin, so no balanced three-phase voltage can be synthesised through that part of the cycle.`;
+    return `The drive cannot run in this state: under the polarity ${plan.limitingPolarity} (around θ = ${fmt(plan.limitingAngleDeg, 1)}°) the triangles a switching sequence can safely run do not surround the origin, so no balanced three-phase voltage can be synthesised through that part of the cycle.`;
   }
   const [a, b] = plan.bindingEdge;
   const v = (x: typeof a) => `the ${x.class} vector ${x.levels[0]?.map(levelText).join('')} (α ${fmt(x.alpha, 3)}, β ${fmt(x.beta, 3)})`;
-  return `The limit binds at θ = ${fmt(plan.limitingAngleDeg, 2)}°, where the phase currents read ${plan.limitingPolarity} (a, b, c). There the reference leaves the convex hull of the vectors still available through the hull edge from ${v(a)} to ${v(b)}: the reference vector can be no longer than ${fmt(plan.mMax, 4)} in that direction, against ${fmt(plan.mMaxHealthy, 4)} for the healthy leg.`;
+  return `The limit binds at θ = ${fmt(plan.limitingAngleDeg, 2)}°, where the phase currents read ${plan.limitingPolarity} (a, b, c). There the reference leaves the region of safely runnable triangles through the edge from ${v(a)} to ${v(b)}: the reference vector can be no longer than ${fmt(plan.mMax, 4)} in that direction, against ${fmt(plan.mMaxHealthy, 4)} for the healthy leg.`;
 }
