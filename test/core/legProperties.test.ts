@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import {
-  BUILTIN_TOPOLOGIES, builtinLeg, expandElements, HexsalvageInputError, legTable, parseNetlist,
+  BUILTIN_TOPOLOGIES, builtinLeg, expandElements, HexsalvageInputError, legTable, parseNetlist, planRemedial,
   type BuiltinTopology, type FaultMode, type LegNetlist,
 } from '@hexsalvage/core';
 import { fc, fcParams } from '../support/fc.js';
@@ -82,13 +82,14 @@ describe('legTable properties', () => {
       from: fc.constantFrom(...nodes),
       to: fc.constantFrom(...nodes),
       antiparallelDiode: fc.boolean(),
+      rating: fc.option(fc.constantFrom(0.5, 1, 1.5, 2, 3), { nil: undefined }),
     });
     const doc = fc.tuple(
       fc.array(device, { minLength: 1, maxLength: 7 }),
       fc.constantFrom({ P: 1, O: 0, N: -1 }, { P: 1, N: -1 }, { P: 2, O: 0.5, N: -1.5 }),
       fc.array(fc.array(fc.nat(6), { maxLength: 4 }), { minLength: 1, maxLength: 4 }),
     ).map(([devs, dcNodes, pats]) => {
-      const devices = devs.map((d, i) => ({ id: `e${i}`, ...d, antiparallelDiode: d.kind !== 'diode' && d.antiparallelDiode }));
+      const devices = devs.map(({ rating, ...d }, i) => ({ id: `e${i}`, ...d, antiparallelDiode: d.kind !== 'diode' && d.antiparallelDiode, ...(rating === undefined ? {} : { rating }) }));
       const gated = devices.filter((d) => d.kind !== 'diode').map((d) => d.id);
       const patterns = Object.fromEntries(pats.map((idx, k) => [`p${k}`, [...new Set(idx.filter((i) => i < gated.length).map((i) => gated[i]))]]));
       return { name: 'random', dcNodes, output: 'out', devices, patterns };
@@ -104,8 +105,15 @@ describe('legTable properties', () => {
       }
       const t = legTable(leg, new Map());
       expect(t.patterns.length).toBe(Object.keys(leg.patterns).length);
+      // the whole planner, under every rule, with a fault: a plan with finite numbers, never a crash
+      const element = expandElements(leg)[0]?.id as string;
+      for (const levelSteps of ['commutable', 'adjacent', 'any'] as const) {
+        const plan = planRemedial({ topology: leg, faults: [`b.${element}:short`], levelSteps, loadAngleDeg: 20 });
+        for (const x of [plan.mMax, plan.mMaxHull, plan.mMaxBalanced]) expect(Number.isFinite(x) && x >= 0).toBe(true);
+        expect(plan.mMax).toBeLessThanOrEqual(plan.mMaxHull + 1e-12);
+      }
       solved++;
-    }), fcParams(500));
+    }), fcParams(300));
     // the generator must reach the solver, not only the validator
     expect(solved).toBeGreaterThan(5);
   });

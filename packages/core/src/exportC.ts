@@ -141,7 +141,7 @@ static int ${px}_inside_(int t, double a, double b, double d[3])
 static void ${px}_clamp_outline_(int p, double x, double y, double *ox, double *oy)
 {
   int first = ${px}_outline_first[p], n = ${px}_outline_first[p + 1] - first, i;
-  double len = hypot(x, y), dist = INFINITY;
+  double len = sqrt(x * x + y * y), dist = INFINITY;
   if (len > 0) {
     double ux = x / len, uy = y / len, exit = -1, entry = INFINITY, t;
     for (i = 0; i < n; i++) {
@@ -161,7 +161,7 @@ static void ${px}_clamp_outline_(int p, double x, double y, double *ox, double *
     const double *g = ${px}_outline[first + i];
     double ex = g[2] - g[0], ey = g[3] - g[1];
     double s = fmin(1.0, fmax(0.0, ((x - g[0]) * ex + (y - g[1]) * ey) / (ex * ex + ey * ey)));
-    double qx = g[0] + s * ex, qy = g[1] + s * ey, dq = hypot(qx - x, qy - y);
+    double qx = g[0] + s * ex, qy = g[1] + s * ey, dq = (qx - x) * (qx - x) + (qy - y) * (qy - y);
     if (dq < dist) { dist = dq; *ox = qx; *oy = qy; }
   }
 }
@@ -169,7 +169,7 @@ static void ${px}_clamp_outline_(int p, double x, double y, double *ox, double *
 static void ${px}_clamp_(int p, double x, double y, double *ox, double *oy)
 {
   int first = ${px}_hull_first[p], n = ${px}_hull_first[p + 1] - first, i, empty = 0;
-  double len = hypot(x, y), dist = INFINITY;
+  double len = sqrt(x * x + y * y), dist = INFINITY;
   if (${px}_outline_first[p + 1] > ${px}_outline_first[p]) { ${px}_clamp_outline_(p, x, y, ox, oy); return; }
   if (len > 0) {
     double ux = x / len, uy = y / len, lo = 0, hi = INFINITY;
@@ -191,7 +191,7 @@ static void ${px}_clamp_(int p, double x, double y, double *ox, double *oy)
     const double *a = ${px}_hull[first + i], *b = ${px}_hull[first + (i + 1) % n];
     double ex = b[0] - a[0], ey = b[1] - a[1];
     double s = fmin(1.0, fmax(0.0, ((x - a[0]) * ex + (y - a[1]) * ey) / (ex * ex + ey * ey)));
-    double qx = a[0] + s * ex, qy = a[1] + s * ey, dq = hypot(qx - x, qy - y);
+    double qx = a[0] + s * ex, qy = a[1] + s * ey, dq = (qx - x) * (qx - x) + (qy - y) * (qy - y);
     if (dq < dist) { dist = dq; *ox = qx; *oy = qy; }
   }
 }

@@ -118,7 +118,9 @@ export function clampToHull(hull: readonly (readonly [number, number])[], p: Poi
  * ```
  */
 export function clampInto(hull: readonly (readonly [number, number])[], x: number, y: number, out: Float64Array): void {
-  const len = Math.hypot(x, y);
+  // sqrt of a sum of squares rather than hypot: IEEE rounds both the same in every language, so the
+  // C header reproduces the clamped point bit for bit (hypot implementations differ in the last bit)
+  const len = Math.sqrt(x * x + y * y);
   const n = hull.length;
   if (len > 0) {
     const ux = x / len;
@@ -153,7 +155,7 @@ export function clampInto(hull: readonly (readonly [number, number])[], x: numbe
     const s = Math.min(1, Math.max(0, ((x - a[0]) * ex + (y - a[1]) * ey) / (ex * ex + ey * ey)));
     const qx = a[0] + s * ex;
     const qy = a[1] + s * ey;
-    const dq = Math.hypot(qx - x, qy - y);
+    const dq = (qx - x) * (qx - x) + (qy - y) * (qy - y);
     if (dq < dist) {
       dist = dq;
       out[0] = qx;
@@ -179,7 +181,7 @@ export function clampInto(hull: readonly (readonly [number, number])[], x: numbe
  * ```
  */
 export function clampToOutline(outline: readonly OutlineSegment[], x: number, y: number, out: Float64Array): void {
-  const len = Math.hypot(x, y);
+  const len = Math.sqrt(x * x + y * y);
   if (len > 0) {
     const ux = x / len;
     const uy = y / len;
@@ -213,7 +215,8 @@ export function clampToOutline(outline: readonly OutlineSegment[], x: number, y:
     const s = Math.min(1, Math.max(0, ((x - a[0]) * ex + (y - a[1]) * ey) / (ex * ex + ey * ey)));
     const qx = a[0] + s * ex;
     const qy = a[1] + s * ey;
-    const dq = Math.hypot(qx - x, qy - y);
+    // squared distance: exact ties (symmetric outlines) then break the same way in C
+    const dq = (qx - x) * (qx - x) + (qy - y) * (qy - y);
     if (dq < dist) {
       dist = dq;
       out[0] = qx;

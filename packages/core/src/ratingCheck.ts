@@ -36,9 +36,10 @@ interface Arc {
  * (Cormen et al., Introduction to Algorithms, 3rd ed. 2009, §24.4, from memory).
  *
  * When there is no solution the reason names the element whose rating cannot be met: each rated
- * element is tried with its own rating dropped; where the rest is then solvable, the least voltage
- * it must block is −(shortest path) between its terminals. The largest excess wins, ties in
- * netlist order.
+ * device is tried with its own rating dropped; where the rest is then solvable, the least voltage
+ * it must block is −(shortest path) between its terminals. Where no single device explains it
+ * (several are overstressed at once), the voltage that conduction alone forces across each device
+ * is used. The largest excess wins, ties in netlist order.
  *
  * @param leg - the leg netlist (DC potentials, output node)
  * @param elements - expanded elements (with ratings)
@@ -100,18 +101,29 @@ export function ratingCheck(leg: LegNetlist, elements: readonly LegElement[], ga
     if (e.rating === undefined || faults.get(e.id) !== undefined) return;
     byDevice.set(e.device, [...(byDevice.get(e.device) ?? []), i]);
   });
-  for (const members of byDevice.values()) {
-    const e = elements[members[0] as number] as LegElement;
-    const rest = arcs.filter((a) => !members.includes(a.rated));
-    if (!feasible(n, rest, eps)) continue;
+  // forced voltage across a device's terminals when the arcs in `rest` are all that holds
+  const forced = (e: LegElement, rest: readonly Arc[]): number | null => {
     const a = nodes.get(e.from) as number;
     const b = nodes.get(e.to) as number;
     const da = shortest(n, rest, a, eps);
     const db = shortest(n, rest, b, eps);
-    if (da === null || db === null) continue;
-    const voltage = Math.max(-(da[b] as number), -(db[a] as number));
+    if (da === null || db === null) return null;
+    return Math.max(-(da[b] as number), -(db[a] as number));
+  };
+  const consider = (e: LegElement, voltage: number | null) => {
+    if (voltage === null) return;
     const excess = voltage - (e.rating as number);
     if (excess > eps && (worst === null || excess > worst.excess + eps)) worst = { element: e, voltage, excess };
+  };
+  // 1. a device alone to blame: the rest is solvable without its rating
+  for (const members of byDevice.values()) {
+    const rest = arcs.filter((a) => !members.includes(a.rated));
+    if (feasible(n, rest, eps)) consider(elements[members[0] as number] as LegElement, forced(elements[members[0] as number] as LegElement, rest));
+  }
+  // 2. several devices overstressed at once: what conduction alone forces across each
+  if (worst === null) {
+    const conduction = arcs.filter((a) => a.rated < 0);
+    for (const members of byDevice.values()) consider(elements[members[0] as number] as LegElement, forced(elements[members[0] as number] as LegElement, conduction));
   }
   if (worst === null) {
     return { ok: false, reason: 'no static voltage distribution meets the ratings of the off devices together', element: null, voltage: null, rating: null };
