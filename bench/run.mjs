@@ -21,6 +21,26 @@ console.log(`node ${process.version}, ${process.platform}/${process.arch}`);
 time('planRemedial npc, a.outerUpper, φ = 30°, δ = 5°', () => planRemedial({ topology: 'npc', faults: ['a.outerUpper'], loadAngleDeg: 30, polarityMarginDeg: 5 }));
 time('planRemedial anpc-hybrid healthy', () => planRemedial({ topology: 'anpc-hybrid' }));
 
+// Version 2 (ratings, commutation, admissible tiling, mMaxBalanced) against the first version's
+// rules on the same code (--ignore-ratings --level-steps any), one faulted case per built-in leg:
+// the median of single calls, so that a garbage collection does not weigh on one figure.
+function median(fn, runs = 600) {
+  for (let i = 0; i < 100; i++) fn();
+  const t = [];
+  for (let i = 0; i < runs; i++) {
+    const t0 = performance.now();
+    fn();
+    t.push(performance.now() - t0);
+  }
+  return t.sort((a, b) => a - b)[runs >> 1];
+}
+for (const [topology, fault, phi, delta] of [['two-level', 'a.upper', 20, 0], ['npc', 'a.outerUpper', 30, 5], ['npc', 'a.clampUpper', 25, 0], ['anpc', 'a.clampUpper', -30, 2], ['anpc-hybrid', 'a.innerUpper', 25, 3], ['tnpc', 'a.neutralToOut', 25, 0]]) {
+  const o = { topology, faults: [fault], loadAngleDeg: phi, polarityMarginDeg: delta };
+  const v2 = median(() => planRemedial(o));
+  const v1 = median(() => planRemedial({ ...o, ignoreRatings: true, levelSteps: 'any' }));
+  console.log(`planRemedial ${topology} ${fault} φ = ${phi}°, δ = ${delta}°`.padEnd(58), `${v2.toFixed(3).padStart(10)} ms median  (first-version rules ${v1.toFixed(3)} ms, ratio ${(v2 / v1).toFixed(2)})`);
+}
+
 const faults = BUILTIN_TOPOLOGIES.flatMap((t) => expandElements(builtinLeg(t)).map((e) => [t, `a.${e.id}`]));
 let evaluations = 0;
 const atlasMs = time(`atlas: ${faults.length} single open faults × φ = -90…90° step 1°`, () => {
@@ -40,9 +60,9 @@ const { createModulator, locateReference, POLARITY_STRINGS } = await import('../
 const N = 200000;
 let seed = 12345;
 const rnd = () => ((seed = (seed * 1103515245 + 12345) >>> 0) / 2 ** 32);
-// references inside each polarity's hull (r below 98 % of its radius), and a set outside it
+// references inside each polarity's admissible tiling (r below 98 % of its reach), and a set outside it
 function references(plan, outside) {
-  const usable = POLARITY_STRINGS.map((p, k) => [k, plan.polarities[p].radius]).filter(([, r]) => r > 0);
+  const usable = POLARITY_STRINGS.map((p, k) => [k, plan.polarities[p].reach]).filter(([, r]) => r > 0);
   const refs = new Float64Array(2 * N);
   const pols = new Int32Array(N);
   for (let i = 0; i < N; i++) {

@@ -47,17 +47,18 @@ const TURN = 2 * Math.PI;
  * @param points - vector positions
  * @param admissible - the polarity's admissible triangles
  * @param eps - distance tolerance (relative to the diagram's size)
+ * @param delaunay - the Delaunay triangulation of `points`, when the caller has it already
  * @returns the tiling, its outline and geometry, the union's reach and whether the tiling is exact
  * @example
  * ```ts
  * admissibleTiling(points, admissibleTriangles(vectors, moves, points), 1e-9).triangles;
  * ```
  */
-export function admissibleTiling(points: readonly Point[], admissible: readonly AdmissibleTriangle[], eps: number): AdmissibleTiling {
+export function admissibleTiling(points: readonly Point[], admissible: readonly AdmissibleTriangle[], eps: number, delaunay?: readonly Triangle[]): AdmissibleTiling {
   const all = admissible.map((a) => a.vertices);
   const shapes = all.map((t) => shapeOf(points, t));
   const hullArea = hullAreaOf(points, all);
-  const orders = candidateOrders(points, all, shapes);
+  const orders = candidateOrders(points, all, shapes, delaunay);
   const order = (k: number): readonly number[] => (orders[k] as () => readonly number[])();
   // Greedy fill; stops early once the kept triangles cover the hull (nothing else can fit).
   const fill = (order: readonly number[], kept: number[]): number[] => {
@@ -177,7 +178,7 @@ function hullAreaOf(points: readonly Point[], triangles: readonly Triangle[]): n
 // the fan around the origin is settled before any outer triangle can block it; (3) by the distance
 // of the farthest corner; (4) by area alone.
 // Each order is made only when asked for, and then kept: most diagrams need the first one only.
-function candidateOrders(points: readonly Point[], all: readonly Triangle[], shapes: readonly Shape[]): (() => readonly number[])[] {
+function candidateOrders(points: readonly Point[], all: readonly Triangle[], shapes: readonly Shape[], known?: readonly Triangle[]): (() => readonly number[])[] {
   const area = shapes.map((s) => s.area);
   const idx = all.map((_, i) => i);
   const by = (key: () => readonly number[]) => {
@@ -191,7 +192,7 @@ function candidateOrders(points: readonly Point[], all: readonly Triangle[], sha
   };
   return [
     by(() => {
-      const delaunay = new Set(triangulate(points).map((t) => t.join(',')));
+      const delaunay = new Set((known ?? triangulate(points)).map((t) => t.join(',')));
       return all.map((t) => (delaunay.has(t.join(',')) ? 0 : 1));
     }),
     by(() => all.map((t) => Math.round(distanceToOrigin(points, t) * 1e9))),

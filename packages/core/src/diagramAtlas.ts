@@ -4,7 +4,7 @@ import type { LevelMove } from './commutation.js';
 import type { Phase } from './faults.js';
 import type { LegTable, PhasePolarity } from './legTable.js';
 import { POLARITY_STRINGS, type PolarityString } from './polarity.js';
-import { polarityDiagram, type PhaseOffer, type PolarityDiagram } from './polarityDiagram.js';
+import { offerKey, polarityDiagram, type PhaseOffer, type PolarityDiagram } from './polarityDiagram.js';
 import type { LimitRules } from './rules.js';
 import { survivingVectors, type SpaceVector } from './survivingVectors.js';
 
@@ -40,7 +40,11 @@ export function diagramAtlas(options: AnalyseLegOptions): DiagramAtlas {
   const cache = new Map<string, PolarityDiagram>();
   const rules = analysis.rules;
   const dc = [...new Set(Object.values(analysis.leg.dcNodes))].sort((x, y) => x - y);
-  const offer = (t: LegTable): PhaseOffer => ({ levels: t.levels, moves: phaseMoves(t, rules, dc) });
+  const offer = (t: LegTable): PhaseOffer => {
+    const o = { levels: t.levels, moves: phaseMoves(t, rules, dc) };
+    const withMoves = rules.levelSteps !== 'any';
+    return { ...o, keys: { '+': offerKey(o, '+', withMoves), '-': offerKey(o, '-', withMoves), '?': offerKey(o, '?', withMoves) } };
+  };
   const build = (offers: Readonly<Record<Phase, PhaseOffer>>) =>
     new Map(POLARITY_STRINGS.map((p) => [p, polarityDiagram(offers, p, healthyVectors, shells, rules, cache)] as const));
   const p = analysis.phases;

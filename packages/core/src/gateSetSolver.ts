@@ -1,8 +1,9 @@
-import { conductionEdges, findShootThrough, outputForSign, type CurrentSign, type ShootThrough, type SignOutcome } from './conduction.js';
-import { expandElements } from './expandElements.js';
+import { compiledLeg } from './compiledLeg.js';
+import { conductionEdges, outputForSign, type CurrentSign, type ShootThrough, type SignOutcome } from './conduction.js';
+import { expandElements, gatedDeviceIds } from './expandElements.js';
 import type { PhaseFaults } from './faults.js';
 import type { LegNetlist } from './netlist.js';
-import { ratingCheck } from './ratingCheck.js';
+import { ratingChecker } from './ratingCheck.js';
 
 /** What one gate set does in a (possibly faulted) phase leg, per current sign. */
 export type GateSetOutcome =
@@ -29,6 +30,9 @@ const NO_PATH: SignOutcome = { level: null, dcNodes: [], path: [] };
  * @param leg - the leg netlist
  * @param faults - element id → fault mode for this phase
  * @param ratings - apply the static voltage check (false reproduces the first version)
+ * @param paths - also find the DC nodes and conducting elements of each sign, and name the device an
+ *   unsafe state overstresses (slower); without, `dcNodes` and `path` are empty and an unsafe state's
+ *   reason is the plain `not within ratings`: only usability is solved, as the commutation search needs
  * @returns a solver; results are cached by gate set, so the solver is cheap to call again
  * @example
  * ```ts
@@ -36,26 +40,34 @@ const NO_PATH: SignOutcome = { level: null, dcNodes: [], path: [] };
  * solve(['outerUpper', 'innerUpper']); // '+' unusable: innerUpper.diode blocks 2 > rating 1
  * ```
  */
-export function gateSetSolver(leg: LegNetlist, faults: PhaseFaults, ratings: boolean): GateSetSolver {
+export function gateSetSolver(leg: LegNetlist, faults: PhaseFaults, ratings: boolean, paths = false): GateSetSolver {
   const elements = expandElements(leg);
-  const cache = new Map<string, GateSetOutcome>();
+  const check = ratingChecker(leg, elements, faults);
+  const fast = compiledLeg(leg, elements, faults);
+  // gate sets keyed by a bit per switch (a string key past 52 switches, which no leg has)
+  const bit = new Map(gatedDeviceIds(leg).map((g, i) => [g, i]));
+  const wide = bit.size > 52;
+  const cache = new Map<number | string, GateSetOutcome>();
   return (gates) => {
-    const key = [...gates].sort().join('\u0000');
+    let key: number | string = 0;
+    if (wide) key = [...gates].sort().join('\u0000');
+    else for (const g of gates) key += 2 ** (bit.get(g) as number);
     const known = cache.get(key);
     if (known) return known;
     const on = new Set(gates);
-    const edges = conductionEdges(elements, on, faults);
-    const st = findShootThrough(leg, edges);
+    const lv = fast(gates);
+    const edges = paths && !lv.shootThrough ? conductionEdges(elements, on, faults) : [];
     let out: GateSetOutcome;
-    if (st) out = { status: 'forbidden', shootThrough: st };
+    if (lv.shootThrough) out = { status: 'forbidden', shootThrough: lv.shootThrough };
     else {
       const unsafe: Partial<Record<CurrentSign, string>> = {};
       const sign = (s: CurrentSign): SignOutcome => {
-        const o = outputForSign(leg, edges, s);
+        const level = s === '+' ? lv.plus : lv.minus;
+        const o = paths ? outputForSign(leg, edges, s) : level === null ? NO_PATH : { level, dcNodes: [], path: [] };
         if (o.level === null || !ratings) return o;
-        const check = ratingCheck(leg, elements, on, faults, o.level);
-        if (check.ok) return o;
-        unsafe[s] = check.reason;
+        const c = check(on, o.level, paths);
+        if (c.ok) return o;
+        unsafe[s] = c.reason;
         return NO_PATH;
       };
       out = { status: 'allowed', bySign: { '+': sign('+'), '-': sign('-') }, unsafe };

@@ -19,14 +19,14 @@ export { hullGeometry, minRadialExtent, radialExtent, type HullEdge, type HullGe
 export { mod360, polarityAt, polaritySectors, type PolaritySector } from './polaritySectors.js';
 export { dwellMatrix, dwellTimes, type DwellMatrix } from './dwell.js';
 export { classifyVector, vectorShells, type VectorShell } from './classifyVectors.js';
-export { polarityDiagram, type ClassifiedVector, type PhaseOffer, type PolarityDiagram } from './polarityDiagram.js';
+export { offerKey, polarityDiagram, type ClassifiedVector, type PhaseOffer, type PolarityDiagram } from './polarityDiagram.js';
 export { diagramAtlas, phaseMoves, type DiagramAtlas } from './diagramAtlas.js';
 export { extentGeometry, limitOverLoadAngles, modulationLimit, type ExtentKind, type LimitOverRange, type ModulationLimit } from './modulationLimit.js';
 export { CAUTIONS } from './cautions.js';
 export { PLAN_SCHEMA_VERSION, checkAngle, planFromAtlas, planRemedial, polarityDocument, type PlanOptions, type PlanPolarity, type PlanSector, type PlanVector, type RemedialPlan } from './planRemedial.js';
 export { deratingCurve, type DeratingCurveOptions, type DeratingPoint } from './deratingCurve.js';
 export { DEFAULT_RULES, LEVEL_STEP_RULES, describeRules, resolveRules, type LevelStepRule, type LimitRuleOptions, type LimitRules } from './rules.js';
-export { ratingCheck, type RatingCheck } from './ratingCheck.js';
+export { ratingCheck, ratingChecker, type RatingCheck } from './ratingCheck.js';
 export { gateSetSolver, usableLevel, type GateSetOutcome, type GateSetSolver } from './gateSetSolver.js';
 export { commutates, patternLevel, phaseCommutations, type LevelMove, type PhaseCommutations } from './commutation.js';
 export { admissibleChain, admissibleTriangles, type AdmissibleTriangle, type PhaseMoves } from './admissibleTriangles.js';

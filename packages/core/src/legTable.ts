@@ -38,7 +38,7 @@ export interface LegTable {
   readonly commutations: PhaseCommutations;
   /** Whether the static voltage check was applied. */
   readonly ratings: boolean;
-  /** The phase's gate-set solver (memoised), for intermediate states and exploration. */
+  /** The phase's gate-set solver (memoised, levels only), for intermediate states and exploration. */
   readonly solve: GateSetSolver;
 }
 
@@ -61,8 +61,9 @@ export interface LegTable {
  */
 export function legTable(leg: LegNetlist, faults: PhaseFaults, ratings = true): LegTable {
   const solve = gateSetSolver(leg, faults, ratings);
+  const named = gateSetSolver(leg, faults, ratings, true);
   const patterns = Object.entries(leg.patterns).map(([name, gates]): PatternResult => {
-    const o = solve(gates);
+    const o = named(gates);
     if (o.status === 'forbidden') {
       const st = o.shootThrough;
       return { name, gates, status: 'forbidden', reason: `shoot-through ${st.from}→${st.to} via ${st.path.join(', ')}`, shootThrough: st };

@@ -1,7 +1,7 @@
 import type { LevelTriplet } from './clarke.js';
 import type { DwellMatrix } from './dwell.js';
 import type { PolarityString } from './polarity.js';
-import { polarityAt } from './polaritySectors.js';
+import { polaritySectors, type PolaritySector } from './polaritySectors.js';
 
 /** What the midpoint sweep reads of a polarity's tiling (a diagram, a plan or a table polarity fits). */
 export interface MidpointTiling {
@@ -21,8 +21,8 @@ function tilingOf(src: MidpointSource, p: PolarityString): MidpointTiling {
   return d;
 }
 
-/** Samples of θ per fundamental period (every 0.5°). */
-export const MIDPOINT_SAMPLES = 720;
+/** Samples of θ per fundamental period (every 1°). */
+export const MIDPOINT_SAMPLES = 360;
 /** |average midpoint current| (per unit of the current amplitude) still counted as zero. */
 export const MIDPOINT_TOLERANCE = 1e-6;
 
@@ -67,7 +67,10 @@ export interface MidpointProfile {
  */
 export function midpointProfile(diagrams: MidpointSource, mTop: number, loadAngleDeg: number, marginDeg: number): MidpointProfile {
   const phi = (loadAngleDeg * Math.PI) / 180;
-  const prepared = new Map<PolarityDiagram, Prepared>();
+  // polarity strings that share a tiling share its triangle list: prepare each tiling once
+  const prepared = new Map<readonly unknown[], Prepared>();
+  const sectors = polaritySectors(loadAngleDeg, marginDeg);
+  let sector = 0;
   // events: start (+) and end (−) of each ray piece, in flat arrays (no garbage in the hot loop)
   let cap = 4 * MIDPOINT_SAMPLES;
   let er = new Float64Array(cap);
@@ -96,11 +99,14 @@ export function midpointProfile(diagrams: MidpointSource, mTop: number, loadAngl
   let gapAt = Infinity;
   for (let k = 0; k < MIDPOINT_SAMPLES; k++) {
     const theta = ((k + 0.5) * 2 * Math.PI) / MIDPOINT_SAMPLES;
-    const d = tilingOf(diagrams, polarityAt((theta * 180) / Math.PI, loadAngleDeg, marginDeg));
-    let pd = prepared.get(d);
+    const deg = ((k + 0.5) * 360) / MIDPOINT_SAMPLES;
+    // samples run in increasing θ, so the sector in force only moves forward
+    while (sector + 1 < sectors.length && deg >= (sectors[sector] as PolaritySector).toDeg) sector++;
+    const d = tilingOf(diagrams, (sectors[sector] as PolaritySector).polarity);
+    let pd = prepared.get(d.triangles);
     if (!pd) {
-      pd = prepare(d);
-      prepared.set(d, pd);
+      pd = prepare(d, mTop);
+      prepared.set(d.triangles, pd);
     }
     const c = Math.cos(theta);
     const s = Math.sin(theta);
@@ -111,23 +117,36 @@ export function midpointProfile(diagrams: MidpointSource, mTop: number, loadAngl
     for (let mask = 0; mask < 8; mask++) q[mask] = (mask & 1 ? i0 : 0) + (mask & 2 ? i1 : 0) + (mask & 4 ? i2 : 0);
     r0s.length = 0;
     r1s.length = 0;
-    for (let t = 0; t < pd.count; t++) {
-      if (!inSpan(pd, t, theta)) continue;
+    const end = pd.rayStart[k + 1] as number;
+    for (let at = pd.rayStart[k] as number; at < end; at++) {
+      const t = pd.rayTri[at] as number;
       let r0 = 0;
       let r1 = mTop;
+      const o = 9 * t;
+      const a0 = (pd.rows[o] as number) * c + (pd.rows[o + 1] as number) * s;
+      const a1 = (pd.rows[o + 3] as number) * c + (pd.rows[o + 4] as number) * s;
+      const a2 = (pd.rows[o + 6] as number) * c + (pd.rows[o + 7] as number) * s;
+      const b0 = pd.rows[o + 2] as number;
+      const b1 = pd.rows[o + 5] as number;
+      const b2 = pd.rows[o + 8] as number;
+      // d_j(r) = a_j·r + b_j ≥ 0 for the three vertices: the stretch of the ray inside the triangle
+      const clip = (aj: number, bj: number) => {
+        if (Math.abs(aj) < 1e-15) {
+          if (bj < -1e-12) r1 = -1;
+        } else if (aj > 0) r0 = Math.max(r0, -bj / aj);
+        else r1 = Math.min(r1, -bj / aj);
+      };
+      clip(a0, b0);
+      clip(a1, b1);
+      clip(a2, b2);
+      if (r1 - r0 <= 1e-12) continue;
       let ls = 0;
       let lc = 0;
       let hs = 0;
       let hc = 0;
       for (let j = 0; j < 3; j++) {
-        const o = 9 * t + 3 * j;
-        const aj = (pd.rows[o] as number) * c + (pd.rows[o + 1] as number) * s;
-        const bj = pd.rows[o + 2] as number;
-        // d_j(r) = aj·r + bj ≥ 0
-        if (Math.abs(aj) < 1e-15) {
-          if (bj < -1e-12) r1 = -1;
-        } else if (aj > 0) r0 = Math.max(r0, -bj / aj);
-        else r1 = Math.min(r1, -bj / aj);
+        const aj = j === 0 ? a0 : j === 1 ? a1 : a2;
+        const bj = j === 0 ? b0 : j === 1 ? b1 : b2;
         let mn = Infinity;
         let mx = -Infinity;
         for (const mask of pd.masks[3 * t + j] as readonly number[]) {
@@ -140,7 +159,6 @@ export function midpointProfile(diagrams: MidpointSource, mTop: number, loadAngl
         hs += aj * mx;
         hc += bj * mx;
       }
-      if (r1 - r0 <= 1e-12) continue;
       r0s.push(r0);
       r1s.push(r1);
       push(r0, 1, ls, lc, hs, hc);
@@ -159,30 +177,39 @@ export function midpointProfile(diagrams: MidpointSource, mTop: number, loadAngl
     }
     if (reach < mTop - 1e-9) gapAt = Math.min(gapAt, reach);
   }
-  const order = new Uint32Array(n);
-  for (let e = 0; e < n; e++) order[e] = e;
-  order.sort((x, y) => (er[x] as number) - (er[y] as number));
   // segment k runs from breaks[k] to breaks[k + 1] (or mTop); every piece starting at or before
-  // breaks[k] and not yet ended there is active on it
+  // breaks[k] and not yet ended there is active on it. Events are binned to their break by binary
+  // search over the natively sorted radii (no comparator sort), then summed up in order.
+  const sorted = er.slice(0, n).sort();
   const breaks: number[] = [0];
   for (let e = 0; e < n; e++) {
-    const r = er[order[e] as number] as number;
+    const r = sorted[e] as number;
     if (r < mTop && r > (breaks[breaks.length - 1] as number)) breaks.push(r);
+  }
+  const b = breaks.length;
+  const delta = new Float64Array(4 * b);
+  for (let e = 0; e < n; e++) {
+    const r = er[e] as number;
+    if (r >= mTop) continue;
+    let lo = 0;
+    let hi = b - 1;
+    while (lo < hi) {
+      const mid = (lo + hi + 1) >> 1;
+      if ((breaks[mid] as number) <= r) lo = mid;
+      else hi = mid - 1;
+    }
+    for (let j = 0; j < 4; j++) delta[4 * lo + j] = (delta[4 * lo + j] as number) + (ev[4 * e + j] as number);
   }
   const lowSlope: number[] = [];
   const lowConst: number[] = [];
   const highSlope: number[] = [];
   const highConst: number[] = [];
   let [ls, lc, hs, hc] = [0, 0, 0, 0];
-  let e = 0;
-  for (const r of breaks) {
-    for (; e < n && (er[order[e] as number] as number) <= r; e++) {
-      const o = 4 * (order[e] as number);
-      ls += ev[o] as number;
-      lc += ev[o + 1] as number;
-      hs += ev[o + 2] as number;
-      hc += ev[o + 3] as number;
-    }
+  for (let k = 0; k < b; k++) {
+    ls += delta[4 * k] as number;
+    lc += delta[4 * k + 1] as number;
+    hs += delta[4 * k + 2] as number;
+    hc += delta[4 * k + 3] as number;
     lowSlope.push(ls / MIDPOINT_SAMPLES);
     lowConst.push(lc / MIDPOINT_SAMPLES);
     highSlope.push(hs / MIDPOINT_SAMPLES);
@@ -198,12 +225,12 @@ interface Prepared {
   readonly rows: Float64Array;
   /** Per triangle vertex (3 per triangle): the midpoint masks of its realisations. */
   readonly masks: readonly (readonly number[])[];
-  /** Per triangle: centre direction and half width of the directions that can meet it (−1: all). */
-  readonly centre: Float64Array;
-  readonly half: Float64Array;
+  /** Per sample ray k: the triangles it can meet are rayTri[rayStart[k] … rayStart[k+1]−1]. */
+  readonly rayStart: Int32Array;
+  readonly rayTri: Int32Array;
 }
 
-function prepare(d: PolarityDiagram): Prepared {
+function prepare(d: PolarityDiagram, mTop: number): Prepared {
   const count = d.triangles.length;
   const rows = new Float64Array(9 * count);
   const masks: number[][] = [];
@@ -221,16 +248,64 @@ function prepare(d: PolarityDiagram): Prepared {
       if (Math.hypot(v.alpha, v.beta) < 1e-9) continue;
       w = Math.max(w, Math.abs(wrap(Math.atan2(v.beta, v.alpha) - at)));
     }
-    const containsOrigin = (d.dwell[t] as PolarityDiagram['dwell'][number]).every((row) => row[2] >= -1e-12);
+    // only a triangle with the origin strictly inside meets every direction; one with the origin as a
+    // corner or on an edge meets just the directions between its other corners
+    const containsOrigin = (d.dwell[t] as PolarityDiagram['dwell'][number]).every((row) => row[2] > 1e-12);
     centre[t] = at;
     half[t] = containsOrigin || w >= Math.PI / 2 ? -1 : w + 1e-9;
   });
-  return { count, rows, masks, centre, half };
+  // The sample directions are fixed, so which rays can meet which triangle is known up front: each
+  // ray then visits the two or three triangles it crosses instead of testing all of them.
+  // sample k sits at θ_k = (k + ½)·Δ; a span [c − h, c + h] holds the k with θ_k inside it. Two
+  // passes fill the ray lists as one flat array (count, then place).
+  const step = (2 * Math.PI) / MIDPOINT_SAMPLES;
+  const K = MIDPOINT_SAMPLES;
+  // a triangle wholly beyond mTop never meets a ray inside [0, mTop]
+  const near = d.triangles.map((tri) => distanceFromOrigin(tri.map((v) => d.vectors[v] as PolarityDiagram['vectors'][number])) < mTop);
+  const range = (t: number): [number, number] => {
+    if (!near[t]) return [0, -1];
+    const h = half[t] as number;
+    if (h < 0) return [0, K - 1];
+    const c = centre[t] as number;
+    return [Math.ceil((c - h) / step - 0.5), Math.floor((c + h) / step - 0.5)];
+  };
+  const rayStart = new Int32Array(K + 1);
+  for (let t = 0; t < count; t++) {
+    const [k0, k1] = range(t);
+    for (let k = k0; k <= k1; k++) {
+      const r = (((k % K) + K) % K) + 1;
+      rayStart[r] = (rayStart[r] as number) + 1;
+    }
+  }
+  for (let k = 0; k < K; k++) rayStart[k + 1] = (rayStart[k + 1] as number) + (rayStart[k] as number);
+  const fill = rayStart.slice(0, K);
+  const rayTri = new Int32Array(rayStart[K] as number);
+  for (let t = 0; t < count; t++) {
+    const [k0, k1] = range(t);
+    for (let k = k0; k <= k1; k++) {
+      const r = ((k % K) + K) % K;
+      rayTri[fill[r] as number] = t;
+      fill[r] = (fill[r] as number) + 1;
+    }
+  }
+  return { count, rows, masks, rayStart, rayTri };
 }
 
-function inSpan(p: Prepared, t: number, theta: number): boolean {
-  const h = p.half[t] as number;
-  return h < 0 || Math.abs(wrap(theta - (p.centre[t] as number))) <= h;
+// Distance from the origin to a triangle given by its corners (0 when it contains the origin).
+function distanceFromOrigin(c: readonly { readonly alpha: number; readonly beta: number }[]): number {
+  let inside = true;
+  let best = Infinity;
+  const area = (c[1]!.alpha - c[0]!.alpha) * (c[2]!.beta - c[0]!.beta) - (c[1]!.beta - c[0]!.beta) * (c[2]!.alpha - c[0]!.alpha);
+  for (let k = 0; k < 3; k++) {
+    const p = c[k]!;
+    const q = c[(k + 1) % 3]!;
+    const dx = q.alpha - p.alpha;
+    const dy = q.beta - p.beta;
+    if (Math.sign(dx * -p.beta - dy * -p.alpha) === -Math.sign(area)) inside = false;
+    const s = Math.min(1, Math.max(0, -(p.alpha * dx + p.beta * dy) / (dx * dx + dy * dy)));
+    best = Math.min(best, Math.hypot(p.alpha + s * dx, p.beta + s * dy));
+  }
+  return inside ? 0 : best;
 }
 
 function wrap(x: number): number {

@@ -59,6 +59,27 @@ export interface PolarityDiagram {
 export interface PhaseOffer {
   readonly levels: LevelSets;
   readonly moves: Readonly<Record<PhasePolarity, readonly LevelMove[]>>;
+  /**
+   * Optional cache key per polarity character, equal for equal levels and moves (saves building
+   * one per polarity string); made from `levels` and `moves` when absent.
+   */
+  readonly keys?: Readonly<Record<PhasePolarity, string>>;
+}
+
+/**
+ * The cache key of what one phase offers for one polarity character.
+ *
+ * @param offer - levels and moves of the phase
+ * @param c - polarity character
+ * @param withMoves - whether the moves matter (not under `levelSteps: any`)
+ * @returns a string equal for equal offers
+ * @example
+ * ```ts
+ * offerKey(offer, '+', true);
+ * ```
+ */
+export function offerKey(offer: Pick<PhaseOffer, 'levels' | 'moves'>, c: PhasePolarity, withMoves: boolean): string {
+  return `${offer.levels[c].join(',')}${withMoves ? `;${offer.moves[c].map((m) => `${m[0]}>${m[1]}`).join(',')}` : ''}`;
 }
 
 /**
@@ -95,7 +116,9 @@ export function polarityDiagram(
   const [pa, pb, pc] = parsePolarity(polarity);
   const phaseLevels = [phases.a.levels[pa], phases.b.levels[pb], phases.c.levels[pc]] as const;
   const moves: PhaseMoves = [phases.a.moves[pa], phases.b.moves[pb], phases.c.moves[pc]];
-  const key = rules.levelSteps === 'any' ? JSON.stringify(phaseLevels) : JSON.stringify([phaseLevels, moves]);
+  const withMoves = rules.levelSteps !== 'any';
+  const part = (o: PhaseOffer, c: PhasePolarity) => o.keys?.[c] ?? offerKey(o, c, withMoves);
+  const key = `${part(phases.a, pa)}|${part(phases.b, pb)}|${part(phases.c, pc)}`;
   const known = cache?.get(key);
   if (known) return { ...known, polarity };
   const raw = survivingVectors(phaseLevels);
@@ -144,7 +167,7 @@ function tile(vectors: readonly SpaceVector[], points: readonly Point[], delauna
   if (rules.levelSteps === 'any') return whole;
   if (delaunay.length > 0 && delaunay.every((t) => admissibleChain(vectors, t, moves) !== null)) return whole;
   const scale = Math.max(1e-300, ...points.map((p) => Math.hypot(p[0], p[1])));
-  const t = admissibleTiling(points, admissibleTriangles(vectors, moves, points), 1e-9 * scale);
+  const t = admissibleTiling(points, admissibleTriangles(vectors, moves, points), 1e-9 * scale, delaunay);
   // a tiling that fills the hull has the hull as its region: keep the hull's geometry and clamp
   const area = t.triangles.reduce((acc, tri) => acc + triangleArea(points, tri), 0);
   const hullPts = hullOf(points);

@@ -15,6 +15,8 @@ export type RatingCheck =
       readonly rating: number | null;
     };
 
+const NOT_WITHIN: RatingCheck = { ok: false, reason: 'not within ratings', element: null, voltage: null, rating: null };
+
 /** One difference constraint `x[to] − x[from] ≤ weight`, i.e. a graph edge from → to. */
 interface Arc {
   readonly from: number;
@@ -55,6 +57,27 @@ interface Arc {
  * ```
  */
 export function ratingCheck(leg: LegNetlist, elements: readonly LegElement[], gates: ReadonlySet<string>, faults: PhaseFaults, outputLevel: number): RatingCheck {
+  return ratingChecker(leg, elements, faults)(gates, outputLevel);
+}
+
+/**
+ * {@link ratingCheck} prepared once for a phase: the node numbering and every constraint that does
+ * not depend on the gates (DC potentials, diodes, shorts, ratings) are built here, so each call only
+ * adds the gated channels and the output potential. The gate-set solver checks dozens of gate sets
+ * per phase this way.
+ *
+ * @param leg - the leg netlist
+ * @param elements - expanded elements (with ratings)
+ * @param faults - element id → fault mode for this phase
+ * @returns a function of the gate set and the output level (and whether to find the device to blame,
+ *   default true; else an unsafe state reads `not within ratings`), giving what {@link ratingCheck} gives
+ * @example
+ * ```ts
+ * const check = ratingChecker(leg, expandElements(leg), new Map());
+ * check(new Set(['upper']), 1).ok; // true
+ * ```
+ */
+export function ratingChecker(leg: LegNetlist, elements: readonly LegElement[], faults: PhaseFaults): (gates: ReadonlySet<string>, outputLevel: number, explainIt?: boolean) => RatingCheck {
   const nodes = new Map<string, number>();
   const id = (n: string): number => {
     let k = nodes.get(n);
@@ -64,35 +87,90 @@ export function ratingCheck(leg: LegNetlist, elements: readonly LegElement[], ga
     }
     return k;
   };
-  const arcs: Arc[] = [];
-  const fix = (n: string, v: number) => {
-    arcs.push({ from: 0, to: id(n), weight: v, rated: -1 }, { from: id(n), to: 0, weight: -v, rated: -1 });
+  const fixed: Arc[] = [];
+  const fix = (into: Arc[], n: string, v: number) => {
+    into.push({ from: 0, to: id(n), weight: v, rated: -1 }, { from: id(n), to: 0, weight: -v, rated: -1 });
   };
-  for (const [n, v] of Object.entries(leg.dcNodes)) fix(n, v);
-  fix(leg.output, outputLevel);
+  for (const [n, v] of Object.entries(leg.dcNodes)) fix(fixed, n, v);
   // V(a) ≤ V(b) is x[a] − x[b] ≤ 0: an arc b → a of weight 0
-  const notAbove = (a: string, b: string) => arcs.push({ from: id(b), to: id(a), weight: 0, rated: -1 });
+  const notAbove = (into: Arc[], a: string, b: string) => into.push({ from: id(b), to: id(a), weight: 0, rated: -1 });
+  const gatedArcs = new Map<string, Arc[]>();
   elements.forEach((e, i) => {
     const mode = faults.get(e.id);
     if (mode === 'open') return;
     if (mode === 'short') {
-      notAbove(e.from, e.to);
-      notAbove(e.to, e.from);
+      notAbove(fixed, e.from, e.to);
+      notAbove(fixed, e.to, e.from);
       return;
     }
-    const conducts = !e.gated || gates.has(e.id);
-    if (conducts) {
-      notAbove(e.from, e.to);
-      if (e.kind === 'mosfet') notAbove(e.to, e.from);
+    if (!e.gated) notAbove(fixed, e.from, e.to);
+    else {
+      const own: Arc[] = [];
+      notAbove(own, e.from, e.to);
+      if (e.kind === 'mosfet') notAbove(own, e.to, e.from);
+      gatedArcs.set(e.id, own);
     }
     if (e.rating !== undefined) {
-      arcs.push({ from: id(e.to), to: id(e.from), weight: e.rating, rated: i }, { from: id(e.from), to: id(e.to), weight: e.rating, rated: i });
+      fixed.push({ from: id(e.to), to: id(e.from), weight: e.rating, rated: i }, { from: id(e.from), to: id(e.to), weight: e.rating, rated: i });
     }
   });
+  const out = id(leg.output);
   const n = nodes.size + 1;
   const eps = tolerance(leg);
-  if (feasible(n, arcs, eps)) return { ok: true };
+  // the fast path in flat arrays, filled per call: fixed arcs, then the gated ones, then the output
+  const cap = fixed.length + [...gatedArcs.values()].reduce((k, l) => k + l.length, 0) + 2;
+  const from = new Int32Array(cap);
+  const to = new Int32Array(cap);
+  const weight = new Float64Array(cap);
+  fixed.forEach((a, k) => {
+    from[k] = a.from;
+    to[k] = a.to;
+    weight[k] = a.weight;
+  });
+  const dist = new Float64Array(n);
+  return (gates, outputLevel, explainIt = true) => {
+    let m = fixed.length;
+    for (const g of gates) {
+      for (const a of gatedArcs.get(g) ?? []) {
+        from[m] = a.from;
+        to[m] = a.to;
+        weight[m++] = 0;
+      }
+    }
+    from[m] = 0;
+    to[m] = out;
+    weight[m++] = outputLevel;
+    from[m] = out;
+    to[m] = 0;
+    weight[m++] = -outputLevel;
+    if (feasibleFlat(n, m, from, to, weight, eps, dist)) return { ok: true };
+    if (!explainIt) return NOT_WITHIN;
+    const arcs = [...fixed, { from: 0, to: out, weight: outputLevel, rated: -1 }, { from: out, to: 0, weight: -outputLevel, rated: -1 }];
+    for (const g of gates) for (const a of gatedArcs.get(g) ?? []) arcs.push(a);
+    return explain(arcs, n, eps, nodes, elements, faults);
+  };
+}
 
+// Bellman–Ford as `feasible`, on flat arrays of m arcs.
+function feasibleFlat(n: number, m: number, from: Int32Array, to: Int32Array, weight: Float64Array, eps: number, d: Float64Array): boolean {
+  d.fill(0);
+  for (let round = 0; round < n; round++) {
+    let changed = false;
+    for (let k = 0; k < m; k++) {
+      const v = (d[from[k] as number] as number) + (weight[k] as number);
+      const t = to[k] as number;
+      if (v < (d[t] as number) - eps) {
+        d[t] = v;
+        changed = true;
+      }
+    }
+    if (!changed) return true;
+  }
+  return false;
+}
+
+// Why there is no solution: the device to blame and the voltage it would block (see ratingCheck).
+function explain(arcs: readonly Arc[], n: number, eps: number, nodes: ReadonlyMap<string, number>, elements: readonly LegElement[], faults: PhaseFaults): RatingCheck {
   // Blame a device, not an element: a switch and its antiparallel diode share one rating, so
   // dropping only one of them would leave the other holding the same constraint.
   let worst: { element: LegElement; voltage: number; excess: number } | null = null;

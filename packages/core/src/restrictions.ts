@@ -2,7 +2,7 @@ import type { LegAnalysis } from './analyseLeg.js';
 import { commutates, patternLevel } from './commutation.js';
 import type { CurrentSign } from './conduction.js';
 import { PHASES } from './faults.js';
-import { usableLevel, type GateSetSolver } from './gateSetSolver.js';
+import { gateSetSolver, usableLevel, type GateSetSolver } from './gateSetSolver.js';
 import type { PhasePolarity } from './legTable.js';
 
 /**
@@ -55,6 +55,8 @@ export function explainRestrictions(analysis: LegAnalysis): string[] {
       }
     }
     if (!analysis.rules.ratings && analysis.rules.levelSteps === 'any') continue;
+    // a solver that names the overstressed device (the table's own one only tells usability)
+    let named: GateSetSolver | undefined;
     for (const s of ['+', '-'] as const) {
       const levels = table.levels[s];
       const moves = table.commutations.moves[s];
@@ -64,7 +66,8 @@ export function explainRestrictions(analysis: LegAnalysis): string[] {
         if (moves.some(([x, y]) => x === a && y === b)) continue;
         // under `adjacent` a change over more than one step is excluded by the rule itself
         if (analysis.rules.levelSteps === 'adjacent' && Math.abs(dc.indexOf(a) - dc.indexOf(b)) > 1) continue;
-        const obstacle = firstObstacle(table.solve, gatesOf, s, a, b) ?? firstObstacle(table.solve, gatesOf, s, b, a);
+        named ??= gateSetSolver(analysis.leg, new Map(analysis.faults.filter((f) => f.phase === ph).map((f) => [f.element, f.mode])), analysis.rules.ratings, true);
+        const obstacle = firstObstacle(named, gatesOf, s, a, b) ?? firstObstacle(named, gatesOf, s, b, a);
         const change = `${levelName(b, dc)}↔${levelName(a, dc)}`;
         out.push(`phase ${ph}: no safe ${change} change ${SIGN_WORDS[s]}${obstacle ? `: ${obstacle}` : ''}`);
       }
