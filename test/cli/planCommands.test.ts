@@ -63,11 +63,11 @@ describe('bad input to vectors, plan and sweep', () => {
     [['vectors', '--topology', 'npc', '--polarity', '+++'], 'not +++ or ---'],
     [['vectors', '--topology', 'npc', '--polarity', '+x-'], 'three characters'],
     [['vectors', '--topology', 'npc'], '--polarity'],
-    [['plan', '--topology', 'npc', '--load-angle', '200'], '[-180, 180]'],
-    [['plan', '--topology', 'npc', '--load-angle', 'NaN'], 'finite number'],
+    [['plan', '--topology', 'npc', '--load-angle', '200'], 'from -180 to 180'],
+    [['plan', '--topology', 'npc', '--load-angle', 'NaN'], 'a decimal number'],
     [['plan', '--topology', 'npc', '--polarity-margin', '60'], '[0, 60)'],
     [['plan', '--topology', 'npc', '--load-angle'], 'a value'],
-    [['sweep', '--topology', 'npc', '--step', '0'], 'positive step'],
+    [['sweep', '--topology', 'npc', '--step', '0'], 'above 0'],
     [['sweep', '--topology', 'npc', '--from', '50', '--to', '10'], '--to'],
   ])('exits 2 with one line for %j', (argv, hint) => {
     const r = runBin(argv);

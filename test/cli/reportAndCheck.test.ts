@@ -68,7 +68,7 @@ describe('hexsalvage check', () => {
     ['{"claims": [{"name": "a", "topology": "npc", "faults": [], "m": "big", "loadAngleDeg": [0, 1]}]}', 'claims[0].m'],
     ['{"claims": [{"name": "a", "topology": "npc", "faults": [], "m": 1, "loadAngleDeg": [10, 1]}]}', 'claims[0].loadAngleDeg'],
     ['{"claims": [{"name": "a", "topology": "npc", "faults": ["a.nope"], "m": 1, "loadAngleDeg": [0, 1]}]}', 'one of outerUpper'],
-    ['{"claims": [{"name": "a", "topology": "missing.json", "faults": [], "m": 1, "loadAngleDeg": [0, 1]}]}', 'claims[0].topology'],
+    ['{"claims": [{"name": "a", "topology": "missing.json", "faults": [], "m": 1, "loadAngleDeg": [0, 1]}]}', 'claims[0] ("a").topology'],
     ['{"claims": [{"name": "a", "topology": "npc", "faults": [], "m": 1, "loadAngleDeg": [0, 1], "extra": 1}]}', 'claims[0].extra'],
     ['not json', 'valid JSON'],
   ])('exits 2 with one line for %s', (text, hint) => {

@@ -11,7 +11,7 @@ describe('hexsalvage table', () => {
     const r = await runInProcess(['table', '--topology', t, ...(fault ? ['--fault', fault] : []), '--polarity', '+-?']);
     expect(r.code).toBe(0);
     expect(r.stdout).toContain('Polarity +-? (index');
-    expect(r.stdout).toContain('Flags:');
+    expect(r.stdout).toContain('Flags (polarity +-?):');
   });
   it('shows the line-rate flag of a hybrid leg', async () => {
     const r = await runInProcess(['table', '--topology', 'anpc-hybrid', '--fault', 'a.innerUpper']);
@@ -50,7 +50,7 @@ describe('hexsalvage export', () => {
   it.each([
     [['export', '--format', 'xml', '--out', 'x', '--topology', 'npc'], 'one of json, csv, c'],
     [['export', '--format', 'csv', '--topology', 'npc'], '--out'],
-    [['export', '--format', 'csv', '--out', '/proc/version/nope.csv', '--topology', 'npc'], 'writable file path'],
+    [['export', '--format', 'csv', '--out', '/proc/version/nope.csv', '--topology', 'npc'], 'is not a folder'],
     [['export', '--format', 'c', '--out', join(tmpdir(), 'x.h'), '--topology', 'npc', '--prefix', 'bad-prefix'], 'C identifier'],
   ])('exits 2 with one line for %j', (argv, hint) => {
     const r = runBin(argv);

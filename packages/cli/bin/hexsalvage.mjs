@@ -1,9 +1,11 @@
 #!/usr/bin/env node
 // Launcher: the compiled CLI lives in ../dist (run `pnpm build` first).
 import { main } from '../dist/main.js';
+import { stdoutSink } from '../dist/output.js';
 
+process.stderr.on('error', () => {});
 const io = {
-  stdout: (text) => new Promise((resolve, reject) => process.stdout.write(text, (err) => (err ? reject(err) : resolve()))),
+  stdout: stdoutSink(process.stdout),
   stderr: (text) => process.stderr.write(text),
 };
 

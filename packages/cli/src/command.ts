@@ -9,6 +9,8 @@ export interface Command {
   /** Usage line after `hexsalvage`. */
   readonly usage: string;
   readonly options: readonly OptionSpec[];
+  /** How many positional arguments the command takes (default 0: options only). */
+  readonly positionals?: number;
   /** Runs the command; resolves to the exit code. */
   readonly run: (args: ParsedArgs, io: CommandIO) => Promise<number>;
 }
@@ -32,7 +34,7 @@ export const JSON_OPTION: OptionSpec = { name: 'json', type: 'flag', help: 'prin
 export const HELP_OPTION: OptionSpec = { name: 'help', type: 'flag', help: 'show this help' };
 /** Load angle and polarity margin, as `plan` takes them. */
 export const ANGLE_OPTIONS: readonly OptionSpec[] = [
-  { name: 'load-angle', type: 'number', value: 'DEG', help: 'load angle φ in degrees, −180…180, currents lag the voltage (default 0)' },
-  { name: 'polarity-margin', type: 'number', value: 'DEG', help: 'polarity margin δ in degrees, 0 ≤ δ < 60 (default 0)' },
+  { name: 'load-angle', type: 'number', min: -180, max: 180, value: 'DEG', help: 'load angle phi in degrees, -180 to 180, currents lag the voltage (default 0)' },
+  { name: 'polarity-margin', type: 'number', min: 0, max: 60, value: 'DEG', help: 'polarity margin delta in degrees, 0 <= delta < 60 (default 0)' },
 ];
 

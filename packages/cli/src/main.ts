@@ -12,7 +12,7 @@ import { plotCommand } from './commands/plotCommand.js';
 import { checkCommand } from './commands/checkCommand.js';
 import { reportCommand } from './commands/reportCommand.js';
 import { cycleCommand } from './commands/cycleCommand.js';
-import type { CommandIO } from './output.js';
+import { OutputError, type CommandIO } from './output.js';
 
 /** Every command, in the order `--help` lists them. */
 export const COMMANDS: readonly Command[] = [legCommand, vectorsCommand, planCommand, sweepCommand, tableCommand, cycleCommand, exportCommand, plotCommand, reportCommand, checkCommand];
@@ -24,7 +24,7 @@ const VERSION = (JSON.parse(readFileSync(new URL('../package.json', import.meta.
  *
  * @param argv - arguments after the program name
  * @param io - output sinks
- * @returns the exit code: 0 done, 1 a check failed, 2 bad input, 70 internal error
+ * @returns the exit code: 0 done, 1 a check failed, 2 bad input, 70 internal error, 74 output not writable
  * @example
  * ```ts
  * process.exitCode = await main(process.argv.slice(2), io);
@@ -46,7 +46,7 @@ export async function main(argv: readonly string[], io: CommandIO): Promise<numb
     return 2;
   }
   try {
-    const args = parseArgs(rest, cmd.options);
+    const args = parseArgs(rest, cmd.options, cmd.positionals ?? 0);
     if (args.flags.has('help')) {
       await io.stdout(`${commandHelp(cmd)}\n`);
       return 0;
@@ -56,6 +56,10 @@ export async function main(argv: readonly string[], io: CommandIO): Promise<numb
     if (e instanceof HexsalvageInputError) {
       io.stderr(`hexsalvage ${cmd.name}: ${e.message}\n`);
       return 2;
+    }
+    if (e instanceof OutputError) {
+      io.stderr(`hexsalvage ${cmd.name}: ${e.message}\n`);
+      return 74;
     }
     io.stderr(`hexsalvage ${cmd.name}: internal error: ${String((e as Error)?.message ?? e).split('\n')[0]}\n`);
     return 70;

@@ -1,10 +1,13 @@
-import { readFileSync } from 'node:fs';
+import { existsSync } from 'node:fs';
 import { dirname } from 'node:path';
 import { HexsalvageInputError, LEVEL_STEP_RULES, type DeratingClaim, type LevelStepRule } from '@hexsalvage/core';
 import { loadTopology } from './loadTopology.js';
+import { readJsonFile } from './readJsonFile.js';
 
 /**
- * Reads and validates a claims file; netlist paths are taken relative to the file.
+ * Reads and validates a claims file; netlist paths are taken relative to the file and must stay in
+ * its folder or below (a claims file cannot make the tool read files elsewhere). The file is read
+ * as every input is (regular file, 1 MiB, no duplicate keys); its content is never echoed.
  *
  * @param path - the claims JSON file
  * @returns the claims with topologies resolved
@@ -16,13 +19,10 @@ import { loadTopology } from './loadTopology.js';
  */
 export function readClaims(path: string): DeratingClaim[] {
   const err = (key: string, expected: string, got?: unknown) => new HexsalvageInputError('claims', path, key, expected, got);
-  let doc: unknown;
-  try {
-    doc = JSON.parse(readFileSync(path, 'utf8'));
-  } catch (e) {
-    throw err('(document)', (e as NodeJS.ErrnoException).code ? 'a readable claims file' : `valid JSON (${(e as Error).message.split('\n')[0]})`);
-  }
+  if (!existsSync(path)) throw err('(file)', 'an existing claims file');
+  const doc = readJsonFile(path, path, 'claims');
   if (typeof doc !== 'object' || doc === null || Array.isArray(doc)) throw err('(document)', 'an object { "claims": [...] }', doc);
+  for (const k of Object.keys(doc)) if (k !== 'claims') throw err(k, 'only the key "claims" at the top level', k);
   const list = (doc as Record<string, unknown>).claims;
   if (!Array.isArray(list) || list.length === 0) throw err('claims', 'a non-empty array of claims', list);
   const names = new Set<string>();
@@ -30,6 +30,7 @@ export function readClaims(path: string): DeratingClaim[] {
     const at = `claims[${i}]`;
     if (typeof c !== 'object' || c === null || Array.isArray(c)) throw err(at, 'a claim object', c);
     const o = c as Record<string, unknown>;
+    if (Object.prototype.hasOwnProperty.call(o, '__proto__')) throw err(`${at}.__proto__`, 'no "__proto__" key', '__proto__');
     const keys = ['name', 'topology', 'faults', 'm', 'loadAngleDeg', 'polarityMarginDeg', 'levelSteps'];
     for (const k of Object.keys(o)) if (!keys.includes(k)) throw err(`${at}.${k}`, `one of the keys ${keys.join(', ')}`, k);
     if (typeof o.name !== 'string' || o.name === '') throw err(`${at}.name`, 'a non-empty name', o.name);
@@ -48,9 +49,13 @@ export function readClaims(path: string): DeratingClaim[] {
     if (steps !== undefined && !(LEVEL_STEP_RULES as readonly unknown[]).includes(steps)) throw err(`${at}.levelSteps`, `one of ${LEVEL_STEP_RULES.join(', ')}`, steps);
     let topology: unknown;
     try {
-      topology = loadTopology(o.topology, dirname(path));
+      topology = loadTopology(o.topology, dirname(path), true);
     } catch (e) {
-      if (e instanceof HexsalvageInputError) throw err(`${at}.topology`, e.message, o.topology);
+      // the netlist's own message already names the file and the key (and quotes the value once)
+      if (e instanceof HexsalvageInputError) {
+        const key = `${at} ("${o.name}").topology`;
+        throw e.code === 'topology' ? err(key, e.expected, o.topology) : err(key, `a valid netlist (${e.message})`);
+      }
       throw e;
     }
     return {

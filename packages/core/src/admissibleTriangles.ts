@@ -34,7 +34,7 @@ export interface AdmissibleTriangle {
  * admissibleTriangles(vectors, [movesA, movesB, movesC], points).length;
  * ```
  */
-export function admissibleTriangles(vectors: readonly SpaceVector[], moves: PhaseMoves, points: readonly Point[]): AdmissibleTriangle[] {
+export function admissibleTriangles(vectors: readonly SpaceVector[], moves: PhaseMoves, points: readonly Point[], scale = 1): AdmissibleTriangle[] {
   const owner = new Map<string, number>();
   vectors.forEach((v, i) => {
     for (const t of v.levels) owner.set(key(t), i);
@@ -58,7 +58,7 @@ export function admissibleTriangles(vectors: readonly SpaceVector[], moves: Phas
       if (x.phase === y.phase || x.vec === y.vec || x.vec === v2 || y.vec === v2) continue;
       let tri: [number, number, number] = [x.vec, v2, y.vec];
       const area = triangleArea(points, tri);
-      if (Math.abs(area) <= AREA_TOLERANCE) continue;
+      if (Math.abs(area) <= AREA_TOLERANCE * scale * scale) continue;
       if (area < 0) tri = [tri[0], tri[2], tri[1]];
       const rotated = rotateToMin(tri);
       const k = rotated.join(',');

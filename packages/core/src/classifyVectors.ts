@@ -23,11 +23,11 @@ export interface VectorShell {
  * vectorShells(healthyNpcVectors, 3).map((s) => s.name); // ['zero', 'small', 'medium', 'large']
  * ```
  */
-export function vectorShells(healthy: readonly SpaceVector[], levelCount: number): VectorShell[] {
+export function vectorShells(healthy: readonly SpaceVector[], levelCount: number, scale = 1): VectorShell[] {
   const lengths: number[] = [];
   for (const v of healthy) {
     const r = Math.hypot(v.alpha, v.beta);
-    if (!lengths.some((x) => Math.abs(x - r) <= VECTOR_TOLERANCE)) lengths.push(r);
+    if (!lengths.some((x) => Math.abs(x - r) <= VECTOR_TOLERANCE * scale)) lengths.push(r);
   }
   lengths.sort((x, y) => x - y);
   const names = levelCount === 3 && lengths.length === 4 ? ['zero', 'small', 'medium', 'large']
@@ -46,7 +46,7 @@ export function vectorShells(healthy: readonly SpaceVector[], levelCount: number
  * classifyVector(shells, { alpha: 2 / 3, beta: 0, levels: [] }); // 'small'
  * ```
  */
-export function classifyVector(shells: readonly VectorShell[], v: { alpha: number; beta: number }): string {
+export function classifyVector(shells: readonly VectorShell[], v: { alpha: number; beta: number }, scale = 1): string {
   const r = Math.hypot(v.alpha, v.beta);
-  return shells.find((s) => Math.abs(s.length - r) <= VECTOR_TOLERANCE)?.name ?? 'off-diagram';
+  return shells.find((s) => Math.abs(s.length - r) <= VECTOR_TOLERANCE * scale)?.name ?? 'off-diagram';
 }

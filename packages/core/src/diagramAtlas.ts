@@ -4,7 +4,7 @@ import type { LevelMove } from './commutation.js';
 import type { Phase } from './faults.js';
 import type { LegTable, PhasePolarity } from './legTable.js';
 import { POLARITY_STRINGS, type PolarityString } from './polarity.js';
-import { offerKey, polarityDiagram, type PhaseOffer, type PolarityDiagram } from './polarityDiagram.js';
+import { diagramScale, offerKey, polarityDiagram, type PhaseOffer, type PolarityDiagram } from './polarityDiagram.js';
 import type { LimitRules } from './rules.js';
 import { survivingVectors, type SpaceVector } from './survivingVectors.js';
 
@@ -33,9 +33,12 @@ export function diagramAtlas(options: AnalyseLegOptions): DiagramAtlas {
   const analysis = analyseLeg(options);
   const h = analysis.healthy.levels;
   // The healthy diagram uses the robust sets; for any well-formed leg they equal the signed ones.
-  const healthyVectors = survivingVectors([h['?'], h['?'], h['?']]);
+  // the link's half span sets the scale of every tolerance (a leg written in volts works the same)
+  const pots = Object.values(analysis.leg.dcNodes);
+  const span = (Math.max(...pots) - Math.min(...pots)) / 2;
+  const healthyVectors = survivingVectors([h['?'], h['?'], h['?']], span > 0 ? span : 1);
   const levelCount = new Set([...h['+'], ...h['-']]).size;
-  const shells = vectorShells(healthyVectors, levelCount);
+  const shells = vectorShells(healthyVectors, levelCount, diagramScale(healthyVectors));
   // one cache for both maps: the healthy diagram is also what unfaulted level sets give
   const cache = new Map<string, PolarityDiagram>();
   const rules = analysis.rules;

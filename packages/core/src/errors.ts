@@ -39,13 +39,33 @@ export class HexsalvageInputError extends Error {
    */
   constructor(code: InputErrorCode, input: string, key: string, expected: string, got?: unknown) {
     const shown = got === undefined ? '' : `, got ${describeValue(got)}`;
-    super(`${input}: ${key}: expected ${expected}${shown}`);
+    // input and key may carry user text (a file name, a fault string): one line, bounded length
+    super(`${plainText(input, 120)}: ${plainText(key, 80)}: expected ${plainText(expected, 600)}${shown}`);
     this.name = 'HexsalvageInputError';
     this.code = code;
     this.input = input;
     this.key = key;
     this.expected = expected;
   }
+}
+
+/**
+ * User text made safe for a one-line message: control characters (newlines included) escaped as
+ * in JSON, and cut to `max` characters with `...`.
+ *
+ * @param text - the text
+ * @param max - longest result, in characters
+ * @returns a single line
+ * @example
+ * ```ts
+ * plainText('a\nb', 80); // 'a\\nb'
+ * ```
+ */
+export function plainText(text: string, max: number): string {
+  const named: Record<string, string> = { '\n': '\\n', '\r': '\\r', '\t': '\\t' };
+  // eslint-disable-next-line no-control-regex
+  const esc = text.replace(/[\u0000-\u001f\u007f-\u009f\u2028\u2029]/g, (c) => named[c] ?? `\\u${c.charCodeAt(0).toString(16).padStart(4, '0')}`);
+  return esc.length > max ? `${esc.slice(0, max - 3)}...` : esc;
 }
 
 /** Short, single-line rendering of an offending value for error messages. */

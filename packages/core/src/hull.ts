@@ -14,12 +14,12 @@ import { AREA_TOLERANCE } from './tolerance.js';
  * convexHull([[0, 0], [1, 0], [0.5, 0], [0, 1]]); // [0, 1, 3]
  * ```
  */
-export function convexHull(points: readonly Point[]): number[] {
+export function convexHull(points: readonly Point[], scale = 1): number[] {
   const order = points.map((_, i) => i).sort((i, j) => {
     const [pi, pj] = [points[i] as Point, points[j] as Point];
     return pi[0] - pj[0] || pi[1] - pj[1];
   });
-  if (order.length < 3) return dedupe(order, points);
+  if (order.length < 3) return dedupe(order, points, scale);
   const cross = (o: number, a: number, b: number) => {
     const [po, pa, pb] = [points[o] as Point, points[a] as Point, points[b] as Point];
     return (pa[0] - po[0]) * (pb[1] - po[1]) - (pa[1] - po[1]) * (pb[0] - po[0]);
@@ -29,7 +29,7 @@ export function convexHull(points: readonly Point[]): number[] {
   const chain = (idx: number[]) => {
     const out: number[] = [];
     for (const i of idx) {
-      while (out.length >= 2 && cross(out[out.length - 2] as number, out[out.length - 1] as number, i) <= AREA_TOLERANCE) out.pop();
+      while (out.length >= 2 && cross(out[out.length - 2] as number, out[out.length - 1] as number, i) <= AREA_TOLERANCE * scale * scale) out.pop();
       out.push(i);
     }
     return out;
@@ -60,11 +60,11 @@ export function polygonArea(polygon: readonly Point[]): number {
   return s / 2;
 }
 
-function dedupe(idx: number[], points: readonly Point[]): number[] {
+function dedupe(idx: number[], points: readonly Point[], scale = 1): number[] {
   const out: number[] = [];
   for (const i of idx) {
     const p = points[i] as Point;
-    if (!out.some((j) => Math.hypot((points[j] as Point)[0] - p[0], (points[j] as Point)[1] - p[1]) <= 1e-12)) out.push(i);
+    if (!out.some((j) => Math.hypot((points[j] as Point)[0] - p[0], (points[j] as Point)[1] - p[1]) <= 1e-12 * scale)) out.push(i);
   }
   return out;
 }

@@ -38,6 +38,7 @@ export function parseNetlist(value: unknown, input: string): LegNetlist {
 
   const name = doc.name;
   if (typeof name !== 'string' || name.trim() === '') throw err('name', 'a non-empty string', name);
+  if (doc.description !== undefined && typeof doc.description !== 'string') throw err('description', 'a text (string), or no key', doc.description);
 
   const dcObj = asObject(doc.dcNodes, 'dcNodes', 'an object mapping DC node names to potentials in units of Vdc/2', err);
   const dcNodes: Record<string, number> = {};
@@ -47,6 +48,14 @@ export function parseNetlist(value: unknown, input: string): LegNetlist {
     dcNodes[node] = v;
   }
   if (Object.keys(dcNodes).length < 2) throw err('dcNodes', 'at least two DC nodes', Object.keys(dcNodes).length);
+  // Two DC nodes at one potential would be one node written twice (which of them a current returns
+  // to would be arbitrary): each node has its own potential, so a link has a span.
+  const seen = new Map<number, string>();
+  for (const [node, v] of Object.entries(dcNodes)) {
+    const other = seen.get(v);
+    if (other !== undefined) throw err(`dcNodes.${node}`, `a potential different from every other DC node (${other} is at ${v} already)`, v);
+    seen.set(v, node);
+  }
 
   const output = doc.output;
   if (typeof output !== 'string') throw err('output', 'the name of the output node (string)', output);
@@ -146,15 +155,25 @@ function asObject(v: unknown, key: string, expected: string, err: (k: string, e:
   return v as Obj;
 }
 
+/** Deepest nesting of arrays and objects a netlist may have (a leg needs four levels). */
+const MAX_DEPTH = 64;
+
+// Walks the document with an explicit stack (a document nested 100,000 deep must not overflow the
+// call stack) and refuses prototype keys and nesting beyond MAX_DEPTH.
 function rejectPoisonKeys(v: unknown, path: string, err: (k: string, e: string, g?: unknown) => HexsalvageInputError): void {
-  if (typeof v !== 'object' || v === null) return;
-  if (Array.isArray(v)) {
-    v.forEach((x, i) => rejectPoisonKeys(x, `${path}[${i}]`, err));
-    return;
-  }
-  for (const k of Object.keys(v)) {
-    const here = path ? `${path}.${k}` : k;
-    if (POISON_KEYS.has(k)) throw err(here, 'no "__proto__", "constructor" or "prototype" keys', k);
-    rejectPoisonKeys((v as Obj)[k], here, err);
+  const stack: [unknown, string, number][] = [[v, path, 1]];
+  while (stack.length > 0) {
+    const [x, at, depth] = stack.pop() as [unknown, string, number];
+    if (typeof x !== 'object' || x === null) continue;
+    if (depth > MAX_DEPTH) throw err(at || '(document)', `nesting at most ${MAX_DEPTH} deep`);
+    if (Array.isArray(x)) {
+      x.forEach((y, i) => stack.push([y, `${at}[${i}]`, depth + 1]));
+      continue;
+    }
+    for (const k of Object.keys(x)) {
+      const here = at ? `${at}.${k}` : k;
+      if (POISON_KEYS.has(k)) throw err(here, 'no "__proto__", "constructor" or "prototype" keys', k);
+      stack.push([(x as Obj)[k], here, depth + 1]);
+    }
   }
 }

@@ -121,16 +121,19 @@ export function polarityDiagram(
   const key = `${part(phases.a, pa)}|${part(phases.b, pb)}|${part(phases.c, pc)}`;
   const known = cache?.get(key);
   if (known) return { ...known, polarity };
-  const raw = survivingVectors(phaseLevels);
-  const vectors = raw.map((v) => ({ ...v, class: classifyVector(shells, v) }));
+  // tolerances follow the size of the diagram, so that a leg written at another scale of potential
+  // gives the same answer scaled (the healthy vectors' extent is the link's scale)
+  const scale = diagramScale(healthy);
+  const raw = survivingVectors(phaseLevels, scale);
+  const vectors = raw.map((v) => ({ ...v, class: classifyVector(shells, v, scale) }));
   const points: Point[] = vectors.map((v) => [v.alpha, v.beta]);
-  const hull = convexHull(points);
-  const delaunay = triangulate(points);
-  const convex = hullGeometry(points, hull);
+  const hull = convexHull(points, scale);
+  const delaunay = triangulate(points, scale);
+  const convex = hullGeometry(points, hull, scale);
   const min = minRadialExtent(convex, 0, 2 * Math.PI);
   const e = min.edge === null ? null : convex.edges[min.edge];
-  const tiling = tile(vectors, points, delaunay, convex, min.value, moves, rules);
-  const lost = healthy.filter((h) => indexOfVector(vectors, [h.alpha, h.beta]) < 0).map((v) => ({ ...v, class: classifyVector(shells, v) }));
+  const tiling = tile(vectors, points, delaunay, convex, min.value, moves, rules, scale);
+  const lost = healthy.filter((h) => indexOfVector(vectors, [h.alpha, h.beta], scale) < 0).map((v) => ({ ...v, class: classifyVector(shells, v, scale) }));
   const have = new Set(vectors.flatMap((v) => v.levels.map(tripletKey)));
   const lostTriplets = healthy.reduce((n, h) => n + h.levels.filter((t) => !have.has(tripletKey(t))).length, 0);
   const diagram: PolarityDiagram = {
@@ -162,21 +165,35 @@ interface Tiling {
   readonly exact: boolean;
 }
 
-function tile(vectors: readonly SpaceVector[], points: readonly Point[], delaunay: readonly Triangle[], convex: HullGeometry, radius: number, moves: PhaseMoves, rules: LimitRules): Tiling {
+function tile(vectors: readonly SpaceVector[], points: readonly Point[], delaunay: readonly Triangle[], convex: HullGeometry, radius: number, moves: PhaseMoves, rules: LimitRules, scale: number): Tiling {
   const whole = { triangles: delaunay, geometry: convex, reach: radius, outline: null, exact: true };
   if (rules.levelSteps === 'any') return whole;
   if (delaunay.length > 0 && delaunay.every((t) => admissibleChain(vectors, t, moves) !== null)) return whole;
-  const scale = Math.max(1e-300, ...points.map((p) => Math.hypot(p[0], p[1])));
-  const t = admissibleTiling(points, admissibleTriangles(vectors, moves, points), 1e-9 * scale, delaunay);
+  const t = admissibleTiling(points, admissibleTriangles(vectors, moves, points, scale), 1e-9 * scale, delaunay);
   // a tiling that fills the hull has the hull as its region: keep the hull's geometry and clamp
   const area = t.triangles.reduce((acc, tri) => acc + triangleArea(points, tri), 0);
-  const hullPts = hullOf(points);
+  const hullPts = hullOf(points, scale);
   if (hullPts.length >= 3 && area >= polygonArea(hullPts) - 1e-9 * scale * scale) return { ...whole, triangles: t.triangles };
   return { triangles: t.triangles, geometry: t.geometry, reach: t.reach, outline: t.outline, exact: t.exact };
 }
 
-function hullOf(points: readonly Point[]): Point[] {
-  return convexHull(points).map((i) => points[i] as Point);
+function hullOf(points: readonly Point[], scale: number): Point[] {
+  return convexHull(points, scale).map((i) => points[i] as Point);
+}
+
+/**
+ * The length scale of a leg's diagrams: the longest healthy vector (2/√3·… of the link's half span).
+ *
+ * @param healthy - vectors of the healthy diagram
+ * @returns a positive length (1 for an empty diagram)
+ * @example
+ * ```ts
+ * diagramScale(healthyNpcVectors); // 4/3
+ * ```
+ */
+export function diagramScale(healthy: readonly { readonly alpha: number; readonly beta: number }[]): number {
+  const r = Math.max(0, ...healthy.map((v) => Math.hypot(v.alpha, v.beta)));
+  return r > 0 ? r : 1;
 }
 
 function tripletKey(t: LevelTriplet): string {

@@ -47,9 +47,9 @@ export interface RadialValue {
  * hullGeometry(points, convexHull(points)).containsOrigin;
  * ```
  */
-export function hullGeometry(points: readonly Point[], hull: readonly number[]): HullGeometry {
+export function hullGeometry(points: readonly Point[], hull: readonly number[], scale = 1): HullGeometry {
   const poly = hull.map((i) => points[i] as Point);
-  if (hull.length < 3 || polygonArea(poly) <= AREA_TOLERANCE) return { edges: [], containsOrigin: false };
+  if (hull.length < 3 || polygonArea(poly) <= AREA_TOLERANCE * scale * scale) return { edges: [], containsOrigin: false };
   const edges: HullEdge[] = hull.map((from, k) => {
     const to = hull[(k + 1) % hull.length] as number;
     const [x0, y0] = points[from] as Point;
@@ -61,7 +61,7 @@ export function hullGeometry(points: readonly Point[], hull: readonly number[]):
   });
   // Strictly inside: an origin on an edge gives a zero radius in the outward directions, which
   // the contract treats as "not inside".
-  const containsOrigin = edges.every((e) => e.offset > Math.sqrt(AREA_TOLERANCE));
+  const containsOrigin = edges.every((e) => e.offset > Math.sqrt(AREA_TOLERANCE) * scale);
   return { edges, containsOrigin };
 }
 

@@ -23,19 +23,20 @@ export interface SpaceVector {
  * survivingVectors([[-1, 1], [-1, 1], [-1, 1]]).length; // 7 (two-level hexagon and the zero vector)
  * ```
  */
-export function survivingVectors(sets: readonly [readonly number[], readonly number[], readonly number[]]): SpaceVector[] {
+export function survivingVectors(sets: readonly [readonly number[], readonly number[], readonly number[]], scale = 1): SpaceVector[] {
+  const tol = VECTOR_TOLERANCE * scale;
   const groups: { p: Point; levels: LevelTriplet[] }[] = [];
   for (const la of sets[0]) for (const lb of sets[1]) for (const lc of sets[2]) {
     const t: LevelTriplet = [la, lb, lc];
     const p = clarke(t);
-    const g = groups.find((x) => Math.hypot(x.p[0] - p[0], x.p[1] - p[1]) <= VECTOR_TOLERANCE);
+    const g = groups.find((x) => Math.hypot(x.p[0] - p[0], x.p[1] - p[1]) <= tol);
     if (g) g.levels.push(t);
     else groups.push({ p, levels: [t] });
   }
-  const q = (x: number) => Math.round(x / VECTOR_TOLERANCE);
+  const q = (x: number) => Math.round(x / tol);
   const key = (p: Point) => {
     const r = Math.hypot(p[0], p[1]);
-    const a = r <= VECTOR_TOLERANCE ? 0 : (Math.atan2(p[1], p[0]) + 2 * Math.PI) % (2 * Math.PI);
+    const a = r <= tol ? 0 : (Math.atan2(p[1], p[0]) + 2 * Math.PI) % (2 * Math.PI);
     return [q(r), q(a)] as const;
   };
   return groups
@@ -59,6 +60,6 @@ function compareTripletsDesc(x: LevelTriplet, y: LevelTriplet): number {
  * indexOfVector(survivingVectors([[1], [-1], [-1]]), [4 / 3, 0]); // 0
  * ```
  */
-export function indexOfVector(vectors: readonly SpaceVector[], p: Point): number {
-  return vectors.findIndex((v) => Math.hypot(v.alpha - p[0], v.beta - p[1]) <= VECTOR_TOLERANCE);
+export function indexOfVector(vectors: readonly SpaceVector[], p: Point, scale = 1): number {
+  return vectors.findIndex((v) => Math.hypot(v.alpha - p[0], v.beta - p[1]) <= VECTOR_TOLERANCE * scale);
 }

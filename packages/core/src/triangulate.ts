@@ -22,14 +22,14 @@ export type Triangle = readonly [number, number, number];
  * triangulate([[0, 0], [1, 0], [0, 1], [1, 1]]).length; // 2
  * ```
  */
-export function triangulate(points: readonly Point[]): Triangle[] {
+export function triangulate(points: readonly Point[], scale = 1): Triangle[] {
   if (points.length < 3) return [];
   const d = Delaunay.from(points.map((p) => [p[0], p[1]] as [number, number]));
   const out: Triangle[] = [];
   for (let t = 0; t < d.triangles.length; t += 3) {
     let tri = [d.triangles[t], d.triangles[t + 1], d.triangles[t + 2]] as [number, number, number];
     const area = triangleArea(points, tri);
-    if (Math.abs(area) <= AREA_TOLERANCE) continue;
+    if (Math.abs(area) <= AREA_TOLERANCE * scale * scale) continue;
     if (area < 0) tri = [tri[0], tri[2], tri[1]];
     out.push(rotateToMin(tri));
   }

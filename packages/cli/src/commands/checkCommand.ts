@@ -9,6 +9,7 @@ export const checkCommand: Command = {
   name: 'check',
   summary: 'decide derating claims exactly over their load-angle ranges (exit 1 if any fails)',
   usage: 'check CLAIMS.json [--ignore-ratings] [--json]',
+  positionals: 1,
   options: [{ name: 'ignore-ratings', type: 'flag', help: 'judge every claim without the device voltage-rating check (unsafe; first version)' }, JSON_OPTION, HELP_OPTION],
   run: async (args, io) => {
     const file = args.positionals[0];

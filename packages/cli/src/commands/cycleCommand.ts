@@ -12,9 +12,9 @@ export const cycleCommand: Command = {
   options: [
     ...LEG_OPTIONS,
     ...ANGLE_OPTIONS,
-    { name: 'm', type: 'number', value: 'M', help: 'modulation index to run at (units of Vdc/2), at most the plan’s mMax' },
-    { name: 'ratio', type: 'number', value: 'N', help: 'switching periods per fundamental period, fsw/f1 (default 120)' },
-    { name: 'current', type: 'number', value: 'A', help: 'peak phase current (default 1: results per unit of current)' },
+    { name: 'm', type: 'number', min: 0, max: 10, value: 'M', help: 'modulation index to run at (units of Vdc/2), at most the mMax of the plan' },
+    { name: 'ratio', type: 'number', min: 6, max: 100000, integer: true, value: 'N', help: 'switching periods per fundamental period, fsw/f1 (default 120)' },
+    { name: 'current', type: 'number', min: 0, openMin: true, max: 1e9, value: 'A', help: 'peak phase current (default 1: results per unit of current)' },
     JSON_OPTION,
     HELP_OPTION,
   ],

@@ -12,7 +12,7 @@ export const exportCommand: Command = {
   summary: 'write the plan and switching table as JSON, CSV or a C header for firmware',
   usage: 'export --format json|csv|c --out FILE --topology T [--fault F]... [--load-angle DEG] [--polarity-margin DEG] [--prefix ID]',
   options: [
-    { name: 'format', type: 'string', value: 'FMT', help: 'json (plan + table), csv (one row per polarity × triangle × vertex) or c (header)' },
+    { name: 'format', type: 'string', value: 'FMT', help: 'json (plan + table), csv (one row per polarity x triangle x vertex) or c (header)' },
     { name: 'out', type: 'string', value: 'FILE', help: 'output file; an existing file is replaced atomically' },
     ...LEG_OPTIONS,
     ...ANGLE_OPTIONS,

@@ -1,4 +1,4 @@
-import { diagramAtlas, deratingCurve, gatedDeviceIds, locateReference, planFromAtlas, switchingTableFromAtlas } from '@hexsalvage/core';
+import { parsePolarity, diagramAtlas, deratingCurve, gatedDeviceIds, locateReference, planFromAtlas, switchingTableFromAtlas } from '@hexsalvage/core';
 import { deratingCurveSvg, legSchematicSvg, sectorOverviewSvg, switchingPeriodSvg, vectorDiagramSvg } from '@hexsalvage/plot';
 import { usage } from '../args.js';
 import { ANGLE_OPTIONS, HELP_OPTION, LEG_OPTIONS, type Command } from '../command.js';
@@ -13,16 +13,17 @@ export const plotCommand: Command = {
   name: 'plot',
   summary: 'draw a review picture: diagram, sectors, derating, leg or sequence (SVG or PNG)',
   usage: 'plot diagram|sectors|derating|leg|sequence --topology T [--fault F]... [--load-angle DEG] [--polarity XYZ] --out FILE.svg|.png',
+  positionals: 1,
   options: [
     ...LEG_OPTIONS,
     ...ANGLE_OPTIONS,
     { name: 'polarity', type: 'string', value: 'XYZ', help: 'diagram/sequence: polarity string (default: where the limit binds)' },
-    { name: 'm', type: 'number', value: 'M', help: 'diagram: also draw a reference circle at this modulation index' },
+    { name: 'm', type: 'number', min: 0, max: 10, value: 'M', help: 'diagram: also draw a reference circle at this modulation index' },
     { name: 'compare', type: 'list', value: 'F,F', help: 'derating: another fault case to overlay (comma-separated faults); repeatable' },
     { name: 'phase', type: 'string', value: 'a|b|c', help: 'leg: phase to draw (default: the first faulted phase)' },
     { name: 'pattern', type: 'string', value: 'NAME', help: 'leg: gate pattern whose conduction path is drawn (default: the first one a fault changes)' },
     { name: 'sign', type: 'string', value: '+|-', help: 'leg: current sign of the drawn path (default +)' },
-    { name: 'triangle', type: 'number', value: 'N', help: 'sequence: triangle index (default: the one at 0.7·mMax where the limit binds)' },
+    { name: 'triangle', type: 'number', min: 0, max: 100000, integer: true, value: 'N', help: 'sequence: triangle index (default: the one at 0.7 mMax where the limit binds)' },
     { name: 'out', type: 'string', value: 'FILE', help: 'output file, .svg or .png' },
     HELP_OPTION,
   ],
@@ -36,7 +37,7 @@ export const plotCommand: Command = {
     const atlas = diagramAtlas({ topology, faults, ...rules });
     const plan = planFromAtlas(atlas, loadAngleDeg, polarityMarginDeg);
     const polarity = (args.values.get('polarity') as string | undefined) ?? plan.limitingPolarity;
-    if (!plan.polarities[polarity]) throw usage('--polarity', 'one of the 25 polarity strings, e.g. +-?', polarity);
+    parsePolarity(polarity, '--polarity');
     let svg: string;
     if (kind === 'diagram') {
       svg = vectorDiagramSvg(plan, polarity, { referenceM: args.values.get('m') as number | undefined });

@@ -1,5 +1,4 @@
-import { switchingTable, type SwitchingTable } from '@hexsalvage/core';
-import { usage } from '../args.js';
+import { parsePolarity, switchingTable, type SwitchingTable } from '@hexsalvage/core';
 import { HELP_OPTION, JSON_OPTION, LEG_OPTIONS, type Command } from '../command.js';
 import { cautionBlock, fmt, levelText, textTable } from '../format.js';
 import { legInputs } from '../legInputs.js';
@@ -14,9 +13,9 @@ export const tableCommand: Command = {
     const { topology, faults, rules } = legInputs(args);
     const table = switchingTable({ topology, faults, ...rules });
     const only = args.values.get('polarity') as string | undefined;
-    if (only !== undefined && !table.polarities[only]) throw usage('--polarity', 'one of the 25 polarity strings, e.g. +-?', only);
+    if (only !== undefined) parsePolarity(only, '--polarity');
     if (args.flags.has('json')) {
-      await io.stdout(`${JSON.stringify(table)}\n`);
+      await io.stdout(`${JSON.stringify(only === undefined ? table : onlyPolarity(table, only))}\n`);
       return 0;
     }
     await io.stdout(`${tableText(table, only)}\n`);
@@ -41,7 +40,7 @@ export function tableText(table: SwitchingTable, only?: string): string {
     if (only !== undefined && pol !== only) continue;
     const p = table.polarities[pol];
     if (!p) continue;
-    lines.push(`Polarity ${pol} (index ${p.index}): ${p.vectors.length} vectors, ${p.lost.length} lost${p.lost.length ? ` (${p.lost.map((v) => `${v.class} ${v.levels[0]?.map(levelText).join('')}`).join(', ')})` : ''}, ${p.tableTriangles.length} triangles, radius ${fmt(p.radius, 4)}`);
+    lines.push(`Polarity ${pol} (index ${p.index}): ${p.vectors.length} vectors, ${p.lost.length} lost${p.lost.length ? ` (${p.lost.map((v) => `${v.class} ${v.levels[0]?.map(levelText).join('')}`).join(', ')})` : ''}, ${p.tableTriangles.length} admissible triangles, reach ${fmt(p.reach, 4)}`);
     const rows = p.tableTriangles.map((tri, t) => {
       const seq = tri.sequence;
       const states = seq ? seq.states.map((s) => s.map((x) => levelText(x.level)).join('')).join(' > ') : '(none)';
@@ -54,12 +53,34 @@ export function tableText(table: SwitchingTable, only?: string): string {
       return [String(t), tri.vertices.map((v) => v.class).join('/'), states, pats, String(seq?.totalGateChanges ?? ''), tri.midpointAuthority, flags.join('; ')];
     });
     if (rows.length) lines.push(textTable(['#', 'vertices', 'sequence (half period)', 'patterns a/b/c', 'changes', 'midpoint', 'flags'], rows));
-    else lines.push('  no triangles: this polarity cannot be modulated (hull without area)');
+    else lines.push('  no triangles: this polarity cannot be modulated (no admissible triangle)');
     lines.push('');
   }
-  const f = table.flags;
-  lines.push(`Flags: ${f.lineDevicesAtPwm.length} triangles drive line-frequency devices at PWM rate, ${f.levelJumps.length} have level jumps, ${f.midpointAuthorityLost.length} lost midpoint control.`);
+  const f = (only === undefined ? table : onlyPolarity(table, only)).flags;
+  lines.push(`Flags${only === undefined ? '' : ` (polarity ${only})`}: ${f.lineDevicesAtPwm.length} triangles drive line-frequency devices at PWM rate, ${f.levelJumps.length} have level jumps, ${f.midpointAuthorityLost.length} lost midpoint control.`);
   lines.push('Sequence: states from the start to the centre of a centre-aligned period, mirrored after; changes = gate changes per period.');
   lines.push(cautionBlock(table.cautions));
   return lines.join('\n');
+}
+
+/**
+ * The table restricted to one polarity string: that polarity only, and only its flags.
+ *
+ * @param table - the full table
+ * @param polarity - a valid polarity string
+ * @returns a table document with one polarity
+ * @example
+ * ```ts
+ * onlyPolarity(switchingTable({ topology: 'npc' }), '+--').polarityOrder; // ['+--']
+ * ```
+ */
+export function onlyPolarity(table: SwitchingTable, polarity: string): SwitchingTable {
+  const keep = <T extends { readonly polarity: string }>(list: readonly T[]) => list.filter((x) => x.polarity === polarity);
+  const f = table.flags;
+  return {
+    ...table,
+    polarityOrder: [polarity],
+    polarities: { [polarity]: table.polarities[polarity]! },
+    flags: { lineDevicesAtPwm: keep(f.lineDevicesAtPwm), levelJumps: keep(f.levelJumps), midpointAuthorityLost: keep(f.midpointAuthorityLost), noSequence: keep(f.noSequence) },
+  };
 }
