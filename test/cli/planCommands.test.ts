@@ -48,7 +48,7 @@ describe('hexsalvage sweep', () => {
   it('prints CSV with a header and one row per point', async () => {
     const r = await runInProcess(['sweep', '--topology', 'npc', '--fault', 'a.outerUpper.diode', '--from', '-30', '--to', '30', '--step', '10', '--csv']);
     const lines = r.stdout.trim().split('\n');
-    expect(lines[0]).toBe('load_angle_deg,m_max,derating_ratio,limiting_angle_deg,limiting_polarity,breakpoint,m_max_hull');
+    expect(lines[0]).toBe('load_angle_deg,m_max,derating_ratio,limiting_angle_deg,limiting_polarity,breakpoint,m_max_hull,derating_edge');
     expect(lines.length).toBeGreaterThanOrEqual(8);
   });
   it('prints JSON points', async () => {

@@ -36,7 +36,7 @@ describe('hexsalvage export', () => {
       const text = readFileSync(out, 'utf8');
       if (format === 'json') expect(JSON.parse(text).kind).toBe('hexsalvage-export');
       if (format === 'csv') expect(text.split('\n')[0]).toBe(CSV_COLUMNS.join(','));
-      if (format === 'c') expect(text).toContain('static int hs_locate(');
+      if (format === 'c') expect(text).toContain('static inline int hs_locate(');
     }
   });
   it('replaces an existing file atomically and leaves no temporary file', async () => {

@@ -42,6 +42,17 @@ describe('exportC', () => {
   });
 
   const cc = ['cc', 'gcc', 'clang'].find((c) => spawnSync(c, ['--version']).status === 0);
+  it.skipIf(!cc)('compiles in a program that includes it and calls nothing, or one helper, with -Wall -Wextra -Werror', () => {
+    const dir = mkdtempSync(join(tmpdir(), 'hexsalvage-c-'));
+    writeFileSync(join(dir, 'hs_table.h'), exportC(switchingTable({ topology: 'npc', faults: ['a.clampUpper'] })));
+    writeFileSync(join(dir, 'none.c'), '#include "hs_table.h"\nint main(void) { return 0; }\n');
+    writeFileSync(join(dir, 'one.c'), '#include "hs_table.h"\nint main(void) { return hs_polarity_index(1, -1, 0) == 4 ? 0 : 1; }\n');
+    for (const f of ['none', 'one']) {
+      execFileSync(cc as string, ['-std=c99', '-Wall', '-Wextra', '-Werror', '-o', join(dir, f), join(dir, `${f}.c`), '-lm']);
+      expect(spawnSync(join(dir, f)).status).toBe(0);
+    }
+  });
+
   it.skipIf(!cc)('escapes awkward leg and pattern names so the header still compiles', () => {
     const leg = {
       name: 'odd */ names??', dcNodes: { 'DC+': 1, 'DC-': -1 }, output: 'phase out',

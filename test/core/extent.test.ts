@@ -35,7 +35,13 @@ describe('extent of the admissible tiling', () => {
       }
       const step = 1e-4;
       const m = marched(d, theta, step);
-      expect(Math.abs(e - m)).toBeLessThanOrEqual(step + 1e-9);
+      // never above what the triangles cover (the safe side) …
+      expect(e).toBeLessThanOrEqual(m + step + 1e-9);
+      // … and equal to it, except along a direction where the extent jumps (a ray grazing an outline
+      // edge): there e(θ) is the lower one-sided value, the infimum the limit must use
+      const ends = d.geometry.edges.flatMap((g) => (g.span ? [g.span[0], g.span[1]] : []));
+      const nearEnd = ends.some((x) => Math.abs(Math.atan2(Math.sin(theta - x), Math.cos(theta - x))) < 1e-6);
+      if (!nearEnd) expect(Math.abs(e - m)).toBeLessThanOrEqual(step + 1e-9);
       compared++;
     }), fcParams(250));
     expect(compared).toBeGreaterThan(50);

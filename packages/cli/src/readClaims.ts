@@ -1,6 +1,6 @@
 import { existsSync } from 'node:fs';
 import { dirname } from 'node:path';
-import { HexsalvageInputError, LEVEL_STEP_RULES, type DeratingClaim, type LevelStepRule } from '@hexsalvage/core';
+import { evaluateClaim, HexsalvageInputError, LEVEL_STEP_RULES, type ClaimVerdict, type DeratingClaim, type LevelStepRule } from '@hexsalvage/core';
 import { loadTopology } from './loadTopology.js';
 import { readJsonFile } from './readJsonFile.js';
 
@@ -63,5 +63,28 @@ export function readClaims(path: string): DeratingClaim[] {
       ...(d !== undefined ? { polarityMarginDeg: d as number } : {}),
       ...(steps !== undefined ? { levelSteps: steps as LevelStepRule } : {}),
     };
+  });
+}
+
+/**
+ * Reads a claims file and decides every claim; an error in one claim names the file and the claim.
+ *
+ * @param path - the claims JSON file
+ * @param ignoreRatings - judge without the rating check (`--ignore-ratings`)
+ * @returns one verdict per claim, in file order
+ * @throws HexsalvageInputError naming the file and the claim
+ * @example
+ * ```ts
+ * judgeClaims('examples/pump-claims.json', false);
+ * ```
+ */
+export function judgeClaims(path: string, ignoreRatings: boolean): ClaimVerdict[] {
+  return readClaims(path).map((c, i) => {
+    try {
+      return evaluateClaim(ignoreRatings ? { ...c, ignoreRatings: true } : c);
+    } catch (e) {
+      if (e instanceof HexsalvageInputError) throw new HexsalvageInputError('claims', path, `claims[${i}] ("${c.name}")`, e.message);
+      throw e;
+    }
   });
 }

@@ -1,9 +1,11 @@
+import { HexsalvageInputError } from './errors.js';
 import { unratedDevices } from './expandElements.js';
 import { faultsByPhase, PHASES, type Fault, type Phase } from './faults.js';
 import { legTable, type LegTable } from './legTable.js';
 import type { LegNetlist } from './netlist.js';
 import { resolveTopology } from './resolveTopology.js';
 import { resolveRules, type LimitRuleOptions, type LimitRules } from './rules.js';
+import { requireObject } from './validate.js';
 
 /** Options of {@link analyseLeg}: the leg, its faults and the rules (`ignoreRatings`, `levelSteps`). */
 export interface AnalyseLegOptions extends LimitRuleOptions {
@@ -40,9 +42,11 @@ export interface LegAnalysis {
  * ```
  */
 export function analyseLeg(options: AnalyseLegOptions): LegAnalysis {
+  requireObject(options, 'analyseLeg', 'an options object { topology, faults?, ignoreRatings?, levelSteps? }');
   const rules = resolveRules(options);
   const leg = resolveTopology(options.topology);
   const texts = options.faults ?? [];
+  if (!Array.isArray(texts)) throw new HexsalvageInputError('option', 'options', 'faults', 'an array of fault strings PHASE.DEVICE[:MODE]', texts);
   const byPhase = faultsByPhase(texts, leg, 'faults');
   const healthy = legTable(leg, new Map(), rules.ratings);
   const phases = {} as Record<Phase, LegTable>;

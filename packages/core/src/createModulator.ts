@@ -6,6 +6,10 @@ import { parsePolarity, POLARITY_STRINGS, type PolarityString } from './polarity
 import type { PlanPolarity } from './planRemedial.js';
 import type { TableTriangle } from './polarityTable.js';
 import { DWELL_TOLERANCE } from './tolerance.js';
+import { requireObject } from './validate.js';
+
+/** Largest |α| or |β| a modulator accepts (units of Vdc/2): far beyond any leg, far below overflow. */
+export const REFERENCE_LIMIT = 1e6;
 
 /** What `modulate` returns. */
 export interface ModulationResult {
@@ -83,16 +87,22 @@ interface Prepared {
  * ```
  */
 export function createModulator(source: ModulatorSource): Modulator {
+  const polarities = requireObject(requireObject(source, 'createModulator', 'a plan or a switching table (with "polarities")').polarities, 'createModulator', 'a plan or a switching table: its "polarities" object');
   const prepared: (Prepared | null)[] = POLARITY_STRINGS.map((p) => {
-    const d = source.polarities[p];
-    return d ? prepare(d) : null;
+    const d = Object.prototype.hasOwnProperty.call(polarities, p) ? (polarities[p] as ModulatorSource['polarities'][string]) : undefined;
+    if (d === undefined) return null;
+    const ok = typeof d === 'object' && d !== null && Array.isArray(d.triangles) && Array.isArray(d.dwell) && Array.isArray(d.vectors) && Array.isArray(d.hull) && d.dwell.length === d.triangles.length;
+    if (!ok) throw new HexsalvageInputError('option', 'createModulator', `polarities.${p}`, 'a polarity with vectors, hull, triangles and one dwell matrix per triangle');
+    return prepare(d);
   });
   const scratch = new Float64Array(4);
   const clampBuf = new Float64Array(2);
 
   const run = (alpha: number, beta: number, k: number, out: Float64Array): number => {
     const pr = prepared[k];
-    if (!pr || pr.count === 0) return -1;
+    // a reference beyond ±REFERENCE_LIMIT (or not finite) is not a modulation index: -1, as for a
+    // polarity without triangles (the object path refuses it with a typed error)
+    if (!pr || pr.count === 0 || !(Math.abs(alpha) <= REFERENCE_LIMIT && Math.abs(beta) <= REFERENCE_LIMIT)) return -1;
     let t = search(pr, alpha, beta, out);
     if (t >= 0) {
       out[3] = 0;
@@ -115,7 +125,9 @@ export function createModulator(source: ModulatorSource): Modulator {
 
   return {
     modulate(alpha, beta, polarity) {
-      if (!Number.isFinite(alpha) || !Number.isFinite(beta)) throw new HexsalvageInputError('option', 'modulate', 'alpha/beta', 'finite numbers', Number.isFinite(alpha) ? beta : alpha);
+      if (!(Math.abs(alpha) <= REFERENCE_LIMIT && Math.abs(beta) <= REFERENCE_LIMIT)) {
+        throw new HexsalvageInputError('option', 'modulate', 'alpha/beta', `finite numbers within ±${REFERENCE_LIMIT} (units of Vdc/2)`, Math.abs(alpha) <= REFERENCE_LIMIT ? beta : alpha);
+      }
       const k = polarityIndex(polarity);
       const t = run(alpha, beta, k, scratch);
       if (t < 0) return { triangle: -1, dwell: [0, 0, 0], vertices: [], clamped: true };

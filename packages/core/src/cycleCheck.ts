@@ -1,6 +1,7 @@
 import { clarke } from './clarke.js';
 import { createModulator } from './createModulator.js';
 import { HexsalvageInputError } from './errors.js';
+import { requireNumber, requireObject } from './validate.js';
 import { MIDPOINT_TOLERANCE, midpointProfile, midpointRangeAt } from './midpointBalance.js';
 import { PHASES } from './faults.js';
 import { polarityAt } from './polaritySectors.js';
@@ -68,6 +69,7 @@ export interface CycleReport {
  * ```
  */
 export function cycleCheck(table: SwitchingTable, options: CycleCheckOptions): CycleReport {
+  requireObject(options, 'cycleCheck', 'an options object { m, loadAngleDeg?, polarityMarginDeg?, frequencyRatio?, currentAmplitude? }');
   const { m } = options;
   const phi = options.loadAngleDeg ?? 0;
   const delta = options.polarityMarginDeg ?? 0;
@@ -77,7 +79,10 @@ export function cycleCheck(table: SwitchingTable, options: CycleCheckOptions): C
   const bad = (key: string, expected: string, got: unknown) => new HexsalvageInputError('option', 'cycleCheck', key, expected, got);
   if (!(Number.isFinite(m) && m >= 0)) throw bad('m', 'a modulation index ≥ 0', m);
   if (!(Number.isInteger(n) && n >= 6 && n <= 100000)) throw bad('frequencyRatio', 'an integer from 6 to 100000', n);
-  if (!(Number.isFinite(amp) && amp > 0)) throw bad('currentAmplitude', 'a positive current', amp);
+  if (!(Number.isFinite(amp) && amp > 0 && amp <= 1e9)) throw bad('currentAmplitude', 'a positive current up to 1e9', amp);
+  requireNumber(phi, 'cycleCheck', 'loadAngleDeg', { min: -180, max: 180 });
+  requireNumber(delta, 'cycleCheck', 'polarityMarginDeg', { min: 0, max: 60, openMax: true });
+  if (!(m <= 10)) throw bad('m', 'a modulation index from 0 to 10', m);
 
   const mod = createModulator(table);
   let err = 0;

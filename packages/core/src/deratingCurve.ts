@@ -1,5 +1,7 @@
 import type { DiagramAtlas } from './diagramAtlas.js';
+import { HexsalvageInputError } from './errors.js';
 import { extentGeometry, modulationLimit, type ExtentKind } from './modulationLimit.js';
+import { requireNumber, requireObject } from './validate.js';
 import type { PolarityDiagram } from './polarityDiagram.js';
 import { polaritySectors, type PolaritySector } from './polaritySectors.js';
 import { minRadialExtent } from './radialExtent.js';
@@ -29,6 +31,8 @@ export interface DeratingPoint {
   readonly limitingPolarity: string;
   /** The first version's convex-hull limit at the same load angle (for comparison; not safe). */
   readonly mMaxHull: number;
+  /** `begins` where, as φ grows, the limit drops below the healthy one; `ends` where it returns. */
+  readonly deratingEdge: 'begins' | 'ends' | null;
   /** True where the curve may have a kink (see {@link deratingCurve}); false on plain grid points. */
   readonly breakpoint: boolean;
 }
@@ -52,10 +56,12 @@ export interface DeratingPoint {
  * ```
  */
 export function deratingCurve(atlas: DiagramAtlas, options: DeratingCurveOptions = {}): DeratingPoint[] {
-  const fromDeg = options.fromDeg ?? -90;
-  const toDeg = options.toDeg ?? 90;
-  const stepDeg = options.stepDeg ?? 1;
-  const margin = options.polarityMarginDeg ?? 0;
+  requireObject(options, 'deratingCurve', 'an options object { fromDeg?, toDeg?, stepDeg?, polarityMarginDeg?, extent? }');
+  const fromDeg = requireNumber(options.fromDeg ?? -90, 'deratingCurve', 'fromDeg', { min: -180, max: 180 });
+  const toDeg = requireNumber(options.toDeg ?? 90, 'deratingCurve', 'toDeg', { min: fromDeg, max: 180 });
+  const stepDeg = requireNumber(options.stepDeg ?? 1, 'deratingCurve', 'stepDeg', { min: Math.max((toDeg - fromDeg) / 100000, 0), openMin: true, max: 360 });
+  const margin = requireNumber(options.polarityMarginDeg ?? 0, 'deratingCurve', 'polarityMarginDeg', { min: 0, max: 60, openMax: true });
+  if (options.extent !== undefined && options.extent !== 'tiling' && options.extent !== 'hull') throw new HexsalvageInputError('option', 'deratingCurve', 'extent', 'tiling or hull', options.extent);
   const kind = options.extent ?? 'tiling';
   const grid: number[] = [];
   const n = Math.floor((toDeg - fromDeg) / stepDeg + 1e-9);
@@ -76,14 +82,32 @@ export function deratingCurve(atlas: DiagramAtlas, options: DeratingCurveOptions
   const at = (phi: number) => modulationLimit(atlas.faulted, phi, margin, kind).mMax;
   const kink = (phi: number) => {
     const m0 = at(phi);
-    return Math.abs((at(phi + h) - m0) / h - (m0 - at(phi - h)) / h) > 1e-6;
+    const left = m0 - at(phi - h);
+    const right = at(phi + h) - m0;
+    // a kink (one-sided slopes differ), or the end of a flat stretch where the curve leaves it with
+    // zero slope (a C¹ point such as where a sector end meets an edge normal): both change the formula
+    const flat = (d: number) => Math.abs(d) <= 1e-13 * Math.max(1, Math.abs(m0));
+    return Math.abs(right / h - left / h) > 1e-6 || flat(left) !== flat(right);
   };
-  const breaks = new Set([...structural, ...crossings].filter(kink));
-  const all = [...new Set([...grid, ...breaks])].sort((x, y) => x - y);
+  // the ends of the range are candidates too: φ is periodic, so −180° and 180° get the same verdict
+  const candidates = [...new Set([...structural, ...crossings, fromDeg, toDeg])];
+  const breaks = new Set(candidates.filter(kink));
+  // where the curve leaves (or comes back to) the healthy limit: often a smooth (C¹) point that the
+  // kink test does not see, and the one a reviewer looks for first
+  const full = (phi: number) => at(phi) >= modulationLimit(atlas.healthy, phi, margin, kind).mMax - 1e-9;
+  const edges = new Map<number, 'begins' | 'ends'>();
+  for (const phi of candidates) {
+    const before = full(phi - h);
+    const after = full(phi + h);
+    if (before && !after) edges.set(phi, 'begins');
+    if (!before && after) edges.set(phi, 'ends');
+  }
+  const all = [...new Set([...grid, ...breaks, ...edges.keys()])].sort((x, y) => x - y);
   return all.map((phi) => {
     const f = modulationLimit(atlas.faulted, phi, margin, kind);
     const h = modulationLimit(atlas.healthy, phi, margin, kind);
     return {
+      deratingEdge: edges.get(phi) ?? null,
       loadAngleDeg: phi,
       mMax: f.mMax,
       deratingRatio: h.mMax > 0 ? f.mMax / h.mMax : 0,

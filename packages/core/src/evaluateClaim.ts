@@ -3,6 +3,7 @@ import { HexsalvageInputError } from './errors.js';
 import { limitOverLoadAngles } from './modulationLimit.js';
 import type { PolarityDiagram } from './polarityDiagram.js';
 import { resolveRules, type LevelStepRule, type LimitRules } from './rules.js';
+import { requireObject } from './validate.js';
 
 /** A derating claim: the leg keeps at least modulation index `m` over a load-angle range. */
 export interface DeratingClaim {
@@ -54,6 +55,8 @@ export interface ClaimVerdict {
  * ```
  */
 export function evaluateClaim(claim: DeratingClaim): ClaimVerdict {
+  requireObject(claim, 'evaluateClaim', 'a claim object { name, topology, faults, m, loadAngleDeg }');
+  if (!Array.isArray(claim.loadAngleDeg)) throw new HexsalvageInputError('claims', String(claim.name), 'loadAngleDeg', '[LO, HI] in degrees', claim.loadAngleDeg);
   const [lo, hi] = claim.loadAngleDeg;
   const bad = (key: string, expected: string, got: unknown) => new HexsalvageInputError('claims', claim.name, key, expected, got);
   if (!(Number.isFinite(claim.m) && claim.m >= 0)) throw bad('m', 'a modulation index ≥ 0', claim.m);

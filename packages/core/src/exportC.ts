@@ -2,6 +2,7 @@ import { CAUTIONS } from './cautions.js';
 import { HexsalvageInputError } from './errors.js';
 import type { SwitchingTable } from './switchingTable.js';
 import { DWELL_TOLERANCE } from './tolerance.js';
+import { requireObject } from './validate.js';
 
 /** Options of {@link exportC}. */
 export interface ExportCOptions {
@@ -33,6 +34,7 @@ export interface ExportCOptions {
  * ```
  */
 export function exportC(table: SwitchingTable, options: ExportCOptions = {}): string {
+  requireObject(options, 'exportC', 'an options object { prefix? }');
   const px = options.prefix ?? 'hs';
   if (!/^[A-Za-z_][A-Za-z0-9_]{0,30}$/.test(px)) throw new HexsalvageInputError('option', 'exportC', 'prefix', 'a C identifier of up to 31 characters', px);
   const PX = px.toUpperCase();
@@ -114,7 +116,7 @@ ${body(outline, '  {0}')}
 
 /* Polarity index from the measured current signs: +1 (out of the leg), -1 (into it), 0 (unknown).
  * Returns -1 for +++ and --- (impossible with a three-wire load). */
-static int ${px}_polarity_index(int sa, int sb, int sc)
+static inline int ${px}_polarity_index(int sa, int sb, int sc)
 {
   int s[3], i, k = 0;
   s[0] = sa; s[1] = sb; s[2] = sc;
@@ -124,7 +126,7 @@ static int ${px}_polarity_index(int sa, int sb, int sc)
   return k - 1 - (k > 13 ? 1 : 0);
 }
 
-static int ${px}_inside_(int t, double a, double b, double d[3])
+static inline int ${px}_inside_(int t, double a, double b, double d[3])
 {
   const double *m = ${px}_dwell[t];
   double d0 = m[0] * a + m[1] * b + m[2];
@@ -138,7 +140,7 @@ static int ${px}_inside_(int t, double a, double b, double d[3])
   return 1;
 }
 
-static void ${px}_clamp_outline_(int p, double x, double y, double *ox, double *oy)
+static inline void ${px}_clamp_outline_(int p, double x, double y, double *ox, double *oy)
 {
   int first = ${px}_outline_first[p], n = ${px}_outline_first[p + 1] - first, i;
   double len = sqrt(x * x + y * y), dist = INFINITY;
@@ -166,7 +168,7 @@ static void ${px}_clamp_outline_(int p, double x, double y, double *ox, double *
   }
 }
 
-static void ${px}_clamp_(int p, double x, double y, double *ox, double *oy)
+static inline void ${px}_clamp_(int p, double x, double y, double *ox, double *oy)
 {
   int first = ${px}_hull_first[p], n = ${px}_hull_first[p + 1] - first, i, empty = 0;
   double len = sqrt(x * x + y * y), dist = INFINITY;
@@ -199,7 +201,7 @@ static void ${px}_clamp_(int p, double x, double y, double *ox, double *oy)
 /* Locates reference (alpha, beta) for polarity index p. Writes the vertices' duty cycles to
  * dwell[3] (vertex order of the triangle) and 1/0 to *clamped. Returns the global triangle row
  * (index into the per-triangle arrays), or -1 when polarity p has no triangles. */
-static int ${px}_locate(int p, double alpha, double beta, double dwell[3], int *clamped)
+static inline int ${px}_locate(int p, double alpha, double beta, double dwell[3], int *clamped)
 {
   int t, first, last, best;
   double a = alpha, b = beta, score = -INFINITY;

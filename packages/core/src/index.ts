@@ -1,4 +1,5 @@
-export { HexsalvageInputError, type InputErrorCode } from './errors.js';
+export { HexsalvageInputError, plainText, type InputErrorCode } from './errors.js';
+export { requireNumber, requireObject, type NumberRange } from './validate.js';
 export type { DeviceKind, DeviceSpec, LegElement, LegNetlist, SwitchingClass } from './netlist.js';
 export { expandElements, gatedDeviceIds, unratedDevices } from './expandElements.js';
 export { BUILTIN_TOPOLOGIES, builtinLeg, isBuiltinTopology, type BuiltinTopology } from './builtinLegs.js';
@@ -42,7 +43,7 @@ export { midpointCoefficients, midpointSign, type MidpointSign } from './midpoin
 export { chooseSequence, gateDifference, type LegState, type LevelJump, type PatternCandidatesOf, type PhaseState, type StepAllowed, type SwitchingSequence } from './switchingSequence.js';
 export { polarityTable, type MidpointAuthority, type PolarityTable, type TableTriangle, type TableVertex, type VertexRealisation } from './polarityTable.js';
 export { TABLE_SCHEMA_VERSION, switchingTable, switchingTableFromAtlas, type SwitchingTable, type TablePolarity, type TriangleFlag } from './switchingTable.js';
-export { createModulator, type ModulationResult, type Modulator, type ModulatorSource } from './createModulator.js';
+export { REFERENCE_LIMIT, createModulator, type ModulationResult, type Modulator, type ModulatorSource } from './createModulator.js';
 export { cycleCheck, type CycleCheckOptions, type CycleReport } from './cycleCheck.js';
 export { CSV_COLUMNS, exportCsv } from './exportCsv.js';
 export { EXPORT_SCHEMA_VERSION, exportDocument, type ExportDocument } from './exportJson.js';

@@ -1,5 +1,6 @@
 import type { Point } from './clarke.js';
 import { dwellTimes, type DwellMatrix } from './dwell.js';
+import { HexsalvageInputError } from './errors.js';
 import { DWELL_TOLERANCE } from './tolerance.js';
 
 /** An outline segment `[[α0, β0], [α1, β1]]`, the tiling on its left. */
@@ -50,6 +51,7 @@ export type LocatedReference =
  * ```
  */
 export function locateReference(d: LocatableDiagram, alpha: number, beta: number): LocatedReference {
+  if (!(Math.abs(alpha) <= 1e6 && Math.abs(beta) <= 1e6)) throw new HexsalvageInputError('option', 'locateReference', 'alpha/beta', 'finite numbers within ±1000000 (units of Vdc/2)', Math.abs(alpha) <= 1e6 ? beta : alpha);
   if (d.triangles.length === 0) return { ok: false, reason: 'no-triangles' };
   const direct = findTriangle(d, alpha, beta);
   if (direct) return { ok: true, ...direct, clamped: false, alpha, beta };

@@ -2,6 +2,7 @@ import type { PolarityString } from './polarity.js';
 import type { PolarityDiagram } from './polarityDiagram.js';
 import { mod360, polaritySectors, type PolaritySector } from './polaritySectors.js';
 import { minRadialExtent } from './radialExtent.js';
+import { requireNumber } from './validate.js';
 
 const RAD = Math.PI / 180;
 
@@ -58,6 +59,8 @@ export interface ModulationLimit {
  * ```
  */
 export function modulationLimit(diagrams: ReadonlyMap<PolarityString, PolarityDiagram>, loadAngleDeg: number, marginDeg: number, kind: ExtentKind = 'tiling'): ModulationLimit {
+  requireNumber(loadAngleDeg, 'modulationLimit', 'loadAngleDeg', { min: -360, max: 360 });
+  requireNumber(marginDeg, 'modulationLimit', 'marginDeg', { min: 0, max: 60, openMax: true });
   const sectors = polaritySectors(loadAngleDeg, marginDeg);
   let best: { value: number; theta: number; polarity: PolarityString; edge: readonly [number, number] | null } | null = null;
   const sectorMinima = sectors.map((s) => {
@@ -102,6 +105,9 @@ export interface LimitOverRange {
  * ```
  */
 export function limitOverLoadAngles(diagrams: ReadonlyMap<PolarityString, PolarityDiagram>, fromDeg: number, toDeg: number, marginDeg: number, kind: ExtentKind = 'tiling'): LimitOverRange {
+  requireNumber(fromDeg, 'limitOverLoadAngles', 'fromDeg', { min: -180, max: 180 });
+  requireNumber(toDeg, 'limitOverLoadAngles', 'toDeg', { min: fromDeg, max: 180 });
+  requireNumber(marginDeg, 'limitOverLoadAngles', 'marginDeg', { min: 0, max: 60, openMax: true });
   let best: LimitOverRange | null = null;
   for (const s of polaritySectors(0, marginDeg)) {
     const g = extentGeometry(diagrams.get(s.polarity) as PolarityDiagram, kind);

@@ -10,6 +10,7 @@ import { modulationLimit } from './modulationLimit.js';
 import { POLARITY_STRINGS, type PolarityString } from './polarity.js';
 import type { ClassifiedVector, PolarityDiagram } from './polarityDiagram.js';
 import { explainRestrictions } from './restrictions.js';
+import { requireObject } from './validate.js';
 import type { LimitRuleOptions, LimitRules } from './rules.js';
 
 /** Version of the plan document layout; bumped on any incompatible change. */
@@ -118,6 +119,7 @@ export interface RemedialPlan {
  * ```
  */
 export function planRemedial(options: PlanOptions): RemedialPlan {
+  requireObject(options, 'planRemedial', 'an options object { topology, faults?, loadAngleDeg?, polarityMarginDeg?, ignoreRatings?, levelSteps? }');
   const loadAngleDeg = checkAngle(options.loadAngleDeg ?? 0, 'loadAngleDeg', -180, 180, true);
   const polarityMarginDeg = checkAngle(options.polarityMarginDeg ?? 0, 'polarityMarginDeg', 0, 60, false);
   const { topology, faults, ignoreRatings, levelSteps } = options;
@@ -137,6 +139,8 @@ export function planRemedial(options: PlanOptions): RemedialPlan {
  * ```
  */
 export function planFromAtlas(atlas: DiagramAtlas, loadAngleDeg: number, polarityMarginDeg: number): RemedialPlan {
+  checkAngle(loadAngleDeg, 'loadAngleDeg', -180, 180, true);
+  checkAngle(polarityMarginDeg, 'polarityMarginDeg', 0, 60, false);
   const lim = modulationLimit(atlas.faulted, loadAngleDeg, polarityMarginDeg);
   const healthy = modulationLimit(atlas.healthy, loadAngleDeg, polarityMarginDeg);
   const hull = modulationLimit(atlas.faulted, loadAngleDeg, polarityMarginDeg, 'hull');

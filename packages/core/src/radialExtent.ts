@@ -134,9 +134,11 @@ function minOverSpans(g: HullGeometry, from: number, to: number): RadialValue {
   g.edges.forEach((e, i) => {
     const [lo, hi] = e.span as readonly [number, number];
     const turn = 2 * Math.PI;
-    for (let k = Math.floor((from - hi) / turn); lo + k * turn <= to; k++) {
-      const a = Math.max(from, lo + k * turn);
-      const b = Math.min(to, hi + k * turn);
+    // the same 1e-12 slack as radialExtent's span test: at a span end both neighbouring edges
+    // count, so a direction where the extent jumps gives the lower side (the infimum)
+    for (let k = Math.floor((from - hi) / turn) - 1; lo + k * turn <= to + 1e-12; k++) {
+      const a = Math.max(from, lo + k * turn - 1e-12);
+      const b = Math.min(to, hi + k * turn + 1e-12);
       if (a > b) continue;
       consider(e.offset / Math.cos(a - e.normalAngle), a, i);
       consider(e.offset / Math.cos(b - e.normalAngle), b, i);

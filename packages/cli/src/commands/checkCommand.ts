@@ -1,8 +1,8 @@
-import { CAUTIONS, evaluateClaim, HexsalvageInputError, type ClaimVerdict } from '@hexsalvage/core';
+import { CAUTIONS, type ClaimVerdict } from '@hexsalvage/core';
 import { usage } from '../args.js';
 import { HELP_OPTION, JSON_OPTION, type Command } from '../command.js';
 import { cautionBlock, fmt, textTable } from '../format.js';
-import { readClaims } from '../readClaims.js';
+import { judgeClaims } from '../readClaims.js';
 
 /** `hexsalvage check`: verdicts on derating claims, exit 1 when any fails. */
 export const checkCommand: Command = {
@@ -14,14 +14,7 @@ export const checkCommand: Command = {
   run: async (args, io) => {
     const file = args.positionals[0];
     if (file === undefined || args.positionals.length > 1) throw usage('CLAIMS.json', 'one claims file');
-    const verdicts = readClaims(file).map((c) => {
-      try {
-        return evaluateClaim(args.flags.has('ignore-ratings') ? { ...c, ignoreRatings: true } : c);
-      } catch (e) {
-        if (e instanceof HexsalvageInputError) throw new HexsalvageInputError('claims', file, `claim "${c.name}"`, e.message);
-        throw e;
-      }
-    });
+    const verdicts = judgeClaims(file, args.flags.has('ignore-ratings'));
     if (args.flags.has('json')) await io.stdout(`${JSON.stringify({ claims: verdicts })}\n`);
     else await io.stdout(`${checkText(verdicts)}\n`);
     return verdicts.every((v) => v.holds) ? 0 : 1;

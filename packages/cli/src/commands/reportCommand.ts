@@ -1,10 +1,10 @@
 import { readFileSync } from 'node:fs';
-import { diagramAtlas, evaluateClaim, planFromAtlas, switchingTableFromAtlas } from '@hexsalvage/core';
+import { diagramAtlas, planFromAtlas, switchingTableFromAtlas } from '@hexsalvage/core';
 import { usage } from '../args.js';
 import { ANGLE_OPTIONS, HELP_OPTION, LEG_OPTIONS, type Command } from '../command.js';
 import { angleInputs, legInputs } from '../legInputs.js';
 import { writeFileAtomic } from '../output.js';
-import { readClaims } from '../readClaims.js';
+import { judgeClaims } from '../readClaims.js';
 import { buildReport } from '../report/buildReport.js';
 
 const VERSION = (JSON.parse(readFileSync(new URL('../../package.json', import.meta.url), 'utf8')) as { version: string }).version;
@@ -27,7 +27,7 @@ export const reportCommand: Command = {
     const { topology, faults, topologyText, rules } = legInputs(args);
     const { loadAngleDeg, polarityMarginDeg } = angleInputs(args);
     const claimsFile = args.values.get('claims') as string | undefined;
-    const verdicts = claimsFile ? readClaims(claimsFile).map((c) => evaluateClaim(rules.ignoreRatings ? { ...c, ignoreRatings: true } : c)) : undefined;
+    const verdicts = claimsFile ? judgeClaims(claimsFile, rules.ignoreRatings) : undefined;
     const atlas = diagramAtlas({ topology, faults, ...rules });
     const html = buildReport({
       atlas,

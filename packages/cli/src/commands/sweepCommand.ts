@@ -15,7 +15,7 @@ export const sweepCommand: Command = {
     { name: 'to', type: 'number', min: -180, max: 180, value: 'DEG', help: 'last load angle (default 90)' },
     { name: 'step', type: 'number', min: 0, openMin: true, max: 360, value: 'DEG', help: 'grid step (default 1)' },
     { name: 'polarity-margin', type: 'number', min: 0, max: 60, value: 'DEG', help: 'polarity margin delta in degrees, 0 <= delta < 60 (default 0)' },
-    { name: 'csv', type: 'flag', help: 'print CSV (load_angle_deg,m_max,derating_ratio,limiting_angle_deg,limiting_polarity,breakpoint,m_max_hull)' },
+    { name: 'csv', type: 'flag', help: 'print CSV (load_angle_deg,m_max,derating_ratio,limiting_angle_deg,limiting_polarity,breakpoint,m_max_hull,derating_edge)' },
     JSON_OPTION,
     HELP_OPTION,
   ],
@@ -36,13 +36,14 @@ export const sweepCommand: Command = {
       return 0;
     }
     if (args.flags.has('csv')) {
-      const rows = points.map((p) => [p.loadAngleDeg, p.mMax.toFixed(9), p.deratingRatio.toFixed(9), p.limitingAngleDeg.toFixed(6), p.limitingPolarity, p.breakpoint ? 1 : 0, p.mMaxHull.toFixed(9)].join(','));
-      await io.stdout(`load_angle_deg,m_max,derating_ratio,limiting_angle_deg,limiting_polarity,breakpoint,m_max_hull\n${rows.join('\n')}\n`);
+      const rows = points.map((p) => [p.loadAngleDeg, p.mMax.toFixed(9), p.deratingRatio.toFixed(9), p.limitingAngleDeg.toFixed(6), p.limitingPolarity, p.breakpoint ? 1 : 0, p.mMaxHull.toFixed(9), p.deratingEdge ?? ''].join(','));
+      await io.stdout(`load_angle_deg,m_max,derating_ratio,limiting_angle_deg,limiting_polarity,breakpoint,m_max_hull,derating_edge\n${rows.join('\n')}\n`);
       return 0;
     }
-    const rows = points.map((p) => [fmt(p.loadAngleDeg, 3), fmt(p.mMax, 5), fmt(p.deratingRatio, 4), fmt(p.mMaxHull, 5), fmt(p.limitingAngleDeg, 2), p.limitingPolarity, p.breakpoint ? '*' : '']);
+    const mark = (p: (typeof points)[number]) => [p.breakpoint ? '*' : '', p.deratingEdge ? `derating ${p.deratingEdge}` : ''].filter(Boolean).join(' ');
+    const rows = points.map((p) => [fmt(p.loadAngleDeg, 3), fmt(p.mMax, 5), fmt(p.deratingRatio, 4), fmt(p.mMaxHull, 5), fmt(p.limitingAngleDeg, 2), p.limitingPolarity, mark(p)]);
     const head = `Rules: ${describeRules(atlas.analysis.rules)}\nmMax is the safe limit; "hull" is the first version's convex-hull bound, shown for comparison (not safe by itself).\n\n`;
-    await io.stdout(`${head}${textTable(['load deg', 'mMax', 'ratio', 'hull', 'binds at', 'polarity', 'kink'], rows)}\n\n* = breakpoint of the curve (computed, not a grid point)${cautionBlock(CAUTIONS)}\n`);
+    await io.stdout(`${head}${textTable(['load deg', 'mMax', 'ratio', 'hull', 'binds at', 'polarity', 'mark'], rows)}\n\n* = a kink of the curve (computed exactly; it may fall on a grid point); "derating begins/ends" = where, as the load angle grows, the limit leaves or returns to the healthy one${cautionBlock(CAUTIONS)}\n`);
     return 0;
   },
 };
