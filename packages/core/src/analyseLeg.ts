@@ -6,6 +6,10 @@ import type { LegNetlist } from './netlist.js';
 import { resolveTopology } from './resolveTopology.js';
 import { resolveRules, type LimitRuleOptions, type LimitRules } from './rules.js';
 import { requireObject } from './validate.js';
+import { BoundedCache } from './boundedCache.js';
+
+// Leg tables already solved, by rating rule, faults and netlist (see BoundedCache).
+const TABLES = new BoundedCache<LegTable>(512);
 
 /** Options of {@link analyseLeg}: the leg, its faults and the rules (`ignoreRatings`, `levelSteps`). */
 export interface AnalyseLegOptions extends LimitRuleOptions {
@@ -48,9 +52,20 @@ export function analyseLeg(options: AnalyseLegOptions): LegAnalysis {
   const texts = options.faults ?? [];
   if (!Array.isArray(texts)) throw new HexsalvageInputError('option', 'options', 'faults', 'an array of fault strings PHASE.DEVICE[:MODE]', texts);
   const byPhase = faultsByPhase(texts, leg, 'faults');
-  const healthy = legTable(leg, new Map(), rules.ratings);
+  // leg tables depend only on the netlist, the phase's faults and the rating rule: build each once
+  const legKey = JSON.stringify(leg);
+  const tableOf = (faults: ReadonlyMap<string, string>) => {
+    const key = `${rules.ratings}|${[...faults].map(([e, m]) => `${e}:${m}`).sort().join(',')}|${legKey}`;
+    let t = TABLES.get(key);
+    if (!t) {
+      t = legTable(leg, faults as never, rules.ratings);
+      TABLES.set(key, t);
+    }
+    return t;
+  };
+  const healthy = tableOf(new Map());
   const phases = {} as Record<Phase, LegTable>;
-  for (const p of PHASES) phases[p] = byPhase[p].size === 0 ? healthy : legTable(leg, byPhase[p], rules.ratings);
+  for (const p of PHASES) phases[p] = byPhase[p].size === 0 ? healthy : tableOf(byPhase[p]);
   const faults: Fault[] = PHASES.flatMap((p) => [...byPhase[p]].map(([element, mode]) => ({ phase: p, element, mode })));
   return { topology: typeof options.topology === 'string' ? options.topology : leg.name, leg, faults, phases, healthy, rules, unrated: unratedDevices(leg) };
 }

@@ -6,6 +6,10 @@ import type { LegTable, PhasePolarity } from './legTable.js';
 import { POLARITY_STRINGS, type PolarityString } from './polarity.js';
 import { diagramScale, offerKey, polarityDiagram, type PhaseOffer, type PolarityDiagram } from './polarityDiagram.js';
 import type { LimitRules } from './rules.js';
+import { BoundedCache } from './boundedCache.js';
+
+// Polarity diagrams already built, by healthy leg, rule and the three phases' offers.
+const DIAGRAMS = new BoundedCache<PolarityDiagram>(2048);
 import { survivingVectors, type SpaceVector } from './survivingVectors.js';
 
 /** The diagrams of all 25 polarity strings for a faulted leg and for the same leg healthy. */
@@ -39,8 +43,25 @@ export function diagramAtlas(options: AnalyseLegOptions): DiagramAtlas {
   const healthyVectors = survivingVectors([h['?'], h['?'], h['?']], span > 0 ? span : 1);
   const levelCount = new Set([...h['+'], ...h['-']]).size;
   const shells = vectorShells(healthyVectors, levelCount, diagramScale(healthyVectors));
-  // one cache for both maps: the healthy diagram is also what unfaulted level sets give
-  const cache = new Map<string, PolarityDiagram>();
+  // Diagrams are shared by every call that meets the same offers under the same healthy leg and
+  // rule (the healthy diagram is also what unfaulted level sets give): one bounded cache for all.
+  const prefix = `${analysis.rules.levelSteps}|${h['?'].join(',')}|${levelCount}|`;
+  // a local map in front: the 50 look-ups of one atlas meet only a handful of distinct diagrams
+  const local = new Map<string, PolarityDiagram>();
+  const cache = {
+    get: (k: string) => {
+      let d = local.get(k);
+      if (!d) {
+        d = DIAGRAMS.get(prefix + k);
+        if (d) local.set(k, d);
+      }
+      return d;
+    },
+    set: (k: string, d: PolarityDiagram) => {
+      local.set(k, d);
+      DIAGRAMS.set(prefix + k, d);
+    },
+  };
   const rules = analysis.rules;
   const dc = [...new Set(Object.values(analysis.leg.dcNodes))].sort((x, y) => x - y);
   const offer = (t: LegTable): PhaseOffer => {

@@ -76,7 +76,7 @@ export function midpointProfile(diagrams: MidpointSource, mTop: number, loadAngl
   let er = new Float64Array(cap);
   let ev = new Float64Array(4 * cap);
   let n = 0;
-  const push = (r: number, sign: number, ls: number, lc: number, hs: number, hc: number) => {
+  const push = (r: number, ls: number, lc: number, hs: number, hc: number) => {
     if (n === cap) {
       cap *= 2;
       const r2 = new Float64Array(cap);
@@ -87,12 +87,16 @@ export function midpointProfile(diagrams: MidpointSource, mTop: number, loadAngl
       ev = v2;
     }
     er[n] = r;
-    ev[4 * n] = sign * ls;
-    ev[4 * n + 1] = sign * lc;
-    ev[4 * n + 2] = sign * hs;
-    ev[4 * n + 3] = sign * hc;
+    ev[4 * n] = ls;
+    ev[4 * n + 1] = lc;
+    ev[4 * n + 2] = hs;
+    ev[4 * n + 3] = hc;
     n++;
   };
+  // pieces that start at 0 need no event: their sums are the first segment's
+  const base = new Float64Array(4);
+  // the pieces of the current ray: r0, r1 and the four coefficients
+  const piece: number[][] = [];
   const q = new Float64Array(8);
   const r0s: number[] = [];
   const r1s: number[] = [];
@@ -105,7 +109,10 @@ export function midpointProfile(diagrams: MidpointSource, mTop: number, loadAngl
     const d = tilingOf(diagrams, (sectors[sector] as PolaritySector).polarity);
     let pd = prepared.get(d.triangles);
     if (!pd) {
-      pd = prepare(d, mTop);
+      // a tiling's preparation does not depend on the operating point: kept beside its (immutable)
+      // triangle list for as long as that list lives
+      pd = PREPARED.get(d.triangles) ?? prepare(d);
+      PREPARED.set(d.triangles, pd);
       prepared.set(d.triangles, pd);
     }
     const c = Math.cos(theta);
@@ -130,15 +137,19 @@ export function midpointProfile(diagrams: MidpointSource, mTop: number, loadAngl
       const b1 = pd.rows[o + 5] as number;
       const b2 = pd.rows[o + 8] as number;
       // d_j(r) = a_j·r + b_j ≥ 0 for the three vertices: the stretch of the ray inside the triangle
-      const clip = (aj: number, bj: number) => {
-        if (Math.abs(aj) < 1e-15) {
-          if (bj < -1e-12) r1 = -1;
-        } else if (aj > 0) r0 = Math.max(r0, -bj / aj);
-        else r1 = Math.min(r1, -bj / aj);
-      };
-      clip(a0, b0);
-      clip(a1, b1);
-      clip(a2, b2);
+      // (written out three times: a closure here would be allocated for every triangle of every ray)
+      if (Math.abs(a0) < 1e-15) {
+        if (b0 < -1e-12) r1 = -1;
+      } else if (a0 > 0) r0 = Math.max(r0, -b0 / a0);
+      else r1 = Math.min(r1, -b0 / a0);
+      if (Math.abs(a1) < 1e-15) {
+        if (b1 < -1e-12) r1 = -1;
+      } else if (a1 > 0) r0 = Math.max(r0, -b1 / a1);
+      else r1 = Math.min(r1, -b1 / a1);
+      if (Math.abs(a2) < 1e-15) {
+        if (b2 < -1e-12) r1 = -1;
+      } else if (a2 > 0) r0 = Math.max(r0, -b2 / a2);
+      else r1 = Math.min(r1, -b2 / a2);
       if (r1 - r0 <= 1e-12) continue;
       let ls = 0;
       let lc = 0;
@@ -161,9 +172,27 @@ export function midpointProfile(diagrams: MidpointSource, mTop: number, loadAngl
       }
       r0s.push(r0);
       r1s.push(r1);
-      push(r0, 1, ls, lc, hs, hc);
-      push(r1, -1, ls, lc, hs, hc);
+      piece.push([r0, r1, ls, lc, hs, hc]);
     }
+    // One event where a piece ends and the next begins (the difference of their coefficients),
+    // none at 0 or at mTop: a ray then adds two or three radii to sort instead of six.
+    piece.sort((x, y) => (x[0] as number) - (y[0] as number));
+    let prev: number[] | null = null;
+    for (const p of piece) {
+      const r0 = p[0] as number;
+      if (r0 <= 1e-12) {
+        for (let j = 0; j < 4; j++) base[j] = (base[j] as number) + (p[2 + j] as number);
+      } else if (prev && Math.abs((prev[1] as number) - r0) <= 1e-12) {
+        push(r0, (p[2] as number) - (prev[2] as number), (p[3] as number) - (prev[3] as number), (p[4] as number) - (prev[4] as number), (p[5] as number) - (prev[5] as number));
+        prev[1] = -1; // its end is accounted for
+      } else {
+        if (prev && (prev[1] as number) >= 0 && (prev[1] as number) < mTop) push(prev[1] as number, -(prev[2] as number), -(prev[3] as number), -(prev[4] as number), -(prev[5] as number));
+        push(r0, p[2] as number, p[3] as number, p[4] as number, p[5] as number);
+      }
+      prev = p;
+    }
+    if (prev && (prev[1] as number) >= 0 && (prev[1] as number) < mTop - 1e-12) push(prev[1] as number, -(prev[2] as number), -(prev[3] as number), -(prev[4] as number), -(prev[5] as number));
+    piece.length = 0;
     // the pieces of one ray must join up from 0; where they do not, the reference leaves the tiling
     let reach = 0;
     for (let grew = true; grew; ) {
@@ -188,6 +217,7 @@ export function midpointProfile(diagrams: MidpointSource, mTop: number, loadAngl
   }
   const b = breaks.length;
   const delta = new Float64Array(4 * b);
+  for (let j = 0; j < 4; j++) delta[j] = base[j] as number;
   for (let e = 0; e < n; e++) {
     const r = er[e] as number;
     if (r >= mTop) continue;
@@ -230,7 +260,9 @@ interface Prepared {
   readonly rayTri: Int32Array;
 }
 
-function prepare(d: PolarityDiagram, mTop: number): Prepared {
+const PREPARED = new WeakMap<object, Prepared>();
+
+function prepare(d: PolarityDiagram): Prepared {
   const count = d.triangles.length;
   const rows = new Float64Array(9 * count);
   const masks: number[][] = [];
@@ -260,10 +292,7 @@ function prepare(d: PolarityDiagram, mTop: number): Prepared {
   // passes fill the ray lists as one flat array (count, then place).
   const step = (2 * Math.PI) / MIDPOINT_SAMPLES;
   const K = MIDPOINT_SAMPLES;
-  // a triangle wholly beyond mTop never meets a ray inside [0, mTop]
-  const near = d.triangles.map((tri) => distanceFromOrigin(tri.map((v) => d.vectors[v] as PolarityDiagram['vectors'][number])) < mTop);
   const range = (t: number): [number, number] => {
-    if (!near[t]) return [0, -1];
     const h = half[t] as number;
     if (h < 0) return [0, K - 1];
     const c = centre[t] as number;
@@ -289,23 +318,6 @@ function prepare(d: PolarityDiagram, mTop: number): Prepared {
     }
   }
   return { count, rows, masks, rayStart, rayTri };
-}
-
-// Distance from the origin to a triangle given by its corners (0 when it contains the origin).
-function distanceFromOrigin(c: readonly { readonly alpha: number; readonly beta: number }[]): number {
-  let inside = true;
-  let best = Infinity;
-  const area = (c[1]!.alpha - c[0]!.alpha) * (c[2]!.beta - c[0]!.beta) - (c[1]!.beta - c[0]!.beta) * (c[2]!.alpha - c[0]!.alpha);
-  for (let k = 0; k < 3; k++) {
-    const p = c[k]!;
-    const q = c[(k + 1) % 3]!;
-    const dx = q.alpha - p.alpha;
-    const dy = q.beta - p.beta;
-    if (Math.sign(dx * -p.beta - dy * -p.alpha) === -Math.sign(area)) inside = false;
-    const s = Math.min(1, Math.max(0, -(p.alpha * dx + p.beta * dy) / (dx * dx + dy * dy)));
-    best = Math.min(best, Math.hypot(p.alpha + s * dx, p.beta + s * dy));
-  }
-  return inside ? 0 : best;
 }
 
 function wrap(x: number): number {

@@ -111,7 +111,7 @@ export function polarityDiagram(
   healthy: readonly SpaceVector[],
   shells: readonly VectorShell[],
   rules: LimitRules,
-  cache?: Map<string, PolarityDiagram>,
+  cache?: { get(key: string): PolarityDiagram | undefined; set(key: string, d: PolarityDiagram): unknown },
 ): PolarityDiagram {
   const [pa, pb, pc] = parsePolarity(polarity);
   const phaseLevels = [phases.a.levels[pa], phases.b.levels[pb], phases.c.levels[pc]] as const;

@@ -1,0 +1,77 @@
+/**
+ * A small least-recently-used cache of immutable results of pure functions, keyed by strings that
+ * describe the inputs completely. Values are frozen deeply when stored, so a caller cannot change
+ * what another call will get.
+ *
+ * Why it exists: the same leg tables and polarity diagrams are asked for again and again — a review
+ * report builds the plan, the table, the derating curve and every claim of one leg, and a fault
+ * atlas meets the same three level sets under many faults — and each costs far more to build than
+ * to look up.
+ */
+export class BoundedCache<V> {
+  readonly #map = new Map<string, V>();
+  readonly #limit: number;
+
+  /**
+   * @param limit - most entries kept; the least recently used goes first
+   */
+  constructor(limit: number) {
+    this.#limit = limit;
+  }
+
+  /**
+   * The value for a key, marking it recently used.
+   *
+   * @param key - the key
+   * @returns the stored value or `undefined`
+   */
+  get(key: string): V | undefined {
+    const v = this.#map.get(key);
+    if (v !== undefined) {
+      this.#map.delete(key);
+      this.#map.set(key, v);
+    }
+    return v;
+  }
+
+  /**
+   * Stores a value (frozen deeply), evicting the least recently used entry when full.
+   *
+   * @param key - the key
+   * @param value - the value
+   * @returns the cache
+   */
+  set(key: string, value: V): this {
+    this.#map.delete(key);
+    this.#map.set(key, deepFreeze(value));
+    if (this.#map.size > this.#limit) this.#map.delete(this.#map.keys().next().value as string);
+    return this;
+  }
+
+  /** Number of entries. */
+  get size(): number {
+    return this.#map.size;
+  }
+}
+
+/**
+ * Freezes an object graph of plain data (objects and arrays; functions, Maps, Sets and typed arrays
+ * are left as they are).
+ *
+ * @param v - the value
+ * @returns the same value, frozen
+ * @example
+ * ```ts
+ * deepFreeze({ a: [1, 2] }).a.push(3); // TypeError in strict mode
+ * ```
+ */
+export function deepFreeze<T>(v: T): T {
+  const stack: unknown[] = [v];
+  while (stack.length > 0) {
+    const x = stack.pop();
+    if (typeof x !== 'object' || x === null || Object.isFrozen(x) || ArrayBuffer.isView(x) || x instanceof Map || x instanceof Set) continue;
+    Object.freeze(x);
+    for (const k of Object.keys(x)) stack.push((x as Record<string, unknown>)[k]);
+  }
+  return v;
+}
