@@ -23,7 +23,8 @@ time('planRemedial anpc-hybrid healthy', () => planRemedial({ topology: 'anpc-hy
 
 // Version 2 (ratings, commutation, admissible tiling, mMaxBalanced) against the first version's
 // rules on the same code (--ignore-ratings --level-steps any), one faulted case per built-in leg:
-// the median of single calls, so that a garbage collection does not weigh on one figure.
+// the median of repeated single calls (leg tables and diagrams cached after the first), so that a
+// garbage collection does not weigh on one figure.
 function median(fn, runs = 600) {
   for (let i = 0; i < 100; i++) fn();
   const t = [];
@@ -33,6 +34,15 @@ function median(fn, runs = 600) {
     t.push(performance.now() - t0);
   }
   return t.sort((a, b) => a - b)[runs >> 1];
+}
+// Cold: every single fault of every built-in leg in both modes, each planned once in this process
+// (its leg tables and any new diagrams are built on the way; later calls find them cached).
+{
+  const cases = BUILTIN_TOPOLOGIES.flatMap((t) => expandElements(builtinLeg(t)).flatMap((e) => ['open', 'short'].map((m) => [t, `b.${e.id}:${m}`])));
+  const t0 = performance.now();
+  for (const [topology, f] of cases) planRemedial({ topology, faults: [f], loadAngleDeg: 17, polarityMarginDeg: 1 });
+  const ms = performance.now() - t0;
+  console.log(`planRemedial, first call of each of ${cases.length} single faults (cold tables)`.padEnd(58), `${(ms / cases.length).toFixed(3).padStart(10)} ms per plan`);
 }
 for (const [topology, fault, phi, delta] of [['two-level', 'a.upper', 20, 0], ['npc', 'a.outerUpper', 30, 5], ['npc', 'a.clampUpper', 25, 0], ['anpc', 'a.clampUpper', -30, 2], ['anpc-hybrid', 'a.innerUpper', 25, 3], ['tnpc', 'a.neutralToOut', 25, 0]]) {
   const o = { topology, faults: [fault], loadAngleDeg: phi, polarityMarginDeg: delta };

@@ -32,7 +32,7 @@ export { gateSetSolver, usableLevel, type GateSetOutcome, type GateSetSolver } f
 export { commutates, patternLevel, phaseCommutations, type LevelMove, type PhaseCommutations } from './commutation.js';
 export { admissibleChain, admissibleTriangles, type AdmissibleTriangle, type PhaseMoves } from './admissibleTriangles.js';
 export { admissibleTiling, type AdmissibleTiling } from './admissibleTiling.js';
-export { coveredBy, segmentEntersTriangle, tilingOutline, trianglesOverlap, unionOutline, type OutlineEdge, type Segment } from './triangleUnion.js';
+export { coveredBy, segmentEntersTriangle, tilingOutline, unionOutline, type OutlineEdge, type Segment } from './triangleUnion.js';
 export { originStrictlyInside, outlineGeometry } from './outlineGeometry.js';
 export { MIDPOINT_SAMPLES, MIDPOINT_TOLERANCE, balancedLimit, midpointProfile, midpointRangeAt, type MidpointProfile } from './midpointBalance.js';
 export { explainRestrictions, levelName } from './restrictions.js';

@@ -148,22 +148,7 @@ export function clampInto(hull: readonly (readonly [number, number])[], x: numbe
       return;
     }
   }
-  let dist = Infinity;
-  for (let i = 0; i < n; i++) {
-    const a = hull[i] as readonly [number, number];
-    const b = hull[(i + 1) % n] as readonly [number, number];
-    const ex = b[0] - a[0];
-    const ey = b[1] - a[1];
-    const s = Math.min(1, Math.max(0, ((x - a[0]) * ex + (y - a[1]) * ey) / (ex * ex + ey * ey)));
-    const qx = a[0] + s * ex;
-    const qy = a[1] + s * ey;
-    const dq = (qx - x) * (qx - x) + (qy - y) * (qy - y);
-    if (dq < dist) {
-      dist = dq;
-      out[0] = qx;
-      out[1] = qy;
-    }
-  }
+  nearestOnEdges(n, (i) => [hull[i] as readonly [number, number], hull[(i + 1) % n] as readonly [number, number]], x, y, out);
 }
 
 /**
@@ -209,15 +194,20 @@ export function clampToOutline(outline: readonly OutlineSegment[], x: number, y:
       return;
     }
   }
+  nearestOnEdges(outline.length, (i) => outline[i] as OutlineSegment, x, y, out);
+}
+
+// The nearest point of a set of segments (the fallback of both clamps when the ray misses). Squared
+// distances: exact ties, as on a symmetric outline, then break the same way in the C header.
+function nearestOnEdges(n: number, edge: (i: number) => OutlineSegment, x: number, y: number, out: Float64Array): void {
   let dist = Infinity;
-  for (let i = 0; i < outline.length; i++) {
-    const [a, b] = outline[i] as OutlineSegment;
+  for (let i = 0; i < n; i++) {
+    const [a, b] = edge(i);
     const ex = b[0] - a[0];
     const ey = b[1] - a[1];
     const s = Math.min(1, Math.max(0, ((x - a[0]) * ex + (y - a[1]) * ey) / (ex * ex + ey * ey)));
     const qx = a[0] + s * ex;
     const qy = a[1] + s * ey;
-    // squared distance: exact ties (symmetric outlines) then break the same way in C
     const dq = (qx - x) * (qx - x) + (qy - y) * (qy - y);
     if (dq < dist) {
       dist = dq;

@@ -12,49 +12,6 @@ export interface OutlineEdge {
 }
 
 /**
- * Whether the interiors of two counter-clockwise triangles intersect.
- *
- * Two convex polygons have disjoint interiors exactly when an edge line of one of them separates
- * them (separating-axis theorem), so six half-plane tests decide it. Touching along an edge or at a
- * corner is not an overlap.
- *
- * @param points - vector positions
- * @param a - a triangle (indices, counter-clockwise)
- * @param b - another triangle
- * @param eps - distance below which a point counts as on a line
- * @returns true when the interiors overlap
- * @example
- * ```ts
- * trianglesOverlap(points, [0, 1, 2], [0, 2, 3], 1e-9); // false: they share an edge
- * ```
- */
-export function trianglesOverlap(points: readonly Point[], a: Triangle, b: Triangle, eps: number): boolean {
-  return !(separates(points, a, b, eps) || separates(points, b, a, eps));
-}
-
-// Some edge of `a` has every corner of `b` on its outer side (or on the line).
-function separates(points: readonly Point[], a: Triangle, b: Triangle, eps: number): boolean {
-  for (let k = 0; k < 3; k++) {
-    const p = points[a[k] as number] as Point;
-    const q = points[a[(k + 1) % 3] as number] as Point;
-    const ex = q[0] - p[0];
-    const ey = q[1] - p[1];
-    const len = Math.hypot(ex, ey);
-    let outside = true;
-    for (const i of b) {
-      const r = points[i] as Point;
-      // signed distance to the left of p→q (inside is left for a counter-clockwise triangle)
-      if ((ex * (r[1] - p[1]) - ey * (r[0] - p[0])) / len > eps) {
-        outside = false;
-        break;
-      }
-    }
-    if (outside) return true;
-  }
-  return false;
-}
-
-/**
  * The outline of a set of non-overlapping triangles whose corners are all among `points`: every
  * edge piece that only one triangle has. Edges are first split at any corner lying on them, so a
  * large triangle beside two small ones (a T-junction) is handled.
