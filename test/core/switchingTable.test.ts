@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import {
-  analyseLeg, BUILTIN_TOPOLOGIES, builtinLeg, conductionEdges, cycleCheck, diagramAtlas, expandElements, outputForSign,
+  analyseLeg, midpointSign, BUILTIN_TOPOLOGIES, builtinLeg, conductionEdges, cycleCheck, diagramAtlas, expandElements, outputForSign,
   parsePolarity, planFromAtlas, switchingTable, switchingTableFromAtlas, type BuiltinTopology, type PhaseFaults,
 } from '@hexsalvage/core';
 
@@ -119,5 +119,20 @@ describe('cycleCheck', () => {
 
   it.each([[{ m: -1 }, 'm'], [{ m: 0.5, frequencyRatio: 3 }, 'frequencyRatio'], [{ m: 0.5, currentAmplitude: 0 }, 'currentAmplitude']])('rejects %j', (opt, key) => {
     expect(() => cycleCheck(switchingTable({ topology: 'npc' }), opt)).toThrow(key);
+  });
+});
+
+describe('midpointSign', () => {
+  it('resolves an unknown phase where the three currents summing to zero decide (Version 2)', () => {
+    // one phase at the midpoint: its own sign, unknown when it reads ?
+    expect(midpointSign([1, 0, 0], ['+', '-', '?'])).toBe(1);
+    expect(midpointSign([1, 0, 0], ['?', '-', '+'])).toBeNull();
+    // two at the midpoint: i_a + i_b = −i_c, from the third phase when known …
+    expect(midpointSign([1, 1, 0], ['?', '?', '+'])).toBe(-1);
+    // … or, the third reading ?, from the two when they share one known sign
+    expect(midpointSign([1, 1, 0], ['+', '+', '?'])).toBe(1);
+    expect(midpointSign([1, 1, 0], ['-', '-', '?'])).toBe(-1);
+    expect(midpointSign([1, 1, 0], ['+', '-', '?'])).toBeNull();
+    expect(midpointSign([0, 0, 0], ['?', '?', '?'])).toBe(0);
   });
 });
