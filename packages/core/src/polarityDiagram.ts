@@ -132,7 +132,7 @@ export function polarityDiagram(
   const convex = hullGeometry(points, hull, scale);
   const min = minRadialExtent(convex, 0, 2 * Math.PI);
   const e = min.edge === null ? null : convex.edges[min.edge];
-  const tiling = tile(vectors, points, delaunay, convex, min.value, moves, rules, scale);
+  const tiling = tile(vectors, points, delaunay, hull, convex, min.value, moves, rules, scale);
   const lost = healthy.filter((h) => indexOfVector(vectors, [h.alpha, h.beta], scale) < 0).map((v) => ({ ...v, class: classifyVector(shells, v, scale) }));
   const have = new Set(vectors.flatMap((v) => v.levels.map(tripletKey)));
   const lostTriplets = healthy.reduce((n, h) => n + h.levels.filter((t) => !have.has(tripletKey(t))).length, 0);
@@ -165,20 +165,16 @@ interface Tiling {
   readonly exact: boolean;
 }
 
-function tile(vectors: readonly SpaceVector[], points: readonly Point[], delaunay: readonly Triangle[], convex: HullGeometry, radius: number, moves: PhaseMoves, rules: LimitRules, scale: number): Tiling {
+function tile(vectors: readonly SpaceVector[], points: readonly Point[], delaunay: readonly Triangle[], hull: readonly number[], convex: HullGeometry, radius: number, moves: PhaseMoves, rules: LimitRules, scale: number): Tiling {
   const whole = { triangles: delaunay, geometry: convex, reach: radius, outline: null, exact: true };
   if (rules.levelSteps === 'any') return whole;
   if (delaunay.length > 0 && delaunay.every((t) => admissibleChain(vectors, t, moves) !== null)) return whole;
   const t = admissibleTiling(points, admissibleTriangles(vectors, moves, points, scale), 1e-9 * scale, delaunay);
   // a tiling that fills the hull has the hull as its region: keep the hull's geometry and clamp
   const area = t.triangles.reduce((acc, tri) => acc + triangleArea(points, tri), 0);
-  const hullPts = hullOf(points, scale);
+  const hullPts = hull.map((i) => points[i] as Point);
   if (hullPts.length >= 3 && area >= polygonArea(hullPts) - 1e-9 * scale * scale) return { ...whole, triangles: t.triangles };
   return { triangles: t.triangles, geometry: t.geometry, reach: t.reach, outline: t.outline, exact: t.exact };
-}
-
-function hullOf(points: readonly Point[], scale: number): Point[] {
-  return convexHull(points, scale).map((i) => points[i] as Point);
 }
 
 /**
