@@ -8,6 +8,8 @@ import type { TableTriangle } from './polarityTable.js';
 import { DWELL_TOLERANCE } from './tolerance.js';
 import { requireObject } from './validate.js';
 
+const POLARITY_INDEX = new Map(POLARITY_STRINGS.map((p, k) => [p, k] as const));
+
 /** Largest |α| or |β| a modulator accepts (units of Vdc/2): far beyond any leg, far below overflow. */
 export const REFERENCE_LIMIT = 1e6;
 
@@ -118,9 +120,12 @@ export function createModulator(source: ModulatorSource): Modulator {
     return t;
   };
 
+  // a look-up per call instead of a regular expression: the valid strings are known in advance
   const polarityIndex = (p: PolarityString): number => {
+    const k = POLARITY_INDEX.get(p);
+    if (k !== undefined) return k;
     parsePolarity(p, 'polarity');
-    return POLARITY_STRINGS.indexOf(p);
+    return -1;
   };
 
   return {

@@ -25,13 +25,32 @@ export interface SpaceVector {
  */
 export function survivingVectors(sets: readonly [readonly number[], readonly number[], readonly number[]], scale = 1): SpaceVector[] {
   const tol = VECTOR_TOLERANCE * scale;
-  const groups: { p: Point; levels: LevelTriplet[] }[] = [];
+  const groups: { p: Point; levels: LevelTriplet[]; order: number }[] = [];
+  // Groups found through a grid of cells one tolerance wide: a point within the tolerance of a group
+  // lies in that group's cell or a neighbouring one. Among those, the earliest group within the
+  // tolerance takes it — the group a scan of all groups in order would find — so the result is the
+  // same as a linear search, in linear time (a many-level leg has N³ triplets).
+  const cells = new Map<string, (typeof groups)[number][]>();
+  const cellOf = (p: Point) => [Math.floor(p[0] / tol), Math.floor(p[1] / tol)] as const;
   for (const la of sets[0]) for (const lb of sets[1]) for (const lc of sets[2]) {
     const t: LevelTriplet = [la, lb, lc];
     const p = clarke(t);
-    const g = groups.find((x) => Math.hypot(x.p[0] - p[0], x.p[1] - p[1]) <= tol);
+    const [cx, cy] = cellOf(p);
+    let g: (typeof groups)[number] | undefined;
+    for (let dx = -1; dx <= 1; dx++) for (let dy = -1; dy <= 1; dy++) {
+      for (const x of cells.get(`${cx + dx},${cy + dy}`) ?? []) {
+        if ((g === undefined || x.order < g.order) && Math.hypot(x.p[0] - p[0], x.p[1] - p[1]) <= tol) g = x;
+      }
+    }
     if (g) g.levels.push(t);
-    else groups.push({ p, levels: [t] });
+    else {
+      const fresh = { p, levels: [t], order: groups.length };
+      groups.push(fresh);
+      const k = `${cx},${cy}`;
+      const list = cells.get(k);
+      if (list) list.push(fresh);
+      else cells.set(k, [fresh]);
+    }
   }
   const q = (x: number) => Math.round(x / tol);
   const key = (p: Point) => {

@@ -1,0 +1,36 @@
+import { describe, expect, it } from 'vitest';
+import { clarke, survivingVectors, VECTOR_TOLERANCE, type LevelTriplet } from '@hexsalvage/core';
+import { fc, fcParams } from '../support/fc.js';
+
+// The plain method the grid replaces: scan every group in order, the first within the tolerance
+// takes the triplet; then the same ordering. Identical output is required, not just close.
+function linear(sets: readonly (readonly number[])[]) {
+  const groups: { p: [number, number]; levels: LevelTriplet[] }[] = [];
+  for (const la of sets[0]!) for (const lb of sets[1]!) for (const lc of sets[2]!) {
+    const t: LevelTriplet = [la, lb, lc];
+    const p = clarke(t) as [number, number];
+    const g = groups.find((x) => Math.hypot(x.p[0] - p[0], x.p[1] - p[1]) <= VECTOR_TOLERANCE);
+    if (g) g.levels.push(t);
+    else groups.push({ p, levels: [t] });
+  }
+  return groups;
+}
+
+describe('survivingVectors', () => {
+  it('groups exactly as a linear scan does, on random level sets (property)', () => {
+    const level = fc.oneof(fc.integer({ min: -4, max: 4 }).map((k) => k / 4), fc.double({ min: -1, max: 1, noNaN: true }));
+    const set = fc.uniqueArray(level, { minLength: 1, maxLength: 6 });
+    fc.assert(fc.property(fc.tuple(set, set, set), (sets) => {
+      const fast = survivingVectors(sets);
+      const slow = linear(sets);
+      expect(fast.length).toBe(slow.length);
+      const byPoint = new Map(slow.map((g) => [`${g.p[0]},${g.p[1]}`, g.levels.length]));
+      for (const v of fast) expect(byPoint.get(`${v.alpha},${v.beta}`)).toBe(v.levels.length);
+    }), fcParams(300));
+  });
+
+  it('merges 21 levels per phase into the 3N² − 3N + 1 distinct vectors of the diagram (common practice)', () => {
+    const lv = Array.from({ length: 21 }, (_, i) => -1 + i / 10);
+    expect(survivingVectors([lv, lv, lv]).length).toBe(3 * 21 * 21 - 3 * 21 + 1);
+  });
+});
