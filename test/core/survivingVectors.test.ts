@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { clarke, survivingVectors, VECTOR_TOLERANCE, type LevelTriplet } from '@hexsalvage/core';
+import { clarke, indexOfVector, survivingVectors, vectorFinder, VECTOR_TOLERANCE, type LevelTriplet } from '@hexsalvage/core';
 import { fc, fcParams } from '../support/fc.js';
 
 // The plain method the grid replaces: scan every group in order, the first within the tolerance
@@ -27,6 +27,16 @@ describe('survivingVectors', () => {
       const byPoint = new Map(slow.map((g) => [`${g.p[0]},${g.p[1]}`, g.levels.length]));
       for (const v of fast) expect(byPoint.get(`${v.alpha},${v.beta}`)).toBe(v.levels.length);
     }), fcParams(300));
+  });
+
+  it('finds vectors through its grid exactly as indexOfVector scans for them (property)', () => {
+    const level = fc.integer({ min: -4, max: 4 }).map((k) => k / 4);
+    fc.assert(fc.property(fc.uniqueArray(level, { minLength: 1, maxLength: 5 }), fc.array(fc.tuple(fc.double({ min: -2, max: 2, noNaN: true }), fc.double({ min: -2, max: 2, noNaN: true })), { maxLength: 10 }), (set, extra) => {
+      const vectors = survivingVectors([set, set, set]);
+      const find = vectorFinder(vectors);
+      const probes = [...vectors.map((v) => [v.alpha + 1e-10, v.beta - 1e-10] as [number, number]), ...extra];
+      for (const p of probes) expect(find(p)).toBe(indexOfVector(vectors, p));
+    }), fcParams(200));
   });
 
   it('merges 21 levels per phase into the 3N² − 3N + 1 distinct vectors of the diagram (common practice)', () => {

@@ -83,6 +83,21 @@ export function admissibleTriangles(vectors: readonly SpaceVector[], moves: Phas
  * ```
  */
 export function admissibleChain(vectors: readonly SpaceVector[], tri: Triangle, moves: PhaseMoves): readonly [LevelTriplet, LevelTriplet, LevelTriplet] | null {
+  return admissibleChecker(moves)(vectors, tri);
+}
+
+/**
+ * {@link admissibleChain} with the move tables built once, for testing many triangles.
+ *
+ * @param moves - per phase, its level moves
+ * @returns a function of the vectors and a triangle, giving a witness chain or `null`
+ * @example
+ * ```ts
+ * const chain = admissibleChecker(moves);
+ * delaunay.every((t) => chain(vectors, t) !== null);
+ * ```
+ */
+export function admissibleChecker(moves: PhaseMoves): (vectors: readonly SpaceVector[], tri: Triangle) => readonly [LevelTriplet, LevelTriplet, LevelTriplet] | null {
   const next = moveMaps(moves);
   const step = (a: LevelTriplet, b: LevelTriplet): boolean => {
     let k = -1;
@@ -93,18 +108,20 @@ export function admissibleChain(vectors: readonly SpaceVector[], tri: Triangle, 
     }
     return k >= 0 && (next[k]?.get(a[k] as number)?.includes(b[k] as number) ?? false);
   };
-  for (let m = 0; m < 3; m++) {
-    const mid = vectors[tri[m] as number] as SpaceVector;
-    const x = vectors[tri[(m + 1) % 3] as number] as SpaceVector;
-    const y = vectors[tri[(m + 2) % 3] as number] as SpaceVector;
-    for (const r2 of mid.levels) {
-      const r1 = x.levels.find((t) => step(t, r2));
-      if (!r1) continue;
-      const r3 = y.levels.find((t) => step(r2, t));
-      if (r3) return [r1, r2, r3];
+  return (vectors, tri) => {
+    for (let m = 0; m < 3; m++) {
+      const mid = vectors[tri[m] as number] as SpaceVector;
+      const x = vectors[tri[(m + 1) % 3] as number] as SpaceVector;
+      const y = vectors[tri[(m + 2) % 3] as number] as SpaceVector;
+      for (const r2 of mid.levels) {
+        const r1 = x.levels.find((t) => step(t, r2));
+        if (!r1) continue;
+        const r3 = y.levels.find((t) => step(r2, t));
+        if (r3) return [r1, r2, r3];
+      }
     }
-  }
-  return null;
+    return null;
+  };
 }
 
 function moveMaps(moves: PhaseMoves): Map<number, number[]>[] {

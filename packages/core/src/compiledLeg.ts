@@ -59,13 +59,44 @@ export function compiledLeg(leg: LegNetlist, elements: readonly LegElement[], fa
   const seen = new Int32Array(n);
   const via = new Int32Array(n); // edge index that reached a node (for the shoot-through path)
   const stack = new Int32Array(n);
+  // adjacency in flat arrays, rebuilt per gate set: out-edges and in-edges of each node, in edge
+  // order, so that a search visits them as a scan of the edge list filtered by node would
+  const outStart = new Int32Array(n + 1);
+  const inStart = new Int32Array(n + 1);
+  let outList = new Int32Array(0);
+  let inList = new Int32Array(0);
   let stamp = 0;
+  const index_ = (edges: readonly [number, number, number][]) => {
+    if (outList.length < edges.length) {
+      outList = new Int32Array(edges.length);
+      inList = new Int32Array(edges.length);
+    }
+    outStart.fill(0);
+    inStart.fill(0);
+    for (const [f, t] of edges) {
+      outStart[f + 1] = (outStart[f + 1] as number) + 1;
+      inStart[t + 1] = (inStart[t + 1] as number) + 1;
+    }
+    for (let k = 0; k < n; k++) {
+      outStart[k + 1] = (outStart[k + 1] as number) + (outStart[k] as number);
+      inStart[k + 1] = (inStart[k + 1] as number) + (inStart[k] as number);
+    }
+    const o = outStart.slice(0, n);
+    const i = inStart.slice(0, n);
+    edges.forEach(([f, t], k) => {
+      outList[o[f] as number] = k;
+      o[f] = (o[f] as number) + 1;
+      inList[i[t] as number] = k;
+      i[t] = (i[t] as number) + 1;
+    });
+  };
 
   return (gates) => {
     // edges in element order, as conductionEdges lists them (the shoot-through path depends on it)
     const on = new Set(gates);
     const edges: [number, number, number][] = [];
     for (const p of parts) if (p.gate === '' || on.has(p.gate)) for (const e of p.edges) edges.push(e);
+    index_(edges);
     // shoot-through: a forward path from a DC node to a lower one through non-DC nodes (BFS, so
     // the reported path is a shortest one, as findShootThrough reports it)
     for (let s = 0; s < dcNames.length; s++) {
@@ -76,9 +107,10 @@ export function compiledLeg(leg: LegNetlist, elements: readonly LegElement[], fa
       stack[tail++] = s;
       while (head < tail) {
         const x = stack[head++] as number;
-        for (let k = 0; k < edges.length; k++) {
-          const [f, t] = edges[k] as [number, number, number];
-          if (f !== x || seen[t] === stamp) continue;
+        for (let a = outStart[x] as number; a < (outStart[x + 1] as number); a++) {
+          const k = outList[a] as number;
+          const t = (edges[k] as [number, number, number])[1];
+          if (seen[t] === stamp) continue;
           seen[t] = stamp;
           via[t] = k;
           if (isDc(t)) {
@@ -106,10 +138,12 @@ export function compiledLeg(leg: LegNetlist, elements: readonly LegElement[], fa
         if (best === null || (plus ? p > best : p < best)) best = p;
         continue;
       }
-      for (const [f, t] of edges) {
-        const from = plus ? t : f;
+      const start = plus ? inStart : outStart;
+      const list = plus ? inList : outList;
+      for (let a = start[x] as number; a < (start[x + 1] as number); a++) {
+        const [f, t] = edges[list[a] as number] as [number, number, number];
         const to = plus ? f : t;
-        if (from !== x || seen[to] === stamp) continue;
+        if (seen[to] === stamp) continue;
         seen[to] = stamp;
         stack[top++] = to;
       }

@@ -14,7 +14,7 @@ export { clarke, type LevelTriplet, type Point } from './clarke.js';
 export { AREA_TOLERANCE, DWELL_TOLERANCE, VECTOR_TOLERANCE } from './tolerance.js';
 export { convexHull, polygonArea } from './hull.js';
 export { POLARITY_STRINGS, parsePolarity, type PolarityString } from './polarity.js';
-export { indexOfVector, survivingVectors, type SpaceVector } from './survivingVectors.js';
+export { indexOfVector, survivingVectors, vectorFinder, type SpaceVector } from './survivingVectors.js';
 export { rotateToMin, triangleArea, triangulate, type Triangle } from './triangulate.js';
 export { hullGeometry, minRadialExtent, radialExtent, type HullEdge, type HullGeometry, type RadialValue } from './radialExtent.js';
 export { mod360, polarityAt, polaritySectors, type PolaritySector } from './polaritySectors.js';
@@ -30,7 +30,7 @@ export { DEFAULT_RULES, LEVEL_STEP_RULES, describeRules, resolveRules, type Leve
 export { ratingCheck, ratingChecker, type RatingCheck } from './ratingCheck.js';
 export { gateSetSolver, usableLevel, type GateSetOutcome, type GateSetSolver } from './gateSetSolver.js';
 export { commutates, patternLevel, phaseCommutations, type LevelMove, type PhaseCommutations } from './commutation.js';
-export { admissibleChain, admissibleTriangles, type AdmissibleTriangle, type PhaseMoves } from './admissibleTriangles.js';
+export { admissibleChain, admissibleChecker, admissibleTriangles, type AdmissibleTriangle, type PhaseMoves } from './admissibleTriangles.js';
 export { admissibleTiling, type AdmissibleTiling } from './admissibleTiling.js';
 export { coveredBy, segmentEntersTriangle, tilingOutline, unionOutline, type OutlineEdge, type Segment } from './triangleUnion.js';
 export { originStrictlyInside, outlineGeometry } from './outlineGeometry.js';

@@ -1,4 +1,4 @@
-import { admissibleChain, admissibleTriangles, type PhaseMoves } from './admissibleTriangles.js';
+import { admissibleChecker, admissibleTriangles, type PhaseMoves } from './admissibleTriangles.js';
 import { admissibleTiling } from './admissibleTiling.js';
 import type { LevelTriplet, Point } from './clarke.js';
 import { classifyVector, type VectorShell } from './classifyVectors.js';
@@ -10,7 +10,7 @@ import type { LevelSets, PhasePolarity } from './legTable.js';
 import { parsePolarity, type PolarityString } from './polarity.js';
 import { hullGeometry, minRadialExtent, type HullGeometry } from './radialExtent.js';
 import type { LimitRules } from './rules.js';
-import { indexOfVector, survivingVectors, type SpaceVector } from './survivingVectors.js';
+import { survivingVectors, vectorFinder, type SpaceVector } from './survivingVectors.js';
 import type { OutlineEdge } from './triangleUnion.js';
 import { triangleArea, triangulate, type Triangle } from './triangulate.js';
 
@@ -133,7 +133,8 @@ export function polarityDiagram(
   const min = minRadialExtent(convex, 0, 2 * Math.PI);
   const e = min.edge === null ? null : convex.edges[min.edge];
   const tiling = tile(vectors, points, delaunay, hull, convex, min.value, moves, rules, scale);
-  const lost = healthy.filter((h) => indexOfVector(vectors, [h.alpha, h.beta], scale) < 0).map((v) => ({ ...v, class: classifyVector(shells, v, scale) }));
+  const find = vectorFinder(vectors, scale);
+  const lost = healthy.filter((h) => find([h.alpha, h.beta]) < 0).map((v) => ({ ...v, class: classifyVector(shells, v, scale) }));
   const have = new Set(vectors.flatMap((v) => v.levels.map(tripletKey)));
   const lostTriplets = healthy.reduce((n, h) => n + h.levels.filter((t) => !have.has(tripletKey(t))).length, 0);
   const diagram: PolarityDiagram = {
@@ -168,7 +169,8 @@ interface Tiling {
 function tile(vectors: readonly SpaceVector[], points: readonly Point[], delaunay: readonly Triangle[], hull: readonly number[], convex: HullGeometry, radius: number, moves: PhaseMoves, rules: LimitRules, scale: number): Tiling {
   const whole = { triangles: delaunay, geometry: convex, reach: radius, outline: null, exact: true };
   if (rules.levelSteps === 'any') return whole;
-  if (delaunay.length > 0 && delaunay.every((t) => admissibleChain(vectors, t, moves) !== null)) return whole;
+  const chain = admissibleChecker(moves);
+  if (delaunay.length > 0 && delaunay.every((t) => chain(vectors, t) !== null)) return whole;
   const t = admissibleTiling(points, admissibleTriangles(vectors, moves, points, scale), 1e-9 * scale, delaunay);
   // a tiling that fills the hull has the hull as its region: keep the hull's geometry and clamp
   const area = t.triangles.reduce((acc, tri) => acc + triangleArea(points, tri), 0);

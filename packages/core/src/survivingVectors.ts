@@ -82,3 +82,40 @@ function compareTripletsDesc(x: LevelTriplet, y: LevelTriplet): number {
 export function indexOfVector(vectors: readonly SpaceVector[], p: Point, scale = 1): number {
   return vectors.findIndex((v) => Math.hypot(v.alpha - p[0], v.beta - p[1]) <= VECTOR_TOLERANCE * scale);
 }
+
+/**
+ * {@link indexOfVector} for many look-ups: the vectors are put in a grid of tolerance-wide cells
+ * once, so each look-up tests a handful of vectors (the earliest within the tolerance wins, as the
+ * scan would find it).
+ *
+ * @param vectors - a vector list
+ * @param scale - length scale of the diagram (tolerance relative to it; default 1)
+ * @returns a function of a point giving the index within the tolerance, or -1
+ * @example
+ * ```ts
+ * const find = vectorFinder(vectors);
+ * healthy.filter((h) => find([h.alpha, h.beta]) < 0); // lost vectors
+ * ```
+ */
+export function vectorFinder(vectors: readonly SpaceVector[], scale = 1): (p: Point) => number {
+  const tol = VECTOR_TOLERANCE * scale;
+  const cells = new Map<string, number[]>();
+  vectors.forEach((v, i) => {
+    const k = `${Math.floor(v.alpha / tol)},${Math.floor(v.beta / tol)}`;
+    const list = cells.get(k);
+    if (list) list.push(i);
+    else cells.set(k, [i]);
+  });
+  return (p) => {
+    const cx = Math.floor(p[0] / tol);
+    const cy = Math.floor(p[1] / tol);
+    let best = -1;
+    for (let dx = -1; dx <= 1; dx++) for (let dy = -1; dy <= 1; dy++) {
+      for (const i of cells.get(`${cx + dx},${cy + dy}`) ?? []) {
+        const v = vectors[i] as SpaceVector;
+        if ((best < 0 || i < best) && Math.hypot(v.alpha - p[0], v.beta - p[1]) <= tol) best = i;
+      }
+    }
+    return best;
+  };
+}
