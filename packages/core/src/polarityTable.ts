@@ -1,12 +1,13 @@
-import { choosePattern, patternCandidates } from './choosePattern.js';
+import { patternCandidates } from './choosePattern.js';
 import type { LevelTriplet } from './clarke.js';
 import type { DiagramAtlas } from './diagramAtlas.js';
 import type { DwellMatrix } from './dwell.js';
 import type { LegTable, PhasePolarity } from './legTable.js';
-import { locateReference } from './locateReference.js';
+import { createModulator, type ModulatorSource } from './createModulator.js';
 import { midpointCoefficients, midpointSign, type MidpointSign } from './midpointCurrent.js';
-import { parsePolarity, type PolarityString } from './polarity.js';
+import { parsePolarity, POLARITY_STRINGS, type PolarityString } from './polarity.js';
 import type { ClassifiedVector, PolarityDiagram } from './polarityDiagram.js';
+import type { Triangle } from './triangulate.js';
 import { chooseSequence, type LegState, type PhaseState, type StepAllowed, type SwitchingSequence } from './switchingSequence.js';
 
 /** One way of producing a vertex: a level triplet and the pattern of each phase. */
@@ -73,13 +74,16 @@ export function polarityTable(atlas: DiagramAtlas, polarity: PolarityString): Po
   const faulted = buildTriangles(atlas, atlas.faulted.get(polarity) as PolarityDiagram, [atlas.analysis.phases.a, atlas.analysis.phases.b, atlas.analysis.phases.c], polarity);
   const healthyDiagram = atlas.healthy.get(polarity) as PolarityDiagram;
   const h = atlas.analysis.healthy;
-  const healthy = buildTriangles(atlas, healthyDiagram, [h, h, h], polarity, false);
-  const loc = { vectors: healthyDiagram.vectors, hull: healthyDiagram.hull.map((i) => [healthyDiagram.vectors[i]?.alpha ?? 0, healthyDiagram.vectors[i]?.beta ?? 0] as [number, number]), triangles: healthyDiagram.triangles, dwell: healthyDiagram.dwell };
-  const triangles = faulted.map((t) => {
-    const ca = (t.vertices[0].alpha + t.vertices[1].alpha + t.vertices[2].alpha) / 3;
-    const cb = (t.vertices[0].beta + t.vertices[1].beta + t.vertices[2].beta) / 3;
-    const at = locateReference(loc, ca, cb);
-    const healthyMidpointAuthority = at.ok ? (healthy[at.triangle] as TableTriangle).midpointAuthority : 'none';
+  // the healthy triangle under each faulted triangle's centroid (the same one a plain search of the
+  // healthy triangles finds), then only those healthy triangles are built
+  const find = healthyLocator(healthyDiagram);
+  const under = faulted.map((t) => find((t.vertices[0].alpha + t.vertices[1].alpha + t.vertices[2].alpha) / 3, (t.vertices[0].beta + t.vertices[1].beta + t.vertices[2].beta) / 3));
+  const needed = [...new Set(under.filter((k) => k >= 0))];
+  const built = buildTriangles(atlas, healthyDiagram, [h, h, h], polarity, false, needed);
+  const authorityOf = new Map(needed.map((k, i) => [k, (built[i] as Draft).midpointAuthority]));
+  const triangles = faulted.map((t, i) => {
+    const k = under[i] as number;
+    const healthyMidpointAuthority = k >= 0 ? (authorityOf.get(k) as MidpointAuthority) : 'none';
     return { ...t, healthyMidpointAuthority, authorityLost: RANK[t.midpointAuthority] < RANK[healthyMidpointAuthority] };
   });
   return { polarity, triangles };
@@ -87,17 +91,39 @@ export function polarityTable(atlas: DiagramAtlas, polarity: PolarityString): Po
 
 const RANK: Record<MidpointAuthority, number> = { none: 0, partial: 1, full: 2 };
 
+// One grid locator per healthy tiling (polarity strings and calls share the tiling's frozen triangle
+// list), answering as locateReference does (createModulator's exactness guarantee).
+const LOCATORS = new WeakMap<object, (alpha: number, beta: number) => number>();
+
+function healthyLocator(d: PolarityDiagram): (alpha: number, beta: number) => number {
+  const known = LOCATORS.get(d.triangles);
+  if (known) return known;
+  const polarity = {
+    vectors: d.vectors,
+    hull: d.hull.map((i) => [d.vectors[i]?.alpha ?? 0, d.vectors[i]?.beta ?? 0] as [number, number]),
+    triangles: d.triangles,
+    dwell: d.dwell,
+  };
+  const mod = createModulator({ polarities: { '+--': polarity } } as unknown as ModulatorSource);
+  const k = POLARITY_STRINGS.indexOf('+--');
+  const out = new Float64Array(4);
+  const f = (alpha: number, beta: number) => mod.modulateInto(alpha, beta, k, out);
+  LOCATORS.set(d.triangles, f);
+  return f;
+}
+
 type Draft = Omit<TableTriangle, 'healthyMidpointAuthority' | 'authorityLost'>;
 
-// `withSequence: false` skips the sequence search where only the midpoint authority is needed.
-function buildTriangles(atlas: DiagramAtlas, d: PolarityDiagram, tables: readonly [LegTable, LegTable, LegTable], polarity: PolarityString, withSequence = true): Draft[] {
+// `withSequence: false` skips the sequence search where only the midpoint authority is needed;
+// `only` builds just those triangles (indices into `d.triangles`), in that order.
+function buildTriangles(atlas: DiagramAtlas, d: PolarityDiagram, tables: readonly [LegTable, LegTable, LegTable], polarity: PolarityString, withSequence = true, only?: readonly number[]): Draft[] {
   const pol = parsePolarity(polarity);
   const leg = atlas.analysis.leg;
   const hasMidpoint = Object.values(leg.dcNodes).includes(0);
   const levels = [...new Set(Object.values(leg.dcNodes))].sort((x, y) => x - y);
   const line = new Set(leg.devices.filter((x) => x.switching === 'line').map((x) => x.id));
   const cache = new Map<string, PhaseState[]>();
-  const memo = new Map<string, unknown>();
+  const memo = new Map<string | number, unknown>();
   const candidatesOf = (k: number, level: number): PhaseState[] => {
     const key = `${k}:${level}`;
     let c = cache.get(key);
@@ -108,19 +134,26 @@ function buildTriangles(atlas: DiagramAtlas, d: PolarityDiagram, tables: readonl
     return c;
   };
   const step = sequenceRule(atlas, tables, pol, levels);
+  // a vertex belongs to several triangles: realise it once
+  const vertices = new Map<number, TableVertex>();
   const vertexOf = (vi: number): TableVertex => {
+    const known = vertices.get(vi);
+    if (known) return known;
     const v = d.vectors[vi] as ClassifiedVector;
     const realisations = v.levels.flatMap((t) => {
-      const r = realise(t, tables, atlas.analysis.healthy, pol);
+      const r = realise(t, candidatesOf);
       return r ? [r] : [];
     }).map((phases) => {
       const lv = phases.map((p) => p.level) as unknown as LevelTriplet;
       const midpoint = midpointCoefficients(lv, hasMidpoint);
       return { levels: lv, phases, midpoint, midpointSign: midpointSign(midpoint, pol), commonMode: (lv[0] + lv[1] + lv[2]) / 3 };
     });
-    return { vector: vi, alpha: v.alpha, beta: v.beta, class: v.class, realisations };
+    const vertex = { vector: vi, alpha: v.alpha, beta: v.beta, class: v.class, realisations };
+    vertices.set(vi, vertex);
+    return vertex;
   };
-  return d.triangles.map((tri, i) => {
+  return (only ?? d.triangles.map((_, i) => i)).map((i) => {
+    const tri = d.triangles[i] as Triangle;
     const vertices = tri.map(vertexOf) as unknown as [TableVertex, TableVertex, TableVertex];
     return {
       vertices,
@@ -148,12 +181,13 @@ function sequenceRule(atlas: DiagramAtlas, tables: readonly [LegTable, LegTable,
   };
 }
 
-function realise(t: LevelTriplet, tables: readonly [LegTable, LegTable, LegTable], healthy: LegTable, pol: readonly PhasePolarity[]): LegState | null {
+// Each phase's preferred pattern for its level: the first candidate (what choosePattern gives).
+function realise(t: LevelTriplet, candidatesOf: (k: number, level: number) => PhaseState[]): LegState | null {
   const out: PhaseState[] = [];
   for (let k = 0; k < 3; k++) {
-    const c = choosePattern(tables[k] as LegTable, healthy, t[k] as number, pol[k] as PhasePolarity);
+    const c = candidatesOf(k, t[k] as number)[0];
     if (!c) return null;
-    out.push({ level: t[k] as number, pattern: c.pattern, gates: c.gates });
+    out.push(c);
   }
   return out as unknown as LegState;
 }

@@ -73,14 +73,17 @@ export function chooseSequence(
   candidates: PatternCandidatesOf,
   levels: readonly number[],
   lineDevices: ReadonlySet<string>,
-  memo: Map<string, unknown> = new Map(),
+  memo: Map<string | number, unknown> = new Map(),
   step?: StepAllowed,
 ): SwitchingSequence | null {
   if (triplets.length !== 3 || triplets.some((r) => r.length === 0)) return null;
   let best: { rank: number[]; seq: SwitchingSequence } | null = null;
   // the same three levels of one phase recur across orders, triplets and triangles: solve each once
+  // integer keys from the levels' positions: no string building in the innermost loop
+  const L = levels.length + 1;
+  const pos = (l: number) => levels.indexOf(l) + 1;
   const phasePath = (ph: Phase, k: number, lv: number[]) => {
-    const key = `${k}:${lv.join(',')}`;
+    const key = ((k * L + pos(lv[0] as number)) * L + pos(lv[1] as number)) * L + pos(lv[2] as number);
     if (!memo.has(key)) memo.set(key, bestPhasePath(ph, lv, (l) => candidates(k, l), lineDevices, step && ((a, b) => step(k, a, b))));
     return memo.get(key) as PhasePath | null;
   };
