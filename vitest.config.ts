@@ -4,10 +4,12 @@ import { defineConfig } from 'vitest/config';
 // Tests import the TypeScript sources directly; the CLI tests run the built launcher.
 export default defineConfig({
   resolve: {
-    alias: {
-      '@hexsalvage/core': fileURLToPath(new URL('./packages/core/src/index.ts', import.meta.url)),
-      '@hexsalvage/plot': fileURLToPath(new URL('./packages/plot/src/index.ts', import.meta.url)),
-    },
+    // exact matches: '@hexsalvage/core/errors' must not be read as a path below the index
+    alias: [
+      { find: /^@hexsalvage\/core$/, replacement: fileURLToPath(new URL('./packages/core/src/index.ts', import.meta.url)) },
+      { find: /^@hexsalvage\/core\/errors$/, replacement: fileURLToPath(new URL('./packages/core/src/errors.ts', import.meta.url)) },
+      { find: /^@hexsalvage\/plot$/, replacement: fileURLToPath(new URL('./packages/plot/src/index.ts', import.meta.url)) },
+    ],
   },
   test: {
     include: ['test/**/*.test.ts'],

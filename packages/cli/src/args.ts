@@ -1,4 +1,4 @@
-import { HexsalvageInputError } from '@hexsalvage/core';
+import { HexsalvageInputError } from '@hexsalvage/core/errors';
 
 /** How one command-line option is read. */
 export interface OptionSpec {

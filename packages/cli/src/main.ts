@@ -1,21 +1,40 @@
 import { readFileSync } from 'node:fs';
-import { HexsalvageInputError } from '@hexsalvage/core';
+import { HexsalvageInputError, plainText } from '@hexsalvage/core/errors';
 import { parseArgs } from './args.js';
 import type { Command } from './command.js';
-import { legCommand } from './commands/legCommand.js';
-import { planCommand } from './commands/planCommand.js';
-import { sweepCommand } from './commands/sweepCommand.js';
-import { vectorsCommand } from './commands/vectorsCommand.js';
-import { tableCommand } from './commands/tableCommand.js';
-import { exportCommand } from './commands/exportCommand.js';
-import { plotCommand } from './commands/plotCommand.js';
-import { checkCommand } from './commands/checkCommand.js';
-import { reportCommand } from './commands/reportCommand.js';
-import { cycleCommand } from './commands/cycleCommand.js';
 import { OutputError, type CommandIO } from './output.js';
 
-/** Every command, in the order `--help` lists them. */
-export const COMMANDS: readonly Command[] = [legCommand, vectorsCommand, planCommand, sweepCommand, tableCommand, cycleCommand, exportCommand, plotCommand, reportCommand, checkCommand];
+// Commands are loaded only when they run (or when the full help lists them): `--version` and a
+// usage error then start without loading the solver, the plots or the PNG renderer.
+const LOADERS: Readonly<Record<string, () => Promise<Command>>> = {
+  leg: async () => (await import('./commands/legCommand.js')).legCommand,
+  vectors: async () => (await import('./commands/vectorsCommand.js')).vectorsCommand,
+  plan: async () => (await import('./commands/planCommand.js')).planCommand,
+  sweep: async () => (await import('./commands/sweepCommand.js')).sweepCommand,
+  table: async () => (await import('./commands/tableCommand.js')).tableCommand,
+  cycle: async () => (await import('./commands/cycleCommand.js')).cycleCommand,
+  export: async () => (await import('./commands/exportCommand.js')).exportCommand,
+  plot: async () => (await import('./commands/plotCommand.js')).plotCommand,
+  report: async () => (await import('./commands/reportCommand.js')).reportCommand,
+  check: async () => (await import('./commands/checkCommand.js')).checkCommand,
+};
+
+/** Every command name, in the order `--help` lists them. */
+export const COMMAND_NAMES: readonly string[] = Object.keys(LOADERS);
+
+/**
+ * Loads one command's module.
+ *
+ * @param name - a name from {@link COMMAND_NAMES}
+ * @returns the command, or `undefined` for an unknown name
+ * @example
+ * ```ts
+ * (await loadCommand('plan'))?.usage;
+ * ```
+ */
+export async function loadCommand(name: string): Promise<Command | undefined> {
+  return Object.prototype.hasOwnProperty.call(LOADERS, name) ? (LOADERS[name] as () => Promise<Command>)() : undefined;
+}
 
 const VERSION = (JSON.parse(readFileSync(new URL('../package.json', import.meta.url), 'utf8')) as { version: string }).version;
 
@@ -33,16 +52,16 @@ const VERSION = (JSON.parse(readFileSync(new URL('../package.json', import.meta.
 export async function main(argv: readonly string[], io: CommandIO): Promise<number> {
   const [name, ...rest] = argv;
   if (name === undefined || name === '--help' || name === '-h' || name === 'help') {
-    await io.stdout(`${generalHelp()}\n`);
+    await io.stdout(`${await generalHelp()}\n`);
     return name === undefined ? 2 : 0;
   }
   if (name === '--version' || name === '-v') {
     await io.stdout(`hexsalvage ${VERSION}\n`);
     return 0;
   }
-  const cmd = COMMANDS.find((c) => c.name === name);
+  const cmd = await loadCommand(name);
   if (!cmd) {
-    io.stderr(`hexsalvage: unknown command "${name}"; expected one of ${COMMANDS.map((c) => c.name).join(', ')} (try --help)\n`);
+    io.stderr(`hexsalvage: unknown command "${plainText(name, 40)}"; expected one of ${COMMAND_NAMES.join(', ')} (try --help)\n`);
     return 2;
   }
   try {
@@ -66,14 +85,15 @@ export async function main(argv: readonly string[], io: CommandIO): Promise<numb
   }
 }
 
-function generalHelp(): string {
+async function generalHelp(): Promise<string> {
+  const commands = await Promise.all(COMMAND_NAMES.map(async (n) => (await loadCommand(n)) as Command));
   return [
     `hexsalvage ${VERSION}: what a three-phase converter leg can still do after a device fails open`,
     '',
     'Usage: hexsalvage <command> [options]   (hexsalvage <command> --help for its options)',
     '',
     'Commands:',
-    ...COMMANDS.map((c) => `  ${c.name.padEnd(9)} ${c.summary}`),
+    ...commands.map((c) => `  ${c.name.padEnd(9)} ${c.summary}`),
     '',
     'Units: potentials and modulation index in Vdc/2; angles in degrees.',
     'Caution: running with a failed device can overstress the remaining devices, the DC link and the load.',

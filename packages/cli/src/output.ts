@@ -1,7 +1,7 @@
 import { randomBytes } from 'node:crypto';
 import { chmodSync, closeSync, fsyncSync, lstatSync, openSync, renameSync, rmSync, statSync, writeSync } from 'node:fs';
 import { basename, dirname, join, resolve } from 'node:path';
-import { HexsalvageInputError } from '@hexsalvage/core';
+import { HexsalvageInputError } from '@hexsalvage/core/errors';
 
 /** Where command output goes; tests pass their own. */
 export interface CommandIO {
