@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { clarke, createModulator, HexsalvageInputError, locateReference, planRemedial, POLARITY_STRINGS, switchingTable } from '@hexsalvage/core';
+import { readFileSync } from 'node:fs';
+import { clarke, createModulator, HexsalvageInputError, locateReference, planRemedial, polarityAt, POLARITY_STRINGS, switchingTable } from '@hexsalvage/core';
 import { fc, fcParams } from '../support/fc.js';
 
 const plan = planRemedial({ topology: 'npc', faults: ['a.outerUpper'] });
@@ -7,6 +8,31 @@ const table = switchingTable({ topology: 'anpc-hybrid', faults: ['a.innerUpper']
 const point = fc.record({ a: fc.double({ min: -1.6, max: 1.6, noNaN: true }), b: fc.double({ min: -1.6, max: 1.6, noNaN: true }), p: fc.constantFrom(...POLARITY_STRINGS) });
 
 describe('createModulator', () => {
+  it('agrees exactly with the plain search on a rotating reference (the previous-triangle path), every polarity window', () => {
+    const five = planRemedial({ topology: JSON.parse(readFileSync(new URL('../../examples/five-level-leg.json', import.meta.url), 'utf8')), faults: ['a.s2'] });
+    for (const [source, phi] of [[plan, 30], [table, -20], [five, 10]] as const) {
+      const mod = createModulator(source);
+      const out = new Float64Array(4);
+      fc.assert(fc.property(fc.double({ min: 0.05, max: 1.3, noNaN: true }), fc.double({ min: 0, max: 360, noNaN: true }), fc.integer({ min: 200, max: 3000 }), (m, start, steps) => {
+        for (let k = 0; k < 400; k++) {
+          const th = ((start + (k * 360) / steps) * Math.PI) / 180;
+          const p = polarityAt((th * 180) / Math.PI, phi, 0);
+          const a = m * Math.cos(th);
+          const b = m * Math.sin(th);
+          const plain = locateReference(source.polarities[p]!, a, b);
+          const t = mod.modulateInto(a, b, mod.polarityIndex(p), out);
+          if (!plain.ok) {
+            expect(t).toBe(-1);
+            continue;
+          }
+          expect(t).toBe(plain.triangle);
+          expect([out[0], out[1], out[2]]).toEqual([...plain.dwell]);
+          expect(out[3] === 1).toBe(plain.clamped);
+        }
+      }), fcParams(60));
+    }
+  });
+
   for (const [name, source] of [['a plan', plan], ['a switching table', table]] as const) {
     it(`agrees exactly with the plain triangle search (${name}), both paths`, () => {
       const mod = createModulator(source);
@@ -86,5 +112,20 @@ describe('createModulator', () => {
     const mod = createModulator(plan);
     expect(() => mod.modulate(0, 0, '+++')).toThrow(HexsalvageInputError);
     expect(() => mod.modulate(Number.NaN, 0, '+--')).toThrow('finite');
+  });
+
+  it('keeps no stale answer between calls: a bad reference or polarity right after a good one is still refused', () => {
+    const mod = createModulator(plan);
+    const good = mod.modulate(0.05, 0.02, '+--');
+    expect(good.triangle).toBeGreaterThanOrEqual(0);
+    // the same triangle was the last one: a NaN must not be answered from it
+    expect(() => mod.modulate(Number.NaN, 0.02, '+--')).toThrow('finite');
+    expect(() => mod.modulate(0.05, Number.POSITIVE_INFINITY, '+--')).toThrow('finite');
+    expect(mod.modulateInto(Number.NaN, 0.02, mod.polarityIndex('+--'), new Float64Array(4))).toBe(-1);
+    // the last polarity string is remembered; another string, valid or not, is looked up afresh
+    expect(() => mod.modulate(0.05, 0.02, '+++')).toThrow(HexsalvageInputError);
+    expect(mod.polarityIndex('-++')).toBe(POLARITY_STRINGS.indexOf('-++'));
+    expect(mod.polarityIndex('+--')).toBe(POLARITY_STRINGS.indexOf('+--'));
+    expect(mod.modulate(0.05, 0.02, '+--')).toEqual(good);
   });
 });

@@ -73,7 +73,9 @@ interface Prepared {
 
 /**
  * Builds the runtime modulator: a point-location grid per polarity string so that a reference is
- * tested against a handful of triangles instead of all of them.
+ * tested against a handful of triangles instead of all of them, and, first, the triangle the
+ * polarity's previous reference fell in (a rotating reference usually stays in it; the answer is
+ * taken from there only when the point is well inside, so it is always the plain search's).
  *
  * With a switching table as source, each vertex is applied with the triplet its switching
  * sequence chose; with a plan, with the vertex's first realising triplet. Both the object and the
@@ -99,14 +101,39 @@ export function createModulator(source: ModulatorSource): Modulator {
   });
   const scratch = new Float64Array(4);
   const clampBuf = new Float64Array(2);
+  // The triangle each polarity's last reference fell in: a rotating reference (firmware and
+  // simulations step it by a small angle per call) is usually still inside it.
+  const last = new Int32Array(POLARITY_STRINGS.length).fill(-1);
+
+  const mats: Float64Array[] = prepared.map((pr) => (pr ? pr.m : new Float64Array(0)));
 
   const run = (alpha: number, beta: number, k: number, out: Float64Array): number => {
+    // the previous triangle first, written out here because this is the path almost every call of
+    // a rotating reference takes; a reference that is not finite fails the comparisons
+    const h = k >= 0 && k < last.length ? (last[k] as number) : -1;
+    if (h >= 0) {
+      const m = mats[k] as Float64Array;
+      const o = 9 * h;
+      const d0 = (m[o] as number) * alpha + (m[o + 1] as number) * beta + (m[o + 2] as number);
+      const d1 = (m[o + 3] as number) * alpha + (m[o + 4] as number) * beta + (m[o + 5] as number);
+      const d2 = (m[o + 6] as number) * alpha + (m[o + 7] as number) * beta + (m[o + 8] as number);
+      if (d0 >= WELL_INSIDE && d1 >= WELL_INSIDE && d2 >= WELL_INSIDE) {
+        // all positive: the same arithmetic as normaliseInto, so the same dwell times
+        const s = d0 + d1 + d2;
+        out[0] = d0 / s;
+        out[1] = d1 / s;
+        out[2] = d2 / s;
+        out[3] = 0;
+        return h;
+      }
+    }
     const pr = prepared[k];
     // a reference beyond ±REFERENCE_LIMIT (or not finite) is not a modulation index: -1, as for a
     // polarity without triangles (the object path refuses it with a typed error)
     if (!pr || pr.count === 0 || !(Math.abs(alpha) <= REFERENCE_LIMIT && Math.abs(beta) <= REFERENCE_LIMIT)) return -1;
     let t = search(pr, alpha, beta, out);
     if (t >= 0) {
+      last[k] = t;
       out[3] = 0;
       return t;
     }
@@ -120,25 +147,35 @@ export function createModulator(source: ModulatorSource): Modulator {
     return t;
   };
 
-  // a look-up per call instead of a regular expression: the valid strings are known in advance
+  // a look-up per call instead of a regular expression: the valid strings are known in advance;
+  // the polarity usually repeats from call to call, so the last answer is checked first
+  let lastPolarity: unknown = undefined;
+  let lastIndex = -1;
   const polarityIndex = (p: PolarityString): number => {
+    if (p === lastPolarity) return lastIndex;
     const k = POLARITY_INDEX.get(p);
-    if (k !== undefined) return k;
-    parsePolarity(p, 'polarity');
-    return -1;
+    if (k === undefined) {
+      parsePolarity(p, 'polarity');
+      return -1;
+    }
+    lastPolarity = p;
+    lastIndex = k;
+    return k;
   };
 
   return {
     modulate(alpha, beta, polarity) {
-      if (!(Math.abs(alpha) <= REFERENCE_LIMIT && Math.abs(beta) <= REFERENCE_LIMIT)) {
-        throw new HexsalvageInputError('option', 'modulate', 'alpha/beta', `finite numbers within ±${REFERENCE_LIMIT} (units of Vdc/2)`, Math.abs(alpha) <= REFERENCE_LIMIT ? beta : alpha);
-      }
       const k = polarityIndex(polarity);
       const t = run(alpha, beta, k, scratch);
-      if (t < 0) return { triangle: -1, dwell: [0, 0, 0], vertices: [], clamped: true };
+      if (t < 0) {
+        if (!(Math.abs(alpha) <= REFERENCE_LIMIT && Math.abs(beta) <= REFERENCE_LIMIT)) {
+          throw new HexsalvageInputError('option', 'modulate', 'alpha/beta', `finite numbers within ±${REFERENCE_LIMIT} (units of Vdc/2)`, Math.abs(alpha) <= REFERENCE_LIMIT ? beta : alpha);
+        }
+        return { triangle: -1, dwell: [0, 0, 0], vertices: [], clamped: true };
+      }
       return { triangle: t, dwell: [scratch[0] as number, scratch[1] as number, scratch[2] as number], vertices: (prepared[k] as Prepared).vertices[t] as LevelTriplet[], clamped: scratch[3] === 1 };
     },
-    modulateInto: (alpha, beta, k, out) => run(alpha, beta, k, out),
+    modulateInto: run,
     polarityIndex,
   };
 }
@@ -242,6 +279,12 @@ function inside(m: Float64Array, t: number, a: number, b: number, out: Float64Ar
   normaliseInto(d0, d1, d2, out);
   return true;
 }
+
+// Inside by a clear margin: every dwell at least WELL_INSIDE. No other triangle of a non-overlapping
+// tiling can then hold the point even within the locator's tolerance (that would need it within
+// about 1e-9 of a triangle size from this one's edges, while it is 1e-6 of this one's height
+// away), so the plain search would return this triangle too: the answer is the same.
+const WELL_INSIDE = 1e-6;
 
 function leastOutside(pr: Prepared, a: number, b: number, out: Float64Array): number {
   let best = 0;
