@@ -53,6 +53,25 @@ describe('planRemedial', () => {
     expect(p.polarities['-+-']!.lost).toEqual([]);
   });
 
+  it('counts lost healthy triplets: by hand for one case, and as a direct count of the triplets every fault leaves', () => {
+    // npc a.outerUpper open, i_a > 0: phase a cannot give P, so the 9 healthy triplets with a = P are
+    // lost (hand count: 3 levels of b × 3 of c)
+    expect(planRemedial({ topology: 'npc', faults: ['a.outerUpper'] }).polarities['+--']!.lostTriplets).toBe(9);
+    const key = (t: readonly number[]) => t.join(',');
+    const healthy = planRemedial({ topology: 'npc' }).polarities['+--']!.vectors.flatMap((v) => v.levels.map(key));
+    for (const [topology, fault] of [['npc', 'b.innerLower'], ['npc', 'a.clampUpper:short'], ['tnpc', 'c.neutralToOut'], ['anpc-hybrid', 'a.innerUpper']] as const) {
+      const plan = planRemedial({ topology, faults: [fault] });
+      const all = planRemedial({ topology }).polarities['+--']!.vectors.flatMap((v) => v.levels.map(key));
+      for (const p of POLARITY_STRINGS) {
+        const d = plan.polarities[p];
+        if (!d) continue;
+        const have = new Set(d.vectors.flatMap((v) => v.levels.map(key)));
+        expect(d.lostTriplets, `${topology} ${fault} ${p}`).toBe(all.filter((t) => !have.has(t)).length);
+      }
+    }
+    expect(healthy).toHaveLength(27);
+  });
+
   it.each([
     [{ loadAngleDeg: 181 }, 'loadAngleDeg'],
     [{ loadAngleDeg: Number.NaN }, 'loadAngleDeg'],

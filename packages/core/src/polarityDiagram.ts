@@ -1,6 +1,6 @@
 import { admissibleChecker, admissibleTriangles, type PhaseMoves } from './admissibleTriangles.js';
 import { admissibleTiling } from './admissibleTiling.js';
-import type { LevelTriplet, Point } from './clarke.js';
+import type { Point } from './clarke.js';
 import { classifyVector, type VectorShell } from './classifyVectors.js';
 import { dwellMatrix, type DwellMatrix } from './dwell.js';
 import type { Phase } from './faults.js';
@@ -135,8 +135,10 @@ export function polarityDiagram(
   const tiling = tile(vectors, points, delaunay, hull, convex, min.value, moves, rules, scale);
   const find = vectorFinder(vectors, scale);
   const lost = healthy.filter((h) => find([h.alpha, h.beta]) < 0).map((v) => ({ ...v, class: classifyVector(shells, v, scale) }));
-  const have = new Set(vectors.flatMap((v) => v.levels.map(tripletKey)));
-  const lostTriplets = healthy.reduce((n, h) => n + h.levels.filter((t) => !have.has(tripletKey(t))).length, 0);
+  // the surviving triplets are the whole product of the three level sets, so a healthy triplet is
+  // missing exactly when one of its levels is missing from its phase's set
+  const [sa, sb, sc] = phaseLevels.map((l) => new Set(l));
+  const lostTriplets = healthy.reduce((n, h) => n + h.levels.filter((t) => !(sa!.has(t[0]) && sb!.has(t[1]) && sc!.has(t[2]))).length, 0);
   const diagram: PolarityDiagram = {
     polarity,
     phaseLevels,
@@ -192,8 +194,4 @@ function tile(vectors: readonly SpaceVector[], points: readonly Point[], delauna
 export function diagramScale(healthy: readonly { readonly alpha: number; readonly beta: number }[]): number {
   const r = Math.max(0, ...healthy.map((v) => Math.hypot(v.alpha, v.beta)));
   return r > 0 ? r : 1;
-}
-
-function tripletKey(t: LevelTriplet): string {
-  return t.join(',');
 }

@@ -30,15 +30,16 @@ export function survivingVectors(sets: readonly [readonly number[], readonly num
   // lies in that group's cell or a neighbouring one. Among those, the earliest group within the
   // tolerance takes it — the group a scan of all groups in order would find — so the result is the
   // same as a linear search, in linear time (a many-level leg has N³ triplets).
-  const cells = new Map<string, (typeof groups)[number][]>();
-  const cellOf = (p: Point) => [Math.floor(p[0] / tol), Math.floor(p[1] / tol)] as const;
+  const cells = new CellGrid<(typeof groups)[number]>();
   for (const la of sets[0]) for (const lb of sets[1]) for (const lc of sets[2]) {
     const t: LevelTriplet = [la, lb, lc];
     const p = clarke(t);
-    const [cx, cy] = cellOf(p);
+    const cx = Math.floor(p[0] / tol);
+    const cy = Math.floor(p[1] / tol);
     let g: (typeof groups)[number] | undefined;
     for (let dx = -1; dx <= 1; dx++) for (let dy = -1; dy <= 1; dy++) {
-      for (const x of cells.get(`${cx + dx},${cy + dy}`) ?? []) {
+      const list = cells.get(cx + dx, cy + dy);
+      if (list) for (const x of list) {
         if ((g === undefined || x.order < g.order) && Math.hypot(x.p[0] - p[0], x.p[1] - p[1]) <= tol) g = x;
       }
     }
@@ -46,10 +47,7 @@ export function survivingVectors(sets: readonly [readonly number[], readonly num
     else {
       const fresh = { p, levels: [t], order: groups.length };
       groups.push(fresh);
-      const k = `${cx},${cy}`;
-      const list = cells.get(k);
-      if (list) list.push(fresh);
-      else cells.set(k, [fresh]);
+      cells.add(cx, cy, fresh);
     }
   }
   const q = (x: number) => Math.round(x / tol);
@@ -99,23 +97,37 @@ export function indexOfVector(vectors: readonly SpaceVector[], p: Point, scale =
  */
 export function vectorFinder(vectors: readonly SpaceVector[], scale = 1): (p: Point) => number {
   const tol = VECTOR_TOLERANCE * scale;
-  const cells = new Map<string, number[]>();
-  vectors.forEach((v, i) => {
-    const k = `${Math.floor(v.alpha / tol)},${Math.floor(v.beta / tol)}`;
-    const list = cells.get(k);
-    if (list) list.push(i);
-    else cells.set(k, [i]);
-  });
+  const cells = new CellGrid<number>();
+  vectors.forEach((v, i) => cells.add(Math.floor(v.alpha / tol), Math.floor(v.beta / tol), i));
   return (p) => {
     const cx = Math.floor(p[0] / tol);
     const cy = Math.floor(p[1] / tol);
     let best = -1;
     for (let dx = -1; dx <= 1; dx++) for (let dy = -1; dy <= 1; dy++) {
-      for (const i of cells.get(`${cx + dx},${cy + dy}`) ?? []) {
+      const list = cells.get(cx + dx, cy + dy);
+      if (list) for (const i of list) {
         const v = vectors[i] as SpaceVector;
         if ((best < 0 || i < best) && Math.hypot(v.alpha - p[0], v.beta - p[1]) <= tol) best = i;
       }
     }
     return best;
   };
+}
+
+// Cells keyed by two integers through nested maps: a look-up is two number-keyed gets instead of a
+// string built per neighbour (nine per point, N³ points on an N-level leg).
+class CellGrid<T> {
+  private readonly rows = new Map<number, Map<number, T[]>>();
+
+  get(cx: number, cy: number): T[] | undefined {
+    return this.rows.get(cx)?.get(cy);
+  }
+
+  add(cx: number, cy: number, item: T): void {
+    let row = this.rows.get(cx);
+    if (!row) this.rows.set(cx, (row = new Map()));
+    const list = row.get(cy);
+    if (list) list.push(item);
+    else row.set(cy, [item]);
+  }
 }
