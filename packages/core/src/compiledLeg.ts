@@ -56,6 +56,7 @@ export function compiledLeg(leg: LegNetlist, elements: readonly LegElement[], fa
   const pot = new Float64Array(n).fill(NaN);
   dcNames.forEach((d, k) => { pot[k] = leg.dcNodes[d] as number; });
   const isDc = (k: number) => !Number.isNaN(pot[k] as number);
+  const byPotential = dcNames.map((_, k) => k).sort((x, y) => (pot[y] as number) - (pot[x] as number));
   const seen = new Int32Array(n);
   const via = new Int32Array(n); // edge index that reached a node (for the shoot-through path)
   const stack = new Int32Array(n);
@@ -97,6 +98,7 @@ export function compiledLeg(leg: LegNetlist, elements: readonly LegElement[], fa
     const edges: [number, number, number][] = [];
     for (const p of parts) if (p.gate === '' || on.has(p.gate)) for (const e of p.edges) edges.push(e);
     index_(edges);
+    if (!anyShootThrough(edges)) return { shootThrough: null, plus: extreme(edges, true), minus: extreme(edges, false) };
     // shoot-through: a forward path from a DC node to a lower one through non-DC nodes (BFS, so
     // the reported path is a shortest one, as findShootThrough reports it)
     for (let s = 0; s < dcNames.length; s++) {
@@ -123,6 +125,35 @@ export function compiledLeg(leg: LegNetlist, elements: readonly LegElement[], fa
     }
     return { shootThrough: null, plus: extreme(edges, true), minus: extreme(edges, false) };
   };
+
+  // Whether any DC node reaches a lower one, in one pass over the edges instead of one search per
+  // DC node: sources are taken from the highest potential down and a node is entered once only,
+  // by the highest source that reaches it; a lower source reaching it through that node would find
+  // nothing the higher one did not (only lower DC nodes count, and those are lower for both).
+  function anyShootThrough(edges: readonly [number, number, number][]): boolean {
+    stamp++;
+    for (const s of byPotential) {
+      // DC nodes are never entered, only compared with the source
+      seen[s] = stamp;
+      let head = 0;
+      let tail = 0;
+      stack[tail++] = s;
+      while (head < tail) {
+        const x = stack[head++] as number;
+        for (let a = outStart[x] as number; a < (outStart[x + 1] as number); a++) {
+          const t = (edges[outList[a] as number] as [number, number, number])[1];
+          if (isDc(t)) {
+            if ((pot[t] as number) < (pot[s] as number)) return true;
+            continue;
+          }
+          if (seen[t] === stamp) continue;
+          seen[t] = stamp;
+          stack[tail++] = t;
+        }
+      }
+    }
+    return false;
+  }
 
   // '+': highest DC node with a forward path to out (search backwards); '-': lowest DC node out reaches
   function extreme(edges: readonly [number, number, number][], plus: boolean): number | null {
