@@ -98,61 +98,49 @@ export function compiledLeg(leg: LegNetlist, elements: readonly LegElement[], fa
     const edges: [number, number, number][] = [];
     for (const p of parts) if (p.gate === '' || on.has(p.gate)) for (const e of p.edges) edges.push(e);
     index_(edges);
-    if (!anyShootThrough(edges)) return { shootThrough: null, plus: extreme(edges, true), minus: extreme(edges, false) };
-    // shoot-through: a forward path from a DC node to a lower one through non-DC nodes (BFS, so
-    // the reported path is a shortest one, as findShootThrough reports it)
+    // shoot-through: a forward path from a DC node to a lower one through non-DC nodes. Whether
+    // there is one is decided in one pass: sources from the highest potential down, each node
+    // entered once only, by the highest source that reaches it (a lower source reaching a node
+    // through it would find nothing the higher one did not: the DC nodes below it are below both).
+    stamp++;
+    if (!byPotential.some((s) => lowerReached(s, edges) >= 0)) return { shootThrough: null, plus: extreme(edges, true), minus: extreme(edges, false) };
+    // There is one: the searches are redone one per DC node in netlist order, each from scratch,
+    // so that the path reported is the one findShootThrough reports (BFS, a shortest path).
     for (let s = 0; s < dcNames.length; s++) {
       stamp++;
-      seen[s] = stamp;
-      let head = 0;
-      let tail = 0;
-      stack[tail++] = s;
-      while (head < tail) {
-        const x = stack[head++] as number;
-        for (let a = outStart[x] as number; a < (outStart[x + 1] as number); a++) {
-          const k = outList[a] as number;
-          const t = (edges[k] as [number, number, number])[1];
-          if (seen[t] === stamp) continue;
-          seen[t] = stamp;
-          via[t] = k;
-          if (isDc(t)) {
-            if ((pot[t] as number) < (pot[s] as number)) return { shootThrough: trace(s, t, edges), plus: null, minus: null };
-            continue;
-          }
-          stack[tail++] = t;
-        }
-      }
+      const t = lowerReached(s, edges);
+      if (t >= 0) return { shootThrough: trace(s, t, edges), plus: null, minus: null };
     }
-    return { shootThrough: null, plus: extreme(edges, true), minus: extreme(edges, false) };
+    return { shootThrough: null, plus: null, minus: null }; // not reached: the pass above found one
   };
 
-  // Whether any DC node reaches a lower one, in one pass over the edges instead of one search per
-  // DC node: sources are taken from the highest potential down and a node is entered once only,
-  // by the highest source that reaches it; a lower source reaching it through that node would find
-  // nothing the higher one did not (only lower DC nodes count, and those are lower for both).
-  function anyShootThrough(edges: readonly [number, number, number][]): boolean {
-    stamp++;
-    for (const s of byPotential) {
-      // DC nodes are never entered, only compared with the source
-      seen[s] = stamp;
-      let head = 0;
-      let tail = 0;
-      stack[tail++] = s;
-      while (head < tail) {
-        const x = stack[head++] as number;
-        for (let a = outStart[x] as number; a < (outStart[x + 1] as number); a++) {
-          const t = (edges[outList[a] as number] as [number, number, number])[1];
-          if (isDc(t)) {
-            if ((pot[t] as number) < (pot[s] as number)) return true;
-            continue;
+  // Breadth-first from DC node s through non-DC nodes not yet entered under the current stamp; the
+  // first DC node below s that is reached (its edge kept in `via`), or -1. DC nodes are compared
+  // with s, never entered.
+  function lowerReached(s: number, edges: readonly [number, number, number][]): number {
+    seen[s] = stamp;
+    let head = 0;
+    let tail = 0;
+    stack[tail++] = s;
+    while (head < tail) {
+      const x = stack[head++] as number;
+      for (let a = outStart[x] as number; a < (outStart[x + 1] as number); a++) {
+        const k = outList[a] as number;
+        const t = (edges[k] as [number, number, number])[1];
+        if (isDc(t)) {
+          if ((pot[t] as number) < (pot[s] as number)) {
+            via[t] = k;
+            return t;
           }
-          if (seen[t] === stamp) continue;
-          seen[t] = stamp;
-          stack[tail++] = t;
+          continue;
         }
+        if (seen[t] === stamp) continue;
+        seen[t] = stamp;
+        via[t] = k;
+        stack[tail++] = t;
       }
     }
-    return false;
+    return -1;
   }
 
   // '+': highest DC node with a forward path to out (search backwards); '-': lowest DC node out reaches
