@@ -1,0 +1,75 @@
+// Whole-process figures for the speed goals users feel (`pnpm bench` runs this after run.mjs):
+// start-up, `plan` on a 21-level diode-clamped leg against a three-level one, `report` on a
+// 9-level leg against a three-level one. Commands run in turn (A B A B …) and the ratio is taken
+// pair by pair, so that a drift in the shared machine's speed moves both sides; medians printed.
+import { spawnSync } from 'node:child_process';
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { performance } from 'node:perf_hooks';
+import { fileURLToPath } from 'node:url';
+
+const BIN = fileURLToPath(new URL('../packages/cli/bin/hexsalvage.mjs', import.meta.url));
+const RUNS = 7;
+
+/**
+ * An N-level diode-clamped leg (a bench input, not a built-in): N - 1 switches above the output and
+ * N - 1 below, each with its antiparallel diode, clamp diodes from each inner DC node to the chain.
+ */
+function diodeClampedLeg(n) {
+  const m = n - 1;
+  const dc = Object.fromEntries(Array.from({ length: n }, (_, i) => [`V${i}`, Number((1 - (2 * i) / (n - 1)).toFixed(12))]));
+  const names = Object.keys(dc);
+  const upper = [names[0], ...Array.from({ length: m - 1 }, (_, i) => `A${i + 1}`), 'out'];
+  const lower = ['out', ...Array.from({ length: m - 1 }, (_, i) => `B${i + 1}`), names[n - 1]];
+  const devices = [];
+  for (let i = 0; i < m; i++) devices.push({ id: `s${i + 1}`, kind: 'igbt', from: upper[i], to: upper[i + 1], antiparallelDiode: true });
+  for (let i = 0; i < m; i++) devices.push({ id: `s${m + i + 1}`, kind: 'igbt', from: lower[i], to: lower[i + 1], antiparallelDiode: true });
+  for (let i = 1; i < m; i++) {
+    devices.push({ id: `dA${i}`, kind: 'diode', from: names[i], to: `A${i}` });
+    devices.push({ id: `dB${i}`, kind: 'diode', from: `B${i}`, to: names[i] });
+  }
+  // level L (0 = lowest): the m consecutive switches starting after the top n - 1 - L
+  const patterns = Object.fromEntries(Array.from({ length: n }, (_, l) => [`L${l}`, Array.from({ length: m }, (_, j) => `s${n - l + j}`)]));
+  return { name: `${n}-level diode-clamped (bench)`, dcNodes: dc, output: 'out', devices, patterns };
+}
+
+function wall(args) {
+  const t0 = performance.now();
+  const r = spawnSync(process.execPath, args, { stdio: ['ignore', 'ignore', 'pipe'] });
+  const ms = performance.now() - t0;
+  if (r.status !== 0 && r.status !== 1) throw new Error(`${args.join(' ')} exited ${r.status}: ${r.stderr}`);
+  return ms;
+}
+
+function paired(label, a, b, goal) {
+  wall(a);
+  wall(b);
+  const ta = [];
+  const tb = [];
+  const ratio = [];
+  for (let i = 0; i < RUNS; i++) {
+    const x = wall(a);
+    const y = wall(b);
+    ta.push(x);
+    tb.push(y);
+    ratio.push(x / y);
+  }
+  const med = (xs) => [...xs].sort((p, q) => p - q)[Math.floor(xs.length / 2)];
+  console.log(`${label.padEnd(58)} ${med(ta).toFixed(0).padStart(6)} ms vs ${med(tb).toFixed(0).padStart(5)} ms, ratio ${med(ratio).toFixed(2)} (goal ≤ ${goal})`);
+}
+
+const dir = mkdtempSync(join(tmpdir(), 'hexsalvage-bench-'));
+try {
+  const leg21 = join(dir, 'leg21.json');
+  const leg9 = join(dir, 'leg9.json');
+  writeFileSync(leg21, JSON.stringify(diodeClampedLeg(21)));
+  writeFileSync(leg9, JSON.stringify(diodeClampedLeg(9)));
+  const out = (name) => join(dir, name);
+  console.log(`whole processes, median of ${RUNS} paired runs:`);
+  paired('--version against node -e 0', [BIN, '--version'], ['-e', '0'], 1.3);
+  paired('plan, 21-level diode-clamped leg against npc', [BIN, 'plan', '--topology', leg21], [BIN, 'plan', '--topology', 'npc'], 2);
+  paired('report, 9-level diode-clamped leg against npc', [BIN, 'report', '--topology', leg9, '--out', out('r9.html')], [BIN, 'report', '--topology', 'npc', '--out', out('r3.html')], 4);
+} finally {
+  rmSync(dir, { recursive: true, force: true });
+}
