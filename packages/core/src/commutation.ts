@@ -1,5 +1,5 @@
 import type { CurrentSign } from './conduction.js';
-import { usableLevel, type GateSetSolver } from './gateSetSolver.js';
+import { usableLevel, type GateSetOutcome, type GateSetSolver } from './gateSetSolver.js';
 import type { PhasePolarity } from './legTable.js';
 
 /** A level change a phase may make: [from, to], units of Vdc/2. */
@@ -37,14 +37,32 @@ const POLARITIES: readonly PhasePolarity[] = ['+', '-', '?'];
  */
 export function commutates(solve: GateSetSolver, from: readonly string[], to: readonly string[], polarity: PhasePolarity): boolean {
   const signs: readonly CurrentSign[] = polarity === '?' ? ['+', '-'] : [polarity];
-  const usable = (gates: readonly string[]) => {
-    const o = solve(gates);
-    return signs.every((s) => usableLevel(o, s) !== null);
-  };
+  const ok = (o: GateSetOutcome) => signs.every((s) => usableLevel(o, s) !== null);
   const off = from.filter((g) => !to.includes(g));
   const on = to.filter((g) => !from.includes(g));
   if (off.length === 0 && on.length === 0) return true;
   const common = from.filter((g) => to.includes(g));
+  // Intermediate sets are named by a numeric key (the sum of their gates' key values) so that a set
+  // already solved costs one look-up and no array; the member list is built only for a new set.
+  const value = solve.keyValue;
+  const sumOf = (gates: readonly string[]) => gates.reduce((k, g) => k + (value?.get(g) ?? 0), 0);
+  const commonKey = sumOf(common);
+  const onKey = on.map((g) => value?.get(g) ?? 0);
+  const offKey = off.map((g) => value?.get(g) ?? 0);
+  const usableUp = (mask: number) => {
+    const build = () => [...common, ...on.filter((_, k) => mask & (1 << k))];
+    if (value === null) return ok(solve(build()));
+    let key = commonKey;
+    for (let k = 0; k < on.length; k++) if (mask & (1 << k)) key += onKey[k] as number;
+    return ok(solve.byKey(key, build));
+  };
+  const usableDown = (mask: number) => {
+    const build = () => [...common, ...off.filter((_, k) => !(mask & (1 << k)))];
+    if (value === null) return ok(solve(build()));
+    let key = commonKey;
+    for (let k = 0; k < off.length; k++) if (!(mask & (1 << k))) key += offKey[k] as number;
+    return ok(solve.byKey(key, build));
+  };
   const upDead = new Set<number>();
   // `mask`: which of `on` are already on; every set reached is usable
   const up = (mask: number): boolean => {
@@ -53,7 +71,7 @@ export function commutates(solve: GateSetSolver, from: readonly string[], to: re
     for (let i = 0; i < on.length; i++) {
       if (mask & (1 << i)) continue;
       const next = mask | (1 << i);
-      if (usable([...common, ...on.filter((_, k) => next & (1 << k))]) && up(next)) return true;
+      if (usableUp(next) && up(next)) return true;
     }
     upDead.add(mask);
     return false;
@@ -66,7 +84,7 @@ export function commutates(solve: GateSetSolver, from: readonly string[], to: re
     for (let i = 0; i < off.length; i++) {
       if (mask & (1 << i)) continue;
       const next = mask | (1 << i);
-      if (usable([...common, ...off.filter((_, k) => !(next & (1 << k)))]) && down(next)) return true;
+      if (usableDown(next) && down(next)) return true;
     }
     downDead.add(mask);
     return false;

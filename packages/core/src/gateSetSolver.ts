@@ -17,7 +17,24 @@ export type GateSetOutcome =
   | { readonly status: 'forbidden'; readonly shootThrough: ShootThrough };
 
 /** A memoised solver of gate sets for one phase: faults and the rating rule fixed. */
-export type GateSetSolver = (gates: readonly string[]) => GateSetOutcome;
+export interface GateSetSolver {
+  /** The outcome of a gate set (any order, unknown names ignored). */
+  (gates: readonly string[]): GateSetOutcome;
+  /**
+   * Each gated device's value in a numeric gate-set key (the key of a set is the sum of its
+   * members' values), or `null` past 52 gated devices, where keys would not be exact.
+   */
+  readonly keyValue: ReadonlyMap<string, number> | null;
+  /**
+   * The outcome of the gate set with this numeric key; `gates` is called only when that set has not
+   * been solved yet, so that a search over many subsets builds no array for a set it revisits.
+   *
+   * @param key - sum of the members' {@link GateSetSolver.keyValue}
+   * @param gates - builds the member list
+   * @returns the outcome
+   */
+  byKey(key: number, gates: () => readonly string[]): GateSetOutcome;
+}
 
 const NO_PATH: SignOutcome = { level: null, dcNodes: [], path: [] };
 
@@ -43,38 +60,49 @@ const NO_PATH: SignOutcome = { level: null, dcNodes: [], path: [] };
 export function gateSetSolver(leg: LegNetlist, faults: PhaseFaults, ratings: boolean, paths = false): GateSetSolver {
   const elements = expandElements(leg);
   const check = ratingChecker(leg, elements, faults);
+  // Without a rating anywhere the static check cannot fail once the conduction rules found no
+  // shoot-through: the potentials "highest DC node (or the output) that reaches a node" satisfy
+  // every conducting element, every DC node and the output level (a failure would be a forward
+  // path from a DC node down to a lower one, which is a shoot-through). So it is skipped.
+  const rated = ratings && elements.some((e) => e.rating !== undefined);
   const fast = compiledLeg(leg, elements, faults);
   // gate sets keyed by a bit per switch (a string key past 52 switches, which no leg has)
-  const bit = new Map(gatedDeviceIds(leg).map((g, i) => [g, i]));
-  const wide = bit.size > 52;
+  const ids = gatedDeviceIds(leg);
+  const wide = ids.length > 52;
+  const keyValue = wide ? null : new Map(ids.map((g, i) => [g, 2 ** i]));
   const cache = new Map<number | string, GateSetOutcome>();
-  return (gates) => {
-    let key: number | string = 0;
-    if (wide) key = [...gates].sort().join('\u0000');
-    else for (const g of gates) key += 2 ** (bit.get(g) as number);
-    const known = cache.get(key);
-    if (known) return known;
+  const solveNew = (gates: readonly string[]): GateSetOutcome => {
     const on = new Set(gates);
     const lv = fast(gates);
-    const edges = paths && !lv.shootThrough ? conductionEdges(elements, on, faults) : [];
-    let out: GateSetOutcome;
-    if (lv.shootThrough) out = { status: 'forbidden', shootThrough: lv.shootThrough };
-    else {
-      const unsafe: Partial<Record<CurrentSign, string>> = {};
-      const sign = (s: CurrentSign): SignOutcome => {
-        const level = s === '+' ? lv.plus : lv.minus;
-        const o = paths ? outputForSign(leg, edges, s) : level === null ? NO_PATH : { level, dcNodes: [], path: [] };
-        if (o.level === null || !ratings) return o;
-        const c = check(on, o.level, paths);
-        if (c.ok) return o;
-        unsafe[s] = c.reason;
-        return NO_PATH;
-      };
-      out = { status: 'allowed', bySign: { '+': sign('+'), '-': sign('-') }, unsafe };
-    }
-    cache.set(key, out);
-    return out;
+    if (lv.shootThrough) return { status: 'forbidden', shootThrough: lv.shootThrough };
+    const edges = paths ? conductionEdges(elements, on, faults) : [];
+    const unsafe: Partial<Record<CurrentSign, string>> = {};
+    const sign = (s: CurrentSign): SignOutcome => {
+      const level = s === '+' ? lv.plus : lv.minus;
+      const o = paths ? outputForSign(leg, edges, s) : level === null ? NO_PATH : { level, dcNodes: [], path: [] };
+      if (o.level === null || !rated) return o;
+      const c = check(on, o.level, paths);
+      if (c.ok) return o;
+      unsafe[s] = c.reason;
+      return NO_PATH;
+    };
+    return { status: 'allowed', bySign: { '+': sign('+'), '-': sign('-') }, unsafe };
   };
+  const byKey = (key: number | string, gates: () => readonly string[]): GateSetOutcome => {
+    let o = cache.get(key);
+    if (o === undefined) {
+      o = solveNew(gates());
+      cache.set(key, o);
+    }
+    return o;
+  };
+  const solve = (gates: readonly string[]): GateSetOutcome => {
+    if (keyValue === null) return byKey([...gates].sort().join('\u0000'), () => gates);
+    let key = 0;
+    for (const g of gates) key += keyValue.get(g) ?? 0;
+    return byKey(key, () => gates);
+  };
+  return Object.assign(solve, { keyValue, byKey: (key: number, gates: () => readonly string[]) => byKey(key, gates) });
 }
 
 /**

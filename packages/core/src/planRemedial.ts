@@ -179,7 +179,7 @@ export function planFromAtlas(atlas: DiagramAtlas, loadAngleDeg: number, polarit
     sectors: lim.sectors.map((s, i) => {
       const d = atlas.faulted.get(s.polarity) as PolarityDiagram;
       const m = lim.sectorMinima[i] as { value: number; thetaDeg: number };
-      return { ...s, vectors: d.vectors.map(vectorDocument), triangles: d.triangles, minExtent: m.value, minExtentAngleDeg: m.thetaDeg };
+      return { ...s, vectors: polarityDocument(d).vectors, triangles: d.triangles, minExtent: m.value, minExtentAngleDeg: m.thetaDeg };
     }),
     polarities,
     cautions: CAUTIONS,
@@ -197,21 +197,30 @@ export function planFromAtlas(atlas: DiagramAtlas, loadAngleDeg: number, polarit
  * ```
  */
 export function polarityDocument(d: PolarityDiagram): PlanPolarity {
-  return {
-    vectors: d.vectors.map(vectorDocument),
-    hull: d.hull.map((i) => [(d.vectors[i] as ClassifiedVector).alpha, (d.vectors[i] as ClassifiedVector).beta] as const),
+  // Diagrams are immutable and shared by every polarity (and plan) with the same level sets, so
+  // their documents are too: built once, frozen (a many-level leg has 25 polarities of thousands
+  // of vectors each, all alike when healthy).
+  const known = DOCUMENTS.get(d);
+  if (known) return known;
+  const doc: PlanPolarity = Object.freeze({
+    vectors: Object.freeze(d.vectors.map(vectorDocument)),
+    hull: Object.freeze(d.hull.map((i) => Object.freeze([(d.vectors[i] as ClassifiedVector).alpha, (d.vectors[i] as ClassifiedVector).beta] as const))),
     triangles: d.triangles,
     radius: d.radius,
     reach: d.reach,
-    outline: d.outline ? d.outline.map((e) => e.segment) : null,
+    outline: d.outline ? Object.freeze(d.outline.map((e) => e.segment)) : null,
     dwell: d.dwell,
-    lost: d.lost.map(vectorDocument),
+    lost: Object.freeze(d.lost.map(vectorDocument)),
     lostTriplets: d.lostTriplets,
-  };
+  });
+  DOCUMENTS.set(d, doc);
+  return doc;
 }
 
+const DOCUMENTS = new WeakMap<PolarityDiagram, PlanPolarity>();
+
 function vectorDocument(v: ClassifiedVector): PlanVector {
-  return { alpha: v.alpha, beta: v.beta, levels: v.levels, class: v.class };
+  return Object.freeze({ alpha: v.alpha, beta: v.beta, levels: v.levels, class: v.class });
 }
 
 /**

@@ -127,7 +127,15 @@ export function ratingChecker(leg: LegNetlist, elements: readonly LegElement[], 
     to[k] = a.to;
     weight[k] = a.weight;
   });
-  const dist = new Float64Array(n);
+  const scratch: Scratch = {
+    d: new Float64Array(n),
+    len: new Int32Array(n),
+    start: new Int32Array(n + 1),
+    cursor: new Int32Array(n),
+    list: new Int32Array(cap),
+    queue: new Int32Array(n),
+    queued: new Uint8Array(n),
+  };
   return (gates, outputLevel, explainIt = true) => {
     let m = fixed.length;
     for (const g of gates) {
@@ -143,7 +151,7 @@ export function ratingChecker(leg: LegNetlist, elements: readonly LegElement[], 
     from[m] = out;
     to[m] = 0;
     weight[m++] = -outputLevel;
-    if (feasibleFlat(n, m, from, to, weight, eps, dist)) return { ok: true };
+    if (feasibleFlat(n, m, from, to, weight, eps, scratch)) return { ok: true };
     if (!explainIt) return NOT_WITHIN;
     const arcs = [...fixed, { from: 0, to: out, weight: outputLevel, rated: -1 }, { from: out, to: 0, weight: -outputLevel, rated: -1 }];
     for (const g of gates) for (const a of gatedArcs.get(g) ?? []) arcs.push(a);
@@ -151,22 +159,69 @@ export function ratingChecker(leg: LegNetlist, elements: readonly LegElement[], 
   };
 }
 
-// Bellman–Ford as `feasible`, on flat arrays of m arcs.
-function feasibleFlat(n: number, m: number, from: Int32Array, to: Int32Array, weight: Float64Array, eps: number, d: Float64Array): boolean {
+// Queue-based Bellman–Ford (SPFA) on flat arrays of m arcs: the same question as `feasible` (a
+// virtual source at distance 0 to every node; a negative cycle ⇔ infeasible), but only the arcs
+// out of a node that just moved are looked at again. A node whose distance is witnessed by a path
+// of n arcs closes a cycle, which is negative since every step decreased a distance: infeasible.
+// On long chains of conducting devices (many-level legs) this settles in a pass or two where the
+// round-robin form needed as many rounds as the chain has links.
+function feasibleFlat(n: number, m: number, from: Int32Array, to: Int32Array, weight: Float64Array, eps: number, s: Scratch): boolean {
+  const { d, len, start, list, queue, queued } = s;
+  start.fill(0);
+  for (let k = 0; k < m; k++) {
+    const f = (from[k] as number) + 1;
+    start[f] = (start[f] as number) + 1;
+  }
+  for (let k = 0; k < n; k++) start[k + 1] = (start[k + 1] as number) + (start[k] as number);
+  const cur = s.cursor;
+  cur.set(start.subarray(0, n));
+  for (let k = 0; k < m; k++) {
+    const f = from[k] as number;
+    list[cur[f] as number] = k;
+    cur[f] = (cur[f] as number) + 1;
+  }
   d.fill(0);
-  for (let round = 0; round < n; round++) {
-    let changed = false;
-    for (let k = 0; k < m; k++) {
-      const v = (d[from[k] as number] as number) + (weight[k] as number);
+  len.fill(0);
+  let head = 0;
+  let size = n;
+  for (let k = 0; k < n; k++) {
+    queue[k] = k;
+    queued[k] = 1;
+  }
+  while (size > 0) {
+    const u = queue[head] as number;
+    head = head + 1 === n ? 0 : head + 1;
+    size--;
+    queued[u] = 0;
+    const du = d[u] as number;
+    for (let a = start[u] as number; a < (start[u + 1] as number); a++) {
+      const k = list[a] as number;
       const t = to[k] as number;
+      const v = du + (weight[k] as number);
       if (v < (d[t] as number) - eps) {
         d[t] = v;
-        changed = true;
+        const l = (len[u] as number) + 1;
+        if (l >= n) return false;
+        len[t] = l;
+        if (queued[t] === 0) {
+          queued[t] = 1;
+          queue[(head + size) % n] = t;
+          size++;
+        }
       }
     }
-    if (!changed) return true;
   }
-  return false;
+  return true;
+}
+
+interface Scratch {
+  readonly d: Float64Array;
+  readonly len: Int32Array;
+  readonly start: Int32Array;
+  readonly cursor: Int32Array;
+  readonly list: Int32Array;
+  readonly queue: Int32Array;
+  readonly queued: Uint8Array;
 }
 
 // Why there is no solution: the device to blame and the voltage it would block (see ratingCheck).
