@@ -3,15 +3,20 @@ import { describe, expect, it } from 'vitest';
 import { BUILTIN_TOPOLOGIES, builtinLeg, expandElements, HexsalvageInputError, parseNetlist, type FaultMode, type LegNetlist } from '@hexsalvage/core';
 import { compiledLeg } from '../../packages/core/src/compiledLeg.js';
 import { conductionEdges, findShootThrough, outputForSign } from '../../packages/core/src/conduction.js';
+import { ratingChecker } from '../../packages/core/src/ratingCheck.js';
 import { fc, fcParams } from '../support/fc.js';
 
 // The compiled solver (used for every intermediate gate set of the commutation search) against the
 // plain rules it compiles: conductionEdges, findShootThrough and outputForSign. Same shoot-through
 // (same path), same level per sign, on every gate set tried.
-const seen = { sets: 0, shootThrough: 0 };
+//
+// Also the reason the gate-set solver skips the static voltage check on a leg where no device has a
+// rating: there, every state without a shoot-through passes it (checked here on every such state).
+const seen = { sets: 0, shootThrough: 0, unratedChecks: 0 };
 function agrees(leg: LegNetlist, faults: ReadonlyMap<string, FaultMode>, gateSets: readonly (readonly string[])[]): void {
   const elements = expandElements(leg);
   const fast = compiledLeg(leg, elements, faults);
+  const check = elements.some((e) => e.rating !== undefined) ? null : ratingChecker(leg, elements, faults);
   for (const gates of gateSets) {
     const edges = conductionEdges(elements, new Set(gates), faults);
     const st = findShootThrough(leg, edges);
@@ -22,6 +27,11 @@ function agrees(leg: LegNetlist, faults: ReadonlyMap<string, FaultMode>, gateSet
     if (st === null) {
       expect(got.plus, `${leg.name} ${gates.join('+')} +`).toBe(outputForSign(leg, edges, '+').level);
       expect(got.minus, `${leg.name} ${gates.join('+')} -`).toBe(outputForSign(leg, edges, '-').level);
+      for (const level of [got.plus, got.minus]) {
+        if (check === null || level === null) continue;
+        seen.unratedChecks++;
+        expect(check(new Set(gates), level).ok, `${leg.name} ${gates.join('+')} at ${level}: unrated leg fails the voltage check`).toBe(true);
+      }
     }
   }
 }
@@ -81,5 +91,6 @@ describe('compiledLeg', () => {
     // the generator must reach the solver and produce both outcomes, or the property proves nothing
     expect(seen.sets - before.sets).toBeGreaterThan(300);
     expect(seen.shootThrough - before.shootThrough).toBeGreaterThan(30);
+    expect(seen.unratedChecks - before.unratedChecks).toBeGreaterThan(300);
   });
 });
