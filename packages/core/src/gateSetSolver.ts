@@ -36,7 +36,9 @@ export interface GateSetSolver {
   byKey(key: number, gates: () => readonly string[]): GateSetOutcome;
 }
 
-const NO_PATH: SignOutcome = { level: null, dcNodes: [], path: [] };
+const NONE: readonly string[] = Object.freeze([]);
+const NO_PATH: SignOutcome = Object.freeze({ level: null, dcNodes: NONE, path: NONE });
+const NO_REASONS: Readonly<Partial<Record<CurrentSign, string>>> = Object.freeze({});
 
 /**
  * Makes a solver that tells, for any gate set of a phase leg, whether it shoots through and, per
@@ -71,15 +73,27 @@ export function gateSetSolver(leg: LegNetlist, faults: PhaseFaults, ratings: boo
   const wide = ids.length > 52;
   const keyValue = wide ? null : new Map(ids.map((g, i) => [g, 2 ** i]));
   const cache = new Map<number | string, GateSetOutcome>();
+  // without paths, a sign's outcome is its level alone: one shared object per level
+  const levelOnly = new Map<number, SignOutcome>();
+  const bare = (level: number | null): SignOutcome => {
+    if (level === null) return NO_PATH;
+    let o = levelOnly.get(level);
+    if (o === undefined) {
+      o = Object.freeze({ level, dcNodes: NONE, path: NONE });
+      levelOnly.set(level, o);
+    }
+    return o;
+  };
   const solveNew = (gates: readonly string[]): GateSetOutcome => {
-    const on = new Set(gates);
     const lv = fast(gates);
     if (lv.shootThrough) return { status: 'forbidden', shootThrough: lv.shootThrough };
+    if (!paths && !rated) return { status: 'allowed', bySign: { '+': bare(lv.plus), '-': bare(lv.minus) }, unsafe: NO_REASONS };
+    const on = new Set(gates);
     const edges = paths ? conductionEdges(elements, on, faults) : [];
     const unsafe: Partial<Record<CurrentSign, string>> = {};
     const sign = (s: CurrentSign): SignOutcome => {
       const level = s === '+' ? lv.plus : lv.minus;
-      const o = paths ? outputForSign(leg, edges, s) : level === null ? NO_PATH : { level, dcNodes: [], path: [] };
+      const o = paths ? outputForSign(leg, edges, s) : bare(level);
       if (o.level === null || !rated) return o;
       const c = check(on, o.level, paths);
       if (c.ok) return o;

@@ -200,7 +200,8 @@ export function polarityDocument(d: PolarityDiagram): PlanPolarity {
   // Diagrams are immutable and shared by every polarity (and plan) with the same level sets, so
   // their documents are too: built once, frozen (a many-level leg has 25 polarities of thousands
   // of vectors each, all alike when healthy).
-  const known = DOCUMENTS.get(d);
+  // keyed by the vectors array: the copies a diagram cache hands out per polarity share it
+  const known = DOCUMENTS.get(d.vectors);
   if (known) return known;
   const doc: PlanPolarity = Object.freeze({
     vectors: Object.freeze(d.vectors.map(vectorDocument)),
@@ -213,11 +214,11 @@ export function polarityDocument(d: PolarityDiagram): PlanPolarity {
     lost: Object.freeze(d.lost.map(vectorDocument)),
     lostTriplets: d.lostTriplets,
   });
-  DOCUMENTS.set(d, doc);
+  DOCUMENTS.set(d.vectors, doc);
   return doc;
 }
 
-const DOCUMENTS = new WeakMap<PolarityDiagram, PlanPolarity>();
+const DOCUMENTS = new WeakMap<readonly ClassifiedVector[], PlanPolarity>();
 
 function vectorDocument(v: ClassifiedVector): PlanVector {
   return Object.freeze({ alpha: v.alpha, beta: v.beta, levels: v.levels, class: v.class });
