@@ -7,6 +7,7 @@ process.stderr.on('error', () => {});
 const io = {
   stdout: stdoutSink(process.stdout),
   stderr: (text) => process.stderr.write(text),
+  stderrIsTTY: process.stderr.isTTY === true,
 };
 
 // exitCode, not process.exit(): the process ends only after stdout has drained, even on a pipe.

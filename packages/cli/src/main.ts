@@ -17,6 +17,7 @@ const LOADERS: Readonly<Record<string, () => Promise<Command>>> = {
   plot: async () => (await import('./commands/plotCommand.js')).plotCommand,
   report: async () => (await import('./commands/reportCommand.js')).reportCommand,
   check: async () => (await import('./commands/checkCommand.js')).checkCommand,
+  atlas: async () => (await import('./commands/atlasCommand.js')).atlasCommand,
 };
 
 /** Every command name, in the order `--help` lists them. */

@@ -7,6 +7,8 @@ import { HexsalvageInputError } from '@hexsalvage/core/errors';
 export interface CommandIO {
   readonly stdout: (text: string) => Promise<void>;
   readonly stderr: (text: string) => void;
+  /** Whether stderr is a terminal (progress lines are drawn only there). Default false. */
+  readonly stderrIsTTY?: boolean;
 }
 
 /**

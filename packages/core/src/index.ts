@@ -49,3 +49,5 @@ export { CSV_COLUMNS, exportCsv } from './exportCsv.js';
 export { EXPORT_SCHEMA_VERSION, exportDocument, type ExportDocument } from './exportJson.js';
 export { exportC, type ExportCOptions } from './exportC.js';
 export { evaluateClaim, type ClaimVerdict, type DeratingClaim } from './evaluateClaim.js';
+export { ATLAS_SCHEMA_VERSION, assembleAtlas, atlasClass, atlasGrid, atlasWork, canonicalRotation, faultAtlas, type AtlasClassResult, type AtlasEntry, type AtlasProgress, type AtlasSettings, type AtlasWork, type FaultAtlas, type FaultAtlasOptions } from './faultAtlas.js';
+export { faultReason, type FaultReason } from './faultReason.js';

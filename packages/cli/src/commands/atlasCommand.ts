@@ -1,0 +1,147 @@
+import { availableParallelism } from 'node:os';
+import { assembleAtlas, atlasWork, describeRules, FAULT_MODES, type FaultAtlas, type FaultMode } from '@hexsalvage/core';
+import { usage } from '../args.js';
+import { computeClasses } from '../atlasPool.js';
+import { HELP_OPTION, JSON_OPTION, RULE_OPTIONS, type Command } from '../command.js';
+import { cautionBlock, fmt, textTable } from '../format.js';
+import { ruleInputs } from '../legInputs.js';
+import { loadTopology } from '../loadTopology.js';
+import { writeFileAtomic } from '../output.js';
+import { progressLine } from '../progressLine.js';
+
+/** `hexsalvage atlas`: every fault of a leg (or every pair) at once. */
+export const atlasCommand: Command = {
+  name: 'atlas',
+  summary: 'every single fault (or pair of faults) of a leg at once: limit over a load-angle range, verdict, reason',
+  usage: 'atlas --topology T [--modes open,short] [--load-angle-range LO,HI] [--step DEG] [--polarity-margin DEG] [--pairs] [--jobs N] [--vdc V] [--json|--csv] [--out FILE]',
+  options: [
+    { name: 'topology', type: 'string', value: 'T', help: 'built-in leg (two-level, npc, anpc, anpc-hybrid, tnpc) or a netlist .json file' },
+    ...RULE_OPTIONS,
+    { name: 'modes', type: 'string', value: 'M,M', help: 'fault modes to try for every element (default open,short)' },
+    { name: 'load-angle-range', type: 'string', value: 'LO,HI', help: 'load-angle range in degrees, -180 <= LO <= HI <= 180 (default -90,90)' },
+    { name: 'step', type: 'number', min: 0, openMin: true, max: 360, value: 'DEG', help: 'step of the mMax curve over the range (default 5)' },
+    { name: 'polarity-margin', type: 'number', min: 0, max: 60, value: 'DEG', help: 'polarity margin delta in degrees, 0 <= delta < 60 (default 0)' },
+    { name: 'pairs', type: 'flag', help: 'every unordered pair of faults in any phases instead of every single fault of phase a' },
+    { name: 'jobs', type: 'number', min: 1, max: 256, integer: true, value: 'N', help: 'worker threads (default: the number of CPUs, one for fewer than 400 fault classes); the result does not depend on it' },
+    { name: 'vdc', type: 'number', min: 0, openMin: true, value: 'V', help: 'total DC-link voltage in volts: adds phase peak and line RMS volts' },
+    { name: 'csv', type: 'flag', help: 'print CSV, one row per fault set, with the mMax curve as columns' },
+    JSON_OPTION,
+    { name: 'out', type: 'string', value: 'FILE', help: 'also write the output to FILE (replaced atomically)' },
+    HELP_OPTION,
+  ],
+  run: async (args, io) => {
+    const t = args.values.get('topology');
+    if (typeof t !== 'string') throw usage('--topology', 'a built-in leg id or a netlist file');
+    if (args.flags.has('csv') && args.flags.has('json')) throw usage('--csv', 'either --csv or --json, not both');
+    const modesText = (args.values.get('modes') as string | undefined) ?? FAULT_MODES.join(',');
+    const modes = modesText.split(',').map((m) => m.trim());
+    if (modes.some((m) => !(FAULT_MODES as readonly string[]).includes(m)) || new Set(modes).size !== modes.length) throw usage('--modes', `a comma-separated list of distinct modes from ${FAULT_MODES.join(', ')}`, modesText);
+    const rangeText = (args.values.get('load-angle-range') as string | undefined) ?? '-90,90';
+    const range = rangeText.split(',').map((x) => (/^\s*[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?\s*$/.test(x) ? Number(x) : NaN));
+    if (range.length !== 2 || !range.every(Number.isFinite) || (range[0] as number) < -180 || (range[1] as number) > 180 || (range[0] as number) > (range[1] as number)) {
+      throw usage('--load-angle-range', 'LO,HI in degrees with -180 <= LO <= HI <= 180, e.g. -90,90', rangeText);
+    }
+    const jobsGiven = args.values.get('jobs') as number | undefined;
+    const out = args.values.get('out') as string | undefined;
+    if (out !== undefined && out === '') throw usage('--out', 'an output file path');
+    const json = args.flags.has('json');
+    const work = atlasWork({
+      topology: loadTopology(t),
+      modes: modes as FaultMode[],
+      loadAngleRangeDeg: range as [number, number],
+      stepDeg: args.values.get('step') as number | undefined,
+      polarityMarginDeg: args.values.get('polarity-margin') as number | undefined,
+      pairs: args.flags.has('pairs'),
+      vdc: args.values.get('vdc') as number | undefined,
+      ...ruleInputs(args),
+    });
+    // by default one thread per CPU, but a small atlas on this thread: starting a worker and loading
+    // the solver in it costs more than a few hundred classes take (measured on a 2-core machine)
+    const jobs = jobsGiven ?? (work.classes.length >= SMALL_ATLAS ? availableParallelism() : 1);
+    const progress = progressLine(io, 'fault classes', !json);
+    let results;
+    try {
+      results = await computeClasses(work, jobs, (d, n) => progress.update(d, n));
+    } finally {
+      progress.end();
+    }
+    const doc = assembleAtlas(work, results);
+    const text = json ? `${JSON.stringify(doc)}\n` : args.flags.has('csv') ? atlasCsv(doc) : `${atlasText(doc)}\n`;
+    if (out !== undefined) writeFileAtomic(out, text);
+    if (out === undefined || json) await io.stdout(text);
+    else await io.stdout(`wrote ${out} (${doc.entries.length} fault sets, ${Buffer.byteLength(text)} bytes)\n`);
+    return 0;
+  },
+};
+
+/** Below this many classes the default is one thread. */
+const SMALL_ATLAS = 400;
+
+const VERDICT_WORDS: Readonly<Record<FaultAtlas['entries'][number]['verdict'], string>> = { full: 'full voltage', derated: 'derated', 'cannot-run': 'CANNOT RUN' };
+
+/**
+ * The atlas as terminal text: worst first, with the verdict in words and the reason.
+ *
+ * @param a - the atlas document
+ * @returns text
+ * @example
+ * ```ts
+ * atlasText(faultAtlas({ topology: 'npc' }));
+ * ```
+ */
+export function atlasText(a: FaultAtlas): string {
+  const volts = a.volts !== undefined;
+  const rows = a.entries.map((e) => [
+    e.faults.join(' + '),
+    VERDICT_WORDS[e.verdict],
+    fmt(e.mMaxMin, 4),
+    fmt(e.deratingRatio, 3),
+    ...(volts ? [fmt(e.volts?.lineRmsMin ?? 0, 0)] : []),
+    fmt(e.worstLoadAngleDeg, 1),
+    fmt(e.mMaxHullMin, 4),
+    e.reason,
+  ]);
+  const count = (v: string) => a.entries.filter((e) => e.verdict === v).length;
+  const [lo, hi] = a.loadAngleRangeDeg;
+  return [
+    `Fault atlas of ${a.topology}: ${a.pairs ? 'every pair of faults in any phases' : 'every single fault of phase a (b and c are the same by rotation)'}, modes ${a.modes.join(', ')}`,
+    `Load angle ${fmt(lo, 1)}° to ${fmt(hi, 1)}°, polarity margin ${fmt(a.polarityMarginDeg, 1)}°. Rules: ${describeRules(a.rules)}.`,
+    `Healthy leg over the range: mMax ${fmt(a.healthy.mMaxMin, 4)}${a.volts ? ` (${fmt(a.volts.lineRmsMaxHealthy, 0)} V line RMS at Vdc ${fmt(a.volts.vdc, 0)} V)` : ''}.`,
+    '',
+    textTable(['faults', 'verdict', 'mMax min', 'ratio', ...(volts ? ['line V rms'] : []), 'worst at deg', 'hull min', 'why'], rows),
+    '',
+    `${a.entries.length} fault sets: ${count('full')} keep full voltage, ${count('derated')} need derating, ${count('cannot-run')} cannot run (the drive must stop). ${a.classesComputed} computed, the rest follow by phase rotation.`,
+    'mMax min: the safe limit (ratings and commutation respected), its minimum over the whole load-angle range, exact; hull min: the first version\'s convex-hull bound, for comparison only.',
+    ...(a.unrated.length ? [`Unrated devices (voltage not checked): ${a.unrated.join(', ')}.`] : []),
+    cautionBlock(a.cautions),
+  ].join('\n');
+}
+
+/**
+ * The atlas as CSV: one row per fault set, worst first, the curve as `m_max_at_<deg>` columns.
+ *
+ * @param a - the atlas document
+ * @returns CSV text with a header row
+ * @example
+ * ```ts
+ * atlasCsv(faultAtlas({ topology: 'npc' })).split('\n')[0];
+ * ```
+ */
+export function atlasCsv(a: FaultAtlas): string {
+  const grid = a.healthy.mMaxAt.map(([phi]) => phi);
+  const volts = a.volts !== undefined;
+  const head = ['faults', 'verdict', 'm_max_min', 'derating_ratio', 'worst_load_angle_deg', 'm_max_hull_min', ...(volts ? ['phase_peak_min_v', 'line_rms_min_v'] : []), 'reason', ...grid.map((g) => `m_max_at_${g}`)];
+  const quote = (s: string) => (/[",\n]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s);
+  const rows = a.entries.map((e) => [
+    e.faults.join(' + '),
+    e.verdict,
+    e.mMaxMin.toFixed(9),
+    e.deratingRatio.toFixed(9),
+    String(e.worstLoadAngleDeg),
+    e.mMaxHullMin.toFixed(9),
+    ...(volts ? [(e.volts?.phasePeakMin ?? 0).toFixed(3), (e.volts?.lineRmsMin ?? 0).toFixed(3)] : []),
+    quote(e.reason),
+    ...e.mMaxAt.map(([, m]) => m.toFixed(9)),
+  ].join(','));
+  return `${head.join(',')}\n${rows.join('\n')}\n`;
+}
