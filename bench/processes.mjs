@@ -59,6 +59,14 @@ function paired(label, a, b, goal) {
   console.log(`${label.padEnd(58)} ${med(ta).toFixed(0).padStart(6)} ms vs ${med(tb).toFixed(0).padStart(5)} ms, ratio ${med(ratio).toFixed(2)} (goal ≤ ${goal})`);
 }
 
+function alone(label, args, goalMs) {
+  wall(args);
+  const t = [];
+  for (let i = 0; i < RUNS; i++) t.push(wall(args));
+  const med = [...t].sort((p, q) => p - q)[Math.floor(t.length / 2)];
+  console.log(`${label.padEnd(58)} ${med.toFixed(0).padStart(6)} ms median (goal ≤ ${goalMs} ms)`);
+}
+
 const dir = mkdtempSync(join(tmpdir(), 'hexsalvage-bench-'));
 try {
   const leg21 = join(dir, 'leg21.json');
@@ -69,6 +77,12 @@ try {
   console.log(`whole processes, median of ${RUNS} paired runs:`);
   paired('--version against node -e 0', [BIN, '--version'], ['-e', '0'], 1.3);
   paired('plan, 21-level diode-clamped leg against npc', [BIN, 'plan', '--topology', leg21], [BIN, 'plan', '--topology', 'npc'], 2);
+  // the fault atlas: every single fault of every built-in leg in both modes over 181 load angles,
+  // in one process (start-up included), and the ANPC double-fault atlas of open faults on 2 threads
+  const CORE = new URL('../packages/core/dist/index.js', import.meta.url).href;
+  const allLegs = `const { BUILTIN_TOPOLOGIES, faultAtlas } = await import(${JSON.stringify(CORE)}); for (const t of BUILTIN_TOPOLOGIES) faultAtlas({ topology: t, stepDeg: 1 });`;
+  alone('atlas, every single fault of the 5 built-in legs, 181 angles', ['--input-type=module', '-e', allLegs], 1000);
+  alone('atlas --pairs, ANPC open faults, 37 angles, --jobs 2', [BIN, 'atlas', '--topology', 'anpc', '--modes', 'open', '--pairs', '--step', '5', '--jobs', '2', '--json'], 10000);
   paired('report, 9-level diode-clamped leg against npc', [BIN, 'report', '--topology', leg9, '--out', out('r9.html')], [BIN, 'report', '--topology', 'npc', '--out', out('r3.html')], 4);
 } finally {
   rmSync(dir, { recursive: true, force: true });

@@ -53,7 +53,7 @@ for (const [topology, fault, phi, delta] of [['two-level', 'a.upper', 20, 0], ['
 
 const faults = BUILTIN_TOPOLOGIES.flatMap((t) => expandElements(builtinLeg(t)).map((e) => [t, `a.${e.id}`]));
 let evaluations = 0;
-const atlasMs = time(`atlas: ${faults.length} single open faults × φ = -90…90° step 1°`, () => {
+const atlasMs = time(`diagrams + limits: ${faults.length} single open faults × φ = -90…90° step 1°`, () => {
   evaluations = 0;
   for (const [topology, f] of faults) {
     const atlas = diagramAtlas({ topology, faults: [f] });

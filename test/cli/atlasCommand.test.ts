@@ -78,6 +78,34 @@ describe('hexsalvage atlas', () => {
   });
 });
 
+describe('plot atlas and report --atlas', () => {
+  it('draws the heat map and the pair matrix, and refuses --fault', async () => {
+    const svg = join(dir, 'atlas.svg');
+    const r = await runInProcess(['plot', 'atlas', '--topology', 'anpc-hybrid', '--step', '10', '--out', svg]);
+    expect(r.code).toBe(0);
+    expect(readFileSync(svg, 'utf8')).toContain('Fault atlas: anpc-hybrid');
+    const pairs = join(dir, 'pairs.svg');
+    expect((await runInProcess(['plot', 'atlas', '--topology', 'two-level', '--pairs', '--out', pairs])).code).toBe(0);
+    expect(readFileSync(pairs, 'utf8')).toContain('Fault pairs: two-level');
+    const bad = await runInProcess(['plot', 'atlas', '--topology', 'npc', '--fault', 'a.outerUpper', '--out', svg]);
+    expect(bad.code).toBe(2);
+    expect(bad.stderr).toContain('--fault');
+  });
+
+  it('adds the atlas appendix to the report, and refuses atlas options without --atlas', async () => {
+    const html = join(dir, 'review.html');
+    const r = await runInProcess(['report', '--topology', 'npc', '--fault', 'a.innerUpper', '--atlas', '--modes', 'open', '--out', html]);
+    expect(r.code).toBe(0);
+    const text = readFileSync(html, 'utf8');
+    expect(text).toContain('Appendix: every single fault of this leg (fault atlas)');
+    expect(text).toContain('a.outerUpper:open');
+    expect(text).toContain('CANNOT RUN');
+    const bad = await runInProcess(['report', '--topology', 'npc', '--modes', 'open', '--out', html]);
+    expect(bad.code).toBe(2);
+    expect(bad.stderr).toContain('only together with --atlas');
+  });
+});
+
 describe('progressLine', () => {
   it('draws on a terminal only, in place, and erases itself at the end', () => {
     let tty = '';

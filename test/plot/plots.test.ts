@@ -2,9 +2,9 @@ import { existsSync, readFileSync, writeFileSync } from 'node:fs';
 import { XMLParser, XMLValidator } from 'fast-xml-parser';
 import { describe, expect, it } from 'vitest';
 import {
-  builtinLeg, deratingCurve, diagramAtlas, gatedDeviceIds, parseNetlist, planFromAtlas, planRemedial, switchingTableFromAtlas,
+  builtinLeg, deratingCurve, diagramAtlas, faultAtlas, gatedDeviceIds, parseNetlist, planFromAtlas, planRemedial, switchingTableFromAtlas,
 } from '@hexsalvage/core';
-import { deratingCurveSvg, legSchematicSvg, sectorOverviewSvg, switchingPeriodSvg, vectorDiagramSvg } from '@hexsalvage/plot';
+import { atlasHeatmapSvg, atlasPairMatrixSvg, deratingCurveSvg, legSchematicSvg, ratioColour, sectorOverviewSvg, switchingPeriodSvg, vectorDiagramSvg } from '@hexsalvage/plot';
 
 // Golden files: regenerate with UPDATE_GOLDEN=1 pnpm test (then review the diff like code).
 function golden(name: string, svg: string): void {
@@ -127,4 +127,38 @@ describe('plots are byte-stable', () => {
     expect(vectorDiagramSvg(p2, '--+')).toBe(vectorDiagramSvg(plan, '--+'));
     expect(sectorOverviewSvg(p2)).toBe(sectorOverviewSvg(plan));
   });
+});
+
+describe('atlasHeatmapSvg and atlasPairMatrixSvg', () => {
+  const single = faultAtlas({ topology: 'npc', loadAngleRangeDeg: [-60, 60], stepDeg: 15 });
+  it('draws one cell per fault and load angle, a × exactly where the leg cannot run, and a colour bar', () => {
+    const svg = atlasHeatmapSvg(single);
+    wellFormed(svg);
+    expect(byClass(svg, 'cell')).toHaveLength(single.entries.length * 9);
+    const cannot = single.entries.reduce((k, e) => k + e.mMaxAt.filter(([, m]) => m <= 1e-9).length, 0);
+    expect(cannot).toBeGreaterThan(0);
+    expect(byClass(svg, 'cannot-run')).toHaveLength(cannot);
+    expect(byClass(svg, 'colour-bar')).toHaveLength(1);
+    expect(svg).toContain('load angle φ (degrees');
+  });
+  it('colours on a scale that gets lighter as the ratio grows (readable in grey print)', () => {
+    // relative luminance, WCAG 2.1 (W3C, 2018), definition of relative luminance
+    const lum = (c: string) => {
+      const [r, g, b] = [1, 3, 5].map((k) => parseInt(c.slice(k, k + 2), 16) / 255).map((v) => (v <= 0.04045 ? v / 12.92 : ((v + 0.055) / 1.055) ** 2.4));
+      return 0.2126 * r! + 0.7152 * g! + 0.0722 * b!;
+    };
+    for (let k = 1; k <= 100; k++) expect(lum(ratioColour(k / 100))).toBeGreaterThan(lum(ratioColour((k - 1) / 100)));
+    expect(ratioColour(-1)).toBe(ratioColour(0));
+    expect(ratioColour(2)).toBe(ratioColour(1));
+  });
+  it('draws the pair matrix with every pair twice (symmetric), same-device cells grey', () => {
+    const pairs = faultAtlas({ topology: 'two-level', pairs: true, modes: ['open'], stepDeg: 30 });
+    const svg = atlasPairMatrixSvg(pairs);
+    wellFormed(svg);
+    const n = 3 * 4; // open faults of three phases, two switches and two diodes each
+    expect(pairs.entries).toHaveLength((n * (n - 1)) / 2);
+    expect(byClass(svg, 'cell')).toHaveLength(2 * pairs.entries.length);
+    expect(byClass(svg, 'not-a-pair')).toHaveLength(n);
+  });
+  it('matches its golden file', () => golden('atlas-npc-open', atlasHeatmapSvg(faultAtlas({ topology: 'npc', modes: ['open'], stepDeg: 30 }))));
 });

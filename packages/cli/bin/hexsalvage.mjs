@@ -1,17 +1,25 @@
 #!/usr/bin/env node
 // Launcher: the compiled CLI lives in ../dist (run `pnpm build` first).
-import { main } from '../dist/main.js';
-import { stdoutSink } from '../dist/output.js';
+import { readFileSync } from 'node:fs';
 
-process.stderr.on('error', () => {});
-const io = {
-  stdout: stdoutSink(process.stdout),
-  stderr: (text) => process.stderr.write(text),
-  stderrIsTTY: process.stderr.isTTY === true,
-};
-
-// exitCode, not process.exit(): the process ends only after stdout has drained, even on a pipe.
-main(process.argv.slice(2), io).then(
-  (code) => { process.exitCode = code; },
-  (err) => { process.stderr.write(`hexsalvage: internal error: ${String(err?.message ?? err).split('\n')[0]}\n`); process.exitCode = 70; },
-);
+const argv = process.argv.slice(2);
+if (argv.length === 1 && (argv[0] === '--version' || argv[0] === '-v')) {
+  // answered here, before the CLI's modules load: a version query should cost no more than
+  // starting Node (main() gives the same answer for callers in process)
+  const { version } = JSON.parse(readFileSync(new URL('../package.json', import.meta.url), 'utf8'));
+  process.stdout.write(`hexsalvage ${version}\n`);
+} else {
+  const { main } = await import('../dist/main.js');
+  const { stdoutSink } = await import('../dist/output.js');
+  process.stderr.on('error', () => {});
+  const io = {
+    stdout: stdoutSink(process.stdout),
+    stderr: (text) => process.stderr.write(text),
+    stderrIsTTY: process.stderr.isTTY === true,
+  };
+  // exitCode, not process.exit(): the process ends only after stdout has drained, even on a pipe.
+  main(argv, io).then(
+    (code) => { process.exitCode = code; },
+    (err) => { process.stderr.write(`hexsalvage: internal error: ${String(err?.message ?? err).split('\n')[0]}\n`); process.exitCode = 70; },
+  );
+}

@@ -5,3 +5,4 @@ export { deratingCurveSvg, type DeratingCurveSvgOptions, type DeratingSeries } f
 export { legLayout, type LegLayout } from './legLayout.js';
 export { legSchematicSvg, type LegSchematicOptions } from './legSchematicSvg.js';
 export { switchingPeriodSvg, type SwitchingPeriodOptions } from './switchingPeriodSvg.js';
+export { atlasHeatmapSvg, atlasPairMatrixSvg, ratioColour } from './faultAtlasSvg.js';

@@ -1,13 +1,9 @@
-import { availableParallelism } from 'node:os';
-import { assembleAtlas, atlasWork, describeRules, FAULT_MODES, type FaultAtlas, type FaultMode } from '@hexsalvage/core';
+import { describeRules, type FaultAtlas } from '@hexsalvage/core';
 import { usage } from '../args.js';
-import { computeClasses } from '../atlasPool.js';
+import { ATLAS_OPTIONS, atlasFromArgs } from '../atlasInputs.js';
 import { HELP_OPTION, JSON_OPTION, RULE_OPTIONS, type Command } from '../command.js';
 import { cautionBlock, fmt, textTable } from '../format.js';
-import { ruleInputs } from '../legInputs.js';
-import { loadTopology } from '../loadTopology.js';
 import { writeFileAtomic } from '../output.js';
-import { progressLine } from '../progressLine.js';
 
 /** `hexsalvage atlas`: every fault of a leg (or every pair) at once. */
 export const atlasCommand: Command = {
@@ -17,12 +13,9 @@ export const atlasCommand: Command = {
   options: [
     { name: 'topology', type: 'string', value: 'T', help: 'built-in leg (two-level, npc, anpc, anpc-hybrid, tnpc) or a netlist .json file' },
     ...RULE_OPTIONS,
-    { name: 'modes', type: 'string', value: 'M,M', help: 'fault modes to try for every element (default open,short)' },
-    { name: 'load-angle-range', type: 'string', value: 'LO,HI', help: 'load-angle range in degrees, -180 <= LO <= HI <= 180 (default -90,90)' },
-    { name: 'step', type: 'number', min: 0, openMin: true, max: 360, value: 'DEG', help: 'step of the mMax curve over the range (default 5)' },
+    ...ATLAS_OPTIONS.slice(0, 3),
     { name: 'polarity-margin', type: 'number', min: 0, max: 60, value: 'DEG', help: 'polarity margin delta in degrees, 0 <= delta < 60 (default 0)' },
-    { name: 'pairs', type: 'flag', help: 'every unordered pair of faults in any phases instead of every single fault of phase a' },
-    { name: 'jobs', type: 'number', min: 1, max: 256, integer: true, value: 'N', help: 'worker threads (default: the number of CPUs, one for fewer than 400 fault classes); the result does not depend on it' },
+    ...ATLAS_OPTIONS.slice(3),
     { name: 'vdc', type: 'number', min: 0, openMin: true, value: 'V', help: 'total DC-link voltage in volts: adds phase peak and line RMS volts' },
     { name: 'csv', type: 'flag', help: 'print CSV, one row per fault set, with the mMax curve as columns' },
     JSON_OPTION,
@@ -30,42 +23,11 @@ export const atlasCommand: Command = {
     HELP_OPTION,
   ],
   run: async (args, io) => {
-    const t = args.values.get('topology');
-    if (typeof t !== 'string') throw usage('--topology', 'a built-in leg id or a netlist file');
     if (args.flags.has('csv') && args.flags.has('json')) throw usage('--csv', 'either --csv or --json, not both');
-    const modesText = (args.values.get('modes') as string | undefined) ?? FAULT_MODES.join(',');
-    const modes = modesText.split(',').map((m) => m.trim());
-    if (modes.some((m) => !(FAULT_MODES as readonly string[]).includes(m)) || new Set(modes).size !== modes.length) throw usage('--modes', `a comma-separated list of distinct modes from ${FAULT_MODES.join(', ')}`, modesText);
-    const rangeText = (args.values.get('load-angle-range') as string | undefined) ?? '-90,90';
-    const range = rangeText.split(',').map((x) => (/^\s*[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?\s*$/.test(x) ? Number(x) : NaN));
-    if (range.length !== 2 || !range.every(Number.isFinite) || (range[0] as number) < -180 || (range[1] as number) > 180 || (range[0] as number) > (range[1] as number)) {
-      throw usage('--load-angle-range', 'LO,HI in degrees with -180 <= LO <= HI <= 180, e.g. -90,90', rangeText);
-    }
-    const jobsGiven = args.values.get('jobs') as number | undefined;
     const out = args.values.get('out') as string | undefined;
     if (out !== undefined && out === '') throw usage('--out', 'an output file path');
     const json = args.flags.has('json');
-    const work = atlasWork({
-      topology: loadTopology(t),
-      modes: modes as FaultMode[],
-      loadAngleRangeDeg: range as [number, number],
-      stepDeg: args.values.get('step') as number | undefined,
-      polarityMarginDeg: args.values.get('polarity-margin') as number | undefined,
-      pairs: args.flags.has('pairs'),
-      vdc: args.values.get('vdc') as number | undefined,
-      ...ruleInputs(args),
-    });
-    // by default one thread per CPU, but a small atlas on this thread: starting a worker and loading
-    // the solver in it costs more than a few hundred classes take (measured on a 2-core machine)
-    const jobs = jobsGiven ?? (work.classes.length >= SMALL_ATLAS ? availableParallelism() : 1);
-    const progress = progressLine(io, 'fault classes', !json);
-    let results;
-    try {
-      results = await computeClasses(work, jobs, (d, n) => progress.update(d, n));
-    } finally {
-      progress.end();
-    }
-    const doc = assembleAtlas(work, results);
+    const doc = await atlasFromArgs(args, io, json);
     const text = json ? `${JSON.stringify(doc)}\n` : args.flags.has('csv') ? atlasCsv(doc) : `${atlasText(doc)}\n`;
     if (out !== undefined) writeFileAtomic(out, text);
     if (out === undefined || json) await io.stdout(text);
@@ -73,9 +35,6 @@ export const atlasCommand: Command = {
     return 0;
   },
 };
-
-/** Below this many classes the default is one thread. */
-const SMALL_ATLAS = 400;
 
 const VERDICT_WORDS: Readonly<Record<FaultAtlas['entries'][number]['verdict'], string>> = { full: 'full voltage', derated: 'derated', 'cannot-run': 'CANNOT RUN' };
 

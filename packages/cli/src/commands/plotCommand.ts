@@ -1,18 +1,19 @@
 import { parsePolarity, diagramAtlas, deratingCurve, gatedDeviceIds, locateReference, planFromAtlas, switchingTableFromAtlas } from '@hexsalvage/core';
-import { deratingCurveSvg, legSchematicSvg, sectorOverviewSvg, switchingPeriodSvg, vectorDiagramSvg } from '@hexsalvage/plot';
+import { atlasHeatmapSvg, atlasPairMatrixSvg, deratingCurveSvg, legSchematicSvg, sectorOverviewSvg, switchingPeriodSvg, vectorDiagramSvg } from '@hexsalvage/plot';
 import { usage } from '../args.js';
+import { ATLAS_OPTIONS, atlasFromArgs } from '../atlasInputs.js';
 import { ANGLE_OPTIONS, HELP_OPTION, LEG_OPTIONS, type Command } from '../command.js';
 import { angleInputs, legInputs } from '../legInputs.js';
 import { writeSvgOrPng } from '../renderFile.js';
 import { schematicFocus } from '../schematicFocus.js';
 
-const KINDS = ['diagram', 'sectors', 'derating', 'leg', 'sequence'] as const;
+const KINDS = ['diagram', 'sectors', 'derating', 'leg', 'sequence', 'atlas'] as const;
 
 /** `hexsalvage plot`: review pictures as SVG or PNG. */
 export const plotCommand: Command = {
   name: 'plot',
-  summary: 'draw a review picture: diagram, sectors, derating, leg or sequence (SVG or PNG)',
-  usage: 'plot diagram|sectors|derating|leg|sequence --topology T [--fault F]... [--load-angle DEG] [--polarity XYZ] --out FILE.svg|.png',
+  summary: 'draw a review picture: diagram, sectors, derating, leg, sequence or atlas (SVG or PNG)',
+  usage: 'plot diagram|sectors|derating|leg|sequence|atlas --topology T [--fault F]... [--load-angle DEG] [--polarity XYZ] [atlas options] --out FILE.svg|.png',
   positionals: 1,
   options: [
     ...LEG_OPTIONS,
@@ -24,6 +25,7 @@ export const plotCommand: Command = {
     { name: 'pattern', type: 'string', value: 'NAME', help: 'leg: gate pattern whose conduction path is drawn (default: the first one a fault changes)' },
     { name: 'sign', type: 'string', value: '+|-', help: 'leg: current sign of the drawn path (default +)' },
     { name: 'triangle', type: 'number', min: 0, max: 100000, integer: true, value: 'N', help: 'sequence: triangle index (default: the one at 0.7 mMax where the limit binds)' },
+    ...ATLAS_OPTIONS,
     { name: 'out', type: 'string', value: 'FILE', help: 'output file, .svg or .png' },
     HELP_OPTION,
   ],
@@ -32,6 +34,13 @@ export const plotCommand: Command = {
     if (!KINDS.includes(kind as (typeof KINDS)[number])) throw usage('KIND', `one of ${KINDS.join(', ')}`, kind);
     const out = args.values.get('out');
     if (typeof out !== 'string' || !/\.(svg|png)$/.test(out)) throw usage('--out', 'a file name ending in .svg or .png', out);
+    if (kind === 'atlas') {
+      // a heat map of every single fault, or the fault × fault matrix with --pairs
+      const atlas = await atlasFromArgs(args, io, false);
+      const bytes = await writeSvgOrPng(out, atlas.pairs ? atlasPairMatrixSvg(atlas) : atlasHeatmapSvg(atlas));
+      await io.stdout(`wrote ${out} (atlas, ${bytes} bytes)\n`);
+      return 0;
+    }
     const { topology, faults, rules } = legInputs(args);
     const { loadAngleDeg, polarityMarginDeg } = angleInputs(args);
     const atlas = diagramAtlas({ topology, faults, ...rules });

@@ -1,6 +1,7 @@
 import { readFileSync } from 'node:fs';
 import { diagramAtlas, planFromAtlas, switchingTableFromAtlas } from '@hexsalvage/core';
 import { usage } from '../args.js';
+import { ATLAS_OPTIONS, atlasFromArgs } from '../atlasInputs.js';
 import { ANGLE_OPTIONS, HELP_OPTION, LEG_OPTIONS, type Command } from '../command.js';
 import { angleInputs, legInputs } from '../legInputs.js';
 import { writeFileAtomic } from '../output.js';
@@ -13,11 +14,13 @@ const VERSION = (JSON.parse(readFileSync(new URL('../../package.json', import.me
 export const reportCommand: Command = {
   name: 'report',
   summary: 'write a self-contained HTML design-review report (limit, plots, table, flags, claims)',
-  usage: 'report --topology T [--fault F]... [--load-angle DEG] [--polarity-margin DEG] [--claims FILE] --out FILE.html',
+  usage: 'report --topology T [--fault F]... [--load-angle DEG] [--polarity-margin DEG] [--claims FILE] [--atlas [atlas options]] --out FILE.html',
   options: [
     ...LEG_OPTIONS,
     ...ANGLE_OPTIONS,
     { name: 'claims', type: 'string', value: 'FILE', help: 'also show the verdicts of a claims file' },
+    { name: 'atlas', type: 'flag', help: 'add an appendix with every fault of the leg (the fault atlas; shaped by the atlas options)' },
+    ...ATLAS_OPTIONS,
     { name: 'out', type: 'string', value: 'FILE', help: 'output .html file (replaced atomically)' },
     HELP_OPTION,
   ],
@@ -29,12 +32,16 @@ export const reportCommand: Command = {
     const claimsFile = args.values.get('claims') as string | undefined;
     const verdicts = claimsFile ? judgeClaims(claimsFile, rules.ignoreRatings) : undefined;
     const atlas = diagramAtlas({ topology, faults, ...rules });
+    const atlasFlags = ['modes', 'load-angle-range', 'step', 'jobs'].filter((k) => args.values.has(k)).concat(args.flags.has('pairs') ? ['pairs'] : []);
+    if (!args.flags.has('atlas') && atlasFlags.length > 0) throw usage(`--${atlasFlags[0]}`, 'only together with --atlas');
+    const faultAtlas = args.flags.has('atlas') ? await atlasFromArgs(args, io, false, true) : undefined;
     const html = buildReport({
       atlas,
       plan: planFromAtlas(atlas, loadAngleDeg, polarityMarginDeg),
       table: switchingTableFromAtlas(atlas),
       topologyText,
       ...(verdicts ? { verdicts } : {}),
+      ...(faultAtlas ? { faultAtlas } : {}),
       generatedBy: `hexsalvage ${VERSION}`,
     });
     writeFileAtomic(out, html);

@@ -1,8 +1,8 @@
 import {
-  CAUTIONS, deratingCurve, describeRules, gatedDeviceIds, locateReference, PHASES, type ClaimVerdict, type DiagramAtlas, type PatternResult,
+  CAUTIONS, deratingCurve, describeRules, gatedDeviceIds, locateReference, PHASES, type ClaimVerdict, type DiagramAtlas, type FaultAtlas, type PatternResult,
   type PhasePolarity, type RemedialPlan, type SwitchingTable,
 } from '@hexsalvage/core';
-import { deratingCurveSvg, esc, legSchematicSvg, sectorOverviewSvg, switchingPeriodSvg, vectorDiagramSvg } from '@hexsalvage/plot';
+import { atlasHeatmapSvg, atlasPairMatrixSvg, deratingCurveSvg, esc, legSchematicSvg, sectorOverviewSvg, switchingPeriodSvg, vectorDiagramSvg } from '@hexsalvage/plot';
 import { fmt, levelText } from '../format.js';
 import { schematicFocus } from '../schematicFocus.js';
 import { REPORT_CSS } from './reportStyles.js';
@@ -15,6 +15,8 @@ export interface ReportInputs {
   /** The `--topology` value as the user gave it. */
   readonly topologyText: string;
   readonly verdicts?: readonly ClaimVerdict[];
+  /** Every fault of the leg (`report --atlas`): an appendix. */
+  readonly faultAtlas?: FaultAtlas;
   /** Shown in the header; default the ISO date of today is not used so that output is reproducible. */
   readonly generatedBy: string;
 }
@@ -124,6 +126,7 @@ export function buildReport(r: ReportInputs): string {
     }
     s.push('</table><p class="muted">Each verdict is exact over the whole load-angle range of the claim, not sampled.</p>');
   }
+  if (r.faultAtlas) s.push(atlasAppendix(r.faultAtlas));
   s.push(`<div class="caution" role="note"><strong>Before operating with a failed device:</strong> confirm the remaining devices' current, voltage and thermal stress, the DC-link capacitor ripple and midpoint balance, and the load, by test and against the device ratings. Local electrical codes and licensed practice come first.</div>`);
   return `<!DOCTYPE html>
 <html lang="en">
@@ -138,6 +141,26 @@ ${s.join('\n')}
 </body>
 </html>
 `;
+}
+
+// Rows listed in the appendix table; a pair atlas has more (the CSV of `atlas` lists them all).
+const ATLAS_ROWS = 300;
+
+function atlasAppendix(a: FaultAtlas): string {
+  const count = (v: string) => a.entries.filter((e) => e.verdict === v).length;
+  const words = { full: 'full voltage', derated: 'derated', 'cannot-run': 'CANNOT RUN' } as const;
+  const [lo, hi] = a.loadAngleRangeDeg;
+  const out: string[] = [];
+  out.push(`<h2>Appendix: every ${a.pairs ? 'pair of faults' : 'single fault'} of this leg (fault atlas)</h2>`);
+  out.push(`<p>${a.entries.length} fault sets, modes ${esc(a.modes.join(', '))}, load angle ${fmt(lo, 1)}° to ${fmt(hi, 1)}°, polarity margin ${fmt(a.polarityMarginDeg, 1)}°, rules: ${esc(describeRules(a.rules))}. <strong>${count('full')}</strong> keep full voltage, <strong>${count('derated')}</strong> need derating, <strong class="verdict-fails">${count('cannot-run')}</strong> cannot run (the drive must stop; protection must not try to continue). Each minimum is exact over the whole range.${a.pairs ? '' : ' Faults in phases b and c give the same figures (phase rotation).'}</p>`);
+  out.push(figure(a.pairs ? atlasPairMatrixSvg(a) : atlasHeatmapSvg(a), a.pairs ? 'Worst-case derating ratio of every pair of faults over the load-angle range; × marks pairs that leave the leg unable to run.' : 'mMax as a fraction of the healthy limit for every single fault (rows, worst first) at each load angle of the grid (columns); × marks load angles where the leg cannot run.'));
+  out.push('<table><tr><th>faults</th><th>verdict</th><th>mMax min</th><th>ratio</th><th>worst at</th><th>hull bound</th><th>why</th></tr>');
+  for (const e of a.entries.slice(0, ATLAS_ROWS)) {
+    out.push(`<tr><td>${esc(e.faults.join(' + '))}</td><td class="${e.verdict === 'cannot-run' ? 'verdict-fails' : e.verdict === 'full' ? 'verdict-holds' : ''}">${words[e.verdict]}</td><td>${fmt(e.mMaxMin, 4)}</td><td>${fmt(e.deratingRatio * 100, 1)} %</td><td>${fmt(e.worstLoadAngleDeg, 1)}°</td><td>${fmt(e.mMaxHullMin, 4)}</td><td>${esc(e.reason)}</td></tr>`);
+  }
+  out.push('</table>');
+  if (a.entries.length > ATLAS_ROWS) out.push(`<p class="muted">The ${ATLAS_ROWS} worst of ${a.entries.length} are listed; <code>hexsalvage atlas --csv</code> lists them all.</p>`);
+  return out.join('\n');
 }
 
 function figure(svg: string, caption: string): string {
