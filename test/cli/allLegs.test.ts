@@ -16,6 +16,9 @@ describe('every plot kind and the report for every built-in leg', () => {
       expect((await runInProcess(['plot', kind, '--topology', t, '--fault', fault, '--load-angle', '15', '--out', out])).code).toBe(0);
       expect(XMLValidator.validate(readFileSync(out, 'utf8'))).toBe(true);
     }
+    const atlasSvg = join(dir, `${t}-atlas.svg`);
+    expect((await runInProcess(['plot', 'atlas', '--topology', t, '--step', '20', '--out', atlasSvg])).code).toBe(0);
+    expect(XMLValidator.validate(readFileSync(atlasSvg, 'utf8'))).toBe(true);
     const html = join(dir, `${t}.html`);
     expect((await runInProcess(['report', '--topology', t, '--fault', fault, '--out', html])).code).toBe(0);
     expect(readFileSync(html, 'utf8')).toContain('Remedial operation review');
