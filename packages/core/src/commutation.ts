@@ -9,11 +9,13 @@ export type LevelMove = readonly [number, number];
 export interface PhaseCommutations {
   /** Level changes allowed by the contract's sequence rule (both ways commutable), sorted. */
   readonly moves: Readonly<Record<PhasePolarity, readonly LevelMove[]>>;
-  /** Ordered pattern-index pairs `i>j` whose change commutates, per polarity character. */
-  readonly pairs: Readonly<Record<PhasePolarity, ReadonlySet<string>>>;
+  /**
+   * Whether the change from named pattern `i` to named pattern `j` commutates for a polarity
+   * character (searched on first use and remembered: the plan needs only `moves`, the switching
+   * table asks about the pattern pairs its sequences use).
+   */
+  readonly patternsCommute: (polarity: PhasePolarity, i: number, j: number) => boolean;
 }
-
-const POLARITIES: readonly PhasePolarity[] = ['+', '-', '?'];
 
 /**
  * Whether a change of gate set commutates for a polarity (contract, Version 2): the switches gated
@@ -51,42 +53,57 @@ export function commutates(solve: GateSetSolver, from: readonly string[], to: re
   const offKey = off.map((g) => value?.get(g) ?? 0);
   const usableUp = (mask: number) => {
     const build = () => [...common, ...on.filter((_, k) => mask & (1 << k))];
-    if (value === null) return ok(solve(build()));
-    let key = commonKey;
-    for (let k = 0; k < on.length; k++) if (mask & (1 << k)) key += onKey[k] as number;
-    return ok(solve.byKey(key, build));
+    return value === null ? ok(solve(build())) : ok(solve.byKey(upKey(mask), build));
   };
   const usableDown = (mask: number) => {
     const build = () => [...common, ...off.filter((_, k) => !(mask & (1 << k)))];
-    if (value === null) return ok(solve(build()));
+    return value === null ? ok(solve(build())) : ok(solve.byKey(downKey(mask), build));
+  };
+  const upKey = (mask: number) => {
+    let key = commonKey;
+    for (let k = 0; k < on.length; k++) if (mask & (1 << k)) key += onKey[k] as number;
+    return key;
+  };
+  const downKey = (mask: number) => {
     let key = commonKey;
     for (let k = 0; k < off.length; k++) if (!(mask & (1 << k))) key += offKey[k] as number;
-    return ok(solve.byKey(key, build));
+    return key;
   };
-  const upDead = new Set<number>();
+  // The next switch actions are tried in two passes: first those leading to a gate set already
+  // solved (another pair's search went that way), then the rest. Any order finds a safe sequence
+  // when there is one, since dead ends are remembered and every branch is tried; this one solves
+  // fewer new gate sets (on a many-level leg most pairs then walk the same intermediate states).
+  const cachedFirst = value !== null;
+  let upDead: Set<number> | null = null;
   // `mask`: which of `on` are already on; every set reached is usable
   const up = (mask: number): boolean => {
     if (mask === (1 << on.length) - 1) return true;
-    if (upDead.has(mask)) return false;
-    for (let i = 0; i < on.length; i++) {
-      if (mask & (1 << i)) continue;
-      const next = mask | (1 << i);
-      if (usableUp(next) && up(next)) return true;
+    if (upDead?.has(mask)) return false;
+    for (let pass = cachedFirst ? 0 : 1; pass < 2; pass++) {
+      for (let i = 0; i < on.length; i++) {
+        if (mask & (1 << i)) continue;
+        const next = mask | (1 << i);
+        if (cachedFirst && solve.solved(upKey(next)) !== (pass === 0)) continue;
+        if (usableUp(next) && up(next)) return true;
+      }
     }
-    upDead.add(mask);
+    (upDead ??= new Set()).add(mask);
     return false;
   };
-  const downDead = new Set<number>();
+  let downDead: Set<number> | null = null;
   // `mask`: which of `off` are already off
   const down = (mask: number): boolean => {
     if (mask === (1 << off.length) - 1) return up(0);
-    if (downDead.has(mask)) return false;
-    for (let i = 0; i < off.length; i++) {
-      if (mask & (1 << i)) continue;
-      const next = mask | (1 << i);
-      if (usableDown(next) && down(next)) return true;
+    if (downDead?.has(mask)) return false;
+    for (let pass = cachedFirst ? 0 : 1; pass < 2; pass++) {
+      for (let i = 0; i < off.length; i++) {
+        if (mask & (1 << i)) continue;
+        const next = mask | (1 << i);
+        if (cachedFirst && solve.solved(downKey(next)) !== (pass === 0)) continue;
+        if (usableDown(next) && down(next)) return true;
+      }
     }
-    downDead.add(mask);
+    (downDead ??= new Set()).add(mask);
     return false;
   };
   return down(0);
@@ -126,21 +143,26 @@ export function patternLevel(solve: GateSetSolver, gates: readonly string[], pol
  * ```
  */
 export function phaseCommutations(solve: GateSetSolver, patterns: readonly (readonly string[])[]): PhaseCommutations {
-  const moves = {} as Record<PhasePolarity, LevelMove[]>;
-  const pairs = {} as Record<PhasePolarity, Set<string>>;
-  for (const pol of POLARITIES) {
-    const level = patterns.map((g) => patternLevel(solve, g, pol));
-    const ok = new Set<string>();
+  const known = new Map<string, boolean>();
+  const patternsCommute = (pol: PhasePolarity, i: number, j: number): boolean => {
+    const key = `${pol}${i}>${j}`;
+    let r = known.get(key);
+    if (r === undefined) {
+      r = i === j || commutates(solve, patterns[i] as readonly string[], patterns[j] as readonly string[], pol);
+      known.set(key, r);
+    }
+    return r;
+  };
+  const levelOf = (pol: PhasePolarity) => patterns.map((g) => patternLevel(solve, g, pol));
+  const levelMoves = (pol: PhasePolarity, level: readonly (number | null)[]): LevelMove[] => {
+    // one commutating pattern pair per level change is enough: pairs are searched until one is found
     const forward = new Set<string>();
-    patterns.forEach((a, i) => {
-      const li = level[i];
+    level.forEach((li, i) => {
       if (li === null || li === undefined) return;
-      patterns.forEach((b, j) => {
-        const lj = level[j];
-        if (i === j || lj === null || lj === undefined) return;
-        if (!commutates(solve, a, b, pol)) return;
-        ok.add(`${i}>${j}`);
-        if (li !== lj) forward.add(`${li}>${lj}`);
+      level.forEach((lj, j) => {
+        if (i === j || lj === null || lj === undefined || li === lj) return;
+        const f = `${li}>${lj}`;
+        if (!forward.has(f) && patternsCommute(pol, i, j)) forward.add(f);
       });
     });
     const list: LevelMove[] = [];
@@ -148,8 +170,19 @@ export function phaseCommutations(solve: GateSetSolver, patterns: readonly (read
       const [l1, l2] = f.split('>').map(Number) as [number, number];
       if (forward.has(`${l2}>${l1}`)) list.push([l1, l2]);
     }
-    moves[pol] = list.sort((x, y) => x[0] - y[0] || x[1] - y[1]);
-    pairs[pol] = ok;
+    return list.sort((x, y) => x[0] - y[0] || x[1] - y[1]);
+  };
+  // '?' first: an order that serves both signs serves each, so where the '?' moves already join
+  // every pair of a sign's levels (and the levels are the same), that sign's moves are the same
+  // set and need no search of their own (the usual case for a healthy phase)
+  const robustLevel = levelOf('?');
+  const robust = levelMoves('?', robustLevel);
+  const moves: Record<PhasePolarity, readonly LevelMove[]> = { '?': robust, '+': robust, '-': robust };
+  for (const sign of ['+', '-'] as const) {
+    const level = levelOf(sign);
+    const levels = [...new Set(level.filter((l): l is number => l !== null))].sort((x, y) => x - y);
+    const same = levels.length === new Set(robustLevel.filter((l) => l !== null)).size && levels.every((l) => robustLevel.includes(l));
+    moves[sign] = same && robust.length === levels.length * (levels.length - 1) ? robust : levelMoves(sign, level);
   }
-  return { moves, pairs };
+  return { moves, patternsCommute };
 }

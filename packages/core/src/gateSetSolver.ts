@@ -34,6 +34,14 @@ export interface GateSetSolver {
    * @returns the outcome
    */
   byKey(key: number, gates: () => readonly string[]): GateSetOutcome;
+  /**
+   * Whether the gate set with this numeric key has been solved already (a search may try those
+   * first: the answer is the same, the work less).
+   *
+   * @param key - sum of the members' {@link GateSetSolver.keyValue}
+   * @returns true when cached
+   */
+  solved(key: number): boolean;
 }
 
 const NONE: readonly string[] = Object.freeze([]);
@@ -116,7 +124,7 @@ export function gateSetSolver(leg: LegNetlist, faults: PhaseFaults, ratings: boo
     for (const g of gates) key += keyValue.get(g) ?? 0;
     return byKey(key, () => gates);
   };
-  return Object.assign(solve, { keyValue, byKey: (key: number, gates: () => readonly string[]) => byKey(key, gates) });
+  return Object.assign(solve, { keyValue, byKey: (key: number, gates: () => readonly string[]) => byKey(key, gates), solved: (key: number) => cache.has(key) });
 }
 
 /**

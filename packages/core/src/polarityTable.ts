@@ -174,10 +174,10 @@ function sequenceRule(atlas: DiagramAtlas, tables: readonly [LegTable, LegTable,
   return (k, a, b) => {
     if (a.pattern === b.pattern) return true;
     if (rules.levelSteps === 'adjacent' && a.level !== b.level && Math.abs(levels.indexOf(a.level) - levels.indexOf(b.level)) !== 1) return false;
-    const pairs = (tables[k] as LegTable).commutations.pairs[pol[k] as PhasePolarity];
-    const i = index.get(a.pattern);
-    const j = index.get(b.pattern);
-    return pairs.has(`${i}>${j}`) && pairs.has(`${j}>${i}`);
+    const commute = (tables[k] as LegTable).commutations.patternsCommute;
+    const i = index.get(a.pattern) as number;
+    const j = index.get(b.pattern) as number;
+    return commute(pol[k] as PhasePolarity, i, j) && commute(pol[k] as PhasePolarity, j, i);
   };
 }
 
