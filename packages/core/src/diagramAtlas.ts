@@ -10,7 +10,7 @@ import { BoundedCache } from './boundedCache.js';
 
 // Polarity diagrams already built, by healthy leg, rule and the three phases' offers.
 const DIAGRAMS = new BoundedCache<PolarityDiagram>(2048);
-import { survivingVectors, type SpaceVector } from './survivingVectors.js';
+import { sharedSurvivingVectors, type SpaceVector } from './survivingVectors.js';
 
 /** The diagrams of all 25 polarity strings for a faulted leg and for the same leg healthy. */
 export interface DiagramAtlas {
@@ -40,7 +40,7 @@ export function diagramAtlas(options: AnalyseLegOptions): DiagramAtlas {
   // the link's half span sets the scale of every tolerance (a leg written in volts works the same)
   const pots = Object.values(analysis.leg.dcNodes);
   const span = (Math.max(...pots) - Math.min(...pots)) / 2;
-  const healthyVectors = survivingVectors([h['?'], h['?'], h['?']], span > 0 ? span : 1);
+  const healthyVectors = sharedSurvivingVectors([h['?'], h['?'], h['?']], span > 0 ? span : 1);
   const levelCount = new Set([...h['+'], ...h['-']]).size;
   const shells = vectorShells(healthyVectors, levelCount, diagramScale(healthyVectors));
   // Diagrams are shared by every call that meets the same offers under the same healthy leg and

@@ -14,7 +14,7 @@ export { clarke, type LevelTriplet, type Point } from './clarke.js';
 export { AREA_TOLERANCE, DWELL_TOLERANCE, VECTOR_TOLERANCE } from './tolerance.js';
 export { convexHull, polygonArea } from './hull.js';
 export { POLARITY_STRINGS, parsePolarity, type PolarityString } from './polarity.js';
-export { indexOfVector, survivingVectors, vectorFinder, type SpaceVector } from './survivingVectors.js';
+export { indexOfVector, sharedSurvivingVectors, survivingVectors, vectorFinder, type SpaceVector } from './survivingVectors.js';
 export { rotateToMin, triangleArea, triangulate, type Triangle } from './triangulate.js';
 export { hullGeometry, minRadialExtent, radialExtent, type HullEdge, type HullGeometry, type RadialValue } from './radialExtent.js';
 export { mod360, polarityAt, polaritySectors, type PolaritySector } from './polaritySectors.js';

@@ -10,7 +10,7 @@ import type { LevelSets, PhasePolarity } from './legTable.js';
 import { parsePolarity, type PolarityString } from './polarity.js';
 import { hullGeometry, minRadialExtent, type HullGeometry } from './radialExtent.js';
 import type { LimitRules } from './rules.js';
-import { survivingVectors, vectorFinder, type SpaceVector } from './survivingVectors.js';
+import { sharedSurvivingVectors, vectorFinder, type SpaceVector } from './survivingVectors.js';
 import type { OutlineEdge } from './triangleUnion.js';
 import { triangleArea, triangulate, type Triangle } from './triangulate.js';
 
@@ -124,7 +124,7 @@ export function polarityDiagram(
   // tolerances follow the size of the diagram, so that a leg written at another scale of potential
   // gives the same answer scaled (the healthy vectors' extent is the link's scale)
   const scale = diagramScale(healthy);
-  const raw = survivingVectors(phaseLevels, scale);
+  const raw = sharedSurvivingVectors(phaseLevels, scale);
   const vectors = raw.map((v) => ({ ...v, class: classifyVector(shells, v, scale) }));
   const points: Point[] = vectors.map((v) => [v.alpha, v.beta]);
   const hull = convexHull(points, scale);

@@ -1,4 +1,5 @@
 import { clarke, type LevelTriplet, type Point } from './clarke.js';
+import { BoundedCache } from './boundedCache.js';
 import { VECTOR_TOLERANCE } from './tolerance.js';
 
 /** A distinct space vector with every level triplet that realises it (its redundancy). */
@@ -60,6 +61,31 @@ export function survivingVectors(sets: readonly [readonly number[], readonly num
     .map((g) => ({ g, k: key(g.p) }))
     .sort((x, y) => x.k[0] - y.k[0] || x.k[1] - y.k[1])
     .map(({ g }) => ({ alpha: g.p[0], beta: g.p[1], levels: g.levels.sort(compareTripletsDesc) }));
+}
+
+// Vector sets already built, by level sets and scale (frozen; see BoundedCache).
+const SHARED = new BoundedCache<readonly SpaceVector[]>(256);
+
+/**
+ * {@link survivingVectors}, remembered: the healthy set of a leg is asked for by every diagram atlas
+ * and again by its healthy diagrams, and a fault atlas builds hundreds of atlases of one leg.
+ *
+ * @param sets - per phase a, b, c: the available levels
+ * @param scale - length scale of the tolerance (default 1)
+ * @returns the same vectors as `survivingVectors`, frozen and shared
+ * @example
+ * ```ts
+ * sharedSurvivingVectors([[-1, 0, 1], [-1, 0, 1], [-1, 0, 1]]).length; // 19
+ * ```
+ */
+export function sharedSurvivingVectors(sets: readonly [readonly number[], readonly number[], readonly number[]], scale = 1): readonly SpaceVector[] {
+  const key = `${scale}|${sets.map((l) => l.join(',')).join('|')}`;
+  let v = SHARED.get(key);
+  if (!v) {
+    v = survivingVectors(sets, scale);
+    SHARED.set(key, v);
+  }
+  return v;
 }
 
 function compareTripletsDesc(x: LevelTriplet, y: LevelTriplet): number {
