@@ -29,6 +29,8 @@ export const LEG_OPTIONS: readonly OptionSpec[] = [
 ];
 
 /** The `--json` switch. */
+export const VDC_OPTION: OptionSpec = { name: 'vdc', type: 'number', min: 0, openMin: true, max: 1e7, value: 'V', help: 'total DC-link voltage in volts: volts beside the per-unit figures' };
+
 export const JSON_OPTION: OptionSpec = { name: 'json', type: 'flag', help: 'print one JSON document instead of text' };
 /** The `--help` switch. */
 export const HELP_OPTION: OptionSpec = { name: 'help', type: 'flag', help: 'show this help' };

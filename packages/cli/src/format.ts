@@ -1,3 +1,5 @@
+import { lineRmsVolts, phasePeakVolts } from '@hexsalvage/core';
+
 /**
  * Renders rows as a left-aligned text table with a header rule.
  *
@@ -52,4 +54,20 @@ export function fmt(x: number, digits = 4): string {
 /** The caution block printed under every readable review output. */
 export function cautionBlock(cautions: readonly string[]): string {
   return ['', 'Cautions:', ...cautions.map((c) => `  ! ${c}`)].join('\n');
+}
+
+/**
+ * A modulation index in volts, for text beside the per-unit figure.
+ *
+ * @param m - modulation index (units of Vdc/2)
+ * @param vdc - total DC-link voltage in volts, or undefined (then empty)
+ * @returns e.g. ` = 265 V line-to-line RMS (217 V phase peak)`
+ * @example
+ * ```ts
+ * voltsText(0.5774, 750);
+ * ```
+ */
+export function voltsText(m: number, vdc: number | undefined): string {
+  if (vdc === undefined) return '';
+  return ` = ${fmt(lineRmsVolts(m, vdc), 1)} V line-to-line RMS (${fmt(phasePeakVolts(m, vdc), 1)} V phase peak)`;
 }

@@ -64,3 +64,17 @@ export function ruleInputs(args: ParsedArgs): { ignoreRatings: boolean; levelSte
   if (!(LEVEL_STEP_RULES as readonly unknown[]).includes(steps)) throw usage('--level-steps', `one of ${LEVEL_STEP_RULES.join(', ')}`, steps);
   return { ignoreRatings: args.flags.has('ignore-ratings'), levelSteps: steps as LevelStepRule };
 }
+
+/**
+ * The `--vdc` value, if given.
+ *
+ * @param args - parsed arguments
+ * @returns total DC-link voltage in volts, or undefined
+ * @example
+ * ```ts
+ * vdcInput(args); // 750 for --vdc 750
+ * ```
+ */
+export function vdcInput(args: ParsedArgs): number | undefined {
+  return args.values.get('vdc') as number | undefined;
+}

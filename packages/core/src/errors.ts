@@ -10,6 +10,7 @@ export type InputErrorCode =
   | 'polarity'
   | 'option'
   | 'claims'
+  | 'scenario'
   | 'usage';
 
 /**

@@ -1,4 +1,6 @@
 import { diagramAtlas } from './diagramAtlas.js';
+import { formatFault } from './faults.js';
+import { lineRmsVolts, modulationOfLineRms, phasePeakVolts, requireVdc } from './physicalUnits.js';
 import { HexsalvageInputError } from './errors.js';
 import { limitOverLoadAngles } from './modulationLimit.js';
 import type { PolarityDiagram } from './polarityDiagram.js';
@@ -11,7 +13,12 @@ export interface DeratingClaim {
   /** Built-in topology id or a netlist object. */
   readonly topology: unknown;
   readonly faults: readonly string[];
-  readonly m: number;
+  /** Promised modulation index (units of Vdc/2); give it or `lineRmsV` with `vdc`. */
+  readonly m?: number;
+  /** Total DC-link voltage in volts: the verdict then also reads in volts. */
+  readonly vdc?: number;
+  /** Promised line-to-line RMS voltage in volts instead of `m` (needs `vdc`): m = lineRmsV / ((vdc/2)·√(3/2)). */
+  readonly lineRmsV?: number;
   /** [LO, HI] in degrees, −180 ≤ LO ≤ HI ≤ 180. */
   readonly loadAngleDeg: readonly [number, number];
   /** Default 0. */
@@ -41,6 +48,13 @@ export interface ClaimVerdict {
   readonly rules: LimitRules;
   /** The binding outline edge as its two vectors' level triplets and classes, or null. */
   readonly bindingEdge: readonly { readonly alpha: number; readonly beta: number; readonly class: string; readonly levels: readonly (readonly number[])[] }[] | null;
+  /** The claim's own inputs, for a review table: topology (id or netlist name), faults, range, margin. */
+  readonly topology: string;
+  readonly faults: readonly string[];
+  readonly loadAngleDeg: readonly [number, number];
+  readonly polarityMarginDeg: number;
+  /** With `vdc`: the promise and the limit in volts. */
+  readonly volts?: { readonly vdc: number; readonly lineRmsPromised: number; readonly lineRmsAtWorst: number; readonly phasePeakAtWorst: number; readonly shortfallLineRms: number };
 }
 
 /**
@@ -59,7 +73,14 @@ export function evaluateClaim(claim: DeratingClaim): ClaimVerdict {
   if (!Array.isArray(claim.loadAngleDeg)) throw new HexsalvageInputError('claims', String(claim.name), 'loadAngleDeg', '[LO, HI] in degrees', claim.loadAngleDeg);
   const [lo, hi] = claim.loadAngleDeg;
   const bad = (key: string, expected: string, got: unknown) => new HexsalvageInputError('claims', claim.name, key, expected, got);
-  if (!(Number.isFinite(claim.m) && claim.m >= 0)) throw bad('m', 'a modulation index ≥ 0', claim.m);
+  const vdc = claim.vdc === undefined ? undefined : requireVdc(claim.vdc, String(claim.name), 'vdc');
+  if (claim.lineRmsV !== undefined) {
+    if (claim.m !== undefined) throw bad('lineRmsV', 'either m or lineRmsV, not both', claim.lineRmsV);
+    if (vdc === undefined) throw bad('vdc', 'the DC-link voltage in volts (needed with lineRmsV)', claim.vdc);
+    if (!(typeof claim.lineRmsV === 'number' && Number.isFinite(claim.lineRmsV) && claim.lineRmsV >= 0)) throw bad('lineRmsV', 'a line-to-line RMS voltage ≥ 0 in volts', claim.lineRmsV);
+  }
+  const m = claim.lineRmsV !== undefined && vdc !== undefined ? modulationOfLineRms(claim.lineRmsV, vdc) : claim.m;
+  if (!(typeof m === 'number' && Number.isFinite(m) && m >= 0)) throw bad('m', 'a modulation index ≥ 0 (or lineRmsV with vdc)', claim.m);
   if (!(Number.isFinite(lo) && Number.isFinite(hi) && lo >= -180 && hi <= 180 && lo <= hi)) throw bad('loadAngleDeg', '[LO, HI] with −180 ≤ LO ≤ HI ≤ 180', claim.loadAngleDeg);
   const delta = claim.polarityMarginDeg ?? 0;
   if (!(Number.isFinite(delta) && delta >= 0 && delta < 60)) throw bad('polarityMarginDeg', 'degrees in [0, 60)', delta);
@@ -73,18 +94,23 @@ export function evaluateClaim(claim: DeratingClaim): ClaimVerdict {
     return { alpha: v.alpha, beta: v.beta, class: v.class, levels: v.levels };
   }) : null;
   // exact comparison up to the rounding of the closed-form limit
-  const holds = r.mMax >= claim.m - 1e-12;
+  const holds = r.mMax >= m - 1e-12;
   return {
     name: claim.name,
     holds,
     worstLoadAngleDeg: r.loadAngleDeg,
     mMaxAtWorst: r.mMax,
-    shortfall: Math.max(0, claim.m - r.mMax),
-    m: claim.m,
+    shortfall: Math.max(0, m - r.mMax),
+    m,
     mMaxHullAtWorst: hull.mMax,
     rules,
     limitingAngleDeg: r.limitingAngleDeg,
     limitingPolarity: r.limitingPolarity,
     bindingEdge: edge,
+    topology: atlas.analysis.topology,
+    faults: atlas.analysis.faults.map(formatFault),
+    loadAngleDeg: [lo, hi],
+    polarityMarginDeg: delta,
+    ...(vdc === undefined ? {} : { volts: { vdc, lineRmsPromised: lineRmsVolts(m, vdc), lineRmsAtWorst: lineRmsVolts(r.mMax, vdc), phasePeakAtWorst: phasePeakVolts(r.mMax, vdc), shortfallLineRms: lineRmsVolts(Math.max(0, m - r.mMax), vdc) } }),
   };
 }

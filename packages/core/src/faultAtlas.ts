@@ -7,6 +7,7 @@ import { limitOverLoadAngles, modulationLimit } from './modulationLimit.js';
 import { resolveRules, type LimitRuleOptions, type LimitRules } from './rules.js';
 import { resolveTopology } from './resolveTopology.js';
 import { faultReason } from './faultReason.js';
+import { lineRmsVolts, phasePeakVolts, requireVdc } from './physicalUnits.js';
 import { requireNumber, requireObject } from './validate.js';
 
 /** Version of the atlas document's layout. */
@@ -137,7 +138,7 @@ export function atlasWork(options: FaultAtlasOptions): AtlasWork {
   if ((hi - lo) / stepDeg > MAX_GRID_POINTS) throw new HexsalvageInputError('option', 'faultAtlas', 'stepDeg', `a step giving at most ${MAX_GRID_POINTS} points over the range`, stepDeg);
   const polarityMarginDeg = requireNumber(options.polarityMarginDeg ?? 0, 'faultAtlas', 'polarityMarginDeg', { min: 0, max: 60, openMax: true });
   if (options.pairs !== undefined && typeof options.pairs !== 'boolean') throw new HexsalvageInputError('option', 'faultAtlas', 'pairs', 'true or false', options.pairs);
-  const vdc = options.vdc === undefined ? null : requireNumber(options.vdc, 'faultAtlas', 'vdc', { min: 0, openMin: true });
+  const vdc = options.vdc === undefined ? null : requireVdc(options.vdc, 'faultAtlas', 'vdc');
   const settings: AtlasSettings = {
     topology: options.topology,
     topologyName: typeof options.topology === 'string' ? options.topology : leg.name,
@@ -258,7 +259,7 @@ export function assembleAtlas(work: AtlasWork, results: readonly AtlasClassResul
   const healthyAtlas = diagramAtlas({ topology: s.topology, faults: [], levelSteps: s.rules.levelSteps, ignoreRatings: !s.rules.ratings });
   const healthyMin = limitOverLoadAngles(healthyAtlas.healthy, lo, hi, s.polarityMarginDeg).mMax;
   const healthyAt = atlasGrid(s).map((phi) => [phi, modulationLimit(healthyAtlas.healthy, phi, s.polarityMarginDeg).mMax] as const);
-  const volt = (m: number) => (s.vdc === null ? null : { phasePeak: (m * s.vdc) / 2, lineRms: (m * s.vdc * Math.sqrt(3 / 2)) / 2 });
+  const volt = (m: number) => (s.vdc === null ? null : { phasePeak: phasePeakVolts(m, s.vdc), lineRms: lineRmsVolts(m, s.vdc) });
   const entries = work.faultSets.map((faults, i) => {
     const r = results[work.classOf[i] as number] as AtlasClassResult;
     const verdict: AtlasEntry['verdict'] = r.mMaxMin <= VERDICT_TOLERANCE ? 'cannot-run' : r.mMaxMin >= healthyMin - VERDICT_TOLERANCE ? 'full' : 'derated';

@@ -24,7 +24,7 @@ export { offerKey, polarityDiagram, type ClassifiedVector, type PhaseOffer, type
 export { diagramAtlas, phaseMoves, type DiagramAtlas } from './diagramAtlas.js';
 export { extentGeometry, limitOverLoadAngles, modulationLimit, type ExtentKind, type LimitOverRange, type ModulationLimit } from './modulationLimit.js';
 export { CAUTIONS } from './cautions.js';
-export { PLAN_SCHEMA_VERSION, checkAngle, planFromAtlas, planRemedial, polarityDocument, type PlanOptions, type PlanPolarity, type PlanSector, type PlanVector, type RemedialPlan } from './planRemedial.js';
+export { PLAN_SCHEMA_VERSION, checkAngle, planFromAtlas, planRemedial, polarityDocument, withVolts, type PlanOptions, type PlanPolarity, type PlanSector, type PlanVector, type RemedialPlan } from './planRemedial.js';
 export { deratingCurve, type DeratingCurveOptions, type DeratingPoint } from './deratingCurve.js';
 export { DEFAULT_RULES, LEVEL_STEP_RULES, describeRules, resolveRules, type LevelStepRule, type LimitRuleOptions, type LimitRules } from './rules.js';
 export { ratingCheck, ratingChecker, type RatingCheck } from './ratingCheck.js';
@@ -51,3 +51,4 @@ export { exportC, type ExportCOptions } from './exportC.js';
 export { evaluateClaim, type ClaimVerdict, type DeratingClaim } from './evaluateClaim.js';
 export { ATLAS_SCHEMA_VERSION, assembleAtlas, atlasClass, atlasGrid, atlasWork, canonicalRotation, faultAtlas, type AtlasClassResult, type AtlasEntry, type AtlasProgress, type AtlasSettings, type AtlasWork, type FaultAtlas, type FaultAtlasOptions } from './faultAtlas.js';
 export { faultReason, type FaultReason } from './faultReason.js';
+export { lineRmsVolts, modulationOfLineRms, phasePeakVolts, planVolts, requireVdc, type PlanVolts } from './physicalUnits.js';

@@ -10,6 +10,7 @@ import { modulationLimit } from './modulationLimit.js';
 import { POLARITY_STRINGS, type PolarityString } from './polarity.js';
 import type { ClassifiedVector, PolarityDiagram } from './polarityDiagram.js';
 import { explainRestrictions } from './restrictions.js';
+import { planVolts, requireVdc, type PlanVolts } from './physicalUnits.js';
 import { requireObject } from './validate.js';
 import type { LimitRuleOptions, LimitRules } from './rules.js';
 
@@ -29,6 +30,8 @@ export interface PlanOptions extends LimitRuleOptions {
   readonly loadAngleDeg?: number;
   /** Polarity margin δ in degrees, 0 ≤ δ < 60. Default 0. */
   readonly polarityMarginDeg?: number;
+  /** Total DC-link voltage in volts: adds `volts` to the plan. Default none (per unit only). */
+  readonly vdc?: number;
 }
 
 /** A vector as printed in plan and vectors documents. */
@@ -102,6 +105,8 @@ export interface RemedialPlan {
   readonly levels: Readonly<Record<Phase, LevelSets>>;
   readonly sectors: readonly PlanSector[];
   readonly polarities: Readonly<Record<PolarityString, PlanPolarity>>;
+  /** With `vdc`: the limits in volts (contract "Physical units"). */
+  readonly volts?: PlanVolts;
   readonly cautions: readonly string[];
 }
 
@@ -123,7 +128,25 @@ export function planRemedial(options: PlanOptions): RemedialPlan {
   const loadAngleDeg = checkAngle(options.loadAngleDeg ?? 0, 'loadAngleDeg', -180, 180, true);
   const polarityMarginDeg = checkAngle(options.polarityMarginDeg ?? 0, 'polarityMarginDeg', 0, 60, false);
   const { topology, faults, ignoreRatings, levelSteps } = options;
-  return planFromAtlas(diagramAtlas({ topology, faults: faults ?? [], ignoreRatings, levelSteps }), loadAngleDeg, polarityMarginDeg);
+  const vdc = options.vdc === undefined ? undefined : requireVdc(options.vdc, 'options', 'vdc');
+  const plan = planFromAtlas(diagramAtlas({ topology, faults: faults ?? [], ignoreRatings, levelSteps }), loadAngleDeg, polarityMarginDeg);
+  return vdc === undefined ? plan : withVolts(plan, vdc);
+}
+
+/**
+ * A plan with its `volts` block for a DC-link voltage.
+ *
+ * @param plan - a plan
+ * @param vdc - total DC-link voltage, volts (checked)
+ * @returns the plan with `volts`
+ * @example
+ * ```ts
+ * withVolts(planRemedial({ topology: 'npc' }), 750).volts?.lineRmsMax; // ≈ 530.3
+ * ```
+ */
+export function withVolts(plan: RemedialPlan, vdc: number): RemedialPlan {
+  const { cautions, ...rest } = plan;
+  return { ...rest, volts: planVolts(plan.mMax, plan.mMaxHealthy, requireVdc(vdc, 'options', 'vdc')), cautions };
 }
 
 /**

@@ -32,11 +32,13 @@ export const checkCommand: Command = {
  * ```
  */
 export function checkText(verdicts: readonly ClaimVerdict[]): string {
-  const rows = verdicts.map((v) => [v.name, v.holds ? 'HOLDS' : 'FAILS', fmt(v.m, 4), fmt(v.mMaxAtWorst, 6), fmt(v.mMaxHullAtWorst, 6), fmt(v.worstLoadAngleDeg, 3), v.holds ? '-' : fmt(v.shortfall, 6), rulesText(v), edgeText(v)]);
+  const volts = verdicts.some((v) => v.volts);
+  const vcol = (v: ClaimVerdict) => (volts ? [v.volts ? `${fmt(v.volts.lineRmsPromised, 1)} / ${fmt(v.volts.lineRmsAtWorst, 1)} V (Vdc ${fmt(v.volts.vdc, 0)} V)` : '-'] : []);
+  const rows = verdicts.map((v) => [v.name, v.holds ? 'HOLDS' : 'FAILS', fmt(v.m, 4), fmt(v.mMaxAtWorst, 6), ...vcol(v), fmt(v.mMaxHullAtWorst, 6), `${fmt(v.loadAngleDeg[0], 1)}…${fmt(v.loadAngleDeg[1], 1)}`, fmt(v.worstLoadAngleDeg, 3), v.holds ? '-' : fmt(v.shortfall, 6), rulesText(v), edgeText(v)]);
   const failing = verdicts.filter((v) => !v.holds).length;
   const unsafeRules = verdicts.filter((v) => !v.rules.ratings || v.rules.levelSteps === 'any');
   return [
-    textTable(['claim', 'verdict', 'm promised', 'worst mMax', 'hull limit', 'at load deg', 'short by', 'rules', 'binding edge there'], rows),
+    textTable(['claim', 'verdict', 'm promised', 'worst mMax', ...(volts ? ['line RMS promised / at worst'] : []), 'hull limit', 'load deg range', 'worst at deg', 'short by', 'rules', 'binding edge there'], rows),
     '',
     'worst mMax: the safe limit (ratings and commutation respected); hull limit: the first version\'s convex-hull bound, shown for comparison only.',
     ...(unsafeRules.length ? [`WARNING: ${unsafeRules.map((v) => v.name).join(', ')} judged with relaxed rules; such a verdict does not show the hardware survives.`] : []),

@@ -1,26 +1,28 @@
-import { CAUTIONS, cycleCheck, diagramAtlas, planFromAtlas, switchingTableFromAtlas } from '@hexsalvage/core';
+import { CAUTIONS, cycleCheck, diagramAtlas, lineRmsVolts, phasePeakVolts, planFromAtlas, switchingTableFromAtlas } from '@hexsalvage/core';
 import { usage } from '../args.js';
-import { ANGLE_OPTIONS, HELP_OPTION, JSON_OPTION, LEG_OPTIONS, type Command } from '../command.js';
-import { cautionBlock, fmt, textTable } from '../format.js';
-import { angleInputs, legInputs } from '../legInputs.js';
+import { ANGLE_OPTIONS, HELP_OPTION, JSON_OPTION, LEG_OPTIONS, VDC_OPTION, type Command } from '../command.js';
+import { cautionBlock, fmt, textTable, voltsText } from '../format.js';
+import { angleInputs, legInputs, vdcInput } from '../legInputs.js';
 
 /** `hexsalvage cycle`: step the degraded table through one fundamental period. */
 export const cycleCommand: Command = {
   name: 'cycle',
   summary: 'run the degraded table through one fundamental period: volt-seconds, midpoint drift, gate changes',
-  usage: 'cycle --topology T [--fault F]... --m M [--load-angle DEG] [--polarity-margin DEG] [--ratio N] [--current A] [--json]',
+  usage: 'cycle --topology T [--fault F]... --m M [--load-angle DEG] [--polarity-margin DEG] [--ratio N] [--current A] [--vdc V] [--json]',
   options: [
     ...LEG_OPTIONS,
     ...ANGLE_OPTIONS,
     { name: 'm', type: 'number', min: 0, max: 10, value: 'M', help: 'modulation index to run at (units of Vdc/2), at most the mMax of the plan' },
     { name: 'ratio', type: 'number', min: 6, max: 100000, integer: true, value: 'N', help: 'switching periods per fundamental period, fsw/f1 (default 120)' },
     { name: 'current', type: 'number', min: 0, openMin: true, max: 1e9, value: 'A', help: 'peak phase current (default 1: results per unit of current)' },
+    VDC_OPTION,
     JSON_OPTION,
     HELP_OPTION,
   ],
   run: async (args, io) => {
     const { topology, faults, rules } = legInputs(args);
     const { loadAngleDeg, polarityMarginDeg } = angleInputs(args);
+    const vdc = vdcInput(args);
     const m = args.values.get('m');
     if (typeof m !== 'number') throw usage('--m', 'the modulation index to run at');
     const atlas = diagramAtlas({ topology, faults, ...rules });
@@ -32,12 +34,13 @@ export const cycleCommand: Command = {
       currentAmplitude: (args.values.get('current') as number | undefined) ?? 1,
     });
     if (args.flags.has('json')) {
-      await io.stdout(`${JSON.stringify({ topology: plan.topology, faults: plan.faults, m, loadAngleDeg, polarityMarginDeg, mMax: plan.mMax, mMaxBalanced: plan.mMaxBalanced, rules: plan.rules, ...report })}\n`);
+      await io.stdout(`${JSON.stringify({ topology: plan.topology, faults: plan.faults, m, loadAngleDeg, polarityMarginDeg, mMax: plan.mMax, mMaxBalanced: plan.mMaxBalanced, rules: plan.rules, ...(vdc === undefined ? {} : { volts: { vdc, phasePeak: phasePeakVolts(m, vdc), lineRms: lineRmsVolts(m, vdc), phasePeakMax: phasePeakVolts(plan.mMax, vdc), lineRmsMax: lineRmsVolts(plan.mMax, vdc) } }), ...report })}\n`);
       return 0;
     }
     const rows = Object.entries(report.gateChangesPerCycle).map(([dev, c]) => [dev, String(c)]);
     await io.stdout(`${[
       `Leg: ${plan.topology}   faults: ${plan.faults.join(', ') || 'none'}   m = ${fmt(m, 4)} (mMax ${fmt(plan.mMax, 4)}, mMaxBalanced ${fmt(plan.mMaxBalanced, 4)})   load angle ${fmt(loadAngleDeg, 1)} deg`,
+      ...(vdc === undefined ? [] : [`At Vdc = ${fmt(vdc, 1)} V: m${voltsText(m, vdc)}; mMax${voltsText(plan.mMax, vdc)}`]),
       `Switching periods per fundamental: ${report.periods}`,
       `Volt-second balance: largest error ${report.voltSecondErrorMax.toExponential(2)} x Vdc/2 over ${report.periods - report.clampedPeriods} periods${report.clampedPeriods ? `; ${report.clampedPeriods} periods clamped` : ''}`,
       `Average midpoint current: ${fmt(report.midpointCurrent.tablePolicy, 5)} with the table's realisations${report.midpointCurrent.reachable ? `, ${fmt(report.midpointCurrent.bestPolicy ?? 0, 5)} at best (reachable ${fmt(report.midpointCurrent.reachable[0], 5)} ... ${fmt(report.midpointCurrent.reachable[1], 5)})` : ''}`,

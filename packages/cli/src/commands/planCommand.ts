@@ -1,17 +1,18 @@
 import { describeRules, planRemedial, type RemedialPlan } from '@hexsalvage/core';
-import { ANGLE_OPTIONS, HELP_OPTION, JSON_OPTION, LEG_OPTIONS, type Command } from '../command.js';
-import { cautionBlock, fmt, textTable } from '../format.js';
-import { angleInputs, legInputs } from '../legInputs.js';
+import { ANGLE_OPTIONS, HELP_OPTION, JSON_OPTION, LEG_OPTIONS, VDC_OPTION, type Command } from '../command.js';
+import { cautionBlock, fmt, textTable, voltsText } from '../format.js';
+import { angleInputs, legInputs, vdcInput } from '../legInputs.js';
 
 /** `hexsalvage plan`: exact limit, derating and the polarity sectors at one load angle. */
 export const planCommand: Command = {
   name: 'plan',
   summary: 'exact maximum modulation index, derating, binding edge and polarity sectors at one load angle',
-  usage: 'plan --topology T [--fault F]... [--load-angle DEG] [--polarity-margin DEG] [--json]',
-  options: [...LEG_OPTIONS, ...ANGLE_OPTIONS, JSON_OPTION, HELP_OPTION],
+  usage: 'plan --topology T [--fault F]... [--load-angle DEG] [--polarity-margin DEG] [--vdc V] [--json]',
+  options: [...LEG_OPTIONS, ...ANGLE_OPTIONS, VDC_OPTION, JSON_OPTION, HELP_OPTION],
   run: async (args, io) => {
     const { topology, faults, rules } = legInputs(args);
-    const plan = planRemedial({ topology, faults, ...rules, ...angleInputs(args) });
+    const vdc = vdcInput(args);
+    const plan = planRemedial({ topology, faults, ...rules, ...angleInputs(args), ...(vdc === undefined ? {} : { vdc }) });
     await io.stdout(args.flags.has('json') ? `${JSON.stringify(plan)}\n` : `${planText(plan)}\n`);
     return 0;
   },
@@ -32,7 +33,7 @@ export function planText(plan: RemedialPlan): string {
     ? `between ${plan.bindingEdge.map((v) => `${v.class} vector ${v.levels[0]?.join('/')} (${fmt(v.alpha, 3)}, ${fmt(v.beta, 3)})`).join(' and ')}`
     : '';
   const verdict = plan.mMax === 0
-    ? ['CANNOT RUN in this state: no modulation index above 0 can be produced safely at this load angle.', `The surviving triangles do not surround the origin for polarity ${plan.limitingPolarity} (theta = ${fmt(plan.limitingAngleDeg, 3)} deg).`]
+    ? ['CANNOT RUN in this state: the drive must stop; no output voltage above 0 can be produced safely at this load angle.', `The surviving triangles do not surround the origin for polarity ${plan.limitingPolarity} (theta = ${fmt(plan.limitingAngleDeg, 3)} deg).`]
     : [`Limit binds at theta = ${fmt(plan.limitingAngleDeg, 3)} deg with polarity ${plan.limitingPolarity}, on the outline edge ${edge}.`];
   const hullNote = Math.abs(plan.mMaxHull - plan.mMax) > 1e-9
     ? [`The convex hull of the surviving vectors would promise ${fmt(plan.mMaxHull, 6)}; that is NOT safe: the rules above leave only the admissible triangles.`]
@@ -45,11 +46,12 @@ export function planText(plan: RemedialPlan): string {
     '',
     `Rules: ${describeRules(plan.rules)}${plan.unrated.length ? `; unrated (not checked): ${plan.unrated.join(', ')}` : ''}`,
     '',
-    `Maximum modulation index (faulted, safe):      ${fmt(plan.mMax, 6)}`,
-    `Maximum modulation index (healthy):            ${fmt(plan.mMaxHealthy, 6)}`,
+    ...(plan.volts ? [`DC link: ${fmt(plan.volts.vdc, 1)} V (1 unit of Vdc/2 = ${fmt(plan.volts.vdc / 2, 1)} V)`] : []),
+    `Maximum modulation index (faulted, safe):      ${fmt(plan.mMax, 6)}${voltsText(plan.mMax, plan.volts?.vdc)}`,
+    `Maximum modulation index (healthy):            ${fmt(plan.mMaxHealthy, 6)}${voltsText(plan.mMaxHealthy, plan.volts?.vdc)}`,
     `Derating ratio:                                ${fmt(plan.deratingRatio, 6)}`,
     `Convex-hull bound (first version, for review): ${fmt(plan.mMaxHull, 6)}`,
-    `Midpoint held at zero average up to m =        ${fmt(plan.mMaxBalanced, 6)}`,
+    `Midpoint held at zero average up to m =        ${fmt(plan.mMaxBalanced, 6)}${voltsText(plan.mMaxBalanced, plan.volts?.vdc)}`,
     ...verdict,
     ...hullNote,
     ...(plan.restrictions.length ? ['', 'What the rules take away:', ...plan.restrictions.map((r) => `  - ${r}`)] : []),

@@ -1,11 +1,14 @@
 import { readFileSync } from 'node:fs';
-import { diagramAtlas, planFromAtlas, switchingTableFromAtlas } from '@hexsalvage/core';
-import { usage } from '../args.js';
+import { dirname, relative, resolve } from 'node:path';
+import { diagramAtlas, planFromAtlas, switchingTableFromAtlas, type ClaimVerdict, type LegNetlist, type LevelStepRule } from '@hexsalvage/core';
+import { usage, type ParsedArgs } from '../args.js';
+import { buildDate, commandLine } from '../commandLine.js';
+import { fileSha256, readScenario, type Scenario } from '../readScenario.js';
 import { ATLAS_OPTIONS, atlasFromArgs } from '../atlasInputs.js';
-import { ANGLE_OPTIONS, HELP_OPTION, LEG_OPTIONS, type Command } from '../command.js';
-import { angleInputs, legInputs } from '../legInputs.js';
+import { ANGLE_OPTIONS, HELP_OPTION, LEG_OPTIONS, VDC_OPTION, type Command } from '../command.js';
+import { angleInputs, legInputs, vdcInput } from '../legInputs.js';
 import { writeFileAtomic } from '../output.js';
-import { judgeClaims } from '../readClaims.js';
+import { judgeClaimList, judgeClaims } from '../readClaims.js';
 import { buildReport } from '../report/buildReport.js';
 
 const VERSION = (JSON.parse(readFileSync(new URL('../../package.json', import.meta.url), 'utf8')) as { version: string }).version;
@@ -13,11 +16,13 @@ const VERSION = (JSON.parse(readFileSync(new URL('../../package.json', import.me
 /** `hexsalvage report`: one self-contained HTML file for a design review. */
 export const reportCommand: Command = {
   name: 'report',
-  summary: 'write a self-contained HTML design-review report (limit, plots, table, flags, claims)',
-  usage: 'report --topology T [--fault F]... [--load-angle DEG] [--polarity-margin DEG] [--claims FILE] [--atlas [atlas options]] --out FILE.html',
+  summary: 'write a self-contained HTML design-review report (header, limit, plots, table, claims, sign-off)',
+  usage: 'report (--scenario FILE.json | --topology T [--fault F]... [--load-angle DEG] [--polarity-margin DEG] [--vdc V] [--claims FILE]) [--atlas [atlas options]] --out FILE.html',
   options: [
+    { name: 'scenario', type: 'string', value: 'FILE', help: 'a review scenario (docs/schema/scenario.schema.json): drive data, leg, faults, load angles, claims; needs nothing else' },
     ...LEG_OPTIONS,
     ...ANGLE_OPTIONS,
+    VDC_OPTION,
     { name: 'claims', type: 'string', value: 'FILE', help: 'also show the verdicts of a claims file' },
     { name: 'atlas', type: 'flag', help: 'add an appendix with every fault of the leg (the fault atlas; shaped by the atlas options)' },
     ...ATLAS_OPTIONS,
@@ -27,25 +32,57 @@ export const reportCommand: Command = {
   run: async (args, io) => {
     const out = args.values.get('out');
     if (typeof out !== 'string' || !out.endsWith('.html')) throw usage('--out', 'a file name ending in .html', out);
-    const { topology, faults, topologyText, rules } = legInputs(args);
-    const { loadAngleDeg, polarityMarginDeg } = angleInputs(args);
-    const claimsFile = args.values.get('claims') as string | undefined;
-    const verdicts = claimsFile ? judgeClaims(claimsFile, rules.ignoreRatings) : undefined;
-    const atlas = diagramAtlas({ topology, faults, ...rules });
+    const scenarioFile = args.values.get('scenario') as string | undefined;
+    let inputs: { topology: string | LegNetlist; topologyText: string; faults: readonly string[]; rules: { ignoreRatings: boolean; levelSteps: LevelStepRule }; loadAngleDeg: number; polarityMarginDeg: number; vdc: number | undefined };
+    let verdicts: ClaimVerdict[] | undefined;
+    let scenario: Scenario | undefined;
+    const files: { path: string; sha256: string }[] = [];
+    if (scenarioFile !== undefined) {
+      const clash = ['topology', 'load-angle', 'polarity-margin', 'vdc', 'claims', 'level-steps'].find((k) => args.values.has(k)) ?? ((args.lists.get('fault') ?? []).length ? 'fault' : undefined);
+      if (clash) throw usage(`--${clash}`, 'not together with --scenario (the scenario file gives it)');
+      scenario = readScenario(scenarioFile);
+      const rules = { ignoreRatings: args.flags.has('ignore-ratings'), levelSteps: scenario.levelSteps ?? 'commutable' };
+      inputs = { topology: scenario.topology, topologyText: scenario.topologyText, faults: scenario.faults, rules, loadAngleDeg: scenario.loadAngleDeg, polarityMarginDeg: scenario.polarityMarginDeg, vdc: scenario.vdc };
+      verdicts = scenario.claims.length ? judgeClaimList(scenario.claims, scenarioFile, rules.ignoreRatings, 'claims', 'scenario') : undefined;
+      files.push(...scenario.inputs);
+    } else {
+      const leg = legInputs(args);
+      inputs = { ...leg, ...angleInputs(args), vdc: vdcInput(args) };
+      const claimsFile = args.values.get('claims') as string | undefined;
+      verdicts = claimsFile ? judgeClaims(claimsFile, leg.rules.ignoreRatings) : undefined;
+      if (typeof inputs.topology !== 'string') files.push({ path: resolve(leg.topologyText), sha256: fileSha256(leg.topologyText) });
+      if (claimsFile) files.push({ path: resolve(claimsFile), sha256: fileSha256(claimsFile) });
+    }
+    const atlas = diagramAtlas({ topology: inputs.topology, faults: inputs.faults, ...inputs.rules });
     const atlasFlags = ['modes', 'load-angle-range', 'step', 'jobs'].filter((k) => args.values.has(k)).concat(args.flags.has('pairs') ? ['pairs'] : []);
     if (!args.flags.has('atlas') && atlasFlags.length > 0) throw usage(`--${atlasFlags[0]}`, 'only together with --atlas');
-    const faultAtlas = args.flags.has('atlas') ? await atlasFromArgs(args, io, false, true) : undefined;
+    const faultAtlas = args.flags.has('atlas') ? await atlasFromArgs(scenario && scenarioFile ? withScenario(args, scenario, scenarioFile) : args, io, false, true) : undefined;
     const html = buildReport({
       atlas,
-      plan: planFromAtlas(atlas, loadAngleDeg, polarityMarginDeg),
+      plan: planFromAtlas(atlas, inputs.loadAngleDeg, inputs.polarityMarginDeg),
       table: switchingTableFromAtlas(atlas),
-      topologyText,
+      topologyText: inputs.topologyText,
       ...(verdicts ? { verdicts } : {}),
       ...(faultAtlas ? { faultAtlas } : {}),
+      ...(scenario ? { scenario } : {}),
+      ...(inputs.vdc !== undefined ? { vdc: inputs.vdc } : {}),
       generatedBy: `hexsalvage ${VERSION}`,
+      commandLine: commandLine('report', reportCommand.options, args),
+      date: buildDate(),
+      inputs: files.map((f) => ({ path: relative(process.cwd(), f.path) || f.path, sha256: f.sha256 })),
     });
     writeFileAtomic(out, html);
     await io.stdout(`wrote ${out} (review report, ${Buffer.byteLength(html)} bytes)\n`);
     return 0;
   },
 };
+
+// The atlas options of the command line with the scenario's leg, rule and DC link in place of
+// --topology, --level-steps and --vdc (a netlist path in the scenario is relative to its file).
+function withScenario(args: ParsedArgs, scenario: Scenario, file: string): ParsedArgs {
+  const values = new Map(args.values);
+  values.set('topology', typeof scenario.topology === 'string' ? scenario.topologyText : resolve(dirname(file), scenario.topologyText));
+  if (scenario.levelSteps) values.set('level-steps', scenario.levelSteps);
+  values.set('vdc', scenario.vdc);
+  return { ...args, values, lists: new Map([...args.lists].filter(([k]) => k !== 'fault')) };
+}

@@ -1,24 +1,26 @@
-import { parsePolarity, switchingTable, type SwitchingTable } from '@hexsalvage/core';
-import { HELP_OPTION, JSON_OPTION, LEG_OPTIONS, type Command } from '../command.js';
+import { lineRmsVolts, parsePolarity, switchingTable, type SwitchingTable } from '@hexsalvage/core';
+import { HELP_OPTION, JSON_OPTION, LEG_OPTIONS, VDC_OPTION, type Command } from '../command.js';
 import { cautionBlock, fmt, levelText, textTable } from '../format.js';
-import { legInputs } from '../legInputs.js';
+import { legInputs, vdcInput } from '../legInputs.js';
 
 /** `hexsalvage table`: the degraded switching-state table, readable. */
 export const tableCommand: Command = {
   name: 'table',
   summary: 'degraded switching-state table: per polarity and triangle, states, sequence and flags',
-  usage: 'table --topology T [--fault F]... [--polarity XYZ] [--json]',
-  options: [...LEG_OPTIONS, { name: 'polarity', type: 'string', value: 'XYZ', help: 'show one polarity string only (default: all 25)' }, JSON_OPTION, HELP_OPTION],
+  usage: 'table --topology T [--fault F]... [--polarity XYZ] [--vdc V] [--json]',
+  options: [...LEG_OPTIONS, { name: 'polarity', type: 'string', value: 'XYZ', help: 'show one polarity string only (default: all 25)' }, VDC_OPTION, JSON_OPTION, HELP_OPTION],
   run: async (args, io) => {
     const { topology, faults, rules } = legInputs(args);
+    const vdc = vdcInput(args);
     const table = switchingTable({ topology, faults, ...rules });
     const only = args.values.get('polarity') as string | undefined;
     if (only !== undefined) parsePolarity(only, '--polarity');
     if (args.flags.has('json')) {
-      await io.stdout(`${JSON.stringify(only === undefined ? table : onlyPolarity(table, only))}\n`);
+      const doc = only === undefined ? table : onlyPolarity(table, only);
+      await io.stdout(`${JSON.stringify(vdc === undefined ? doc : { ...doc, volts: { vdc, unitVolts: vdc / 2 } })}\n`);
       return 0;
     }
-    await io.stdout(`${tableText(table, only)}\n`);
+    await io.stdout(`${tableText(table, only, vdc)}\n`);
     return 0;
   },
 };
@@ -28,19 +30,20 @@ export const tableCommand: Command = {
  *
  * @param table - the table
  * @param only - restrict to one polarity string
+ * @param vdc - total DC-link voltage in volts: levels and reaches in volts too
  * @returns terminal text
  * @example
  * ```ts
  * tableText(switchingTable({ topology: 'npc' }), '+--');
  * ```
  */
-export function tableText(table: SwitchingTable, only?: string): string {
-  const lines = [`Leg: ${table.topology}   faults: ${table.faults.join(', ') || 'none'}`, ''];
+export function tableText(table: SwitchingTable, only?: string, vdc?: number): string {
+  const lines = [`Leg: ${table.topology}   faults: ${table.faults.join(', ') || 'none'}`, ...(vdc === undefined ? [] : [`DC link ${fmt(vdc, 1)} V: levels ${table.levels.map((l) => `${levelText(l)} = ${fmt((l * vdc) / 2, 1)} V`).join(', ')} (from the midpoint)`]), ''];
   for (const pol of table.polarityOrder) {
     if (only !== undefined && pol !== only) continue;
     const p = table.polarities[pol];
     if (!p) continue;
-    lines.push(`Polarity ${pol} (index ${p.index}): ${p.vectors.length} vectors, ${p.lost.length} lost${p.lost.length ? ` (${p.lost.map((v) => `${v.class} ${v.levels[0]?.map(levelText).join('')}`).join(', ')})` : ''}, ${p.tableTriangles.length} admissible triangles, reach ${fmt(p.reach, 4)}`);
+    lines.push(`Polarity ${pol} (index ${p.index}): ${p.vectors.length} vectors, ${p.lost.length} lost${p.lost.length ? ` (${p.lost.map((v) => `${v.class} ${v.levels[0]?.map(levelText).join('')}`).join(', ')})` : ''}, ${p.tableTriangles.length} admissible triangles, reach ${fmt(p.reach, 4)}${vdc === undefined ? '' : ` (${fmt(lineRmsVolts(p.reach, vdc), 1)} V line RMS)`}`);
     const rows = p.tableTriangles.map((tri, t) => {
       const seq = tri.sequence;
       const states = seq ? seq.states.map((s) => s.map((x) => levelText(x.level)).join('')).join(' > ') : '(none)';

@@ -1,9 +1,10 @@
 import {
-  CAUTIONS, deratingCurve, describeRules, gatedDeviceIds, locateReference, PHASES, type ClaimVerdict, type DiagramAtlas, type FaultAtlas, type PatternResult,
+  CAUTIONS, deratingCurve, describeRules, lineRmsVolts, phasePeakVolts, gatedDeviceIds, locateReference, PHASES, type ClaimVerdict, type DiagramAtlas, type FaultAtlas, type PatternResult,
   type PhasePolarity, type RemedialPlan, type SwitchingTable,
 } from '@hexsalvage/core';
 import { atlasHeatmapSvg, atlasPairMatrixSvg, deratingCurveSvg, esc, legSchematicSvg, sectorOverviewSvg, switchingPeriodSvg, vectorDiagramSvg } from '@hexsalvage/plot';
 import { fmt, levelText } from '../format.js';
+import type { Scenario } from '../readScenario.js';
 import { schematicFocus } from '../schematicFocus.js';
 import { REPORT_CSS } from './reportStyles.js';
 
@@ -17,9 +18,22 @@ export interface ReportInputs {
   readonly verdicts?: readonly ClaimVerdict[];
   /** Every fault of the leg (`report --atlas`): an appendix. */
   readonly faultAtlas?: FaultAtlas;
-  /** Shown in the header; default the ISO date of today is not used so that output is reproducible. */
+  /** Tool and version, shown in the header. */
   readonly generatedBy: string;
+  /** The review scenario the report was made for (`report --scenario`). */
+  readonly scenario?: ReportScenario;
+  /** Total DC-link voltage in volts (the scenario's, or `--vdc`): volts beside the per-unit figures. */
+  readonly vdc?: number;
+  /** The command line that made the report, as typed. */
+  readonly commandLine?: string;
+  /** When it was made, ISO 8601 UTC (from SOURCE_DATE_EPOCH when set, for byte-reproducible builds). */
+  readonly date?: string;
+  /** Every input file with its SHA-256. */
+  readonly inputs?: readonly { readonly path: string; readonly sha256: string }[];
 }
+
+/** Scenario data shown in the report header (a scenario file, docs/schema/scenario.schema.json). */
+export type ReportScenario = Pick<Scenario, 'drive' | 'ratedPowerKw' | 'ratedLineVoltageV' | 'vdc' | 'fundamentalHz' | 'switchingHz' | 'dcLinkCapacitanceF' | 'loadAngleRangeDeg'>;
 
 /**
  * The design-review report: one self-contained HTML file (inline CSS and SVG, no scripts, no
@@ -36,25 +50,28 @@ export function buildReport(r: ReportInputs): string {
   const { atlas, plan, table } = r;
   const leg = atlas.analysis.leg;
   const faultText = plan.faults.join(', ') || 'none (healthy leg)';
+  const vdc = r.vdc ?? r.scenario?.vdc;
+  const volts = (m: number) => (vdc === undefined ? '' : ` = ${fmt(lineRmsVolts(m, vdc), 1)} V line-to-line RMS (${fmt(phasePeakVolts(m, vdc), 1)} V phase peak)`);
   const s: string[] = [];
-  s.push(`<h1>Remedial operation review: ${esc(plan.topology)}</h1>`);
-  s.push(`<p class="muted">Faults: <strong>${esc(faultText)}</strong> · load angle ${fmt(plan.loadAngleDeg, 1)}° · polarity margin ${fmt(plan.polarityMarginDeg, 1)}° · ${esc(r.generatedBy)}</p>`);
+  s.push(`<h1>Remedial operation review: ${esc(r.scenario?.drive ?? plan.topology)}</h1>`);
+  s.push(`<p class="muted">Leg ${esc(plan.topology)} · faults: <strong>${esc(faultText)}</strong> · load angle ${fmt(plan.loadAngleDeg, 1)}° · polarity margin ${fmt(plan.polarityMarginDeg, 1)}° · ${esc(r.generatedBy)}</p>`);
+  if (plan.mMax === 0) s.push('<p class="verdict-fails"><strong>Verdict: the drive cannot run in this state.</strong> It must stop; no output voltage can be produced safely at this load angle.</p>');
   s.push(`<div class="caution" role="note"><strong>Caution.</strong><ul>${CAUTIONS.map((c) => `<li>${esc(c)}</li>`).join('')}</ul></div>`);
-
+  s.push(reviewHeader(r, vdc));
   s.push('<h2>1. Inputs and assumptions</h2>');
   s.push(`<table><tr><th>leg</th><td>${esc(leg.name)} (from <code>${esc(r.topologyText)}</code>), ${leg.devices.length} devices, DC nodes ${Object.entries(leg.dcNodes).map(([k, v]) => `${esc(k)} = ${fmt(v, 2)}`).join(', ')} (units of Vdc/2)</td></tr>`
     + `<tr><th>faults</th><td>${esc(faultText)}</td></tr>`
     + `<tr><th>operating point</th><td>load angle φ = ${fmt(plan.loadAngleDeg, 2)}° (currents lag the voltage reference); polarity margin δ = ${fmt(plan.polarityMarginDeg, 2)}° (within δ of a current zero crossing the sign counts as unknown)</td></tr>`
     + `<tr><th>rules applied</th><td>${esc(describeRules(plan.rules))}${plan.unrated.length ? `; <span class="flag">unrated devices, not checked: ${esc(plan.unrated.join(', '))}</span>` : ''}</td></tr>`
     + '<tr><th>model</th><td>ideal switches and diodes; an open fault removes all conduction of the element, a short makes it conduct both ways; levels from the highest (i &gt; 0) or lowest (i &lt; 0) reachable DC node; a state is used only if a static distribution of node voltages keeps every rated device within its rating; a phase changes level only by switch actions, one at a time, that pass through such states; no dead time, switching transients or thermal effects</td></tr>'
-    + '<tr><th>units</th><td>potentials and modulation index m in units of Vdc/2 (m = peak fundamental phase voltage / (Vdc/2)); healthy linear limit 2/√3 ≈ 1.1547</td></tr></table>');
+    + `<tr><th>units</th><td>potentials and modulation index m in units of Vdc/2 (m = peak fundamental phase voltage / (Vdc/2)); healthy linear limit 2/√3 ≈ 1.1547${vdc === undefined ? '' : `; at Vdc = ${fmt(vdc, 1)} V one unit is ${fmt(vdc / 2, 1)} V, and m corresponds to m·${fmt(vdc / 2, 1)} V phase peak, m·${fmt(lineRmsVolts(1, vdc), 1)} V line-to-line RMS`}</td></tr></table>`);
 
   s.push('<h2>2. Limit and derating</h2>');
-  if (plan.mMax === 0) s.push(`<p class="verdict-fails"><strong>The drive cannot run in this state</strong> at this load angle: no modulation index above 0 can be produced without overstressing a device or breaking a current.</p>`);
+  if (plan.mMax === 0) s.push(`<p class="verdict-fails"><strong>The drive cannot run in this state</strong> at this load angle: no output voltage above 0 can be produced without overstressing a device or breaking a current.</p>`);
   const hullDiffers = Math.abs(plan.mMaxHull - plan.mMax) > 1e-9;
-  s.push(`<table><tr><th>maximum modulation index, faulted (safe)</th><td><strong>${fmt(plan.mMax, 6)}</strong></td></tr><tr><th>healthy</th><td>${fmt(plan.mMaxHealthy, 6)}</td></tr><tr><th>derating ratio</th><td><strong>${fmt(plan.deratingRatio * 100, 2)} %</strong></td></tr>`
+  s.push(`<table><tr><th>maximum modulation index, faulted (safe)</th><td><strong>${fmt(plan.mMax, 6)}</strong>${esc(volts(plan.mMax))}</td></tr><tr><th>healthy</th><td>${fmt(plan.mMaxHealthy, 6)}${esc(volts(plan.mMaxHealthy))}</td></tr><tr><th>derating ratio</th><td><strong>${fmt(plan.deratingRatio * 100, 2)} %</strong></td></tr>`
     + `<tr><th>convex-hull bound (first version)</th><td>${fmt(plan.mMaxHull, 6)}${hullDiffers ? ' <span class="flag">not safe: it ignores what the rules below take away</span>' : ''}</td></tr>`
-    + `<tr><th>midpoint balance holds up to</th><td>m = ${fmt(plan.mMaxBalanced, 6)}${plan.mMaxBalanced < plan.mMax - 1e-9 ? ' <span class="flag">above this the average midpoint current cannot be held at zero</span>' : ''}</td></tr></table>`);
+    + `<tr><th>midpoint balance holds up to</th><td>m = ${fmt(plan.mMaxBalanced, 6)}${esc(volts(plan.mMaxBalanced))}${plan.mMaxBalanced < plan.mMax - 1e-9 ? ' <span class="flag">above this the average midpoint current cannot be held at zero</span>' : ''}</td></tr></table>`);
   s.push(`<p>${esc(bindingExplanation(plan))}</p>`);
   if (plan.restrictions.length) s.push(`<p>What the rules take away:</p><ul>${plan.restrictions.map((x) => `<li>${esc(x)}</li>`).join('')}</ul>`);
   if (plan.notes.length) s.push(`<ul>${plan.notes.map((x) => `<li class="flag">${esc(x)}</li>`).join('')}</ul>`);
@@ -118,16 +135,20 @@ export function buildReport(r: ReportInputs): string {
   }
 
   if (r.verdicts && r.verdicts.length) {
-    s.push('<h2>7. Derating claims</h2><table><tr><th>claim</th><th>verdict</th><th>m promised</th><th>worst mMax</th><th>hull bound</th><th>at load angle</th><th>short by</th><th>rules</th><th>binding edge</th></tr>');
+    s.push('<h2>7. Derating claims</h2><table><thead><tr><th>claim</th><th>case</th><th>promised</th><th>load angles</th><th>rules</th><th>verdict</th><th>worst mMax</th><th>at</th><th>short by</th></tr></thead>');
     for (const v of r.verdicts) {
-      const edge = v.bindingEdge ? v.bindingEdge.map((e) => `${e.class} ${e.levels[0]?.join('/')}`).join(' – ') : v.mMaxAtWorst === 0 ? 'none: cannot run in this state' : 'none';
-      const rules = `${v.rules.ratings ? 'ratings' : 'ratings IGNORED'}, ${v.rules.levelSteps}`;
-      s.push(`<tr><td>${esc(v.name)}</td><td class="${v.holds ? 'verdict-holds' : 'verdict-fails'}">${v.holds ? 'holds' : 'FAILS'}</td><td>${fmt(v.m, 4)}</td><td>${fmt(v.mMaxAtWorst, 6)}</td><td>${fmt(v.mMaxHullAtWorst, 6)}</td><td>${fmt(v.worstLoadAngleDeg, 2)}°</td><td>${v.holds ? '—' : fmt(v.shortfall, 6)}</td><td>${esc(rules)}</td><td>${esc(edge)}</td></tr>`);
+      const other = v.topology !== plan.topology || [...v.faults].sort().join(',') !== [...plan.faults].sort().join(',');
+      const rules = `${v.rules.ratings ? 'ratings' : 'ratings IGNORED'}, ${v.rules.levelSteps}, margin ${fmt(v.polarityMarginDeg, 1)}°`;
+      const promised = `m ${fmt(v.m, 4)}${v.volts ? ` (${fmt(v.volts.lineRmsPromised, 1)} V rms at Vdc ${fmt(v.volts.vdc, 0)} V)` : ''}`;
+      const worst = v.mMaxAtWorst === 0 ? '0: cannot run in this state' : `${fmt(v.mMaxAtWorst, 6)}${v.volts ? ` (${fmt(v.volts.lineRmsAtWorst, 1)} V rms)` : ''}`;
+      const short = v.holds ? '—' : `${fmt(v.shortfall, 6)}${v.volts ? ` (${fmt(v.volts.shortfallLineRms, 1)} V rms)` : ''}`;
+      s.push(`<tr><td>${esc(v.name)}</td><td>${esc(v.topology)}: ${esc(v.faults.join(', ') || 'healthy')}${other ? ' <span class="flag">(another case than this report\'s)</span>' : ''}</td><td>${esc(promised)}</td><td>${fmt(v.loadAngleDeg[0], 1)}° … ${fmt(v.loadAngleDeg[1], 1)}°</td><td>${esc(rules)}</td><td class="${v.holds ? 'verdict-holds' : 'verdict-fails'}">${v.holds ? 'holds' : 'FAILS'}</td><td>${esc(worst)}</td><td>${fmt(v.worstLoadAngleDeg, 2)}°</td><td>${esc(short)}</td></tr>`);
     }
-    s.push('</table><p class="muted">Each verdict is exact over the whole load-angle range of the claim, not sampled.</p>');
+    s.push('</table><p class="muted">Each verdict is exact over the whole load-angle range of the claim, not sampled. A claim marked "another case" is about a different leg or other faults than the rest of this report; it is judged on its own case.</p>');
   }
   if (r.faultAtlas) s.push(atlasAppendix(r.faultAtlas));
   s.push(`<div class="caution" role="note"><strong>Before operating with a failed device:</strong> confirm the remaining devices' current, voltage and thermal stress, the DC-link capacitor ripple and midpoint balance, and the load, by test and against the device ratings. Local electrical codes and licensed practice come first.</div>`);
+  s.push(signOff());
   return `<!DOCTYPE html>
 <html lang="en">
 <head>
@@ -141,6 +162,39 @@ ${s.join('\n')}
 </body>
 </html>
 `;
+}
+
+// The header a reviewer signs against: scenario data, how the report was made, every input's hash.
+function reviewHeader(r: ReportInputs, vdc: number | undefined): string {
+  const sc = r.scenario;
+  const rows: [string, string][] = [];
+  if (sc) {
+    rows.push(['drive', sc.drive]);
+    if (sc.ratedPowerKw !== undefined) rows.push(['rated power', `${fmt(sc.ratedPowerKw, 1)} kW`]);
+    if (sc.ratedLineVoltageV !== undefined) rows.push(['rated line voltage', `${fmt(sc.ratedLineVoltageV, 0)} V RMS line to line`]);
+    if (sc.fundamentalHz !== undefined) rows.push(['fundamental frequency', `${fmt(sc.fundamentalHz, 1)} Hz`]);
+    if (sc.switchingHz !== undefined) rows.push(['switching frequency', `${fmt(sc.switchingHz, 0)} Hz`]);
+    if (sc.dcLinkCapacitanceF !== undefined) rows.push(['DC-link capacitance', `${fmt(sc.dcLinkCapacitanceF * 1e6, 0)} µF per half`]);
+    if (sc.loadAngleRangeDeg) rows.push(['load-angle range', `${fmt(sc.loadAngleRangeDeg[0], 1)}° to ${fmt(sc.loadAngleRangeDeg[1], 1)}° (operating point ${fmt(r.plan.loadAngleDeg, 1)}°)`]);
+  }
+  if (vdc !== undefined) rows.push(['DC-link voltage', `${fmt(vdc, 1)} V (Vdc/2 = ${fmt(vdc / 2, 1)} V)`]);
+  rows.push(['rules', describeRules(r.plan.rules)]);
+  if (r.commandLine) rows.push(['made by', r.commandLine]);
+  rows.push(['tool', r.generatedBy]);
+  if (r.date) rows.push(['date', r.date]);
+  const inputs = (r.inputs ?? []).map((x) => `<div><code>${esc(x.path)}</code><br><code class="hash">SHA-256 ${esc(x.sha256)}</code></div>`).join('');
+  return `<h2>Review header</h2><table class="header">${rows.map(([k, v]) => `<tr><th>${esc(k)}</th><td>${k === 'made by' ? `<code>${esc(v)}</code>` : esc(v)}</td></tr>`).join('')}`
+    + `<tr><th>input files</th><td>${inputs || 'none (built-in leg, options on the command line)'}</td></tr></table>`;
+}
+
+// A block to sign on paper: who prepared and who reviewed, the date and the decision.
+function signOff(): string {
+  const line = '<span class="sign-line"></span>';
+  return `<div class="sign-off"><h2>Sign-off</h2><table><tr><th>prepared by</th><td>${line}</td><th>date</th><td>${line}</td></tr>`
+    + `<tr><th>reviewed by</th><td>${line}</td><th>date</th><td>${line}</td></tr>`
+    + '<tr><th>decision</th><td colspan="3">☐ continue at full voltage &nbsp; ☐ continue with derating to m ≤ ______ &nbsp; ☐ stop the drive until repaired</td></tr>'
+    + `<tr><th>conditions, tests</th><td colspan="3" class="sign-box"></td></tr></table>`
+    + '<p class="muted">Signing confirms the review of these figures, not the safety of the hardware: confirm device stress, DC-link ripple, midpoint balance and load behaviour by test.</p></div>';
 }
 
 // Rows listed in the appendix table; a pair atlas has more (the CSV of `atlas` lists them all).

@@ -21,5 +21,11 @@ tr { page-break-inside: avoid; }
 .flag { font-weight: bold; color: #a13f00; }
 .muted { color: #555; }
 code { font-family: 'DejaVu Sans Mono', monospace; font-size: 9pt; }
+code.hash { font-size: 7.5pt; word-break: break-all; }
+.sign-off { page-break-inside: avoid; margin-top: 8mm; }
+.sign-off table { width: 100%; }
+.sign-off td { height: 10mm; }
+.sign-line { display: inline-block; min-width: 55mm; }
+.sign-box { height: 22mm; }
 @media print { body { padding: 0; } a { color: inherit; text-decoration: none; } }
 `;
