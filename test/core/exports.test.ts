@@ -36,6 +36,17 @@ describe('exportCsv', () => {
   });
 });
 
+// The gate masks the TypeScript table gives for the states of a triangle: vertex by vertex, phase
+// by phase, bit i = gated device i (table.devices), from each state's pattern.
+function expectedMasks(table: ReturnType<typeof switchingTable>, p: number, t: number): number[] {
+  const tri = table.polarities[POLARITY_STRINGS[p]!]!.tableTriangles[t]!;
+  const seq = tri.sequence;
+  return tri.vertices.flatMap((v, k) => {
+    const phases = seq ? seq.states[seq.order.indexOf(k)]! : v.realisations[0]!.phases;
+    return phases.map((s) => table.patternGates[table.patterns.indexOf(s.pattern)]!.reduce((m, g) => m + 2 ** table.devices.indexOf(g), 0));
+  });
+}
+
 describe('exportC', () => {
   it('rejects a prefix that is not a C identifier', () => {
     expect(() => exportC(switchingTable({ topology: 'npc' }), { prefix: '9x' })).toThrow(HexsalvageInputError);
@@ -67,6 +78,71 @@ describe('exportC', () => {
     execFileSync(cc as string, ['-std=c99', '-Wall', '-Werror', '-Wno-unused-function', '-o', join(dir, 'main'), join(dir, 'main.c'), '-lm']);
     expect(spawnSync(join(dir, 'main')).status).toBe(0);
   });
+  it.skipIf(!cc)('float tables: same triangle and gate masks, dwell within 1e-6 (references clear of triangle edges)', () => {
+    const table = switchingTable({ topology: 'npc', faults: ['a.outerUpper'] });
+    const dir = mkdtempSync(join(tmpdir(), 'hexsalvage-cf-'));
+    const header = exportC(table, { prefix: 'pump', cType: 'float' });
+    expect(header).toContain('typedef float pump_real;');
+    writeFileSync(join(dir, 'pump_table.h'), header);
+    writeFileSync(join(dir, 'driver.c'), `#include <stdio.h>
+#include "pump_table.h"
+int main(void) {
+  int p, clamped, t, v, k; double a, b, d[3];
+  while (scanf("%d %lf %lf", &p, &a, &b) == 3) {
+    t = pump_locate(p, a, b, d, &clamped);
+    if (t < 0) { printf("-1\\n"); continue; }
+    printf("%d %.9g %.9g %.9g %d", t - pump_tri_first[p], d[0], d[1], d[2], clamped);
+    for (v = 0; v < 3; v++) for (k = 0; k < 3; k++) printf(" %lu", (unsigned long)pump_state_mask[t][v][k]);
+    printf("\\n");
+  }
+  return 0;
+}
+`);
+    execFileSync(cc as string, ['-std=c99', '-O2', '-Wall', '-Wextra', '-Werror', '-Wno-unused-function', '-o', join(dir, 'driver'), join(dir, 'driver.c'), '-lm']);
+    const mod = createModulator(table);
+    const buf = new Float64Array(4);
+    // references inside each polarity's reach, in every direction
+    // (integers, not fc.double, whose bias to tiny values would put most points at the origin vertex)
+    const cases = fc.sample(fc.tuple(fc.nat(24), fc.integer({ min: 1, max: 970 }), fc.integer({ min: 0, max: 359999 })), { seed: FC_SEED, numRuns: 3000 })
+      .map(([p, f, deg]) => {
+        const r = (f / 1000) * table.polarities[POLARITY_STRINGS[p]!]!.reach;
+        const th = (deg / 1000) * (Math.PI / 180);
+        return [p, r * Math.cos(th), r * Math.sin(th)] as [number, number, number];
+      })
+      .filter(([p, a, b]) => mod.modulateInto(a, b, p, buf) >= 0 && buf[3] === 0 && Math.min(buf[0]!, buf[1]!, buf[2]!) > 1e-4);
+    expect(cases.length).toBeGreaterThan(1000);
+    const out = execFileSync(join(dir, 'driver'), { input: cases.map(([p, a, b]) => `${p} ${a.toPrecision(17)} ${b.toPrecision(17)}`).join('\n') }).toString().trim().split('\n');
+    cases.forEach(([p, a, b], i) => {
+      const t = mod.modulateInto(a, b, p, buf);
+      const line = (out[i] as string).split(' ');
+      expect(Number(line[0])).toBe(t);
+      for (let k = 0; k < 3; k++) expect(Math.abs(Number(line[k + 1]) - (buf[k] as number))).toBeLessThan(1e-6);
+      expect(line.slice(5).map(Number)).toEqual(expectedMasks(table, p, t));
+    });
+  });
+
+  it('names the guard and include after the file, lists the devices of the masks, defines the limits, rules and Vdc, and lists every realisation', () => {
+    const table = switchingTable({ topology: 'npc', faults: ['a.outerUpper'] });
+    const plan = planRemedial({ topology: 'npc', faults: ['a.outerUpper'], loadAngleDeg: 20, polarityMarginDeg: 2 });
+    const h = exportC(table, { prefix: 'drv', fileName: 'build/remedial-table.h', limits: plan, vdc: 750 });
+    expect(h).toContain('#ifndef REMEDIAL_TABLE_H_');
+    expect(h).toContain('#include "remedial-table.h"');
+    expect(h).toContain('bit i is gated device i of the phase: 0 outerUpper, 1 innerUpper, 2 innerLower, 3 outerLower');
+    expect(h).toContain('static const uint32_t drv_pattern_mask[DRV_PATTERN_COUNT] = {0x3UL, 0x6UL, 0xCUL};');
+    expect(h).toMatch(/#define DRV_M_MAX 0\.5773502691896257\d/);
+    expect(h).toContain('#define DRV_LOAD_ANGLE_DEG 20.0');
+    expect(h).toContain('#define DRV_POLARITY_MARGIN_DEG 2.0');
+    expect(h).toContain('#define DRV_RULE_LEVEL_STEPS "commutable"');
+    expect(h).toContain('#define DRV_VDC 750.0');
+    const total = Object.values(table.polarities).reduce((n, p) => n + p.tableTriangles.reduce((k, t) => k + t.vertices.reduce((j, v) => j + v.realisations.length, 0), 0), 0);
+    expect(h).toContain(`#define DRV_REALISATION_COUNT ${total}`);
+    // a small vector of the healthy polarities has a P-type and an N-type realisation with opposite midpoint signs
+    const signs = h.match(/drv_real_midpoint_sign\[\d+\] = \{([^}]*)\}/)![1]!.split(', ').map(Number);
+    expect(signs).toContain(1);
+    expect(signs).toContain(-1);
+    expect(() => exportC(table, { cType: 'half' as never })).toThrow(HexsalvageInputError);
+  });
+
   // the second and third cases have admissible tilings that do not fill their hulls, so references
   // outside are clamped to the tiling's outline (Version 2) in both languages
   it.skipIf(!cc).each([
@@ -81,11 +157,13 @@ describe('exportC', () => {
     writeFileSync(join(dir, 'driver.c'), `#include <stdio.h>
 #include "pump_table.h"
 int main(void) {
-  int p, clamped, t; double a, b, d[3];
+  int p, clamped, t, v, k; double a, b, d[3];
   while (scanf("%d %lf %lf", &p, &a, &b) == 3) {
     t = pump_locate(p, a, b, d, &clamped);
     if (t < 0) { printf("-1\\n"); continue; }
-    printf("%d %.17g %.17g %.17g %d %d\\n", t - pump_tri_first[p], d[0], d[1], d[2], clamped, pump_polarity_index(1, -1, 0));
+    printf("%d %.17g %.17g %.17g %d %d", t - pump_tri_first[p], d[0], d[1], d[2], clamped, pump_polarity_index(1, -1, 0));
+    for (v = 0; v < 3; v++) for (k = 0; k < 3; k++) printf(" %lu", (unsigned long)pump_state_mask[t][v][k]);
+    printf("\\n");
   }
   return 0;
 }
@@ -104,6 +182,7 @@ int main(void) {
       for (let k = 0; k < 3; k++) expect(Number(line[k + 1])).toBeCloseTo(buf[k] as number, 12);
       expect(Number(line[4])).toBe(buf[3]);
       expect(Number(line[5])).toBe(POLARITY_STRINGS.indexOf('+-?'));
+      expect(line.slice(6).map(Number)).toEqual(expectedMasks(table, p, t));
     });
   });
 });

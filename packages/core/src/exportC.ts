@@ -8,6 +8,14 @@ import { requireObject } from './validate.js';
 export interface ExportCOptions {
   /** Identifier prefix for every symbol (C identifier characters). Default `hs`. */
   readonly prefix?: string;
+  /** Floating type of the tables and the lookup: `double` (default) or `float` (half the size; dwell to about 1e-6). */
+  readonly cType?: 'double' | 'float';
+  /** File name the header is written to: sets the include guard and the include line. Default `<prefix>_table.h`. */
+  readonly fileName?: string;
+  /** The plan the table is used with: its limits, load angle, margin and rules become `#define`s. */
+  readonly limits?: { readonly mMax: number; readonly mMaxHull: number; readonly loadAngleDeg: number; readonly polarityMarginDeg: number; readonly rules: { readonly ratings: boolean; readonly levelSteps: string } };
+  /** Total DC-link voltage in volts, as `<PREFIX>_VDC`. */
+  readonly vdc?: number;
 }
 
 /**
@@ -34,10 +42,31 @@ export interface ExportCOptions {
  * ```
  */
 export function exportC(table: SwitchingTable, options: ExportCOptions = {}): string {
-  requireObject(options, 'exportC', 'an options object { prefix? }');
+  requireObject(options, 'exportC', 'an options object { prefix?, cType?, fileName?, limits?, vdc? }');
   const px = options.prefix ?? 'hs';
   if (!/^[A-Za-z_][A-Za-z0-9_]{0,30}$/.test(px)) throw new HexsalvageInputError('option', 'exportC', 'prefix', 'a C identifier of up to 31 characters', px);
   const PX = px.toUpperCase();
+  const real = options.cType ?? 'double';
+  if (real !== 'double' && real !== 'float') throw new HexsalvageInputError('option', 'exportC', 'cType', 'double or float', real);
+  const fileName = options.fileName ?? `${px}_table.h`;
+  const base = fileName.replace(/^.*[\\/]/, '');
+  const guard = `${base.replace(/[^A-Za-z0-9]/g, '_').replace(/^(\d)/, '_$1').toUpperCase()}_`;
+  // gate masks: bit i = gated device i of the phase, in netlist order
+  const devices = table.devices ?? [];
+  const wideMask = devices.length > 32;
+  if (devices.length > 64) throw new HexsalvageInputError('option', 'exportC', 'table.devices', 'at most 64 gated devices per phase (one 64-bit mask)', devices.length);
+  const maskType = wideMask ? 'uint64_t' : 'uint32_t';
+  const maskOf = (pattern: string): string => {
+    const gates = table.patternGates?.[table.patterns.indexOf(pattern)] ?? [];
+    let m = 0n;
+    for (const g of gates) { const i = devices.indexOf(g); if (i >= 0) m |= 1n << BigInt(i); }
+    return `0x${m.toString(16).toUpperCase()}${wideMask ? 'ULL' : 'UL'}`;
+  };
+  const stateMask: string[] = [];
+  const realFirst: number[] = [0];
+  const realLevels: string[] = [];
+  const realMask: string[] = [];
+  const realSign: number[] = [];
   const dwell: string[] = [];
   const levels: string[] = [];
   const patterns: string[] = [];
@@ -61,6 +90,18 @@ export function exportC(table: SwitchingTable, options: ExportCOptions = {}): st
       });
       patterns.push(`  {${pat.join(', ')}}`);
       order.push(`  {${(seq?.order ?? [0, 1, 2]).join(', ')}}`);
+      stateMask.push(`  {${tri.vertices.map((_, k) => {
+        const st = seq ? seq.states[seq.order.indexOf(k)] : rz[k]?.phases;
+        return `{${(st ?? []).map((x) => maskOf(x.pattern)).join(', ')}}`;
+      }).join(', ')}}`);
+      for (const v of tri.vertices) {
+        for (const r of v.realisations) {
+          realLevels.push(`  {${r.levels.map(c).join(', ')}}`);
+          realMask.push(`  {${r.phases.map((x) => maskOf(x.pattern)).join(', ')}}`);
+          realSign.push(r.midpointSign === null ? 2 : r.midpointSign);
+        }
+        realFirst.push((realFirst[realFirst.length - 1] as number) + v.realisations.length);
+      }
     });
     triFirst.push((triFirst[triFirst.length - 1] as number) + tris.length);
     for (const [a, b] of p?.hull ?? []) hull.push(`  {${c(a)}, ${c(b)}}`);
@@ -71,33 +112,59 @@ export function exportC(table: SwitchingTable, options: ExportCOptions = {}): st
   const nTri = triFirst[triFirst.length - 1] as number;
   const nHull = hullFirst[hullFirst.length - 1] as number;
   const nOutline = outlineFirst[outlineFirst.length - 1] as number;
+  const nReal = realFirst[realFirst.length - 1] as number;
   const body = (rows: string[], empty: string) => (rows.length ? rows.join(',\n') : empty);
+  const R = real === 'float' ? 4 : 8;
+  const bytes = nTri * (9 * R + 9 * R + 9 + 3 + 9 * (wideMask ? 8 : 4)) + nHull * 2 * R + nOutline * 4 * R + nReal * (3 * R + 3 * (wideMask ? 8 : 4) + 1) + (3 * nTri + 1) * 4;
+  const lim = options.limits;
+  const defines = [
+    ...(lim ? [
+      `#define ${PX}_M_MAX ${c(lim.mMax)} /* safe limit at the load angle below, units of Vdc/2 */`,
+      `#define ${PX}_M_MAX_HULL ${c(lim.mMaxHull)} /* first-version convex-hull bound: NOT safe, for review only */`,
+      `#define ${PX}_LOAD_ANGLE_DEG ${c(lim.loadAngleDeg)}`,
+      `#define ${PX}_POLARITY_MARGIN_DEG ${c(lim.polarityMarginDeg)}`,
+      `#define ${PX}_RULE_RATINGS ${lim.rules.ratings ? 1 : 0} /* 1: device voltage ratings applied */`,
+      `#define ${PX}_RULE_LEVEL_STEPS ${cString(lim.rules.levelSteps)}`,
+    ] : []),
+    ...(options.vdc !== undefined ? [`#define ${PX}_VDC ${c(options.vdc)} /* total DC-link voltage, volts: one unit of Vdc/2 is ${PX}_VDC / 2 */`] : []),
+  ];
   return `/*
- * ${px}_table.h: degraded switching-state table generated by hexsalvage.
+ * ${comment(base)}: degraded switching-state table generated by hexsalvage.
+ * Use: #include "${comment(base)}" in one or more C99 files (everything is static).
  * Leg: ${comment(table.topology)}; faults: ${comment(table.faults.join(', ') || 'none')}.
- * Units: levels and alpha/beta in units of Vdc/2.
+ * Units: levels and alpha/beta in units of Vdc/2. Floating type: ${real} (${px}_real); tables about ${bytes} bytes.
+ * Gate masks: bit i is gated device i of the phase: ${devices.map((d, i) => `${i} ${comment(d)}`).join(', ') || 'none'}.
 ${CAUTIONS.map((x) => ` * CAUTION: ${x}`).join('\n')}
  */
-#ifndef ${PX}_TABLE_H
-#define ${PX}_TABLE_H
+#ifndef ${guard}
+#define ${guard}
 
 #include <math.h>
+#include <stdint.h>
+
+typedef ${real} ${px}_real;
 
 #define ${PX}_POLARITY_COUNT 25
 #define ${PX}_TRIANGLE_COUNT ${nTri}
 #define ${PX}_PATTERN_COUNT ${table.patterns.length}
 #define ${PX}_DWELL_TOLERANCE ${c(DWELL_TOLERANCE)}
+#define ${PX}_DEVICE_COUNT ${devices.length}
+#define ${PX}_REALISATION_COUNT ${nReal}
+${defines.join('\n')}
 
 /* "?" is written "\\?" so that no "??x" trigraph forms */
 static const char *const ${px}_polarity_names[${PX}_POLARITY_COUNT] = {${table.polarityOrder.map(cString).join(', ')}};
 static const char *const ${px}_pattern_names[${PX}_PATTERN_COUNT] = {${table.patterns.map(cString).join(', ')}};
+static const char *const ${px}_device_names[${Math.max(1, devices.length)}] = {${devices.length ? devices.map(cString).join(', ') : '0'}};
+/* gate mask of each pattern (bit i = device i) */
+static const ${maskType} ${px}_pattern_mask[${PX}_PATTERN_COUNT] = {${table.patterns.map(maskOf).join(', ')}};
 static const unsigned short ${px}_tri_first[${PX}_POLARITY_COUNT + 1] = {${triFirst.join(', ')}};
 static const unsigned short ${px}_hull_first[${PX}_POLARITY_COUNT + 1] = {${hullFirst.join(', ')}};
 static const unsigned short ${px}_outline_first[${PX}_POLARITY_COUNT + 1] = {${outlineFirst.join(', ')}};
-static const double ${px}_dwell[${Math.max(1, nTri)}][9] = {
+static const ${px}_real ${px}_dwell[${Math.max(1, nTri)}][9] = {
 ${body(dwell, '  {0}')}
 };
-static const double ${px}_levels[${Math.max(1, nTri)}][3][3] = {
+static const ${px}_real ${px}_levels[${Math.max(1, nTri)}][3][3] = {
 ${body(levels, '  {{0}}')}
 };
 static const unsigned char ${px}_pattern[${Math.max(1, nTri)}][3][3] = {
@@ -106,11 +173,26 @@ ${body(patterns, '  {{0}}')}
 static const unsigned char ${px}_order[${Math.max(1, nTri)}][3] = {
 ${body(order, '  {0}')}
 };
-static const double ${px}_hull[${Math.max(1, nHull)}][2] = {
+/* gate masks of the state applied at each vertex, per phase (the realisation the sequence chose) */
+static const ${maskType} ${px}_state_mask[${Math.max(1, nTri)}][3][3] = {
+${body(stateMask, '  {{0}}')}
+};
+/* Every realisation of each vertex, for firmware that splits a small vector's dwell between its
+ * redundant states: vertex v of global triangle t has rows [real_first[3t+v], real_first[3t+v+1]).
+ * midpoint sign under the polarity: +1 / -1 (current into / out of the midpoint), 0 none, 2 unknown. */
+static const uint32_t ${px}_real_first[${PX}_TRIANGLE_COUNT * 3 + 1] = {${realFirst.join(', ')}};
+static const ${px}_real ${px}_real_levels[${Math.max(1, nReal)}][3] = {
+${body(realLevels, '  {0}')}
+};
+static const ${maskType} ${px}_real_mask[${Math.max(1, nReal)}][3] = {
+${body(realMask, '  {0}')}
+};
+static const signed char ${px}_real_midpoint_sign[${Math.max(1, nReal)}] = {${realSign.length ? realSign.join(', ') : '0'}};
+static const ${px}_real ${px}_hull[${Math.max(1, nHull)}][2] = {
 ${body(hull, '  {0}')}
 };
 /* Outline of the admissible tiling where it does not fill the hull: {x0, y0, x1, y1}, tiling on the left. */
-static const double ${px}_outline[${Math.max(1, nOutline)}][4] = {
+static const ${px}_real ${px}_outline[${Math.max(1, nOutline)}][4] = {
 ${body(outline, '  {0}')}
 };
 
@@ -128,7 +210,7 @@ static inline int ${px}_polarity_index(int sa, int sb, int sc)
 
 static inline int ${px}_inside_(int t, double a, double b, double d[3])
 {
-  const double *m = ${px}_dwell[t];
+  const ${px}_real *m = ${px}_dwell[t];
   double d0 = m[0] * a + m[1] * b + m[2];
   double d1 = m[3] * a + m[4] * b + m[5];
   double d2 = m[6] * a + m[7] * b + m[8];
@@ -147,7 +229,7 @@ static inline void ${px}_clamp_outline_(int p, double x, double y, double *ox, d
   if (len > 0) {
     double ux = x / len, uy = y / len, exit = -1, entry = INFINITY, t;
     for (i = 0; i < n; i++) {
-      const double *g = ${px}_outline[first + i];
+      const ${px}_real *g = ${px}_outline[first + i];
       double dx = g[2] - g[0], dy = g[3] - g[1], den = ux * dy - uy * dx, s;
       if (fabs(den) < 1e-15) continue;
       t = (g[0] * dy - g[1] * dx) / den;
@@ -160,7 +242,7 @@ static inline void ${px}_clamp_outline_(int p, double x, double y, double *ox, d
     if (t < INFINITY) { *ox = t * ux; *oy = t * uy; return; }
   }
   for (i = 0; i < n; i++) {
-    const double *g = ${px}_outline[first + i];
+    const ${px}_real *g = ${px}_outline[first + i];
     double ex = g[2] - g[0], ey = g[3] - g[1];
     double s = fmin(1.0, fmax(0.0, ((x - g[0]) * ex + (y - g[1]) * ey) / (ex * ex + ey * ey)));
     double qx = g[0] + s * ex, qy = g[1] + s * ey, dq = (qx - x) * (qx - x) + (qy - y) * (qy - y);
@@ -176,7 +258,7 @@ static inline void ${px}_clamp_(int p, double x, double y, double *ox, double *o
   if (len > 0) {
     double ux = x / len, uy = y / len, lo = 0, hi = INFINITY;
     for (i = 0; i < n; i++) {
-      const double *a = ${px}_hull[first + i], *b = ${px}_hull[first + (i + 1) % n];
+      const ${px}_real *a = ${px}_hull[first + i], *b = ${px}_hull[first + (i + 1) % n];
       double nx = b[1] - a[1], ny = -(b[0] - a[0]);
       double h = nx * a[0] + ny * a[1], c = nx * ux + ny * uy;
       if (fabs(c) < 1e-15) { if (h < 0) empty = 1; }
@@ -190,7 +272,7 @@ static inline void ${px}_clamp_(int p, double x, double y, double *ox, double *o
     }
   }
   for (i = 0; i < n; i++) {
-    const double *a = ${px}_hull[first + i], *b = ${px}_hull[first + (i + 1) % n];
+    const ${px}_real *a = ${px}_hull[first + i], *b = ${px}_hull[first + (i + 1) % n];
     double ex = b[0] - a[0], ey = b[1] - a[1];
     double s = fmin(1.0, fmax(0.0, ((x - a[0]) * ex + (y - a[1]) * ey) / (ex * ex + ey * ey)));
     double qx = a[0] + s * ex, qy = a[1] + s * ey, dq = (qx - x) * (qx - x) + (qy - y) * (qy - y);
@@ -215,12 +297,12 @@ static inline int ${px}_locate(int p, double alpha, double beta, double dwell[3]
   for (t = first; t < last; t++) if (${px}_inside_(t, a, b, dwell)) return t;
   best = first;
   for (t = first; t < last; t++) {
-    const double *m = ${px}_dwell[t];
+    const ${px}_real *m = ${px}_dwell[t];
     double s = fmin(m[0] * a + m[1] * b + m[2], fmin(m[3] * a + m[4] * b + m[5], m[6] * a + m[7] * b + m[8]));
     if (s > score) { score = s; best = t; }
   }
   {
-    const double *m = ${px}_dwell[best];
+    const ${px}_real *m = ${px}_dwell[best];
     double d0 = fmax(0.0, m[0] * a + m[1] * b + m[2]), d1 = fmax(0.0, m[3] * a + m[4] * b + m[5]), d2 = fmax(0.0, m[6] * a + m[7] * b + m[8]);
     double s = d0 + d1 + d2;
     dwell[0] = d0 / s; dwell[1] = d1 / s; dwell[2] = d2 / s;
@@ -228,7 +310,7 @@ static inline int ${px}_locate(int p, double alpha, double beta, double dwell[3]
   return best;
 }
 
-#endif /* ${PX}_TABLE_H */
+#endif /* ${guard} */
 `;
 }
 

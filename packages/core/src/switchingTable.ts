@@ -1,4 +1,5 @@
 import { CAUTIONS } from './cautions.js';
+import { gatedDeviceIds } from './expandElements.js';
 import { diagramAtlas, type DiagramAtlas } from './diagramAtlas.js';
 import { formatFault, type Phase } from './faults.js';
 import type { AnalyseLegOptions } from './analyseLeg.js';
@@ -35,6 +36,10 @@ export interface SwitchingTable {
   readonly levels: readonly number[];
   /** Pattern names in netlist order (the C pattern index). */
   readonly patterns: readonly string[];
+  /** Gated devices of one phase in netlist order: bit i of a gate mask is device i. */
+  readonly devices: readonly string[];
+  /** Per pattern (same order as `patterns`), the gated devices it switches on. */
+  readonly patternGates: readonly (readonly string[])[];
   /** Polarity strings by index. */
   readonly polarityOrder: readonly PolarityString[];
   readonly polarities: Readonly<Record<PolarityString, TablePolarity>>;
@@ -99,6 +104,8 @@ export function switchingTableFromAtlas(atlas: DiagramAtlas): SwitchingTable {
     faults: atlas.analysis.faults.map(formatFault),
     levels: [...new Set(Object.values(leg.dcNodes))].sort((x, y) => x - y),
     patterns: Object.keys(leg.patterns),
+    devices: gatedDeviceIds(leg),
+    patternGates: Object.values(leg.patterns),
     polarityOrder: POLARITY_STRINGS,
     polarities,
     flags: { lineDevicesAtPwm, levelJumps, midpointAuthorityLost, noSequence },

@@ -1,7 +1,7 @@
 import { exportC, exportCsv, exportDocument, planRemedial, switchingTable } from '@hexsalvage/core';
 import { usage } from '../args.js';
-import { ANGLE_OPTIONS, HELP_OPTION, LEG_OPTIONS, type Command } from '../command.js';
-import { angleInputs, legInputs } from '../legInputs.js';
+import { ANGLE_OPTIONS, HELP_OPTION, LEG_OPTIONS, VDC_OPTION, type Command } from '../command.js';
+import { angleInputs, legInputs, vdcInput } from '../legInputs.js';
 import { writeFileAtomic } from '../output.js';
 
 const FORMATS = ['json', 'csv', 'c'] as const;
@@ -10,13 +10,15 @@ const FORMATS = ['json', 'csv', 'c'] as const;
 export const exportCommand: Command = {
   name: 'export',
   summary: 'write the plan and switching table as JSON, CSV or a C header for firmware',
-  usage: 'export --format json|csv|c --out FILE --topology T [--fault F]... [--load-angle DEG] [--polarity-margin DEG] [--prefix ID]',
+  usage: 'export --format json|csv|c --out FILE --topology T [--fault F]... [--load-angle DEG] [--polarity-margin DEG] [--prefix ID] [--c-type double|float] [--vdc V]',
   options: [
     { name: 'format', type: 'string', value: 'FMT', help: 'json (plan + table), csv (one row per polarity x triangle x vertex) or c (header)' },
     { name: 'out', type: 'string', value: 'FILE', help: 'output file; an existing file is replaced atomically' },
     ...LEG_OPTIONS,
     ...ANGLE_OPTIONS,
     { name: 'prefix', type: 'string', value: 'ID', help: 'C symbol prefix (default hs)' },
+    { name: 'c-type', type: 'string', value: 'T', help: 'C: floating type of the tables, double (default) or float (half the size, dwell to about 1e-6)' },
+    VDC_OPTION,
     HELP_OPTION,
   ],
   run: async (args, io) => {
@@ -30,7 +32,13 @@ export const exportCommand: Command = {
     let text: string;
     if (format === 'json') text = `${JSON.stringify(exportDocument(planRemedial({ topology, faults, ...rules, ...angles }), table))}\n`;
     else if (format === 'csv') text = exportCsv(table);
-    else text = exportC(table, { prefix: (args.values.get('prefix') as string | undefined) ?? 'hs' });
+    else {
+      const cType = (args.values.get('c-type') as string | undefined) ?? 'double';
+      if (cType !== 'double' && cType !== 'float') throw usage('--c-type', 'double or float', cType);
+      const plan = planRemedial({ topology, faults, ...rules, ...angles });
+      const vdc = vdcInput(args);
+      text = exportC(table, { prefix: (args.values.get('prefix') as string | undefined) ?? 'hs', cType, fileName: out, limits: plan, ...(vdc === undefined ? {} : { vdc }) });
+    }
     writeFileAtomic(out, text);
     await io.stdout(`wrote ${out} (${format}, ${Buffer.byteLength(text)} bytes)\n`);
     return 0;
