@@ -36,6 +36,24 @@ describe('exportCsv', () => {
   });
 });
 
+// A C program that reads "p alpha beta" lines and prints, per reference, the triangle (within its
+// polarity), the three dwell times, the clamp flag, the polarity index of +-?, and the nine gate
+// masks of the triangle's states.
+const DRIVER_C = `#include <stdio.h>
+#include "pump_table.h"
+int main(void) {
+  int p, clamped, t, v, k; double a, b, d[3];
+  while (scanf("%d %lf %lf", &p, &a, &b) == 3) {
+    t = pump_locate(p, a, b, d, &clamped);
+    if (t < 0) { printf("-1\\n"); continue; }
+    printf("%d %.17g %.17g %.17g %d %d", t - pump_tri_first[p], d[0], d[1], d[2], clamped, pump_polarity_index(1, -1, 0));
+    for (v = 0; v < 3; v++) for (k = 0; k < 3; k++) printf(" %lu", (unsigned long)pump_state_mask[t][v][k]);
+    printf("\\n");
+  }
+  return 0;
+}
+`;
+
 // The gate masks the TypeScript table gives for the states of a triangle: vertex by vertex, phase
 // by phase, bit i = gated device i (table.devices), from each state's pattern.
 function expectedMasks(table: ReturnType<typeof switchingTable>, p: number, t: number): number[] {
@@ -84,20 +102,7 @@ describe('exportC', () => {
     const header = exportC(table, { prefix: 'pump', cType: 'float' });
     expect(header).toContain('typedef float pump_real;');
     writeFileSync(join(dir, 'pump_table.h'), header);
-    writeFileSync(join(dir, 'driver.c'), `#include <stdio.h>
-#include "pump_table.h"
-int main(void) {
-  int p, clamped, t, v, k; double a, b, d[3];
-  while (scanf("%d %lf %lf", &p, &a, &b) == 3) {
-    t = pump_locate(p, a, b, d, &clamped);
-    if (t < 0) { printf("-1\\n"); continue; }
-    printf("%d %.9g %.9g %.9g %d", t - pump_tri_first[p], d[0], d[1], d[2], clamped);
-    for (v = 0; v < 3; v++) for (k = 0; k < 3; k++) printf(" %lu", (unsigned long)pump_state_mask[t][v][k]);
-    printf("\\n");
-  }
-  return 0;
-}
-`);
+    writeFileSync(join(dir, 'driver.c'), DRIVER_C);
     execFileSync(cc as string, ['-std=c99', '-O2', '-Wall', '-Wextra', '-Werror', '-Wno-unused-function', '-o', join(dir, 'driver'), join(dir, 'driver.c'), '-lm']);
     const mod = createModulator(table);
     const buf = new Float64Array(4);
@@ -117,7 +122,7 @@ int main(void) {
       const line = (out[i] as string).split(' ');
       expect(Number(line[0])).toBe(t);
       for (let k = 0; k < 3; k++) expect(Math.abs(Number(line[k + 1]) - (buf[k] as number))).toBeLessThan(1e-6);
-      expect(line.slice(5).map(Number)).toEqual(expectedMasks(table, p, t));
+      expect(line.slice(6).map(Number)).toEqual(expectedMasks(table, p, t));
     });
   });
 
@@ -154,20 +159,7 @@ int main(void) {
     if (topology !== 'anpc-hybrid') expect(Object.values(table.polarities).some((p) => p.outline !== null)).toBe(true);
     const dir = mkdtempSync(join(tmpdir(), 'hexsalvage-c-'));
     writeFileSync(join(dir, 'pump_table.h'), exportC(table, { prefix: 'pump' }));
-    writeFileSync(join(dir, 'driver.c'), `#include <stdio.h>
-#include "pump_table.h"
-int main(void) {
-  int p, clamped, t, v, k; double a, b, d[3];
-  while (scanf("%d %lf %lf", &p, &a, &b) == 3) {
-    t = pump_locate(p, a, b, d, &clamped);
-    if (t < 0) { printf("-1\\n"); continue; }
-    printf("%d %.17g %.17g %.17g %d %d", t - pump_tri_first[p], d[0], d[1], d[2], clamped, pump_polarity_index(1, -1, 0));
-    for (v = 0; v < 3; v++) for (k = 0; k < 3; k++) printf(" %lu", (unsigned long)pump_state_mask[t][v][k]);
-    printf("\\n");
-  }
-  return 0;
-}
-`);
+    writeFileSync(join(dir, 'driver.c'), DRIVER_C);
     execFileSync(cc as string, ['-std=c99', '-O2', '-ffp-contract=off', '-Wall', '-Werror', '-Wno-unused-function', '-o', join(dir, 'driver'), join(dir, 'driver.c'), '-lm']);
     const mod = createModulator(table);
     const rnd = fc.sample(fc.tuple(fc.nat(24), fc.double({ min: -1.6, max: 1.6, noNaN: true }), fc.double({ min: -1.6, max: 1.6, noNaN: true })), { seed: FC_SEED, numRuns: 3000 });
