@@ -1,4 +1,4 @@
-import { lineRmsVolts, phasePeakVolts } from '@hexsalvage/core';
+import { levelNotation, lineRmsVolts, phasePeakVolts } from '@hexsalvage/core';
 
 /**
  * Renders rows as a left-aligned text table with a header rule.
@@ -18,21 +18,34 @@ export function textTable(header: readonly string[], rows: readonly (readonly st
 }
 
 /**
- * A level in units of Vdc/2 as a short text: the P/O/N letter for ±1 and 0, else the number.
+ * One level in the leg's notation (`levelNotation`): P/O/N on a leg with exactly those levels,
+ * a signed number of Vdc/2 otherwise; `open` for an interrupted current.
  *
- * @param level - potential, or null for an interrupted current
- * @returns e.g. `P`, `O`, `N`, `+0.5`, or `open` for null
+ * @param level - a DC potential, or null
+ * @param dcLevels - the leg's DC potentials
+ * @returns text
  * @example
  * ```ts
- * levelText(1); // 'P'
+ * levelText(1, [-1, 0, 1]); // 'P'
  * ```
  */
-export function levelText(level: number | null): string {
-  if (level === null) return 'open';
-  if (level === 1) return 'P';
-  if (level === 0) return 'O';
-  if (level === -1) return 'N';
-  return `${level > 0 ? '+' : ''}${fmt(level, 3)}`;
+export function levelText(level: number | null, dcLevels: readonly number[]): string {
+  return level === null ? 'open' : levelNotation(dcLevels).level(level);
+}
+
+/**
+ * A vector (level triplet of phases a, b, c) in the leg's notation.
+ *
+ * @param t - the triplet
+ * @param dcLevels - the leg's DC potentials
+ * @returns e.g. `PON`, or `+0.5/0/-1` on a five-level leg
+ * @example
+ * ```ts
+ * tripletText([1, 0, -1], [-1, 0, 1]); // 'PON'
+ * ```
+ */
+export function tripletText(t: readonly number[], dcLevels: readonly number[]): string {
+  return levelNotation(dcLevels).triplet(t);
 }
 
 /**

@@ -48,6 +48,8 @@ export interface ClaimVerdict {
   readonly rules: LimitRules;
   /** The binding outline edge as its two vectors' level triplets and classes, or null. */
   readonly bindingEdge: readonly { readonly alpha: number; readonly beta: number; readonly class: string; readonly levels: readonly (readonly number[])[] }[] | null;
+  /** The leg's DC potentials, ascending: how the binding edge's vectors are written (`levelNotation`). */
+  readonly dcLevels: readonly number[];
   /** The claim's own inputs, for a review table: topology (id or netlist name), faults, range, margin. */
   readonly topology: string;
   readonly faults: readonly string[];
@@ -107,6 +109,7 @@ export function evaluateClaim(claim: DeratingClaim): ClaimVerdict {
     limitingAngleDeg: r.limitingAngleDeg,
     limitingPolarity: r.limitingPolarity,
     bindingEdge: edge,
+    dcLevels: [...new Set(Object.values(atlas.analysis.leg.dcNodes))].sort((x, y) => x - y),
     topology: atlas.analysis.topology,
     faults: atlas.analysis.faults.map(formatFault),
     loadAngleDeg: [lo, hi],

@@ -52,3 +52,4 @@ export { evaluateClaim, type ClaimVerdict, type DeratingClaim } from './evaluate
 export { ATLAS_SCHEMA_VERSION, assembleAtlas, atlasClass, atlasGrid, atlasWork, canonicalRotation, faultAtlas, type AtlasClassResult, type AtlasEntry, type AtlasProgress, type AtlasSettings, type AtlasWork, type FaultAtlas, type FaultAtlasOptions } from './faultAtlas.js';
 export { faultReason, type FaultReason } from './faultReason.js';
 export { lineRmsVolts, modulationOfLineRms, phasePeakVolts, planVolts, requireVdc, type PlanVolts } from './physicalUnits.js';
+export { levelNotation, vectorName, type LevelNotation } from './levelNotation.js';

@@ -103,6 +103,8 @@ export interface RemedialPlan {
   /** Remarks on how the limit was obtained (e.g. a tiling that could not reach the whole union). */
   readonly notes: readonly string[];
   readonly levels: Readonly<Record<Phase, LevelSets>>;
+  /** The leg's DC potentials, ascending (units of Vdc/2): what `levelNotation` writes vectors with. */
+  readonly dcLevels: readonly number[];
   readonly sectors: readonly PlanSector[];
   readonly polarities: Readonly<Record<PolarityString, PlanPolarity>>;
   /** With `vdc`: the limits in volts (contract "Physical units"). */
@@ -199,6 +201,7 @@ export function planFromAtlas(atlas: DiagramAtlas, loadAngleDeg: number, polarit
     restrictions: explainRestrictions(atlas.analysis),
     notes,
     levels,
+    dcLevels: [...new Set(Object.values(leg.dcNodes))].sort((x, y) => x - y),
     sectors: lim.sectors.map((s, i) => {
       const d = atlas.faulted.get(s.polarity) as PolarityDiagram;
       const m = lim.sectorMinima[i] as { value: number; thetaDeg: number };

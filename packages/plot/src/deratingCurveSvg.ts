@@ -1,4 +1,4 @@
-import type { DeratingPoint } from '@hexsalvage/core';
+import { lineRmsVolts, type DeratingPoint } from '@hexsalvage/core';
 import { esc, n, STYLE, svgFrame } from './svgStyle.js';
 
 /** One fault case of a derating plot. */
@@ -12,6 +12,12 @@ export interface DeratingCurveSvgOptions {
   /** Healthy limit drawn as the reference line. Default 2/√3. */
   readonly healthy?: number;
   readonly title?: string;
+  /** The operating load angle, degrees: marked with a vertical line. */
+  readonly operatingDeg?: number;
+  /** The operating load-angle range [LO, HI], degrees: shaded. */
+  readonly bandDeg?: readonly [number, number];
+  /** Total DC-link voltage in volts: the mMax ticks also read in line-to-line RMS volts. */
+  readonly vdc?: number;
 }
 
 const COLOURS = [STYLE.blue, STYLE.vermillion, STYLE.green, STYLE.purple, STYLE.orange, STYLE.sky];
@@ -35,7 +41,7 @@ export function deratingCurveSvg(series: readonly DeratingSeries[], options: Der
   const healthy = options.healthy ?? 2 / Math.sqrt(3);
   const W = 640;
   const legendRows = Math.ceil(series.length / 2) + 1;
-  const H = 344 + 14 * legendRows;
+  const H = 344 + 14 * legendRows + (options.operatingDeg !== undefined || options.bandDeg ? 14 : 0);
   const L = 64;
   const R = W - 64;
   const T = 40;
@@ -52,15 +58,23 @@ export function deratingCurveSvg(series: readonly DeratingSeries[], options: Der
   for (let x = Math.ceil(x0 / xt) * xt; x <= x1 + 1e-9; x += xt) {
     body.push(`<line x1="${X(x)}" y1="${Y(0)}" x2="${X(x)}" y2="${Y(ymax)}" stroke="${STYLE.grid}"/><text class="tick" x="${X(x)}" y="${n(B + 16)}" text-anchor="middle">${n(x, 0)}</text>`);
   }
+  const vdc = options.vdc;
   for (let y = 0; y <= ymax + 1e-9; y += 0.2) {
     body.push(`<line x1="${L}" y1="${Y(y)}" x2="${R}" y2="${Y(y)}" stroke="${STYLE.grid}"/><text class="tick" x="${L - 6}" y="${n(Number(Y(y)) + 4)}" text-anchor="end">${n(y, 1)}</text>`);
+    // second scale in volts: line-to-line RMS at this DC link, inside the frame on the left
+    if (vdc !== undefined && y > 0) body.push(`<text class="tick volts" x="${R - 4}" y="${n(Number(Y(y)) - 3)}" text-anchor="end" font-size="${STYLE.smallFont}" fill="#555555">${n(lineRmsVolts(y, vdc), 0)} V</text>`);
   }
+  // the operating range, shaded, and the operating point, a vertical line
+  if (options.bandDeg) {
+    const [b0, b1] = options.bandDeg;
+    body.push(`<rect class="operating-band" x="${X(Math.max(x0, b0))}" y="${T}" width="${n(Math.max(0, Number(X(Math.min(x1, b1))) - Number(X(Math.max(x0, b0)))))}" height="${B - T}" fill="${STYLE.yellow}" fill-opacity="0.22"/>`);
+  }
+  if (options.operatingDeg !== undefined) body.push(`<line class="operating-point" x1="${X(options.operatingDeg)}" y1="${T}" x2="${X(options.operatingDeg)}" y2="${B}" stroke="${STYLE.ink}" stroke-width="1.2" stroke-dasharray="6 2 1 2"/>`);
   for (let q = 0; q <= 1.0001; q += 0.25) body.push(`<text class="tick ratio" x="${R + 6}" y="${n(Number(Y(q * healthy)) + 4)}">${n(q * 100, 0)}%</text>`);
   body.push(`<rect x="${L}" y="${T}" width="${R - L}" height="${B - T}" fill="none" stroke="${STYLE.ink}"/>`);
   body.push(`<text x="${n((L + R) / 2)}" y="${n(B + 34)}" text-anchor="middle">load angle φ (degrees, positive = current lagging)</text>`);
-  body.push(`<text transform="translate(18 ${n((T + B) / 2)}) rotate(-90)" text-anchor="middle">mMax (peak phase voltage / (Vdc/2))</text>`);
+  body.push(`<text transform="translate(18 ${n((T + B) / 2)}) rotate(-90)" text-anchor="middle">${vdc === undefined ? 'mMax (peak phase voltage / (Vdc/2))' : `mMax (Vdc/2 units); grey: line V rms, Vdc ${n(vdc, 0)} V`}</text>`);
   body.push(`<text transform="translate(${W - 10} ${n((T + B) / 2)}) rotate(90)" text-anchor="middle">derating ratio mMax / healthy</text>`);
-  body.push(`<line class="healthy" x1="${L}" y1="${Y(healthy)}" x2="${R}" y2="${Y(healthy)}" stroke="${STYLE.ink}" stroke-dasharray="3 3"/><text x="${L + 4}" y="${n(Number(Y(healthy)) - 4)}" font-size="${STYLE.smallFont}">healthy ${n(healthy, 4)}</text>`);
   // the first version's hull bound, thin and faint, wherever it differs from the safe limit
   const hullShown = series.some((s) => s.points.some((p) => Math.abs(p.mMaxHull - p.mMax) > 1e-9));
   series.forEach((s, i) => {
@@ -77,8 +91,14 @@ export function deratingCurveSvg(series: readonly DeratingSeries[], options: Der
     const lx = L + (i % 2) * 270;
     body.push(`<line x1="${lx}" y1="${ly}" x2="${lx + 26}" y2="${ly}" stroke="${c}" stroke-width="2"${dash ? ` stroke-dasharray="${dash}"` : ''}/><text x="${lx + 32}" y="${ly + 4}">${esc(s.label)}</text>`);
   });
+  // the healthy reference last, so that no series (a healthy one compared, say) hides it
+  body.push(`<line class="healthy" x1="${L}" y1="${Y(healthy)}" x2="${R}" y2="${Y(healthy)}" stroke="${STYLE.ink}" stroke-dasharray="3 3"/><text x="${L + 4}" y="${n(Number(Y(healthy)) - 4)}" font-size="${STYLE.smallFont}">healthy ${n(healthy, 4)}</text>`);
   const by = B + 56 + (legendRows - 1) * 14;
-  body.push(`<g font-size="${STYLE.smallFont}"><circle cx="${L + 13}" cy="${by}" r="2.6" fill="#fff" stroke="${STYLE.ink}"/><text x="${L + 32}" y="${by + 4}">computed breakpoint (a kink of the curve)</text></g>`);
+  // legend entries only for what is drawn
+  if (series.some((s) => s.points.some((p) => p.breakpoint))) body.push(`<g font-size="${STYLE.smallFont}"><circle cx="${L + 13}" cy="${by}" r="2.6" fill="#fff" stroke="${STYLE.ink}"/><text x="${L + 32}" y="${by + 4}">computed breakpoint (a kink of the curve)</text></g>`);
+  const oy = by + 14;
+  if (options.operatingDeg !== undefined) body.push(`<g font-size="${STYLE.smallFont}"><line x1="${L}" y1="${oy}" x2="${L + 26}" y2="${oy}" stroke="${STYLE.ink}" stroke-width="1.2" stroke-dasharray="6 2 1 2"/><text x="${L + 32}" y="${oy + 4}">operating load angle ${n(options.operatingDeg, 1)}°</text></g>`);
+  if (options.bandDeg) body.push(`<g font-size="${STYLE.smallFont}"><rect x="${L + 270}" y="${oy - 5}" width="26" height="10" fill="${STYLE.yellow}" fill-opacity="0.4"/><text x="${L + 302}" y="${oy + 4}">operating range ${n(options.bandDeg[0], 1)}° to ${n(options.bandDeg[1], 1)}°</text></g>`);
   if (hullShown) body.push(`<g font-size="${STYLE.smallFont}"><line x1="${L + 270}" y1="${by}" x2="${L + 296}" y2="${by}" stroke="${STYLE.ink}" stroke-width="1" stroke-dasharray="1 3"/><text x="${L + 302}" y="${by + 4}">convex-hull bound (first version, not safe)</text></g>`);
   return svgFrame({
     width: W,

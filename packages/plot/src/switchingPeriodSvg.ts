@@ -1,5 +1,5 @@
-import type { LegState, TableTriangle } from '@hexsalvage/core';
-import { esc, levelLetter, n, STYLE, svgFrame } from './svgStyle.js';
+import { levelNotation, type LegState, type TableTriangle } from '@hexsalvage/core';
+import { esc, n, STYLE, svgFrame } from './svgStyle.js';
 
 /** Options of {@link switchingPeriodSvg}. */
 export interface SwitchingPeriodOptions {
@@ -31,6 +31,7 @@ export function switchingPeriodSvg(tri: TableTriangle, options: SwitchingPeriodO
   const R = W - 70;
   const dwell = options.dwell ?? [1 / 3, 1 / 3, 1 / 3];
   const body: string[] = [];
+  const note = levelNotation(options.levels);
   if (!seq) {
     return svgFrame({ width: W, height: 120, title: options.title ?? 'Switching period', desc: 'This triangle has no realisable sequence.' }, `<text x="12" y="60">No sequence: a vertex cannot be realised.</text>`);
   }
@@ -49,7 +50,7 @@ export function switchingPeriodSvg(tri: TableTriangle, options: SwitchingPeriodO
     const ph = 'abc'[k] as string;
     const Y = (l: number) => n(y + levelRow - 6 - ((l - lo) / (hi - lo || 1)) * (levelRow - 14));
     body.push(`<text x="12" y="${n(y + levelRow / 2)}" font-weight="bold">phase ${ph} level</text>`);
-    for (const l of options.levels) body.push(`<line x1="${L}" y1="${Y(l)}" x2="${R}" y2="${Y(l)}" stroke="${STYLE.grid}"/><text x="${L - 6}" y="${n(Number(Y(l)) + 3)}" text-anchor="end" font-size="${STYLE.smallFont}">${levelLetter(l, 2)}</text>`);
+    for (const l of options.levels) body.push(`<line x1="${L}" y1="${Y(l)}" x2="${R}" y2="${Y(l)}" stroke="${STYLE.grid}"/><text x="${L - 6}" y="${n(Number(Y(l)) + 3)}" text-anchor="end" font-size="${STYLE.smallFont}">${esc(note.level(l))}</text>`);
     const d = states.map((s, i) => `${i ? 'L' : 'M'}${X(edges[i] as number)},${Y(s[k]!.level)} L${X(edges[i + 1] as number)},${Y(s[k]!.level)}`).join(' ');
     body.push(`<path class="level-trace" d="${d}" fill="none" stroke="${STYLE.blue}" stroke-width="2"/>`);
     y += levelRow;
@@ -66,13 +67,17 @@ export function switchingPeriodSvg(tri: TableTriangle, options: SwitchingPeriodO
     y += 8;
   }
   for (let i = 0; i < edges.length; i++) body.push(`<line x1="${X(edges[i] as number)}" y1="40" x2="${X(edges[i] as number)}" y2="${n(y)}" stroke="${STYLE.faint}" stroke-dasharray="2 2"/>`);
-  const names = states.map((s) => s.map((x) => levelLetter(x.level)).join(''));
+  const names = states.map((s) => note.triplet(s.map((x) => x.level)));
   // state names under each segment, where there is room for them
   states.forEach((_, i) => Number(X(edges[i + 1] as number)) - Number(X(edges[i] as number)) >= 28 && body.push(`<text x="${n((Number(X(edges[i] as number)) + Number(X(edges[i + 1] as number))) / 2)}" y="${n(y + 14)}" text-anchor="middle" font-size="${STYLE.smallFont}">${esc(names[i] as string)}</text>`));
-  body.push(`<text x="12" y="${n(y + 34)}" font-size="${STYLE.smallFont}">One switching period, centre-aligned. ${seq.totalGateChanges} gate changes per period${seq.lineDevicesSwitching.length ? `; LINE-RATE DEVICES AT PWM: ${esc(seq.lineDevicesSwitching.join(', '))}` : ''}${seq.levelJumps.length ? '; LEVEL JUMP' : ''}.</text>`);
+  body.push(`<text x="${n((L + R) / 2)}" y="${n(y + 28)}" text-anchor="middle" font-size="${STYLE.smallFont}">time within one switching period (start, centre, end); segment widths are the dwell times</text>`);
+  body.push(`<text x="12" y="${n(y + 44)}" font-size="${STYLE.smallFont}">"n ch." = gate changes of that device in one period (non-zero in red-orange).</text>`);
+  body.push(`<text x="12" y="${n(y + 58)}" font-size="${STYLE.smallFont}">${esc(`Levels: ${note.legend}.`)}</text>`);
+  y += 30;
+  body.push(`<text x="12" y="${n(y + 44)}" font-size="${STYLE.smallFont}">One switching period, centre-aligned. ${seq.totalGateChanges} gate changes per period${seq.lineDevicesSwitching.length ? `; LINE-RATE DEVICES AT PWM: ${esc(seq.lineDevicesSwitching.join(', '))}` : ''}${seq.levelJumps.length ? '; LEVEL JUMP' : ''}.</text>`);
   return svgFrame({
     width: W,
-    height: Math.round(y + 50),
+    height: Math.round(y + 60),
     title: options.title ?? 'Switching period',
     desc: `Sequence ${names.join(' > ')}, ${seq.totalGateChanges} gate changes per period.`,
   }, body.join('\n'));

@@ -1,5 +1,5 @@
-import type { PlanPolarity, PlanVector, RemedialPlan } from '@hexsalvage/core';
-import { esc, levelLetter, n, STYLE, svgFrame } from './svgStyle.js';
+import { levelNotation, type LevelNotation, type PlanPolarity, type PlanVector, type RemedialPlan } from '@hexsalvage/core';
+import { esc, n, STYLE, svgFrame } from './svgStyle.js';
 
 /** Options of {@link vectorDiagramSvg}. */
 export interface VectorDiagramOptions {
@@ -38,8 +38,10 @@ export function vectorDiagramSvg(plan: RemedialPlan, polarity: string, options: 
   const X = (a: number) => n(cx + k * a);
   const Y = (b: number) => n(cy - k * b);
   const body: string[] = [];
+  const note = levelNotation(plan.dcLevels);
+  const named = (v: PlanVector) => v.levels.map((t) => note.triplet(t)).join(', ');
   body.push(`<g stroke="${STYLE.grid}" stroke-width="1"><line x1="${X(-extent)}" y1="${Y(0)}" x2="${X(extent)}" y2="${Y(0)}"/><line x1="${X(0)}" y1="${Y(-extent)}" x2="${X(0)}" y2="${Y(extent)}"/></g>`);
-  body.push(`<text x="${X(extent)}" y="${n(cy + 14)}" text-anchor="end" fill="${STYLE.ink}">α</text><text x="${n(cx + 4)}" y="${Y(extent)}" dominant-baseline="hanging" fill="${STYLE.ink}">β</text>`);
+  body.push(`<text x="${X(extent)}" y="${n(cy + 14)}" text-anchor="end" fill="${STYLE.ink}">α (Vdc/2)</text><text x="${n(cx + 4)}" y="${Y(extent)}" dominant-baseline="hanging" fill="${STYLE.ink}">β (Vdc/2)</text>`);
   // healthy limit circle, faint
   body.push(`<circle class="healthy-limit" cx="${X(0)}" cy="${Y(0)}" r="${n(k * plan.mMaxHealthy)}" fill="none" stroke="${STYLE.faint}" stroke-dasharray="2 3"/>`);
   // triangles
@@ -65,32 +67,46 @@ export function vectorDiagramSvg(plan: RemedialPlan, polarity: string, options: 
     ? ([[plan.bindingEdge[0].alpha, plan.bindingEdge[0].beta], [plan.bindingEdge[1].alpha, plan.bindingEdge[1].beta]] as [readonly [number, number], readonly [number, number]])
     : bindingEdge(d);
   if (bind) body.push(`<line class="binding-edge" x1="${X(bind[0][0])}" y1="${Y(bind[0][1])}" x2="${X(bind[1][0])}" y2="${Y(bind[1][1])}" stroke="${STYLE.vermillion}" stroke-width="3.2" stroke-linecap="round"/>`);
-  // vectors
+  // vectors; a label is left out where it would overlap one already placed (a many-level diagram
+  // would be unreadable): every vector still names itself on hover (its <title>)
+  const placed: [number, number, number, number][] = [];
+  let thinned = 0;
+  const place = (x: number, y: number, text: string, cls: string, fill: string) => {
+    const box: [number, number, number, number] = [x, y - 8, x + 5.6 * text.length, y + 1];
+    if (placed.some((b) => box[0] < b[2] && b[0] < box[2] && box[1] < b[3] && b[1] < box[3])) {
+      thinned++;
+      return;
+    }
+    placed.push(box);
+    body.push(`<text class="${cls}" x="${n(x)}" y="${n(y)}" font-size="${STYLE.smallFont}" fill="${fill}">${esc(text)}</text>`);
+  };
   body.push('<g class="vectors">');
   for (const v of d.vectors) {
-    body.push(`<circle class="vector surviving" cx="${X(v.alpha)}" cy="${Y(v.beta)}" r="3.6" fill="${STYLE.ink}"><title>${esc(`${v.class} ${v.levels.map((t) => t.join('/')).join(', ')}`)}</title></circle>`);
-    if (labels) body.push(`<text class="label" x="${n(cx + k * v.alpha + 5)}" y="${n(cy - k * v.beta - 5)}" font-size="${STYLE.smallFont}" fill="${STYLE.ink}">${esc(levelLabel(v))}</text>`);
+    body.push(`<circle class="vector surviving" cx="${X(v.alpha)}" cy="${Y(v.beta)}" r="3.6" fill="${STYLE.ink}"><title>${esc(`${v.class} ${named(v)}`)}</title></circle>`);
+    if (labels) place(cx + k * v.alpha + 5, cy - k * v.beta - 5, levelLabel(v, note), 'label', STYLE.ink);
   }
   for (const v of d.lost) {
     const x = cx + k * v.alpha;
     const y = cy - k * v.beta;
-    body.push(`<g class="vector lost"><rect x="${n(x - 4)}" y="${n(y - 4)}" width="8" height="8" fill="#ffffff" stroke="${STYLE.vermillion}" stroke-width="1.4"/><path d="M${n(x - 3)},${n(y - 3)} L${n(x + 3)},${n(y + 3)} M${n(x - 3)},${n(y + 3)} L${n(x + 3)},${n(y - 3)}" stroke="${STYLE.vermillion}" stroke-width="1.2"/><title>${esc(`lost ${v.class} ${v.levels.map((t) => t.join('/')).join(', ')}`)}</title></g>`);
-    if (labels) body.push(`<text class="label lost-label" x="${n(x + 6)}" y="${n(y - 6)}" font-size="${STYLE.smallFont}" fill="${STYLE.vermillion}">× ${esc(levelLabel(v))}</text>`);
+    body.push(`<g class="vector lost"><rect x="${n(x - 4)}" y="${n(y - 4)}" width="8" height="8" fill="#ffffff" stroke="${STYLE.vermillion}" stroke-width="1.4"/><path d="M${n(x - 3)},${n(y - 3)} L${n(x + 3)},${n(y + 3)} M${n(x - 3)},${n(y + 3)} L${n(x + 3)},${n(y - 3)}" stroke="${STYLE.vermillion}" stroke-width="1.2"/><title>${esc(`lost ${v.class} ${named(v)}`)}</title></g>`);
+    if (labels) place(x + 6, y - 6, `× ${levelLabel(v, note)}`, 'label lost-label', STYLE.vermillion);
   }
   body.push('</g>');
   body.push(legend(size, plan, options.referenceM, d.outline !== null, bind !== null));
+  const ny = size + (d.outline ? 88 : 70);
+  body.push(`<g class="notation" font-size="${STYLE.smallFont}" fill="${STYLE.ink}"><text x="14" y="${ny}">${esc(`Labels: ${note.legend}.`)}</text><text x="14" y="${ny + 13}">${esc(`"+n" after a label: n more redundant realisations of the same vector${thinned ? `; ${thinned} labels left out where they would overlap (hover a dot for its name)` : ''}.`)}</text></g>`);
   return svgFrame({
     width: size,
-    height: size + (d.outline ? 90 : 74),
+    height: size + (d.outline ? 112 : 96),
     title: `Vector diagram, polarity ${polarity}: ${plan.topology}${plan.faults.length ? `, ${plan.faults.join(', ')}` : ''}`,
     desc: `${d.vectors.length} surviving vectors (filled dots), ${d.lost.length} lost vectors (hollow squares marked ×), ${d.triangles.length} admissible triangles, reach ${n(d.reach, 4)} (hull radius ${n(d.radius, 4)}) of healthy ${n(plan.mMaxHealthy, 4)} (units of Vdc/2).`,
   }, body.join('\n'));
 }
 
-function levelLabel(v: PlanVector): string {
+function levelLabel(v: PlanVector, note: LevelNotation): string {
   const t = v.levels[0];
   if (!t) return '';
-  return t.map((l) => levelLetter(l)).join('') + (v.levels.length > 1 ? `+${v.levels.length - 1}` : '');
+  return note.triplet(t) + (v.levels.length > 1 ? ` +${v.levels.length - 1}` : '');
 }
 
 function bindingEdge(d: PlanPolarity): [readonly [number, number], readonly [number, number]] | null {

@@ -1,7 +1,7 @@
 import { CAUTIONS, type ClaimVerdict } from '@hexsalvage/core';
 import { usage } from '../args.js';
 import { HELP_OPTION, JSON_OPTION, type Command } from '../command.js';
-import { cautionBlock, fmt, textTable } from '../format.js';
+import { cautionBlock, fmt, textTable, tripletText } from '../format.js';
 import { judgeClaims } from '../readClaims.js';
 
 /** `hexsalvage check`: verdicts on derating claims, exit 1 when any fails. */
@@ -53,5 +53,5 @@ function rulesText(v: ClaimVerdict): string {
 
 function edgeText(v: ClaimVerdict): string {
   if (!v.bindingEdge) return v.mMaxAtWorst === 0 ? 'none: cannot run in this state' : 'none';
-  return `${v.bindingEdge.map((e) => `${e.class} ${e.levels[0]?.join('/')}`).join(' – ')} (θ ${fmt(v.limitingAngleDeg, 1)}°, ${v.limitingPolarity})`;
+  return `${v.bindingEdge.map((e) => `${e.class} ${tripletText(e.levels[0] ?? [], v.dcLevels)}`).join(' – ')} (θ ${fmt(v.limitingAngleDeg, 1)}°, ${v.limitingPolarity})`;
 }

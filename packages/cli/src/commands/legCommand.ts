@@ -1,4 +1,4 @@
-import { analyseLeg, CAUTIONS, describeRules, exploreLeg, formatFault, legDocument, PHASES, type LegDocument, type LegTable, type PatternResult, type PhasePolarity } from '@hexsalvage/core';
+import { analyseLeg, CAUTIONS, describeRules, exploreLeg, formatFault, legDocument, levelNotation, PHASES, type LegDocument, type LegTable, type PatternResult, type PhasePolarity } from '@hexsalvage/core';
 import { HELP_OPTION, JSON_OPTION, LEG_OPTIONS, type Command } from '../command.js';
 import { cautionBlock, levelText, textTable } from '../format.js';
 import { legInputs } from '../legInputs.js';
@@ -25,29 +25,31 @@ export const legCommand: Command = {
       `Leg: ${analysis.topology}   faults: ${analysis.faults.length === 0 ? 'none' : analysis.faults.map(formatFault).join(', ')}`,
       `Rules: ${describeRules(analysis.rules)}${analysis.unrated.length ? `; unrated (not checked): ${analysis.unrated.join(', ')}` : ''}`,
     ];
+    const dc = Object.values(analysis.leg.dcNodes);
     const healthyPhases = PHASES.filter((p) => analysis.phases[p] === analysis.healthy);
     for (const ph of PHASES) {
       if (analysis.phases[ph] === analysis.healthy && ph !== healthyPhases[0]) continue;
       const title = analysis.phases[ph] === analysis.healthy ? `Phase ${healthyPhases.join(', ')} (healthy)` : `Phase ${ph} (faulted)`;
-      lines.push('', title, phaseTable(analysis.phases[ph], analysis.healthy), movesText(doc.phases[ph].moves));
+      lines.push('', title, phaseTable(analysis.phases[ph], analysis.healthy, dc), movesText(doc.phases[ph].moves, dc));
     }
     if (explore) lines.push('', exploreText(analysis));
-    lines.push('', 'Levels: P = +1, O = 0, N = -1 (units of Vdc/2); "open" = current interrupted, "unsafe" = a device would block more than its rating: the pattern must not be used for that sign.');
+    lines.push('', `Levels: ${levelNotation(dc).legend}; "open" = current interrupted, "unsafe" = a device would block more than its rating: the pattern must not be used for that sign.`);
     lines.push(cautionBlock(CAUTIONS));
     await io.stdout(`${lines.join('\n')}\n`);
     return 0;
   },
 };
 
-function phaseTable(t: LegTable, healthy: LegTable): string {
+function phaseTable(t: LegTable, healthy: LegTable, dc: readonly number[]): string {
+  const lt = (l: number | null) => levelText(l, dc);
   const rows = t.patterns.map((p, i) => {
     const h = healthy.patterns[i] as PatternResult;
     if (p.status === 'forbidden') return [p.name, p.gates.join('+') || '(none)', 'FORBIDDEN', 'FORBIDDEN', p.reason];
     const cell = (s: '+' | '-') => {
       const lv = p.bySign[s].level;
       const was = h.status === 'allowed' ? h.bySign[s].level : null;
-      const shown = lv === null && p.unsafe[s] ? 'unsafe' : levelText(lv);
-      return lv === was ? shown : `${shown} (was ${levelText(was)})`;
+      const shown = lv === null && p.unsafe[s] ? 'unsafe' : lt(lv);
+      return lv === was ? shown : `${shown} (was ${lt(was)})`;
     };
     const notes = (['+', '-'] as const).filter((s) => p.bySign[s].level === null).map((s) => `not used for i${s === '+' ? '>0' : '<0'}: ${p.unsafe[s] ? `unsafe, ${p.unsafe[s]}` : 'current interrupted'}`);
     return [p.name, p.gates.join('+') || '(none)', cell('+'), cell('-'), notes.join('; ')];
@@ -55,14 +57,14 @@ function phaseTable(t: LegTable, healthy: LegTable): string {
   const sets = (['+', '-', '?'] as PhasePolarity[]).map((s) => {
     const lost = healthy.levels[s].filter((l) => !t.levels[s].includes(l));
     const label = s === '?' ? 'either sign (robust)' : s === '+' ? 'current out (+)' : 'current in (-)';
-    return `  ${label.padEnd(22)} ${t.levels[s].map(levelText).join(' ') || '(none)'}${lost.length ? `   LOST: ${lost.map(levelText).join(' ')}` : ''}`;
+    return `  ${label.padEnd(22)} ${t.levels[s].map(lt).join(' ') || '(none)'}${lost.length ? `   LOST: ${lost.map(lt).join(' ')}` : ''}`;
   });
   return `${textTable(['pattern', 'gates on', 'i>0 (+)', 'i<0 (-)', 'note'], rows)}\nLevel sets:\n${sets.join('\n')}`;
 }
 
-function movesText(moves: LegDocument['phases']['a']['moves']): string {
+function movesText(moves: LegDocument['phases']['a']['moves'], dc: readonly number[]): string {
   const one = (s: PhasePolarity) => {
-    const pairs = moves[s].filter(([a, b]) => a < b).map(([a, b]) => `${levelText(a)}<->${levelText(b)}`);
+    const pairs = moves[s].filter(([a, b]) => a < b).map(([a, b]) => `${levelText(a, dc)}<->${levelText(b, dc)}`);
     return pairs.join(' ') || '(none: the phase cannot change level)';
   };
   return `Level changes a sequence may make:\n  current out (+)        ${one('+')}\n  current in (-)         ${one('-')}\n  either sign (robust)   ${one('?')}`;

@@ -1,6 +1,6 @@
-import { describeRules, planRemedial, type RemedialPlan } from '@hexsalvage/core';
+import { describeRules, levelNotation, planRemedial, type RemedialPlan } from '@hexsalvage/core';
 import { ANGLE_OPTIONS, HELP_OPTION, JSON_OPTION, LEG_OPTIONS, VDC_OPTION, type Command } from '../command.js';
-import { cautionBlock, fmt, textTable, voltsText } from '../format.js';
+import { cautionBlock, fmt, textTable, tripletText, voltsText } from '../format.js';
 import { angleInputs, legInputs, vdcInput } from '../legInputs.js';
 
 /** `hexsalvage plan`: exact limit, derating and the polarity sectors at one load angle. */
@@ -30,7 +30,7 @@ export const planCommand: Command = {
  */
 export function planText(plan: RemedialPlan): string {
   const edge = plan.bindingEdge
-    ? `between ${plan.bindingEdge.map((v) => `${v.class} vector ${v.levels[0]?.join('/')} (${fmt(v.alpha, 3)}, ${fmt(v.beta, 3)})`).join(' and ')}`
+    ? `between ${plan.bindingEdge.map((v) => `${v.class} vector ${tripletText(v.levels[0] ?? [], plan.dcLevels)} (${fmt(v.alpha, 3)}, ${fmt(v.beta, 3)})`).join(' and ')}`
     : '';
   const verdict = plan.mMax === 0
     ? ['CANNOT RUN in this state: the drive must stop; no output voltage above 0 can be produced safely at this load angle.', `The surviving triangles do not surround the origin for polarity ${plan.limitingPolarity} (theta = ${fmt(plan.limitingAngleDeg, 3)} deg).`]
@@ -61,6 +61,7 @@ export function planText(plan: RemedialPlan): string {
     textTable(['from deg', 'to deg', 'polarity', 'vectors', 'lost', 'triangles', 'min extent', 'at deg'], rows),
     '',
     'm is the peak fundamental phase voltage over Vdc/2; the healthy linear limit is 2/sqrt(3) = 1.1547.',
+    `Vectors: ${levelNotation(plan.dcLevels).legend}.`,
     cautionBlock(plan.cautions),
   ].join('\n');
 }

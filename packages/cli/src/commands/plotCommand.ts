@@ -2,8 +2,8 @@ import { parsePolarity, diagramAtlas, deratingCurve, gatedDeviceIds, locateRefer
 import { atlasHeatmapSvg, atlasPairMatrixSvg, deratingCurveSvg, legSchematicSvg, sectorOverviewSvg, switchingPeriodSvg, vectorDiagramSvg } from '@hexsalvage/plot';
 import { usage } from '../args.js';
 import { ATLAS_OPTIONS, atlasFromArgs } from '../atlasInputs.js';
-import { ANGLE_OPTIONS, HELP_OPTION, LEG_OPTIONS, type Command } from '../command.js';
-import { angleInputs, legInputs } from '../legInputs.js';
+import { ANGLE_OPTIONS, HELP_OPTION, LEG_OPTIONS, VDC_OPTION, type Command } from '../command.js';
+import { angleInputs, legInputs, vdcInput } from '../legInputs.js';
 import { writeSvgOrPng } from '../renderFile.js';
 import { schematicFocus } from '../schematicFocus.js';
 
@@ -26,6 +26,7 @@ export const plotCommand: Command = {
     { name: 'sign', type: 'string', value: '+|-', help: 'leg: current sign of the drawn path (default +)' },
     { name: 'triangle', type: 'number', min: 0, max: 100000, integer: true, value: 'N', help: 'sequence: triangle index (default: the one at 0.7 mMax where the limit binds)' },
     ...ATLAS_OPTIONS,
+    VDC_OPTION,
     { name: 'out', type: 'string', value: 'FILE', help: 'output file, .svg or .png' },
     HELP_OPTION,
   ],
@@ -59,7 +60,17 @@ export const plotCommand: Command = {
         const f = c.split(',').map((x) => x.trim()).filter(Boolean);
         series.push({ label: f.join(', ') || 'healthy', points: deratingCurve(diagramAtlas({ topology, faults: f, ...rules }), { stepDeg: 1, polarityMarginDeg }) });
       }
-      svg = deratingCurveSvg(series, { healthy: plan.mMaxHealthy, title: `Maximum modulation index versus load angle: ${atlas.analysis.topology}` });
+      const band = args.values.get('load-angle-range') as string | undefined;
+      const b = band?.split(',').map(Number);
+      if (band !== undefined && (b?.length !== 2 || !b.every(Number.isFinite) || (b[0] as number) > (b[1] as number))) throw usage('--load-angle-range', 'LO,HI in degrees (the operating range to shade)', band);
+      const vdc = vdcInput(args);
+      svg = deratingCurveSvg(series, {
+        healthy: plan.mMaxHealthy,
+        title: `Maximum modulation index versus load angle: ${atlas.analysis.topology}`,
+        ...(args.values.has('load-angle') ? { operatingDeg: loadAngleDeg } : {}),
+        ...(b && band !== undefined ? { bandDeg: [b[0] as number, b[1] as number] as const } : {}),
+        ...(vdc !== undefined ? { vdc } : {}),
+      });
     } else if (kind === 'leg') {
       svg = legSchematicSvg(atlas.analysis.leg, schematicFocus(atlas.analysis, args.values.get('phase') as string | undefined, args.values.get('pattern') as string | undefined, args.values.get('sign') as string | undefined));
     } else {

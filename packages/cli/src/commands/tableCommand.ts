@@ -1,6 +1,6 @@
 import { lineRmsVolts, parsePolarity, switchingTable, type SwitchingTable } from '@hexsalvage/core';
 import { HELP_OPTION, JSON_OPTION, LEG_OPTIONS, VDC_OPTION, type Command } from '../command.js';
-import { cautionBlock, fmt, levelText, textTable } from '../format.js';
+import { cautionBlock, fmt, levelText, textTable, tripletText } from '../format.js';
 import { legInputs, vdcInput } from '../legInputs.js';
 
 /** `hexsalvage table`: the degraded switching-state table, readable. */
@@ -38,19 +38,19 @@ export const tableCommand: Command = {
  * ```
  */
 export function tableText(table: SwitchingTable, only?: string, vdc?: number): string {
-  const lines = [`Leg: ${table.topology}   faults: ${table.faults.join(', ') || 'none'}`, ...(vdc === undefined ? [] : [`DC link ${fmt(vdc, 1)} V: levels ${table.levels.map((l) => `${levelText(l)} = ${fmt((l * vdc) / 2, 1)} V`).join(', ')} (from the midpoint)`]), ''];
+  const lines = [`Leg: ${table.topology}   faults: ${table.faults.join(', ') || 'none'}`, ...(vdc === undefined ? [] : [`DC link ${fmt(vdc, 1)} V: levels ${table.levels.map((l) => `${levelText(l, table.levels)} = ${fmt((l * vdc) / 2, 1)} V`).join(', ')} (from the midpoint)`]), ''];
   for (const pol of table.polarityOrder) {
     if (only !== undefined && pol !== only) continue;
     const p = table.polarities[pol];
     if (!p) continue;
-    lines.push(`Polarity ${pol} (index ${p.index}): ${p.vectors.length} vectors, ${p.lost.length} lost${p.lost.length ? ` (${p.lost.map((v) => `${v.class} ${v.levels[0]?.map(levelText).join('')}`).join(', ')})` : ''}, ${p.tableTriangles.length} admissible triangles, reach ${fmt(p.reach, 4)}${vdc === undefined ? '' : ` (${fmt(lineRmsVolts(p.reach, vdc), 1)} V line RMS)`}`);
+    lines.push(`Polarity ${pol} (index ${p.index}): ${p.vectors.length} vectors, ${p.lost.length} lost${p.lost.length ? ` (${p.lost.map((v) => `${v.class} ${tripletText(v.levels[0] ?? [], table.levels)}`).join(', ')})` : ''}, ${p.tableTriangles.length} admissible triangles, reach ${fmt(p.reach, 4)}${vdc === undefined ? '' : ` (${fmt(lineRmsVolts(p.reach, vdc), 1)} V line RMS)`}`);
     const rows = p.tableTriangles.map((tri, t) => {
       const seq = tri.sequence;
-      const states = seq ? seq.states.map((s) => s.map((x) => levelText(x.level)).join('')).join(' > ') : '(none)';
+      const states = seq ? seq.states.map((s) => tripletText(s.map((x) => x.level), table.levels)).join(' > ') : '(none)';
       const pats = seq ? seq.states.map((s) => s.map((x) => x.pattern).join('/')).join(' > ') : '';
       const flags = [
         ...(seq?.lineDevicesSwitching.length ? [`LINE-RATE DEVICES AT PWM: ${seq.lineDevicesSwitching.join(' ')}`] : []),
-        ...(seq?.levelJumps.length ? [`LEVEL JUMP ${seq.levelJumps.map((j) => `${j.phase} ${levelText(j.from)}>${levelText(j.to)}`).join(' ')}`] : []),
+        ...(seq?.levelJumps.length ? [`LEVEL JUMP ${seq.levelJumps.map((j) => `${j.phase} ${levelText(j.from, table.levels)}>${levelText(j.to, table.levels)}`).join(' ')}`] : []),
         ...(tri.authorityLost ? [`MIDPOINT CONTROL LOST (${tri.healthyMidpointAuthority}>${tri.midpointAuthority})`] : []),
       ];
       return [String(t), tri.vertices.map((v) => v.class).join('/'), states, pats, String(seq?.totalGateChanges ?? ''), tri.midpointAuthority, flags.join('; ')];

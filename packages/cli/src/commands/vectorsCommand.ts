@@ -1,7 +1,7 @@
-import { CAUTIONS, describeRules, diagramAtlas, formatFault, parsePolarity, polarityDocument, type PlanVector } from '@hexsalvage/core';
+import { CAUTIONS, describeRules, diagramAtlas, formatFault, levelNotation, parsePolarity, polarityDocument, type PlanVector } from '@hexsalvage/core';
 import { usage } from '../args.js';
 import { HELP_OPTION, JSON_OPTION, LEG_OPTIONS, type Command } from '../command.js';
-import { cautionBlock, fmt, textTable } from '../format.js';
+import { cautionBlock, fmt, textTable, tripletText } from '../format.js';
 import { legInputs } from '../legInputs.js';
 
 /** `hexsalvage vectors`: surviving vectors, hull and triangles for one polarity string. */
@@ -23,14 +23,15 @@ export const vectorsCommand: Command = {
       await io.stdout(`${JSON.stringify({ polarity: pol, ...doc })}\n`);
       return 0;
     }
-    const vec = (v: PlanVector) => [fmt(v.alpha), fmt(v.beta), fmt(Math.hypot(v.alpha, v.beta)), v.class, v.levels.map((t) => t.join('/')).join(' ')];
+    const dc = Object.values(atlas.analysis.leg.dcNodes);
+    const vec = (v: PlanVector) => [fmt(v.alpha), fmt(v.beta), fmt(Math.hypot(v.alpha, v.beta)), v.class, v.levels.map((t) => tripletText(t, dc)).join(' ')];
     const lines = [
       `Leg: ${atlas.analysis.topology}   faults: ${atlas.analysis.faults.map(formatFault).join(', ') || 'none'}   polarity: ${pol}`,
       `Rules: ${describeRules(atlas.analysis.rules)}`,
       `Phase levels used: a ${d.phaseLevels[0].join(',') || '(none)'} | b ${d.phaseLevels[1].join(',') || '(none)'} | c ${d.phaseLevels[2].join(',') || '(none)'}`,
       '',
       `Surviving vectors (${doc.vectors.length}):`,
-      textTable(['#', 'alpha', 'beta', '|v|', 'class', 'level triplets a/b/c'], doc.vectors.map((v, i) => [String(i), ...vec(v)])),
+      textTable(['#', 'alpha', 'beta', '|v|', 'class', 'levels a, b, c'], doc.vectors.map((v, i) => [String(i), ...vec(v)])),
       '',
       `Lost vectors (${doc.lost.length}, ${doc.lostTriplets} healthy triplets lost in all):`,
       doc.lost.length ? textTable(['alpha', 'beta', '|v|', 'class', 'triplets'], doc.lost.map(vec)) : '  none',
@@ -39,6 +40,7 @@ export const vectorsCommand: Command = {
       `Triangles (admissible, non-overlapping): ${doc.triangles.length}${doc.outline ? '  (they do not fill the hull)' : ''}`,
       `Reach (largest origin-centred circle inside the admissible triangles): ${fmt(doc.reach, 6)} x Vdc/2${doc.reach === 0 ? '  (cannot run with this pattern alone: the admissible triangles do not surround the origin)' : ''}`,
       `Radius of the hull (first version, not safe by itself): ${fmt(doc.radius, 6)} x Vdc/2`,
+      `Vectors: ${levelNotation(dc).legend}.`,
       cautionBlock(CAUTIONS),
     ];
     await io.stdout(`${lines.join('\n')}\n`);

@@ -3,7 +3,7 @@ import {
   type PhasePolarity, type RemedialPlan, type SwitchingTable,
 } from '@hexsalvage/core';
 import { atlasHeatmapSvg, atlasPairMatrixSvg, deratingCurveSvg, esc, legSchematicSvg, sectorOverviewSvg, switchingPeriodSvg, vectorDiagramSvg } from '@hexsalvage/plot';
-import { fmt, levelText } from '../format.js';
+import { fmt, levelText, tripletText } from '../format.js';
 import type { Scenario } from '../readScenario.js';
 import { schematicFocus } from '../schematicFocus.js';
 import { REPORT_CSS } from './reportStyles.js';
@@ -88,14 +88,14 @@ export function buildReport(r: ReportInputs): string {
         const l = p.bySign[sg].level;
         const was = h.status === 'allowed' ? h.bySign[sg].level : null;
         const why = p.unsafe[sg];
-        const txt = l === null ? (why ? `<span class="flag">unsafe: ${esc(why)}</span>` : '<span class="flag">interrupted (forbidden)</span>') : levelText(l);
-        return l === was ? txt : `${txt} <span class="flag">(was ${levelText(was)})</span>`;
+        const txt = l === null ? (why ? `<span class="flag">unsafe: ${esc(why)}</span>` : '<span class="flag">interrupted (forbidden)</span>') : levelText(l, plan.dcLevels);
+        return l === was ? txt : `${txt} <span class="flag">(was ${levelText(was, plan.dcLevels)})</span>`;
       };
       s.push(`<tr><td>${esc(p.name)}</td><td>${esc(p.gates.join(', '))}</td><td>${cell('+')}</td><td>${cell('-')}</td></tr>`);
     });
     s.push('</table>');
-    s.push(`<p>Level sets — i &gt; 0: ${t.levels['+'].map(levelText).join(' ') || 'none'}; i &lt; 0: ${t.levels['-'].map(levelText).join(' ') || 'none'}; unknown sign: ${t.levels['?'].map(levelText).join(' ') || 'none'}.</p>`);
-    const mv = (sg: PhasePolarity) => t.commutations.moves[sg].filter(([a, b]) => a < b).map(([a, b]) => `${levelText(a)}↔${levelText(b)}`).join(' ') || 'none (the phase cannot change level)';
+    s.push(`<p>Level sets — i &gt; 0: ${t.levels['+'].map((l) => levelText(l, plan.dcLevels)).join(' ') || 'none'}; i &lt; 0: ${t.levels['-'].map((l) => levelText(l, plan.dcLevels)).join(' ') || 'none'}; unknown sign: ${t.levels['?'].map((l) => levelText(l, plan.dcLevels)).join(' ') || 'none'}.</p>`);
+    const mv = (sg: PhasePolarity) => t.commutations.moves[sg].filter(([a, b]) => a < b).map(([a, b]) => `${levelText(a, plan.dcLevels)}↔${levelText(b, plan.dcLevels)}`).join(' ') || 'none (the phase cannot change level)';
     s.push(`<p>Safe level changes — i &gt; 0: ${mv('+')}; i &lt; 0: ${mv('-')}; unknown sign: ${mv('?')}.</p>`);
   }
   if (PHASES.every((ph) => atlas.analysis.phases[ph] === atlas.analysis.healthy)) s.push('<p>No phase is faulted.</p>');
@@ -109,7 +109,7 @@ export function buildReport(r: ReportInputs): string {
 
   s.push('<h2>5. Derating versus load angle</h2>');
   const curve = deratingCurve(atlas, { polarityMarginDeg: plan.polarityMarginDeg });
-  s.push(figure(deratingCurveSvg([{ label: faultText, points: curve }], { healthy: plan.mMaxHealthy, title: 'Maximum modulation index versus load angle' }), `Safe mMax from −90° to 90° (exact at every point, breakpoints circled); worst ${fmt(Math.min(...curve.map((p) => p.mMax)), 4)}, best ${fmt(Math.max(...curve.map((p) => p.mMax)), 4)}. Where drawn, the thin dotted line is the first version's convex-hull bound, which the hardware would not survive.`));
+  s.push(figure(deratingCurveSvg([{ label: faultText, points: curve }], { healthy: plan.mMaxHealthy, title: 'Maximum modulation index versus load angle', operatingDeg: plan.loadAngleDeg, ...(r.scenario?.loadAngleRangeDeg ? { bandDeg: r.scenario.loadAngleRangeDeg } : {}), ...(vdc !== undefined ? { vdc } : {}) }), `Safe mMax from −90° to 90° (exact at every point, breakpoints circled); worst ${fmt(Math.min(...curve.map((p) => p.mMax)), 4)}, best ${fmt(Math.max(...curve.map((p) => p.mMax)), 4)}. Where drawn, the thin dotted line is the first version's convex-hull bound, which the hardware would not survive.`));
 
   s.push('<h2>6. Degraded switching-state table</h2>');
   const f = table.flags;
@@ -231,6 +231,6 @@ function bindingExplanation(plan: RemedialPlan): string {
     return `The drive cannot run in this state: under the polarity ${plan.limitingPolarity} (around θ = ${fmt(plan.limitingAngleDeg, 1)}°) the triangles a switching sequence can safely run do not surround the origin, so no balanced three-phase voltage can be synthesised through that part of the cycle.`;
   }
   const [a, b] = plan.bindingEdge;
-  const v = (x: typeof a) => `the ${x.class} vector ${x.levels[0]?.map(levelText).join('')} (α ${fmt(x.alpha, 3)}, β ${fmt(x.beta, 3)})`;
+  const v = (x: typeof a) => `the ${x.class} vector ${tripletText(x.levels[0] ?? [], plan.dcLevels)} (α ${fmt(x.alpha, 3)}, β ${fmt(x.beta, 3)})`;
   return `The limit binds at θ = ${fmt(plan.limitingAngleDeg, 2)}°, where the phase currents read ${plan.limitingPolarity} (a, b, c). There the reference leaves the region of safely runnable triangles through the edge from ${v(a)} to ${v(b)}: the reference vector can be no longer than ${fmt(plan.mMax, 4)} in that direction, against ${fmt(plan.mMaxHealthy, 4)} for the healthy leg.`;
 }
