@@ -9,6 +9,8 @@ export interface VectorDiagramOptions {
   readonly labels?: boolean;
   /** Side of the square plot in px. Default 520. */
   readonly size?: number;
+  /** Total DC-link voltage in volts: the axes also say what one unit is in volts. */
+  readonly vdc?: number;
 }
 
 /**
@@ -41,7 +43,7 @@ export function vectorDiagramSvg(plan: RemedialPlan, polarity: string, options: 
   const note = levelNotation(plan.dcLevels);
   const named = (v: PlanVector) => v.levels.map((t) => note.triplet(t)).join(', ');
   body.push(`<g stroke="${STYLE.grid}" stroke-width="1"><line x1="${X(-extent)}" y1="${Y(0)}" x2="${X(extent)}" y2="${Y(0)}"/><line x1="${X(0)}" y1="${Y(-extent)}" x2="${X(0)}" y2="${Y(extent)}"/></g>`);
-  body.push(`<text x="${X(extent)}" y="${n(cy + 14)}" text-anchor="end" fill="${STYLE.ink}">α (Vdc/2)</text><text x="${n(cx + 4)}" y="${Y(extent)}" dominant-baseline="hanging" fill="${STYLE.ink}">β (Vdc/2)</text>`);
+  body.push(`<text x="${X(extent)}" y="${n(cy + 14)}" text-anchor="end" fill="${STYLE.ink}">α (Vdc/2${options.vdc !== undefined ? ` = ${n(options.vdc / 2, 0)} V` : ''})</text><text x="${n(cx + 4)}" y="${Y(extent)}" dominant-baseline="hanging" fill="${STYLE.ink}">β (Vdc/2${options.vdc !== undefined ? ` = ${n(options.vdc / 2, 0)} V` : ''})</text>`);
   // healthy limit circle, faint
   body.push(`<circle class="healthy-limit" cx="${X(0)}" cy="${Y(0)}" r="${n(k * plan.mMaxHealthy)}" fill="none" stroke="${STYLE.faint}" stroke-dasharray="2 3"/>`);
   // triangles

@@ -27,6 +27,7 @@ export const cycleCommand: Command = {
     if (typeof m !== 'number') throw usage('--m', 'the modulation index to run at');
     const atlas = diagramAtlas({ topology, faults, ...rules });
     const plan = planFromAtlas(atlas, loadAngleDeg, polarityMarginDeg);
+    if (plan.mMax === 0) throw usage('--m', 'nothing: the drive cannot run in this state (mMax = 0 at this load angle)', m);
     if (m > plan.mMax + 1e-12) throw usage('--m', `at most mMax = ${fmt(plan.mMax, 6)} at this load angle (the reference would be clamped)`, m);
     const report = cycleCheck(switchingTableFromAtlas(atlas), {
       m, loadAngleDeg, polarityMarginDeg,

@@ -50,7 +50,8 @@ export const plotCommand: Command = {
     parsePolarity(polarity, '--polarity');
     let svg: string;
     if (kind === 'diagram') {
-      svg = vectorDiagramSvg(plan, polarity, { referenceM: args.values.get('m') as number | undefined });
+      const vdcD = vdcInput(args);
+      svg = vectorDiagramSvg(plan, polarity, { referenceM: args.values.get('m') as number | undefined, ...(vdcD !== undefined ? { vdc: vdcD } : {}) });
     } else if (kind === 'sectors') {
       svg = sectorOverviewSvg(plan);
     } else if (kind === 'derating') {

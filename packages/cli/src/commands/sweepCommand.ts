@@ -44,10 +44,11 @@ export const sweepCommand: Command = {
       await io.stdout(`load_angle_deg,m_max,derating_ratio,limiting_angle_deg,limiting_polarity,breakpoint,m_max_hull,derating_edge${vdc === undefined ? '' : ',phase_peak_max_v,line_rms_max_v'}\n${rows.join('\n')}\n`);
       return 0;
     }
+    const stop = points.every((p) => p.mMax === 0) ? '\nThe drive cannot run in this state at any load angle of the range (mMax = 0 throughout): it must stop.\n' : points.some((p) => p.mMax === 0) ? '\nWhere mMax is 0 the drive cannot run in this state at that load angle.\n' : '';
     const mark = (p: (typeof points)[number]) => [p.breakpoint ? '*' : '', p.deratingEdge ? `derating ${p.deratingEdge}` : ''].filter(Boolean).join(' ');
     const rows = points.map((p) => [fmt(p.loadAngleDeg, 3), fmt(p.mMax, 5), ...(vdc === undefined ? [] : [fmt(lineRmsVolts(p.mMax, vdc), 1)]), fmt(p.deratingRatio, 4), fmt(p.mMaxHull, 5), fmt(p.limitingAngleDeg, 2), p.limitingPolarity, mark(p)]);
     const head = `${vdc === undefined ? '' : `DC link ${fmt(vdc, 1)} V; "line V rms" = mMax as line-to-line RMS volts.\n`}Rules: ${describeRules(atlas.analysis.rules)}\nmMax is the safe limit; "hull" is the first version's convex-hull bound, shown for comparison (not safe by itself).\n\n`;
-    await io.stdout(`${head}${textTable(['load deg', 'mMax', ...(vdc === undefined ? [] : ['line V rms']), 'ratio', 'hull', 'binds at', 'polarity', 'mark'], rows)}\n\n* = a kink of the curve (computed exactly; it may fall on a grid point); "derating begins/ends" = where, as the load angle grows, the limit leaves or returns to the healthy one${cautionBlock(CAUTIONS)}\n`);
+    await io.stdout(`${head}${textTable(['load deg', 'mMax', ...(vdc === undefined ? [] : ['line V rms']), 'ratio', 'hull', 'binds at', 'polarity', 'mark'], rows)}\n\n* = a kink of the curve (computed exactly; it may fall on a grid point); "derating begins/ends" = where, as the load angle grows, the limit leaves or returns to the healthy one${stop}${cautionBlock(CAUTIONS)}\n`);
     return 0;
   },
 };

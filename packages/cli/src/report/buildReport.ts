@@ -104,7 +104,7 @@ export function buildReport(r: ReportInputs): string {
   s.push(figure(legSchematicSvg(leg, focus), `Leg drawn from the netlist. The failed element is crossed out; the thick path is where the current flows for pattern ${focus.pattern?.name ?? '—'} with ${focus.sign === '-' ? 'i < 0' : 'i > 0'}.`));
 
   s.push('<h2>4. Vectors and polarity sectors</h2>');
-  s.push(figure(vectorDiagramSvg(plan, plan.limitingPolarity), `Vector diagram of the polarity ${plan.limitingPolarity} in force where the limit binds. Filled dots survive, hollow squares marked × are lost; the grey triangles are the admissible ones a switching sequence can run; the thick red edge is where the limit binds; the green circle is mMax.`));
+  s.push(figure(vectorDiagramSvg(plan, plan.limitingPolarity, vdc !== undefined ? { vdc } : {}), `Vector diagram of the polarity ${plan.limitingPolarity} in force where the limit binds. Filled dots survive, hollow squares marked × are lost; the grey triangles are the admissible ones a switching sequence can run; the thick red edge is where the limit binds; the green circle is mMax.`));
   s.push(figure(sectorOverviewSvg(plan), 'One diagram per polarity sector over the fundamental cycle; the arc shows the sector’s range of θ, the framed sector sets the limit.'));
 
   s.push('<h2>5. Derating versus load angle</h2>');
