@@ -18,6 +18,7 @@ const LOADERS: Readonly<Record<string, () => Promise<Command>>> = {
   report: async () => (await import('./commands/reportCommand.js')).reportCommand,
   check: async () => (await import('./commands/checkCommand.js')).checkCommand,
   atlas: async () => (await import('./commands/atlasCommand.js')).atlasCommand,
+  simulate: async () => (await import('./commands/simulateCommand.js')).simulateCommand,
 };
 
 /** Every command name, in the order `--help` lists them. */

@@ -53,3 +53,5 @@ export { ATLAS_SCHEMA_VERSION, assembleAtlas, atlasClass, atlasGrid, atlasWork, 
 export { faultReason, type FaultReason } from './faultReason.js';
 export { lineRmsVolts, modulationOfLineRms, phasePeakVolts, planVolts, requireVdc, type PlanVolts } from './physicalUnits.js';
 export { levelNotation, vectorName, type LevelNotation } from './levelNotation.js';
+export { DEMO_DEVICES, conductionLoss, elementParameters, eventEnergy, parseDeviceParameters, type DeviceParameters, type DeviceParameterSet, type DiodeParameters, type ElementParameters, type SwitchParameters } from './deviceLosses.js';
+export { simulatePeriod, simulationWaveform, type DeviceResult, type SimulateOptions, type Simulation, type SimulationResult, type WaveformSegment } from './simulatePeriod.js';

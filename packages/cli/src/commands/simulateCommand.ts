@@ -1,0 +1,134 @@
+import { existsSync } from 'node:fs';
+import { CAUTIONS, HexsalvageInputError, parseDeviceParameters, simulatePeriod, simulationWaveform, type Simulation, type SimulateOptions } from '@hexsalvage/core';
+import { usage } from '../args.js';
+import { HELP_OPTION, JSON_OPTION, LEG_OPTIONS, type Command } from '../command.js';
+import { cautionBlock, fmt, textTable } from '../format.js';
+import { legInputs } from '../legInputs.js';
+import { writeFileAtomic } from '../output.js';
+import { readJsonFile } from '../readJsonFile.js';
+
+/** `hexsalvage simulate`: one fundamental period, healthy and faulted side by side. */
+export const simulateCommand: Command = {
+  name: 'simulate',
+  summary: 'one fundamental period of the degraded table: line-voltage spectrum, device currents and losses, midpoint swing',
+  usage: 'simulate --topology T [--fault F]... --m M --load-angle DEG --vdc V --current-peak A --f1 HZ --fsw HZ [--devices FILE.json] [--capacitance F] [--polarity-margin DEG] [--json|--csv] [--waveforms FILE.csv]',
+  options: [
+    ...LEG_OPTIONS,
+    { name: 'm', type: 'number', min: 0, max: 10, value: 'M', help: 'modulation index (units of Vdc/2), at most mMax at the load angle' },
+    { name: 'load-angle', type: 'number', min: -180, max: 180, value: 'DEG', help: 'load angle phi, degrees (currents lag the voltage)' },
+    { name: 'polarity-margin', type: 'number', min: 0, max: 60, value: 'DEG', help: 'polarity margin delta in degrees, 0 <= delta < 60 (default 0)' },
+    { name: 'vdc', type: 'number', min: 0, openMin: true, max: 1e7, value: 'V', help: 'total DC-link voltage, volts' },
+    { name: 'current-peak', type: 'number', min: 0, openMin: true, max: 1e7, value: 'A', help: 'peak of the sinusoidal phase currents, amperes' },
+    { name: 'f1', type: 'number', min: 0, openMin: true, max: 1e5, value: 'HZ', help: 'fundamental frequency, Hz' },
+    { name: 'fsw', type: 'number', min: 0, openMin: true, max: 1e8, value: 'HZ', help: 'switching frequency, Hz (fsw/f1, rounded, periods per fundamental; at least 6)' },
+    { name: 'devices', type: 'string', value: 'FILE', help: 'device loss parameters (docs/schema/devices.schema.json); default: invented demo values' },
+    { name: 'capacitance', type: 'number', min: 0, openMin: true, max: 1e3, value: 'F', help: 'capacitance of each half of the DC link, farads (midpoint ripple in volts)' },
+    { name: 'csv', type: 'flag', help: 'print the device table as CSV (faulted and healthy side by side)' },
+    JSON_OPTION,
+    { name: 'waveforms', type: 'string', value: 'FILE', help: 'also write one period as CSV: one row per piece (time, phase and line voltages, currents, midpoint voltage)' },
+    HELP_OPTION,
+  ],
+  run: async (args, io) => {
+    const { topology, faults, rules } = legInputs(args);
+    if (args.flags.has('csv') && args.flags.has('json')) throw usage('--csv', 'either --csv or --json, not both');
+    const need = (k: string, what: string) => {
+      const v = args.values.get(k);
+      if (typeof v !== 'number') throw usage(`--${k}`, what);
+      return v;
+    };
+    const file = args.values.get('devices') as string | undefined;
+    let devices;
+    if (file !== undefined) {
+      if (!existsSync(file)) throw new HexsalvageInputError('option', file, '(file)', 'an existing device-parameter file');
+      devices = parseDeviceParameters(readJsonFile(file, file, 'netlist'), file);
+    }
+    const options: SimulateOptions = {
+      topology,
+      faults,
+      ...rules,
+      m: need('m', 'the modulation index to run at'),
+      loadAngleDeg: need('load-angle', 'the load angle in degrees'),
+      polarityMarginDeg: (args.values.get('polarity-margin') as number | undefined) ?? 0,
+      vdc: need('vdc', 'the DC-link voltage in volts'),
+      currentPeak: need('current-peak', 'the peak phase current in amperes'),
+      f1: need('f1', 'the fundamental frequency in Hz'),
+      fsw: need('fsw', 'the switching frequency in Hz'),
+      ...(devices ? { devices } : {}),
+      ...(args.values.has('capacitance') ? { capacitance: args.values.get('capacitance') as number } : {}),
+    };
+    const sim = simulatePeriod(options);
+    const wave = args.values.get('waveforms') as string | undefined;
+    if (wave !== undefined) {
+      if (wave === '') throw usage('--waveforms', 'a CSV file path');
+      writeFileAtomic(wave, waveformCsv(options, sim));
+    }
+    if (args.flags.has('json')) await io.stdout(`${JSON.stringify(sim)}\n`);
+    else if (args.flags.has('csv')) await io.stdout(deviceCsv(sim));
+    else await io.stdout(`${simulationText(sim)}\n`);
+    return 0;
+  },
+};
+
+/**
+ * The simulation as terminal text.
+ *
+ * @param s - from `simulatePeriod`
+ * @returns text
+ * @example
+ * ```ts
+ * simulationText(simulatePeriod(options));
+ * ```
+ */
+export function simulationText(s: Simulation): string {
+  const lv = (x: Simulation['lineVoltage']) => [fmt(x.fundamentalPeak, 1), fmt(x.fundamentalPeak / Math.SQRT2, 1), fmt(x.rms, 1), fmt(100 * x.thd, 2), fmt(100 * x.wthd, 3)];
+  const ids = Object.keys(s.devices);
+  const total = (d: Simulation['devices'][string] | undefined) => (d ? d.conductionLoss + d.switchingLoss : 0);
+  const rows = ids.filter((id) => total(s.devices[id]) > 1e-9 || total(s.healthy.devices[id]) > 1e-9).map((id) => {
+    const f = s.devices[id] as Simulation['devices'][string];
+    const h = s.healthy.devices[id] as Simulation['devices'][string];
+    const change = total(h) > 1e-9 ? `${fmt(100 * (total(f) / total(h) - 1), 0)} %` : total(f) > 1e-9 ? 'new' : '-';
+    return [id, fmt(f.avgCurrent, 1), fmt(f.rmsCurrent, 1), fmt(f.conductionLoss, 1), fmt(f.switchingLoss, 1), fmt(total(f), 1), fmt(total(h), 1), change];
+  });
+  const mid = (x: Simulation['midpoint']) => (x.chargePkPkAs === null ? 'no midpoint' : `${x.ripplePkPk === null ? '(give --capacitance for volts)' : `${fmt(x.ripplePkPk, 2)} V peak to peak`}, charge swing ${fmt(x.chargePkPkAs, 4)} As, average current ${fmt(x.averageCurrent ?? 0, 2)} A`);
+  const d = s.currentDerating;
+  return [
+    `Leg: ${s.topology}   faults: ${s.faults.join(', ') || 'none'}   m = ${fmt(s.m, 4)}   load angle ${fmt(s.loadAngleDeg, 1)} deg`,
+    `Vdc ${fmt(s.vdc, 1)} V, phase current ${fmt(s.currentPeak, 1)} A peak, f1 ${fmt(s.f1, 2)} Hz, fsw ${fmt(s.fsw, 0)} Hz (${s.periods} switching periods per fundamental). Devices: ${s.deviceParameters}.`,
+    '',
+    'Line voltage a-b:',
+    textTable(['leg', 'V1 peak', 'V1 rms', 'rms total', 'THD %', 'WTHD %'], [['faulted', ...lv(s.lineVoltage)], ['healthy', ...lv(s.healthy.lineVoltage)]]),
+    `(harmonics to order ${s.lineVoltage.harmonics.length}; THD and WTHD as in docs/simulate.md)`,
+    '',
+    'Device currents and losses over one fundamental period (faulted; healthy total beside):',
+    textTable(['element', 'avg A', 'rms A', 'cond W', 'switch W', 'total W', 'healthy W', 'change'], rows),
+    '',
+    `Hottest element: ${s.hottest.device} ${fmt(s.hottest.loss, 1)} W (healthy leg: ${s.healthy.hottest.device} ${fmt(s.healthy.hottest.loss, 1)} W).`,
+    `Current derating: at most ${fmt(100 * d.factor, 1)} % of ${fmt(s.currentPeak, 1)} A peak keeps every element within the healthy leg's largest loss${d.limitingDevice ? ` (limited by ${d.limitingDevice})` : ''}; ${d.assumption}.`,
+    `Midpoint: faulted ${mid(s.midpoint)}; healthy ${mid(s.healthy.midpoint)}.`,
+    ...(s.lineDevicesAtPwm.length ? [`LINE-FREQUENCY DEVICES SWITCHED AT PWM RATE: ${s.lineDevicesAtPwm.map((x) => `${x.device} (${fmt(x.switchingLoss, 1)} W switching)`).join(', ')}.`] : []),
+    ...(s.wrongSignTime > 0 ? [`WARNING: for ${fmt(s.wrongSignTime * 1e6, 1)} us (phase-seconds) a phase current had the other sign than the polarity its switching period was planned for, and its state gave another level than planned: use a polarity margin (--polarity-margin).`] : []),
+    'Losses use the loss model of docs/simulate.md (threshold voltage and slope resistance, on-resistance for MOSFETs, switching energies scaled with voltage and current).',
+    cautionBlock(CAUTIONS),
+  ].join('\n');
+}
+
+function deviceCsv(s: Simulation): string {
+  const head = 'element,avg_current_a,rms_current_a,conduction_loss_w,switching_loss_w,healthy_avg_current_a,healthy_rms_current_a,healthy_conduction_loss_w,healthy_switching_loss_w';
+  const rows = Object.entries(s.devices).map(([id, d]) => {
+    const h = s.healthy.devices[id] as Simulation['devices'][string];
+    return [id, d.avgCurrent, d.rmsCurrent, d.conductionLoss, d.switchingLoss, h.avgCurrent, h.rmsCurrent, h.conductionLoss, h.switchingLoss].map((v) => (typeof v === 'number' ? v.toFixed(6) : v)).join(',');
+  });
+  return `${head}\n${rows.join('\n')}\n`;
+}
+
+function waveformCsv(options: SimulateOptions, s: Simulation): string {
+  const seg = simulationWaveform(options);
+  const w = 2 * Math.PI * s.f1;
+  const phi = (s.loadAngleDeg * Math.PI) / 180;
+  const i = (k: number, t: number) => s.currentPeak * Math.cos(w * t - phi - (k * 2 * Math.PI) / 3);
+  const rows = seg.map((g) => {
+    const [va, vb, vc] = g.phaseVolts;
+    return [g.t0, va, vb, vc, va - vb, vb - vc, vc - va, i(0, g.t0), i(1, g.t0), i(2, g.t0), g.midpointVolts].map((v) => Number(v.toPrecision(12))).join(',');
+  });
+  return `time_s,va_v,vb_v,vc_v,vab_v,vbc_v,vca_v,ia_a,ib_a,ic_a,vmid_v\n${rows.join('\n')}\n`;
+}
