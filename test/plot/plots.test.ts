@@ -2,9 +2,9 @@ import { existsSync, readFileSync, writeFileSync } from 'node:fs';
 import { XMLParser, XMLValidator } from 'fast-xml-parser';
 import { describe, expect, it } from 'vitest';
 import {
-  builtinLeg, deratingCurve, diagramAtlas, faultAtlas, gatedDeviceIds, parseNetlist, planFromAtlas, planRemedial, switchingTableFromAtlas,
+  builtinLeg, deratingCurve, diagramAtlas, faultAtlas, gatedDeviceIds, simulatePeriod, simulationWaveform, parseNetlist, planFromAtlas, planRemedial, switchingTableFromAtlas,
 } from '@hexsalvage/core';
-import { atlasHeatmapSvg, atlasPairMatrixSvg, deratingCurveSvg, legSchematicSvg, ratioColour, sectorOverviewSvg, switchingPeriodSvg, vectorDiagramSvg } from '@hexsalvage/plot';
+import { atlasHeatmapSvg, atlasPairMatrixSvg, deratingCurveSvg, legSchematicSvg, lossBarsSvg, ratioColour, spectrumSvg, waveformsSvg, sectorOverviewSvg, switchingPeriodSvg, vectorDiagramSvg } from '@hexsalvage/plot';
 
 // Golden files: regenerate with UPDATE_GOLDEN=1 pnpm test (then review the diff like code).
 function golden(name: string, svg: string): void {
@@ -161,4 +161,30 @@ describe('atlasHeatmapSvg and atlasPairMatrixSvg', () => {
     expect(byClass(svg, 'not-a-pair')).toHaveLength(n);
   });
   it('matches its golden file', () => golden('atlas-npc-open', atlasHeatmapSvg(faultAtlas({ topology: 'npc', modes: ['open'], stepDeg: 30 }))));
+});
+
+describe('simulation plots', () => {
+  const options = { topology: 'npc', faults: ['a.outerUpper'], m: 0.5, loadAngleDeg: 20, polarityMarginDeg: 5, vdc: 750, currentPeak: 150, f1: 50, fsw: 3000 };
+  const sim = simulatePeriod(options);
+  it('draws paired loss bars for every element with a loss, healthy and faulted', () => {
+    const svg = lossBarsSvg(sim);
+    wellFormed(svg);
+    const lossy = Object.keys(sim.devices).filter((id) => sim.devices[id]!.conductionLoss + sim.devices[id]!.switchingLoss > 1e-6 || sim.healthy.devices[id]!.conductionLoss + sim.healthy.devices[id]!.switchingLoss > 1e-6);
+    expect(byClass(svg, 'faulted')).toHaveLength(2 * lossy.length);
+    expect(byClass(svg, 'healthy')).toHaveLength(2 * lossy.length);
+    expect(svg).toContain('loss over one fundamental period (W)');
+  });
+  it('draws the spectrum on a linear or a log axis, and one period of voltage and currents', () => {
+    for (const log of [false, true]) {
+      const svg = spectrumSvg(sim, { log });
+      wellFormed(svg);
+      expect(svg).toContain(log ? '0.01 %' : '100 %');
+      expect(svg).toContain('harmonic order n');
+    }
+    const w = waveformsSvg(sim, simulationWaveform(options));
+    wellFormed(w);
+    expect(byClass(w, 'current')).toHaveLength(2);
+    expect(byClass(w, 'line-voltage')).toHaveLength(1);
+    expect(w).toContain('time (ms)');
+  });
 });

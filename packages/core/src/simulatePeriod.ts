@@ -389,8 +389,8 @@ function runPeriod(x: RunInputs): RunOutput {
     scaling.set(id, { a: lin, b: cond - (ep.part === 'mosfet' ? 0 : (ep.p.v0 ?? 0) * avg), rth: ep.rth });
     if (cond + sw > hottest.loss) hottest = { device: id, loss: cond + sw };
     const element = elements.find((el) => el.id === id.slice(2));
-    // a line-frequency device that commutates current under PWM (above a milliwatt: not rounding)
-    if (element && lineDevices.has(element.device) && sw > 1e-3) line.push({ device: id, switchingLoss: sw });
+    // a line-frequency device that commutates current under PWM (above 50 mW: not a rounding trace)
+    if (element && lineDevices.has(element.device) && sw > 0.05) line.push({ device: id, switchingLoss: sw });
   }
   return {
     result: {

@@ -6,3 +6,4 @@ export { legLayout, type LegLayout } from './legLayout.js';
 export { legSchematicSvg, type LegSchematicOptions } from './legSchematicSvg.js';
 export { switchingPeriodSvg, type SwitchingPeriodOptions } from './switchingPeriodSvg.js';
 export { atlasHeatmapSvg, atlasPairMatrixSvg, ratioColour } from './faultAtlasSvg.js';
+export { lossBarsSvg, spectrumSvg, waveformsSvg, type SpectrumSvgOptions } from './simulationSvg.js';

@@ -1,19 +1,20 @@
-import { parsePolarity, diagramAtlas, deratingCurve, gatedDeviceIds, locateReference, planFromAtlas, switchingTableFromAtlas } from '@hexsalvage/core';
-import { atlasHeatmapSvg, atlasPairMatrixSvg, deratingCurveSvg, legSchematicSvg, sectorOverviewSvg, switchingPeriodSvg, vectorDiagramSvg } from '@hexsalvage/plot';
+import { parsePolarity, diagramAtlas, simulatePeriod, simulationWaveform, deratingCurve, gatedDeviceIds, locateReference, planFromAtlas, switchingTableFromAtlas } from '@hexsalvage/core';
+import { atlasHeatmapSvg, atlasPairMatrixSvg, deratingCurveSvg, legSchematicSvg, lossBarsSvg, spectrumSvg, waveformsSvg, sectorOverviewSvg, switchingPeriodSvg, vectorDiagramSvg } from '@hexsalvage/plot';
 import { usage } from '../args.js';
+import { SIM_OPTIONS, simulateInputs } from '../simulateInputs.js';
 import { ATLAS_OPTIONS, atlasFromArgs } from '../atlasInputs.js';
 import { ANGLE_OPTIONS, HELP_OPTION, LEG_OPTIONS, VDC_OPTION, type Command } from '../command.js';
 import { angleInputs, legInputs, vdcInput } from '../legInputs.js';
 import { writeSvgOrPng } from '../renderFile.js';
 import { schematicFocus } from '../schematicFocus.js';
 
-const KINDS = ['diagram', 'sectors', 'derating', 'leg', 'sequence', 'atlas'] as const;
+const KINDS = ['diagram', 'sectors', 'derating', 'leg', 'sequence', 'atlas', 'losses', 'spectrum', 'waveforms'] as const;
 
 /** `hexsalvage plot`: review pictures as SVG or PNG. */
 export const plotCommand: Command = {
   name: 'plot',
-  summary: 'draw a review picture: diagram, sectors, derating, leg, sequence or atlas (SVG or PNG)',
-  usage: 'plot diagram|sectors|derating|leg|sequence|atlas --topology T [--fault F]... [--load-angle DEG] [--polarity XYZ] [atlas options] --out FILE.svg|.png',
+  summary: 'draw a review picture: diagram, sectors, derating, leg, sequence, atlas, losses, spectrum or waveforms (SVG or PNG)',
+  usage: 'plot diagram|sectors|derating|leg|sequence|atlas|losses|spectrum|waveforms --topology T [--fault F]... [--load-angle DEG] [--polarity XYZ] [atlas options] --out FILE.svg|.png',
   positionals: 1,
   options: [
     ...LEG_OPTIONS,
@@ -27,6 +28,8 @@ export const plotCommand: Command = {
     { name: 'triangle', type: 'number', min: 0, max: 100000, integer: true, value: 'N', help: 'sequence: triangle index (default: the one at 0.7 mMax where the limit binds)' },
     ...ATLAS_OPTIONS,
     VDC_OPTION,
+    ...SIM_OPTIONS.filter((o) => !['m', 'load-angle', 'polarity-margin', 'vdc'].includes(o.name)),
+    { name: 'log', type: 'flag', help: 'spectrum: logarithmic amplitude axis' },
     { name: 'out', type: 'string', value: 'FILE', help: 'output file, .svg or .png' },
     HELP_OPTION,
   ],
@@ -35,6 +38,16 @@ export const plotCommand: Command = {
     if (!KINDS.includes(kind as (typeof KINDS)[number])) throw usage('KIND', `one of ${KINDS.join(', ')}`, kind);
     const out = args.values.get('out');
     if (typeof out !== 'string' || !/\.(svg|png)$/.test(out)) throw usage('--out', 'a file name ending in .svg or .png', out);
+    if (kind === 'losses' || kind === 'spectrum' || kind === 'waveforms') {
+      // one simulated period (see simulate): --m, --load-angle, --vdc, --current-peak, --f1, --fsw
+      const { topology: tp, faults: fs, rules: rl } = legInputs(args);
+      const options = simulateInputs(args, tp, fs, rl);
+      const sim = simulatePeriod(options);
+      const svgSim = kind === 'losses' ? lossBarsSvg(sim) : kind === 'spectrum' ? spectrumSvg(sim, { log: args.flags.has('log') }) : waveformsSvg(sim, simulationWaveform(options));
+      const bytes = await writeSvgOrPng(out, svgSim);
+      await io.stdout(`wrote ${out} (${kind}, ${bytes} bytes)\n`);
+      return 0;
+    }
     if (kind === 'atlas') {
       // a heat map of every single fault, or the fault × fault matrix with --pairs
       const atlas = await atlasFromArgs(args, io, false);

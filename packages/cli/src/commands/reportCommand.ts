@@ -1,6 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { dirname, relative, resolve } from 'node:path';
-import { diagramAtlas, planFromAtlas, switchingTableFromAtlas, type ClaimVerdict, type LegNetlist, type LevelStepRule } from '@hexsalvage/core';
+import { diagramAtlas, modulationOfLineRms, planFromAtlas, simulatePeriod, simulationWaveform, switchingTableFromAtlas, type ClaimVerdict, type LegNetlist, type LevelStepRule } from '@hexsalvage/core';
 import { usage, type ParsedArgs } from '../args.js';
 import { buildDate, commandLine } from '../commandLine.js';
 import { fileSha256, readScenario, type Scenario } from '../readScenario.js';
@@ -57,9 +57,12 @@ export const reportCommand: Command = {
     const atlasFlags = ['modes', 'load-angle-range', 'step', 'jobs'].filter((k) => args.values.has(k)).concat(args.flags.has('pairs') ? ['pairs'] : []);
     if (!args.flags.has('atlas') && atlasFlags.length > 0) throw usage(`--${atlasFlags[0]}`, 'only together with --atlas');
     const faultAtlas = args.flags.has('atlas') ? await atlasFromArgs(scenario && scenarioFile ? withScenario(args, scenario, scenarioFile) : args, io, false, true) : undefined;
+    const plan = planFromAtlas(atlas, inputs.loadAngleDeg, inputs.polarityMarginDeg);
+    const simulation = scenario ? scenarioSimulation(scenario, inputs, plan.mMax) : undefined;
     const html = buildReport({
       atlas,
-      plan: planFromAtlas(atlas, inputs.loadAngleDeg, inputs.polarityMarginDeg),
+      plan,
+      ...(simulation ? { simulation } : {}),
       table: switchingTableFromAtlas(atlas),
       topologyText: inputs.topologyText,
       ...(verdicts ? { verdicts } : {}),
@@ -76,6 +79,29 @@ export const reportCommand: Command = {
     return 0;
   },
 };
+
+// One simulated period at the scenario's operating point, when it gives the drive's data: m is the
+// rated voltage's, or the safe limit where that is lower; the current is the rated one,
+// √2·P / (√3·V·cos φ) at the operating load angle.
+function scenarioSimulation(sc: Scenario, inputs: { topology: string | LegNetlist; faults: readonly string[]; rules: { ignoreRatings: boolean; levelSteps: LevelStepRule }; loadAngleDeg: number; polarityMarginDeg: number }, mMax: number) {
+  if (sc.ratedPowerKw === undefined || sc.ratedLineVoltageV === undefined || sc.fundamentalHz === undefined || sc.switchingHz === undefined || mMax <= 0) return undefined;
+  const cos = Math.cos((inputs.loadAngleDeg * Math.PI) / 180);
+  if (cos < 0.1 || sc.switchingHz < 6 * sc.fundamentalHz) return undefined;
+  const options = {
+    topology: inputs.topology,
+    faults: inputs.faults,
+    ...inputs.rules,
+    m: Math.min(mMax, modulationOfLineRms(sc.ratedLineVoltageV, sc.vdc)),
+    loadAngleDeg: inputs.loadAngleDeg,
+    polarityMarginDeg: inputs.polarityMarginDeg,
+    vdc: sc.vdc,
+    currentPeak: (Math.SQRT2 * sc.ratedPowerKw * 1000) / (Math.sqrt(3) * sc.ratedLineVoltageV * cos),
+    f1: sc.fundamentalHz,
+    fsw: sc.switchingHz,
+    ...(sc.dcLinkCapacitanceF !== undefined ? { capacitance: sc.dcLinkCapacitanceF } : {}),
+  };
+  return { sim: simulatePeriod(options), segments: simulationWaveform(options) };
+}
 
 // The atlas options of the command line with the scenario's leg, rule and DC link in place of
 // --topology, --level-steps and --vdc (a netlist path in the scenario is relative to its file).

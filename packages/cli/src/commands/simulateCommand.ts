@@ -1,11 +1,10 @@
-import { existsSync } from 'node:fs';
-import { CAUTIONS, HexsalvageInputError, parseDeviceParameters, simulatePeriod, simulationWaveform, type Simulation, type SimulateOptions } from '@hexsalvage/core';
+import { CAUTIONS, simulatePeriod, simulationWaveform, type Simulation, type SimulateOptions } from '@hexsalvage/core';
 import { usage } from '../args.js';
 import { HELP_OPTION, JSON_OPTION, LEG_OPTIONS, type Command } from '../command.js';
 import { cautionBlock, fmt, textTable } from '../format.js';
 import { legInputs } from '../legInputs.js';
 import { writeFileAtomic } from '../output.js';
-import { readJsonFile } from '../readJsonFile.js';
+import { SIM_OPTIONS, simulateInputs } from '../simulateInputs.js';
 
 /** `hexsalvage simulate`: one fundamental period, healthy and faulted side by side. */
 export const simulateCommand: Command = {
@@ -14,15 +13,7 @@ export const simulateCommand: Command = {
   usage: 'simulate --topology T [--fault F]... --m M --load-angle DEG --vdc V --current-peak A --f1 HZ --fsw HZ [--devices FILE.json] [--capacitance F] [--polarity-margin DEG] [--json|--csv] [--waveforms FILE.csv]',
   options: [
     ...LEG_OPTIONS,
-    { name: 'm', type: 'number', min: 0, max: 10, value: 'M', help: 'modulation index (units of Vdc/2), at most mMax at the load angle' },
-    { name: 'load-angle', type: 'number', min: -180, max: 180, value: 'DEG', help: 'load angle phi, degrees (currents lag the voltage)' },
-    { name: 'polarity-margin', type: 'number', min: 0, max: 60, value: 'DEG', help: 'polarity margin delta in degrees, 0 <= delta < 60 (default 0)' },
-    { name: 'vdc', type: 'number', min: 0, openMin: true, max: 1e7, value: 'V', help: 'total DC-link voltage, volts' },
-    { name: 'current-peak', type: 'number', min: 0, openMin: true, max: 1e7, value: 'A', help: 'peak of the sinusoidal phase currents, amperes' },
-    { name: 'f1', type: 'number', min: 0, openMin: true, max: 1e5, value: 'HZ', help: 'fundamental frequency, Hz' },
-    { name: 'fsw', type: 'number', min: 0, openMin: true, max: 1e8, value: 'HZ', help: 'switching frequency, Hz (fsw/f1, rounded, periods per fundamental; at least 6)' },
-    { name: 'devices', type: 'string', value: 'FILE', help: 'device loss parameters (docs/schema/devices.schema.json); default: invented demo values' },
-    { name: 'capacitance', type: 'number', min: 0, openMin: true, max: 1e3, value: 'F', help: 'capacitance of each half of the DC link, farads (midpoint ripple in volts)' },
+    ...SIM_OPTIONS,
     { name: 'csv', type: 'flag', help: 'print the device table as CSV (faulted and healthy side by side)' },
     JSON_OPTION,
     { name: 'waveforms', type: 'string', value: 'FILE', help: 'also write one period as CSV: one row per piece (time, phase and line voltages, currents, midpoint voltage)' },
@@ -31,31 +22,7 @@ export const simulateCommand: Command = {
   run: async (args, io) => {
     const { topology, faults, rules } = legInputs(args);
     if (args.flags.has('csv') && args.flags.has('json')) throw usage('--csv', 'either --csv or --json, not both');
-    const need = (k: string, what: string) => {
-      const v = args.values.get(k);
-      if (typeof v !== 'number') throw usage(`--${k}`, what);
-      return v;
-    };
-    const file = args.values.get('devices') as string | undefined;
-    let devices;
-    if (file !== undefined) {
-      if (!existsSync(file)) throw new HexsalvageInputError('option', file, '(file)', 'an existing device-parameter file');
-      devices = parseDeviceParameters(readJsonFile(file, file, 'netlist'), file);
-    }
-    const options: SimulateOptions = {
-      topology,
-      faults,
-      ...rules,
-      m: need('m', 'the modulation index to run at'),
-      loadAngleDeg: need('load-angle', 'the load angle in degrees'),
-      polarityMarginDeg: (args.values.get('polarity-margin') as number | undefined) ?? 0,
-      vdc: need('vdc', 'the DC-link voltage in volts'),
-      currentPeak: need('current-peak', 'the peak phase current in amperes'),
-      f1: need('f1', 'the fundamental frequency in Hz'),
-      fsw: need('fsw', 'the switching frequency in Hz'),
-      ...(devices ? { devices } : {}),
-      ...(args.values.has('capacitance') ? { capacitance: args.values.get('capacitance') as number } : {}),
-    };
+    const options = simulateInputs(args, topology, faults, rules);
     const sim = simulatePeriod(options);
     const wave = args.values.get('waveforms') as string | undefined;
     if (wave !== undefined) {

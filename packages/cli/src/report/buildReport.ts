@@ -1,8 +1,8 @@
 import {
-  CAUTIONS, deratingCurve, describeRules, lineRmsVolts, phasePeakVolts, gatedDeviceIds, locateReference, PHASES, type ClaimVerdict, type DiagramAtlas, type FaultAtlas, type PatternResult,
+  CAUTIONS, deratingCurve, describeRules, lineRmsVolts, phasePeakVolts, gatedDeviceIds, locateReference, PHASES, type ClaimVerdict, type DiagramAtlas, type FaultAtlas, type PatternResult, type Simulation, type WaveformSegment,
   type PhasePolarity, type RemedialPlan, type SwitchingTable,
 } from '@hexsalvage/core';
-import { atlasHeatmapSvg, atlasPairMatrixSvg, deratingCurveSvg, esc, legSchematicSvg, sectorOverviewSvg, switchingPeriodSvg, vectorDiagramSvg } from '@hexsalvage/plot';
+import { atlasHeatmapSvg, atlasPairMatrixSvg, deratingCurveSvg, esc, lossBarsSvg, spectrumSvg, waveformsSvg, legSchematicSvg, sectorOverviewSvg, switchingPeriodSvg, vectorDiagramSvg } from '@hexsalvage/plot';
 import { fmt, levelText, tripletText } from '../format.js';
 import type { Scenario } from '../readScenario.js';
 import { schematicFocus } from '../schematicFocus.js';
@@ -30,6 +30,8 @@ export interface ReportInputs {
   readonly date?: string;
   /** Every input file with its SHA-256. */
   readonly inputs?: readonly { readonly path: string; readonly sha256: string }[];
+  /** One simulated period at the operating point (the scenario's drive data), with its waveform. */
+  readonly simulation?: { readonly sim: Simulation; readonly segments: readonly WaveformSegment[] };
 }
 
 /** Scenario data shown in the report header (a scenario file, docs/schema/scenario.schema.json). */
@@ -146,6 +148,7 @@ export function buildReport(r: ReportInputs): string {
     }
     s.push('</table><p class="muted">Each verdict is exact over the whole load-angle range of the claim, not sampled. A claim marked "another case" is about a different leg or other faults than the rest of this report; it is judged on its own case.</p>');
   }
+  if (r.simulation) s.push(simulationSection(r.simulation.sim, r.simulation.segments));
   if (r.faultAtlas) s.push(atlasAppendix(r.faultAtlas));
   s.push(`<div class="caution" role="note"><strong>Before operating with a failed device:</strong> confirm the remaining devices' current, voltage and thermal stress, the DC-link capacitor ripple and midpoint balance, and the load, by test and against the device ratings. Local electrical codes and licensed practice come first.</div>`);
   s.push(signOff());
@@ -162,6 +165,27 @@ ${s.join('\n')}
 </body>
 </html>
 `;
+}
+
+// What running degraded costs at the operating point: spectrum, losses, derating, midpoint.
+function simulationSection(sim: Simulation, segments: readonly WaveformSegment[]): string {
+  const out: string[] = ['<h2>8. What degraded operation costs</h2>'];
+  const mid = (x: Simulation['midpoint']) => (x.chargePkPkAs === null ? '—' : `${x.ripplePkPk === null ? `${fmt(x.chargePkPkAs, 3)} As` : `${fmt(x.ripplePkPk, 1)} V peak to peak`} (${fmt(x.averageCurrent ?? 0, 1)} A)`);
+  const lv = sim.lineVoltage;
+  const hv = sim.healthy.lineVoltage;
+  out.push(`<p>One fundamental period simulated at m = ${fmt(sim.m, 4)}, ${fmt(sim.currentPeak, 1)} A peak phase current lagging ${fmt(sim.loadAngleDeg, 1)}°, Vdc = ${fmt(sim.vdc, 0)} V, f1 = ${fmt(sim.f1, 1)} Hz, fsw = ${fmt(sim.fsw, 0)} Hz, devices: ${esc(sim.deviceParameters)} (method and loss model: docs/simulate.md).</p>`);
+  out.push(`<table><tr><th></th><th>faulted</th><th>healthy</th></tr><tr><th>line voltage, fundamental</th><td>${fmt(lv.fundamentalPeak / Math.SQRT2, 1)} V rms</td><td>${fmt(hv.fundamentalPeak / Math.SQRT2, 1)} V rms</td></tr>`
+    + `<tr><th>THD / WTHD of the line voltage</th><td>${fmt(100 * lv.thd, 2)} % / ${fmt(100 * lv.wthd, 3)} %</td><td>${fmt(100 * hv.thd, 2)} % / ${fmt(100 * hv.wthd, 3)} %</td></tr>`
+    + `<tr><th>hottest element</th><td>${esc(sim.hottest.device)}: ${fmt(sim.hottest.loss, 1)} W</td><td>${esc(sim.healthy.hottest.device)}: ${fmt(sim.healthy.hottest.loss, 1)} W</td></tr>`
+    + `<tr><th>midpoint swing over the period (average midpoint current)</th><td>${mid(sim.midpoint)}</td><td>${mid(sim.healthy.midpoint)}</td></tr></table>`);
+  if ([sim.midpoint, sim.healthy.midpoint].some((x) => Math.abs(x.averageCurrent ?? 0) > 0.005 * sim.currentPeak)) out.push('<p class="muted">A non-zero average midpoint current makes the midpoint drift over the period: the switching table applies one realisation per vertex (the fewest gate changes). Firmware that splits the dwell of small vectors between their P- and N-type realisations (listed in the C header) can hold the average at zero up to mMaxBalanced (section 2).</p>');
+  out.push(`<p><strong>Current derating: ${fmt(100 * sim.currentDerating.factor, 1)} %</strong> of the given current keeps every element within the healthy leg's largest loss${sim.currentDerating.limitingDevice ? ` (limited by ${esc(sim.currentDerating.limitingDevice)})` : ''}; ${esc(sim.currentDerating.assumption)}.</p>`);
+  if (sim.lineDevicesAtPwm.length) out.push(`<p class="flag">Line-frequency devices switched at PWM rate: ${esc(sim.lineDevicesAtPwm.map((x) => `${x.device} (${fmt(x.switchingLoss, 1)} W)`).join(', '))}.</p>`);
+  if (sim.wrongSignTime > 0) out.push(`<p class="flag">For ${fmt(sim.wrongSignTime * 1e6, 1)} µs a phase current had the other sign than its period was planned for; a larger polarity margin avoids it.</p>`);
+  out.push(figure(lossBarsSvg(sim), 'Losses of every element over one fundamental period, healthy (blue) and faulted (orange), conduction and switching stacked.'));
+  out.push(figure(spectrumSvg(sim, { log: true }), 'Line-voltage spectrum a-b in % of the fundamental (log scale): faulted stems, healthy dots.'));
+  out.push(figure(waveformsSvg(sim, segments), 'One fundamental period: line voltage a-b and the phase currents a and b.'));
+  return out.join('\n');
 }
 
 // The header a reviewer signs against: scenario data, how the report was made, every input's hash.
