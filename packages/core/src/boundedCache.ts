@@ -71,7 +71,18 @@ export function deepFreeze<T>(v: T): T {
     const x = stack.pop();
     if (typeof x !== 'object' || x === null || Object.isFrozen(x) || ArrayBuffer.isView(x) || x instanceof Map || x instanceof Set) continue;
     Object.freeze(x);
-    for (const k of Object.keys(x)) stack.push((x as Record<string, unknown>)[k]);
+    // arrays by index (Object.keys would build a string per element), and only what can be frozen
+    if (Array.isArray(x)) {
+      for (let i = 0; i < x.length; i++) {
+        const y: unknown = x[i];
+        if (typeof y === 'object' && y !== null) stack.push(y);
+      }
+    } else {
+      for (const k of Object.keys(x)) {
+        const y = (x as Record<string, unknown>)[k];
+        if (typeof y === 'object' && y !== null) stack.push(y);
+      }
+    }
   }
   return v;
 }

@@ -31,14 +31,24 @@ export function survivingVectors(sets: readonly [readonly number[], readonly num
   // lies in that group's cell or a neighbouring one. Among those, the earliest group within the
   // tolerance takes it — the group a scan of all groups in order would find — so the result is the
   // same as a linear search, in linear time (a many-level leg has N³ triplets).
+  // Cells 16 tolerances wide: a group within the tolerance of a point lies in the point's cell, or in
+  // a neighbouring one only where the point is near that side (two tolerances, to be safe from
+  // rounding in the cell index), so most points look at one cell instead of nine.
   const cells = new CellGrid<(typeof groups)[number]>();
+  const size = 16 * tol;
   for (const la of sets[0]) for (const lb of sets[1]) for (const lc of sets[2]) {
     const t: LevelTriplet = [la, lb, lc];
     const p = clarke(t);
-    const cx = Math.floor(p[0] / tol);
-    const cy = Math.floor(p[1] / tol);
+    const cx = Math.floor(p[0] / size);
+    const cy = Math.floor(p[1] / size);
+    const fx = p[0] - cx * size;
+    const fy = p[1] - cy * size;
+    const x0 = fx < 2 * tol ? -1 : 0;
+    const x1 = size - fx < 2 * tol ? 1 : 0;
+    const y0 = fy < 2 * tol ? -1 : 0;
+    const y1 = size - fy < 2 * tol ? 1 : 0;
     let g: (typeof groups)[number] | undefined;
-    for (let dx = -1; dx <= 1; dx++) for (let dy = -1; dy <= 1; dy++) {
+    for (let dx = x0; dx <= x1; dx++) for (let dy = y0; dy <= y1; dy++) {
       const list = cells.get(cx + dx, cy + dy);
       if (list) for (const x of list) {
         if ((g === undefined || x.order < g.order) && Math.hypot(x.p[0] - p[0], x.p[1] - p[1]) <= tol) g = x;
