@@ -111,3 +111,23 @@ export function parseArgs(argv: readonly string[], specs: readonly OptionSpec[],
 export function usage(key: string, expected: string, got?: unknown): HexsalvageInputError {
   return new HexsalvageInputError('usage', 'command line', key, expected, got);
 }
+
+/**
+ * A load-angle range option `LO,HI` (degrees, plain decimals, −180 ≤ LO ≤ HI ≤ 180).
+ *
+ * @param text - the option's value
+ * @param key - the option, e.g. `--load-angle-range`
+ * @returns [LO, HI]
+ * @throws HexsalvageInputError (usage) naming the option
+ * @example
+ * ```ts
+ * degreeRange('-90,90', '--load-angle-range'); // [-90, 90]
+ * ```
+ */
+export function degreeRange(text: string, key: string): [number, number] {
+  const parts = text.split(',').map((x) => x.trim());
+  const r = parts.map((x) => (DECIMAL.test(x) ? Number(x) : NaN));
+  const [lo, hi] = r as [number, number];
+  if (r.length !== 2 || !r.every(Number.isFinite) || lo < -180 || hi > 180 || lo > hi) throw usage(key, 'LO,HI in degrees with -180 <= LO <= HI <= 180, e.g. -90,90', text);
+  return [lo, hi];
+}

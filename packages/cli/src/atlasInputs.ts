@@ -1,6 +1,6 @@
 import { availableParallelism } from 'node:os';
 import { assembleAtlas, atlasWork, FAULT_MODES, type FaultAtlas, type FaultMode } from '@hexsalvage/core';
-import { usage, type OptionSpec, type ParsedArgs } from './args.js';
+import { degreeRange, usage, type OptionSpec, type ParsedArgs } from './args.js';
 import { computeClasses } from './atlasPool.js';
 import { ruleInputs } from './legInputs.js';
 import { loadTopology } from './loadTopology.js';
@@ -41,11 +41,7 @@ export async function atlasFromArgs(args: ParsedArgs, io: CommandIO, quiet: bool
   const modesText = (args.values.get('modes') as string | undefined) ?? FAULT_MODES.join(',');
   const modes = modesText.split(',').map((m) => m.trim());
   if (modes.some((m) => !(FAULT_MODES as readonly string[]).includes(m)) || new Set(modes).size !== modes.length) throw usage('--modes', `a comma-separated list of distinct modes from ${FAULT_MODES.join(', ')}`, modesText);
-  const rangeText = (args.values.get('load-angle-range') as string | undefined) ?? '-90,90';
-  const range = rangeText.split(',').map((x) => (/^\s*[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?\s*$/.test(x) ? Number(x) : NaN));
-  if (range.length !== 2 || !range.every(Number.isFinite) || (range[0] as number) < -180 || (range[1] as number) > 180 || (range[0] as number) > (range[1] as number)) {
-    throw usage('--load-angle-range', 'LO,HI in degrees with -180 <= LO <= HI <= 180, e.g. -90,90', rangeText);
-  }
+  const range = degreeRange((args.values.get('load-angle-range') as string | undefined) ?? '-90,90', '--load-angle-range');
   const work = atlasWork({
     topology: loadTopology(t),
     modes: modes as FaultMode[],

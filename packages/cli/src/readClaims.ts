@@ -20,7 +20,22 @@ import { readJsonFile } from './readJsonFile.js';
 export function readClaims(path: string): DeratingClaim[] {
   const err = (key: string, expected: string, got?: unknown) => new HexsalvageInputError('claims', path, key, expected, got);
   if (!existsSync(path)) throw err('(file)', 'an existing claims file');
-  const doc = readJsonFile(path, path, 'claims');
+  return claimsFromDocument(readJsonFile(path, path, 'claims'), path);
+}
+
+/**
+ * The claims of a claims document already read (a scenario that names a claims file reads it once).
+ *
+ * @param doc - the parsed JSON of the claims file
+ * @param path - the file (names it in errors; netlist paths are relative to its folder)
+ * @returns the checked claims
+ * @example
+ * ```ts
+ * claimsFromDocument(JSON.parse(text), 'claims.json');
+ * ```
+ */
+export function claimsFromDocument(doc: unknown, path: string): DeratingClaim[] {
+  const err = (key: string, expected: string, got?: unknown) => new HexsalvageInputError('claims', path, key, expected, got);
   if (typeof doc !== 'object' || doc === null || Array.isArray(doc)) throw err('(document)', 'an object { "claims": [...] }', doc);
   for (const k of Object.keys(doc)) if (k !== 'claims') throw err(k, 'only the key "claims" at the top level', k);
   return parseClaimList((doc as Record<string, unknown>).claims, path, 'claims');

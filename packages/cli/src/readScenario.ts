@@ -3,7 +3,7 @@ import { existsSync, readFileSync } from 'node:fs';
 import { dirname, resolve } from 'node:path';
 import { HexsalvageInputError, isBuiltinTopology, LEVEL_STEP_RULES, type DeratingClaim, type LegNetlist, type LevelStepRule } from '@hexsalvage/core';
 import { loadTopology } from './loadTopology.js';
-import { parseClaimList, readClaims } from './readClaims.js';
+import { claimsFromDocument, parseClaimList } from './readClaims.js';
 import { readJsonFile } from './readJsonFile.js';
 
 /** A review scenario: what a design review needs once (docs/schema/scenario.schema.json). */
@@ -98,18 +98,22 @@ export function readScenario(path: string): Scenario {
   }
   if (!isBuiltinTopology(o.topology)) inputs.push({ path: resolve(base, o.topology), sha256: fileSha256(resolve(base, o.topology)) });
   let claims: DeratingClaim[] = [];
+  let claimTexts: unknown = o.claims;
+  let claimBase = base;
   if (o.claims !== undefined && o.claimsFile !== undefined) throw err('claimsFile', 'either "claims" or "claimsFile", not both', o.claimsFile);
   if (o.claims !== undefined) claims = parseClaimList(o.claims, path, 'claims', 'scenario', vdc);
   if (o.claimsFile !== undefined) {
     if (typeof o.claimsFile !== 'string' || o.claimsFile === '') throw err('claimsFile', 'a claims file path relative to the scenario file', o.claimsFile);
     const cf = resolve(base, o.claimsFile);
-    claims = readClaims(cf);
+    if (!existsSync(cf)) throw err('claimsFile', 'an existing claims file (relative to the scenario file)', o.claimsFile);
+    const doc = readJsonFile(cf, o.claimsFile, 'claims');
+    claims = claimsFromDocument(doc, cf);
     inputs.push({ path: cf, sha256: fileSha256(cf) });
+    claimTexts = (doc as { claims: unknown }).claims;
+    claimBase = dirname(cf);
   }
-  // netlists the claims name (relative to the file that holds them)
-  const claimBase = o.claimsFile !== undefined ? dirname(resolve(base, o.claimsFile as string)) : base;
-  const claimTexts = ((o.claimsFile !== undefined ? (readJsonFile(resolve(base, o.claimsFile as string), o.claimsFile as string, 'claims') as { claims: { topology: string }[] }).claims : o.claims) ?? []) as { topology: string }[];
-  for (const t of new Set(claimTexts.map((c) => c.topology))) {
+  // netlists the claims name (relative to the file that holds them), hashed once each
+  for (const t of new Set(((claimTexts ?? []) as { topology: string }[]).map((c) => c.topology))) {
     const p = resolve(claimBase, t);
     if (!isBuiltinTopology(t) && !inputs.some((x) => x.path === p)) inputs.push({ path: p, sha256: fileSha256(p) });
   }

@@ -1,4 +1,5 @@
 import { analyseLeg, type AnalyseLegOptions, type LegAnalysis } from './analyseLeg.js';
+import { legLevels } from './expandElements.js';
 import { vectorShells, type VectorShell } from './classifyVectors.js';
 import type { LevelMove } from './commutation.js';
 import type { Phase } from './faults.js';
@@ -63,7 +64,7 @@ export function diagramAtlas(options: AnalyseLegOptions): DiagramAtlas {
     },
   };
   const rules = analysis.rules;
-  const dc = [...new Set(Object.values(analysis.leg.dcNodes))].sort((x, y) => x - y);
+  const dc = legLevels(analysis.leg);
   const offer = (t: LegTable): PhaseOffer => {
     const o = { levels: t.levels, moves: phaseMoves(t, rules, dc) };
     const withMoves = rules.levelSteps !== 'any';

@@ -1,4 +1,5 @@
 import { diagramAtlas } from './diagramAtlas.js';
+import { legLevels } from './expandElements.js';
 import { formatFault } from './faults.js';
 import { lineRmsVolts, modulationOfLineRms, phasePeakVolts, requireVdc } from './physicalUnits.js';
 import { HexsalvageInputError } from './errors.js';
@@ -109,7 +110,7 @@ export function evaluateClaim(claim: DeratingClaim): ClaimVerdict {
     limitingAngleDeg: r.limitingAngleDeg,
     limitingPolarity: r.limitingPolarity,
     bindingEdge: edge,
-    dcLevels: [...new Set(Object.values(atlas.analysis.leg.dcNodes))].sort((x, y) => x - y),
+    dcLevels: legLevels(atlas.analysis.leg),
     topology: atlas.analysis.topology,
     faults: atlas.analysis.faults.map(formatFault),
     loadAngleDeg: [lo, hi],

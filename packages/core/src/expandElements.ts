@@ -50,3 +50,17 @@ export function gatedDeviceIds(leg: LegNetlist): string[] {
 export function unratedDevices(leg: LegNetlist): string[] {
   return leg.devices.filter((d) => d.rating === undefined).map((d) => d.id);
 }
+
+/**
+ * The leg's DC potentials without repeats, ascending (units of Vdc/2): its levels.
+ *
+ * @param leg - the leg netlist
+ * @returns the levels
+ * @example
+ * ```ts
+ * legLevels(builtinLeg('npc')); // [-1, 0, 1]
+ * ```
+ */
+export function legLevels(leg: LegNetlist): number[] {
+  return [...new Set(Object.values(leg.dcNodes))].sort((x, y) => x - y);
+}

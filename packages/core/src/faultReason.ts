@@ -1,4 +1,5 @@
 import type { LegAnalysis } from './analyseLeg.js';
+import { legLevels } from './expandElements.js';
 import { PHASES } from './faults.js';
 import { explainRestrictions, levelName } from './restrictions.js';
 
@@ -26,7 +27,7 @@ const SIGN: Readonly<Record<'+' | '-', string>> = { '+': 'i > 0', '-': 'i < 0' }
  * ```
  */
 export function faultReason(analysis: LegAnalysis, mMax: number): FaultReason {
-  const dc = [...new Set(Object.values(analysis.leg.dcNodes))].sort((x, y) => x - y);
+  const dc = legLevels(analysis.leg);
   const shoot: string[] = [];
   const lost: string[] = [];
   const faulted = new Set(analysis.faults.map((f) => f.phase));

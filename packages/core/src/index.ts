@@ -1,7 +1,7 @@
 export { HexsalvageInputError, plainText, type InputErrorCode } from './errors.js';
 export { requireNumber, requireObject, type NumberRange } from './validate.js';
 export type { DeviceKind, DeviceSpec, LegElement, LegNetlist, SwitchingClass } from './netlist.js';
-export { expandElements, gatedDeviceIds, unratedDevices } from './expandElements.js';
+export { expandElements, gatedDeviceIds, legLevels, unratedDevices } from './expandElements.js';
 export { BUILTIN_TOPOLOGIES, builtinLeg, isBuiltinTopology, type BuiltinTopology } from './builtinLegs.js';
 export { parseNetlist } from './parseNetlist.js';
 export { resolveTopology } from './resolveTopology.js';

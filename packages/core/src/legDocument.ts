@@ -1,4 +1,5 @@
 import type { LegAnalysis } from './analyseLeg.js';
+import { legLevels } from './expandElements.js';
 import { formatFault, PHASES, type Phase } from './faults.js';
 import { phaseMoves } from './diagramAtlas.js';
 import type { LevelMove } from './commutation.js';
@@ -39,7 +40,7 @@ export interface LegDocument {
  */
 export function legDocument(analysis: LegAnalysis): LegDocument {
   const phases = {} as Record<Phase, LegDocument['phases'][Phase]>;
-  const dc = [...new Set(Object.values(analysis.leg.dcNodes))].sort((x, y) => x - y);
+  const dc = legLevels(analysis.leg);
   for (const ph of PHASES) {
     const table = analysis.phases[ph];
     const patterns: Record<string, LegDocumentPattern> = {};

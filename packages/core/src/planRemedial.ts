@@ -1,4 +1,5 @@
 import type { LevelTriplet } from './clarke.js';
+import { legLevels } from './expandElements.js';
 import { CAUTIONS } from './cautions.js';
 import { diagramAtlas, type DiagramAtlas } from './diagramAtlas.js';
 import type { DwellMatrix } from './dwell.js';
@@ -201,7 +202,7 @@ export function planFromAtlas(atlas: DiagramAtlas, loadAngleDeg: number, polarit
     restrictions: explainRestrictions(atlas.analysis),
     notes,
     levels,
-    dcLevels: [...new Set(Object.values(leg.dcNodes))].sort((x, y) => x - y),
+    dcLevels: legLevels(leg),
     sectors: lim.sectors.map((s, i) => {
       const d = atlas.faulted.get(s.polarity) as PolarityDiagram;
       const m = lim.sectorMinima[i] as { value: number; thetaDeg: number };

@@ -1,4 +1,5 @@
 import { patternCandidates } from './choosePattern.js';
+import { legLevels } from './expandElements.js';
 import type { LevelTriplet } from './clarke.js';
 import type { DiagramAtlas } from './diagramAtlas.js';
 import type { DwellMatrix } from './dwell.js';
@@ -120,7 +121,7 @@ function buildTriangles(atlas: DiagramAtlas, d: PolarityDiagram, tables: readonl
   const pol = parsePolarity(polarity);
   const leg = atlas.analysis.leg;
   const hasMidpoint = Object.values(leg.dcNodes).includes(0);
-  const levels = [...new Set(Object.values(leg.dcNodes))].sort((x, y) => x - y);
+  const levels = legLevels(leg);
   const line = new Set(leg.devices.filter((x) => x.switching === 'line').map((x) => x.id));
   const cache = new Map<string, PhaseState[]>();
   const memo = new Map<string | number, unknown>();

@@ -127,15 +127,7 @@ export function ratingChecker(leg: LegNetlist, elements: readonly LegElement[], 
     to[k] = a.to;
     weight[k] = a.weight;
   });
-  const scratch: Scratch = {
-    d: new Float64Array(n),
-    len: new Int32Array(n),
-    start: new Int32Array(n + 1),
-    cursor: new Int32Array(n),
-    list: new Int32Array(cap),
-    queue: new Int32Array(n),
-    queued: new Uint8Array(n),
-  };
+  const scratch = scratchFor(n, cap);
   return (gates, outputLevel, explainIt = true) => {
     let m = fixed.length;
     for (const g of gates) {
@@ -272,21 +264,18 @@ function tolerance(leg: LegNetlist): number {
   return 1e-9 * Math.max(Math.max(...pots) - Math.min(...pots), Number.MIN_VALUE);
 }
 
-// Bellman–Ford from a virtual source joined to every node at distance 0: no negative cycle ⇔ feasible.
+// The same question as the checker's fast path, for the explanation's arc lists (a rare path):
+// no negative cycle ⇔ a static voltage distribution exists.
 function feasible(n: number, arcs: readonly Arc[], eps: number): boolean {
-  const d = new Float64Array(n);
-  for (let round = 0; round < n; round++) {
-    let changed = false;
-    for (const a of arcs) {
-      const v = (d[a.from] as number) + a.weight;
-      if (v < (d[a.to] as number) - eps) {
-        d[a.to] = v;
-        changed = true;
-      }
-    }
-    if (!changed) return true;
-  }
-  return false;
+  const m = arcs.length;
+  const from = Int32Array.from(arcs, (a) => a.from);
+  const to = Int32Array.from(arcs, (a) => a.to);
+  const weight = Float64Array.from(arcs, (a) => a.weight);
+  return feasibleFlat(n, m, from, to, weight, eps, scratchFor(n, m));
+}
+
+function scratchFor(n: number, m: number): Scratch {
+  return { d: new Float64Array(n), len: new Int32Array(n), start: new Int32Array(n + 1), cursor: new Int32Array(n), list: new Int32Array(m), queue: new Int32Array(n), queued: new Uint8Array(n) };
 }
 
 // Shortest distances from `src`, or null when a negative cycle is reachable (the rest is unsolvable).

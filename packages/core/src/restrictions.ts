@@ -1,4 +1,5 @@
 import type { LegAnalysis } from './analyseLeg.js';
+import { legLevels } from './expandElements.js';
 import { commutates, patternLevel } from './commutation.js';
 import type { CurrentSign } from './conduction.js';
 import { PHASES } from './faults.js';
@@ -41,7 +42,7 @@ const SIGN_WORDS: Record<PhasePolarity, string> = { '+': 'while its current is p
  */
 export function explainRestrictions(analysis: LegAnalysis): string[] {
   const out: string[] = [];
-  const dc = [...new Set(Object.values(analysis.leg.dcNodes))].sort((x, y) => x - y);
+  const dc = legLevels(analysis.leg);
   const faulted = new Set(analysis.faults.map((f) => f.phase));
   const gatesOf = Object.values(analysis.leg.patterns);
   for (const ph of PHASES) {

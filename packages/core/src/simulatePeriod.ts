@@ -123,6 +123,29 @@ const TWO_PI = 2 * Math.PI;
  * ```
  */
 export function simulatePeriod(options: SimulateOptions): Simulation {
+  const { run, plan, atlas } = prepare(options);
+  const faulted = runPeriod(run);
+  const healthy = runPeriod({ ...run, faults: [] });
+  return {
+    topology: atlas.analysis.topology,
+    faults: plan.faults,
+    m: run.m,
+    loadAngleDeg: run.phi,
+    vdc: run.vdc,
+    currentPeak: run.ipk,
+    f1: run.f1,
+    fsw: options.fsw,
+    periods: run.periods,
+    deviceParameters: run.params.name,
+    ...faulted.result,
+    healthy: healthy.result,
+    currentDerating: currentDerating(faulted, healthy),
+    cautions: CAUTIONS,
+  };
+}
+
+// The options checked once, and the plan they must respect (m at most its mMax).
+function prepare(options: SimulateOptions): { run: RunInputs; plan: ReturnType<typeof planFromAtlas>; atlas: ReturnType<typeof diagramAtlas> } {
   requireObject(options, 'simulatePeriod', 'an options object { topology, faults?, m, loadAngleDeg, vdc, currentPeak, f1, fsw, devices?, capacitance? }');
   const vdc = requireVdc(options.vdc, 'simulatePeriod', 'vdc');
   const m = requireNumber(options.m, 'simulatePeriod', 'm', { min: 0, max: 10 });
@@ -137,30 +160,13 @@ export function simulatePeriod(options: SimulateOptions): Simulation {
   const maxH = options.maxHarmonic === undefined ? 4 * periods + 2 : requireNumber(options.maxHarmonic, 'simulatePeriod', 'maxHarmonic', { min: 1, max: 200000, integer: true });
   const params = options.devices ?? DEMO_DEVICES;
   const rules = { ignoreRatings: options.ignoreRatings, levelSteps: options.levelSteps };
-  const atlas = diagramAtlas({ topology: options.topology, faults: options.faults ?? [], ...rules });
+  const faults = options.faults ?? [];
+  const atlas = diagramAtlas({ topology: options.topology, faults, ...rules });
   const plan = planFromAtlas(atlas, phi, delta);
   if (m > plan.mMax + 1e-12) {
     throw new HexsalvageInputError('option', 'simulatePeriod', 'm', plan.mMax === 0 ? 'nothing: the drive cannot run in this state (mMax = 0 at this load angle)' : `at most mMax = ${plan.mMax.toFixed(6)} at this load angle`, m);
   }
-  const run = (faults: readonly string[]) => runPeriod({ topology: options.topology, faults, rules, m, phi, delta, vdc, ipk, f1, periods, cap, maxH, params });
-  const faulted = run(options.faults ?? []);
-  const healthy = run([]);
-  return {
-    topology: atlas.analysis.topology,
-    faults: plan.faults,
-    m,
-    loadAngleDeg: phi,
-    vdc,
-    currentPeak: ipk,
-    f1,
-    fsw,
-    periods,
-    deviceParameters: params.name,
-    ...faulted.result,
-    healthy: healthy.result,
-    currentDerating: currentDerating(faulted, healthy),
-    cautions: CAUTIONS,
-  };
+  return { run: { topology: options.topology, faults, rules, m, phi, delta, vdc, ipk, f1, periods, cap, maxH, params }, plan, atlas };
 }
 
 interface RunInputs {
@@ -198,8 +204,8 @@ interface RunOutput {
  * ```
  */
 export function simulationWaveform(options: SimulateOptions): readonly WaveformSegment[] {
-  const s = simulatePeriod({ ...options, maxHarmonic: 1 });
-  return runPeriod({ topology: options.topology, faults: options.faults ?? [], rules: { ignoreRatings: options.ignoreRatings, levelSteps: options.levelSteps }, m: s.m, phi: s.loadAngleDeg, delta: options.polarityMarginDeg ?? 0, vdc: s.vdc, ipk: s.currentPeak, f1: s.f1, periods: s.periods, cap: options.capacitance, maxH: 1, params: options.devices ?? DEMO_DEVICES }).segments;
+  // the spectrum is not needed for the pieces: one harmonic keeps the run short
+  return runPeriod({ ...prepare(options).run, maxH: 1 }).segments;
 }
 
 function runPeriod(x: RunInputs): RunOutput {

@@ -1,5 +1,5 @@
 import { CAUTIONS } from './cautions.js';
-import { gatedDeviceIds } from './expandElements.js';
+import { gatedDeviceIds, legLevels } from './expandElements.js';
 import { diagramAtlas, type DiagramAtlas } from './diagramAtlas.js';
 import { formatFault, type Phase } from './faults.js';
 import type { AnalyseLegOptions } from './analyseLeg.js';
@@ -102,7 +102,7 @@ export function switchingTableFromAtlas(atlas: DiagramAtlas): SwitchingTable {
     kind: 'hexsalvage-switching-table',
     topology: atlas.analysis.topology,
     faults: atlas.analysis.faults.map(formatFault),
-    levels: [...new Set(Object.values(leg.dcNodes))].sort((x, y) => x - y),
+    levels: legLevels(leg),
     patterns: Object.keys(leg.patterns),
     devices: gatedDeviceIds(leg),
     patternGates: Object.values(leg.patterns),

@@ -1,6 +1,6 @@
 import { parsePolarity, diagramAtlas, simulatePeriod, simulationWaveform, deratingCurve, gatedDeviceIds, locateReference, planFromAtlas, switchingTableFromAtlas } from '@hexsalvage/core';
 import { atlasHeatmapSvg, atlasPairMatrixSvg, deratingCurveSvg, legSchematicSvg, lossBarsSvg, spectrumSvg, waveformsSvg, sectorOverviewSvg, switchingPeriodSvg, vectorDiagramSvg } from '@hexsalvage/plot';
-import { usage } from '../args.js';
+import { degreeRange, usage } from '../args.js';
 import { SIM_OPTIONS, simulateInputs } from '../simulateInputs.js';
 import { ATLAS_OPTIONS, atlasFromArgs } from '../atlasInputs.js';
 import { ANGLE_OPTIONS, HELP_OPTION, LEG_OPTIONS, VDC_OPTION, type Command } from '../command.js';
@@ -75,14 +75,13 @@ export const plotCommand: Command = {
         series.push({ label: f.join(', ') || 'healthy', points: deratingCurve(diagramAtlas({ topology, faults: f, ...rules }), { stepDeg: 1, polarityMarginDeg }) });
       }
       const band = args.values.get('load-angle-range') as string | undefined;
-      const b = band?.split(',').map(Number);
-      if (band !== undefined && (b?.length !== 2 || !b.every(Number.isFinite) || (b[0] as number) > (b[1] as number))) throw usage('--load-angle-range', 'LO,HI in degrees (the operating range to shade)', band);
+      const b = band === undefined ? undefined : degreeRange(band, '--load-angle-range');
       const vdc = vdcInput(args);
       svg = deratingCurveSvg(series, {
         healthy: plan.mMaxHealthy,
         title: `Maximum modulation index versus load angle: ${atlas.analysis.topology}`,
         ...(args.values.has('load-angle') ? { operatingDeg: loadAngleDeg } : {}),
-        ...(b && band !== undefined ? { bandDeg: [b[0] as number, b[1] as number] as const } : {}),
+        ...(b ? { bandDeg: b } : {}),
         ...(vdc !== undefined ? { vdc } : {}),
       });
     } else if (kind === 'leg') {
