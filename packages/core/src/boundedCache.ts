@@ -78,8 +78,10 @@ export function deepFreeze<T>(v: T): T {
         if (typeof y === 'object' && y !== null) stack.push(y);
       }
     } else {
-      for (const k of Object.keys(x)) {
-        const y = (x as Record<string, unknown>)[k];
+      // values only: a getter (a result computed on first read) is not run by freezing
+      const props = Object.getOwnPropertyDescriptors(x);
+      for (const k of Object.keys(props)) {
+        const y: unknown = (props[k] as PropertyDescriptor).value;
         if (typeof y === 'object' && y !== null) stack.push(y);
       }
     }

@@ -7,8 +7,21 @@ export type LevelMove = readonly [number, number];
 
 /** What a phase can do between its named patterns, per polarity character. */
 export interface PhaseCommutations {
-  /** Level changes allowed by the contract's sequence rule (both ways commutable), sorted. */
+  /**
+   * Level changes allowed by the contract's sequence rule (both ways commutable), sorted. Searched
+   * on first read (a getter): many-level legs have hundreds of level pairs, and a diagram whose
+   * Delaunay triangles are admissible needs only {@link PhaseCommutations.adjacentMoves}.
+   */
   readonly moves: Readonly<Record<PhasePolarity, readonly LevelMove[]>>;
+  /**
+   * The level changes between neighbouring levels only (`moves` restricted to them, searched on
+   * their own, so cheaply).
+   *
+   * @param polarity - polarity character
+   * @param dcLevels - the leg's levels, ascending
+   * @returns the moves between neighbouring levels, sorted
+   */
+  adjacentMoves(polarity: PhasePolarity, dcLevels: readonly number[]): readonly LevelMove[];
   /**
    * Whether the change from named pattern `i` to named pattern `j` commutates for a polarity
    * character (searched on first use and remembered: the plan needs only `moves`, the switching
@@ -154,13 +167,13 @@ export function phaseCommutations(solve: GateSetSolver, patterns: readonly (read
     return r;
   };
   const levelOf = (pol: PhasePolarity) => patterns.map((g) => patternLevel(solve, g, pol));
-  const levelMoves = (pol: PhasePolarity, level: readonly (number | null)[]): LevelMove[] => {
+  const levelMoves = (pol: PhasePolarity, level: readonly (number | null)[], wanted: (l1: number, l2: number) => boolean): LevelMove[] => {
     // one commutating pattern pair per level change is enough: pairs are searched until one is found
     const forward = new Set<string>();
     level.forEach((li, i) => {
       if (li === null || li === undefined) return;
       level.forEach((lj, j) => {
-        if (i === j || lj === null || lj === undefined || li === lj) return;
+        if (i === j || lj === null || lj === undefined || li === lj || !wanted(li, lj)) return;
         const f = `${li}>${lj}`;
         if (!forward.has(f) && patternsCommute(pol, i, j)) forward.add(f);
       });
@@ -172,17 +185,39 @@ export function phaseCommutations(solve: GateSetSolver, patterns: readonly (read
     }
     return list.sort((x, y) => x[0] - y[0] || x[1] - y[1]);
   };
-  // '?' first: an order that serves both signs serves each, so where the '?' moves already join
-  // every pair of a sign's levels (and the levels are the same), that sign's moves are the same
-  // set and need no search of their own (the usual case for a healthy phase)
-  const robustLevel = levelOf('?');
-  const robust = levelMoves('?', robustLevel);
-  const moves: Record<PhasePolarity, readonly LevelMove[]> = { '?': robust, '+': robust, '-': robust };
-  for (const sign of ['+', '-'] as const) {
-    const level = levelOf(sign);
-    const levels = [...new Set(level.filter((l): l is number => l !== null))].sort((x, y) => x - y);
-    const same = levels.length === new Set(robustLevel.filter((l) => l !== null)).size && levels.every((l) => robustLevel.includes(l));
-    moves[sign] = same && robust.length === levels.length * (levels.length - 1) ? robust : levelMoves(sign, level);
-  }
-  return { moves, patternsCommute };
+  const any = () => true;
+  let all: Record<PhasePolarity, readonly LevelMove[]> | undefined;
+  const computeAll = (): Record<PhasePolarity, readonly LevelMove[]> => {
+    // '?' first: an order that serves both signs serves each, so where the '?' moves already join
+    // every pair of a sign's levels (and the levels are the same), that sign's moves are the same
+    // set and need no search of their own (the usual case for a healthy phase)
+    const robustLevel = levelOf('?');
+    const robust = levelMoves('?', robustLevel, any);
+    const moves: Record<PhasePolarity, readonly LevelMove[]> = { '?': robust, '+': robust, '-': robust };
+    for (const sign of ['+', '-'] as const) {
+      const level = levelOf(sign);
+      const levels = [...new Set(level.filter((l): l is number => l !== null))].sort((x, y) => x - y);
+      const same = levels.length === new Set(robustLevel.filter((l) => l !== null)).size && levels.every((l) => robustLevel.includes(l));
+      moves[sign] = same && robust.length === levels.length * (levels.length - 1) ? robust : levelMoves(sign, level, any);
+    }
+    return moves;
+  };
+  const adjacent = new Map<string, readonly LevelMove[]>();
+  return {
+    get moves() {
+      all ??= computeAll();
+      return all;
+    },
+    adjacentMoves(pol, dcLevels) {
+      const key = `${pol}|${dcLevels.join(',')}`;
+      let r = adjacent.get(key);
+      if (!r) {
+        const near = (l1: number, l2: number) => Math.abs(dcLevels.indexOf(l1) - dcLevels.indexOf(l2)) === 1;
+        r = all ? all[pol].filter(([l1, l2]) => near(l1, l2)) : levelMoves(pol, levelOf(pol), near);
+        adjacent.set(key, r);
+      }
+      return r;
+    },
+    patternsCommute,
+  };
 }

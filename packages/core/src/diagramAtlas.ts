@@ -65,10 +65,26 @@ export function diagramAtlas(options: AnalyseLegOptions): DiagramAtlas {
   };
   const rules = analysis.rules;
   const dc = legLevels(analysis.leg);
+  // The full level moves (and the cache keys made of them) are searched only when a diagram needs
+  // them: a diagram whose Delaunay triangles are admissible under the moves between neighbouring
+  // levels alone needs no more (see polarityDiagram), and on a many-level leg the full search is
+  // most of the work.
   const offer = (t: LegTable): PhaseOffer => {
-    const o = { levels: t.levels, moves: phaseMoves(t, rules, dc) };
     const withMoves = rules.levelSteps !== 'any';
-    return { ...o, keys: { '+': offerKey(o, '+', withMoves), '-': offerKey(o, '-', withMoves), '?': offerKey(o, '?', withMoves) } };
+    let moves: PhaseOffer['moves'] | undefined;
+    let keys: PhaseOffer['keys'] | undefined;
+    const full = () => (moves ??= phaseMoves(t, rules, dc));
+    return {
+      levels: t.levels,
+      get moves() {
+        return full();
+      },
+      get keys() {
+        const o = { levels: t.levels, moves: full() };
+        return (keys ??= { '+': offerKey(o, '+', withMoves), '-': offerKey(o, '-', withMoves), '?': offerKey(o, '?', withMoves) });
+      },
+      ...(withMoves ? { adjacent: (c: PhasePolarity) => t.commutations.adjacentMoves(c, dc) } : {}),
+    };
   };
   const build = (offers: Readonly<Record<Phase, PhaseOffer>>) =>
     new Map(POLARITY_STRINGS.map((p) => [p, polarityDiagram(offers, p, healthyVectors, shells, rules, cache)] as const));

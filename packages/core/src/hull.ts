@@ -15,13 +15,17 @@ import { AREA_TOLERANCE } from './tolerance.js';
  * ```
  */
 export function convexHull(points: readonly Point[], scale = 1): number[] {
+  // (no arrays built per comparison or per turn: a many-level diagram has thousands of points)
   const order = points.map((_, i) => i).sort((i, j) => {
-    const [pi, pj] = [points[i] as Point, points[j] as Point];
+    const pi = points[i] as Point;
+    const pj = points[j] as Point;
     return pi[0] - pj[0] || pi[1] - pj[1];
   });
   if (order.length < 3) return dedupe(order, points, scale);
   const cross = (o: number, a: number, b: number) => {
-    const [po, pa, pb] = [points[o] as Point, points[a] as Point, points[b] as Point];
+    const po = points[o] as Point;
+    const pa = points[a] as Point;
+    const pb = points[b] as Point;
     return (pa[0] - po[0]) * (pb[1] - po[1]) - (pa[1] - po[1]) * (pb[0] - po[0]);
   };
   // A turn smaller than the area tolerance is collinear: it is dropped, so hulls never carry

@@ -10,7 +10,7 @@ export { conductionEdges, findShootThrough, outputForSign, type ConductionEdge, 
 export { legTable, levelSets, type LegTable, type LevelSets, type PatternResult, type PhasePolarity } from './legTable.js';
 export { analyseLeg, type AnalyseLegOptions, type LegAnalysis } from './analyseLeg.js';
 export { legDocument, type LegDocument, type LegDocumentPattern } from './legDocument.js';
-export { clarke, type LevelTriplet, type Point } from './clarke.js';
+export { clarke, clarkeAlpha, clarkeBeta, type LevelTriplet, type Point } from './clarke.js';
 export { AREA_TOLERANCE, DWELL_TOLERANCE, VECTOR_TOLERANCE } from './tolerance.js';
 export { convexHull, polygonArea } from './hull.js';
 export { POLARITY_STRINGS, parsePolarity, type PolarityString } from './polarity.js';

@@ -1,5 +1,6 @@
 import { admissibleChecker, admissibleTriangles, type PhaseMoves } from './admissibleTriangles.js';
 import { admissibleTiling } from './admissibleTiling.js';
+import { BoundedCache } from './boundedCache.js';
 import type { Point } from './clarke.js';
 import { classifyVector, type VectorShell } from './classifyVectors.js';
 import { dwellMatrix, type DwellMatrix } from './dwell.js';
@@ -64,6 +65,13 @@ export interface PhaseOffer {
    * one per polarity string); made from `levels` and `moves` when absent.
    */
   readonly keys?: Readonly<Record<PhasePolarity, string>>;
+  /**
+   * Optional: the moves between neighbouring levels only, for a polarity character (cheap where the
+   * full `moves` are costly). When given, a diagram whose Delaunay triangles are all admissible under
+   * these alone is built without reading `moves` (it is the same diagram: more moves cannot remove
+   * an admissible triangle, and a standing Delaunay tiling does not depend on the rest).
+   */
+  readonly adjacent?: (c: PhasePolarity) => readonly LevelMove[];
 }
 
 /**
@@ -105,6 +113,9 @@ export function offerKey(offer: Pick<PhaseOffer, 'levels' | 'moves'>, c: PhasePo
  * polarityDiagram(offers, '+--', healthyVectors, shells, DEFAULT_RULES).reach;
  * ```
  */
+// Stage keys (see polarityDiagram) whose Delaunay triangles did not all stand: go to the full moves.
+const NEEDS_FULL = new BoundedCache<true>(4096);
+
 export function polarityDiagram(
   phases: Readonly<Record<Phase, PhaseOffer>>,
   polarity: PolarityString,
@@ -115,12 +126,25 @@ export function polarityDiagram(
 ): PolarityDiagram {
   const [pa, pb, pc] = parsePolarity(polarity);
   const phaseLevels = [phases.a.levels[pa], phases.b.levels[pb], phases.c.levels[pc]] as const;
-  const moves: PhaseMoves = [phases.a.moves[pa], phases.b.moves[pb], phases.c.moves[pc]];
   const withMoves = rules.levelSteps !== 'any';
   const part = (o: PhaseOffer, c: PhasePolarity) => o.keys?.[c] ?? offerKey(o, c, withMoves);
-  const key = `${part(phases.a, pa)}|${part(phases.b, pb)}|${part(phases.c, pc)}`;
-  const known = cache?.get(key);
-  if (known) return { ...known, polarity };
+  const fullKey = () => `${part(phases.a, pa)}|${part(phases.b, pb)}|${part(phases.c, pc)}`;
+  // First stage, where the offers give neighbour moves: keyed by levels and those moves only, valid
+  // only for a diagram whose Delaunay triangles stand under them (see PhaseOffer.adjacent).
+  const adj = withMoves && phases.a.adjacent && phases.b.adjacent && phases.c.adjacent
+    ? ([phases.a.adjacent(pa), phases.b.adjacent(pb), phases.c.adjacent(pc)] as PhaseMoves)
+    : null;
+  const stageKey = adj
+    ? `A|${phaseLevels.map((l, k) => `${l.join(',')};${(adj[k] as readonly LevelMove[]).map((m) => `${m[0]}>${m[1]}`).join(',')}`).join('|')}`
+    : null;
+  if (stageKey) {
+    const known = cache?.get(stageKey);
+    if (known) return { ...known, polarity };
+  }
+  if (!stageKey || NEEDS_FULL.get(stageKey) !== undefined) {
+    const known = cache?.get(fullKey());
+    if (known) return { ...known, polarity };
+  }
   // tolerances follow the size of the diagram, so that a leg written at another scale of potential
   // gives the same answer scaled (the healthy vectors' extent is the link's scale)
   const scale = diagramScale(healthy);
@@ -132,7 +156,20 @@ export function polarityDiagram(
   const convex = hullGeometry(points, hull, scale);
   const min = minRadialExtent(convex, 0, 2 * Math.PI);
   const e = min.edge === null ? null : convex.edges[min.edge];
-  const tiling = tile(vectors, points, delaunay, hull, convex, min.value, moves, rules, scale);
+  let key = stageKey;
+  let tiling: Tiling | null = null;
+  if (stageKey && adj) {
+    const chain = admissibleChecker(adj);
+    if (delaunay.length > 0 && delaunay.every((t) => chain(vectors, t) !== null)) tiling = { triangles: delaunay, geometry: convex, reach: min.value, outline: null, exact: true };
+    else NEEDS_FULL.set(stageKey, true);
+  }
+  if (!tiling) {
+    key = fullKey();
+    const known = cache?.get(key);
+    if (known) return { ...known, polarity };
+    const moves: PhaseMoves = [phases.a.moves[pa], phases.b.moves[pb], phases.c.moves[pc]];
+    tiling = tile(vectors, points, delaunay, hull, convex, min.value, moves, rules, scale);
+  }
   const find = vectorFinder(vectors, scale);
   const lost = healthy.filter((h) => find([h.alpha, h.beta]) < 0).map((v) => ({ ...v, class: classifyVector(shells, v, scale) }));
   // the surviving triplets are the whole product of the three level sets, so a healthy triplet is
@@ -156,7 +193,7 @@ export function polarityDiagram(
     outline: tiling.outline,
     exactTiling: tiling.exact,
   };
-  cache?.set(key, diagram);
+  cache?.set(key as string, diagram);
   return diagram;
 }
 

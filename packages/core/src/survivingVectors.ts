@@ -1,4 +1,4 @@
-import { clarke, type LevelTriplet, type Point } from './clarke.js';
+import { clarkeAlpha, clarkeBeta, type LevelTriplet, type Point } from './clarke.js';
 import { BoundedCache } from './boundedCache.js';
 import { VECTOR_TOLERANCE } from './tolerance.js';
 
@@ -27,22 +27,22 @@ export interface SpaceVector {
 export function survivingVectors(sets: readonly [readonly number[], readonly number[], readonly number[]], scale = 1): SpaceVector[] {
   const tol = VECTOR_TOLERANCE * scale;
   const groups: { p: Point; levels: LevelTriplet[]; order: number }[] = [];
-  // Groups found through a grid of cells one tolerance wide: a point within the tolerance of a group
-  // lies in that group's cell or a neighbouring one. Among those, the earliest group within the
-  // tolerance takes it — the group a scan of all groups in order would find — so the result is the
-  // same as a linear search, in linear time (a many-level leg has N³ triplets).
-  // Cells 16 tolerances wide: a group within the tolerance of a point lies in the point's cell, or in
-  // a neighbouring one only where the point is near that side (two tolerances, to be safe from
-  // rounding in the cell index), so most points look at one cell instead of nine.
+  // Groups are found through a grid of cells: a point within the tolerance of a group lies in that
+  // group's cell or a neighbouring one, and among those the earliest group within the tolerance
+  // takes it (the group a scan of all groups in order would find), so the result is a linear
+  // search's, in linear time (a many-level leg has N³ triplets). Cells are 16 tolerances wide and a
+  // neighbour is looked at only where the point is near that side (two tolerances, safe from
+  // rounding in the cell index): most points look at one cell. No point is built for a triplet that
+  // joins a group.
   const cells = new CellGrid<(typeof groups)[number]>();
   const size = 16 * tol;
   for (const la of sets[0]) for (const lb of sets[1]) for (const lc of sets[2]) {
-    const t: LevelTriplet = [la, lb, lc];
-    const p = clarke(t);
-    const cx = Math.floor(p[0] / size);
-    const cy = Math.floor(p[1] / size);
-    const fx = p[0] - cx * size;
-    const fy = p[1] - cy * size;
+    const px = clarkeAlpha(la, lb, lc);
+    const py = clarkeBeta(lb, lc);
+    const cx = Math.floor(px / size);
+    const cy = Math.floor(py / size);
+    const fx = px - cx * size;
+    const fy = py - cy * size;
     const x0 = fx < 2 * tol ? -1 : 0;
     const x1 = size - fx < 2 * tol ? 1 : 0;
     const y0 = fy < 2 * tol ? -1 : 0;
@@ -51,12 +51,13 @@ export function survivingVectors(sets: readonly [readonly number[], readonly num
     for (let dx = x0; dx <= x1; dx++) for (let dy = y0; dy <= y1; dy++) {
       const list = cells.get(cx + dx, cy + dy);
       if (list) for (const x of list) {
-        if ((g === undefined || x.order < g.order) && Math.hypot(x.p[0] - p[0], x.p[1] - p[1]) <= tol) g = x;
+        if ((g === undefined || x.order < g.order) && Math.hypot(x.p[0] - px, x.p[1] - py) <= tol) g = x;
       }
     }
+    const t: LevelTriplet = [la, lb, lc];
     if (g) g.levels.push(t);
     else {
-      const fresh = { p, levels: [t], order: groups.length };
+      const fresh = { p: [px, py] as Point, levels: [t], order: groups.length };
       groups.push(fresh);
       cells.add(cx, cy, fresh);
     }

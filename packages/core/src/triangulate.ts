@@ -24,7 +24,7 @@ export type Triangle = readonly [number, number, number];
  */
 export function triangulate(points: readonly Point[], scale = 1): Triangle[] {
   if (points.length < 3) return [];
-  const d = Delaunay.from(points.map((p) => [p[0], p[1]] as [number, number]));
+  const d = Delaunay.from(points as unknown as ArrayLike<[number, number]>);
   const out: Triangle[] = [];
   for (let t = 0; t < d.triangles.length; t += 3) {
     let tri = [d.triangles[t], d.triangles[t + 1], d.triangles[t + 2]] as [number, number, number];
@@ -48,7 +48,9 @@ export function triangulate(points: readonly Point[], scale = 1): Triangle[] {
  * ```
  */
 export function triangleArea(points: readonly Point[], tri: Triangle): number {
-  const [a, b, c] = [points[tri[0]] as Point, points[tri[1]] as Point, points[tri[2]] as Point];
+  const a = points[tri[0]] as Point;
+  const b = points[tri[1]] as Point;
+  const c = points[tri[2]] as Point;
   return ((b[0] - a[0]) * (c[1] - a[1]) - (b[1] - a[1]) * (c[0] - a[0])) / 2;
 }
 
@@ -64,7 +66,6 @@ export function triangleArea(points: readonly Point[], tri: Triangle): number {
  * ```
  */
 export function rotateToMin(t: readonly [number, number, number]): Triangle {
-  const m = Math.min(...t);
-  const i = t.indexOf(m);
+  const i = t[0] <= t[1] ? (t[0] <= t[2] ? 0 : 2) : t[1] <= t[2] ? 1 : 2;
   return [t[i], t[(i + 1) % 3], t[(i + 2) % 3]] as Triangle;
 }
