@@ -1,3 +1,4 @@
+import { deepFreeze } from './boundedCache.js';
 import { HexsalvageInputError } from './errors.js';
 import type { DeviceKind, DeviceSpec, LegNetlist, SwitchingClass } from './netlist.js';
 
@@ -13,6 +14,9 @@ const ID_RE = /^[^\s.:,;"'\\]{1,64}$/;
 const NODE_RE = /^\S(.{0,62}\S)?$/;
 
 type Obj = Record<string, unknown>;
+
+// Netlists this module has returned: frozen, so they stay as checked.
+const CHECKED = new WeakSet<object>();
 
 /**
  * Validates a parsed netlist document and returns it as a typed leg.
@@ -30,6 +34,7 @@ type Obj = Record<string, unknown>;
  * ```
  */
 export function parseNetlist(value: unknown, input: string): LegNetlist {
+  if (typeof value === 'object' && value !== null && CHECKED.has(value)) return value as LegNetlist;
   const err = (key: string, expected: string, got?: unknown) =>
     new HexsalvageInputError('netlist', input, key, expected, got);
   rejectPoisonKeys(value, '', err);
@@ -97,7 +102,10 @@ export function parseNetlist(value: unknown, input: string): LegNetlist {
   }
   if (Object.keys(patterns).length === 0) throw err('patterns', 'at least one gate pattern');
 
-  return { name, dcNodes, output, devices, patterns };
+  // frozen, and remembered as checked: passing it on (CLI → planRemedial) is not checked twice
+  const leg: LegNetlist = deepFreeze({ name, dcNodes, output, devices, patterns });
+  CHECKED.add(leg);
+  return leg;
 }
 
 function parseDevice(raw: unknown, at: string, err: (k: string, e: string, g?: unknown) => HexsalvageInputError): DeviceSpec {
