@@ -1,12 +1,13 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
+import { diodeClampedLeg } from '../support/legs.js';
 import {
   BUILTIN_TOPOLOGIES, builtinLeg, diagramAtlas, expandElements, legLevels, phaseMoves, polarityDiagram, POLARITY_STRINGS, type LegTable, type PhaseOffer,
 } from '@hexsalvage/core';
 
-// diagramAtlas first tries each diagram with the level moves between neighbouring levels only (a
-// cheap search) and keeps it when every Delaunay triangle is admissible under those; otherwise it
-// reads the full moves. Here every diagram is rebuilt the plain way, from the full moves and
+// On a leg with many named patterns diagramAtlas first tries each diagram with the level moves
+// between neighbouring levels only (a cheap search) and keeps it when every Delaunay triangle is
+// admissible under those; otherwise it reads the full moves (small legs take the plain path). Here every diagram is rebuilt the plain way, from the full moves and
 // without any cache, and must be the same: same vectors, triangles, reach, outline and tiling flag.
 function plain(atlas: ReturnType<typeof diagramAtlas>, p: (typeof POLARITY_STRINGS)[number]) {
   const { analysis } = atlas;
@@ -35,6 +36,26 @@ describe('diagrams built from neighbour moves first equal the plain ones', () =>
       }
     }
     expect(staged).toBeGreaterThan(1000);
+  });
+
+  it('on a nine-level diode-clamped leg (the staged path), healthy and faulted', () => {
+    let stood = 0;
+    for (const n of [9]) {
+      const leg = diodeClampedLeg(n);
+      for (const f of [[], ['a.s1'], ['b.dA2:short']]) {
+        const atlas = diagramAtlas({ topology: leg, faults: f });
+        for (const p of POLARITY_STRINGS) {
+          const got = atlas.faulted.get(p)!;
+          const want = plain(atlas, p);
+          expect(got.triangles, `${n} ${f.join()} ${p}`).toEqual(want.triangles);
+          expect(got.reach).toBe(want.reach);
+          expect(got.outline === null).toBe(want.outline === null);
+          expect(got.exactTiling).toBe(want.exactTiling);
+          if (got.outline === null) stood++;
+        }
+      }
+    }
+    expect(stood).toBeGreaterThan(50);
   });
 
   it('on the five-level example leg, healthy and faulted', () => {

@@ -11,7 +11,9 @@ import { fc, fcParams } from '../support/fc.js';
 function lpExtent(pts: readonly Point[], theta: number): number | null {
   const variables: Record<string, Record<string, number>> = { r: { r: 1, ca: -Math.cos(theta), cb: -Math.sin(theta) } };
   pts.forEach((p, i) => { variables[`l${i}`] = { ca: p[0], cb: p[1], sum: 1 }; });
-  const s = solve({ direction: 'maximize', objective: 'r', constraints: { ca: { equal: 0 }, cb: { equal: 0 }, sum: { equal: 1 } }, variables });
+  // precision 1e-12: yalps rounds its result to its precision (1e-8 by default), which alone can
+  // exceed the 5e-9 this check allows
+  const s = solve({ direction: 'maximize', objective: 'r', constraints: { ca: { equal: 0 }, cb: { equal: 0 }, sum: { equal: 1 } }, variables }, { precision: 1e-12 });
   return s.status === 'optimal' ? s.result : null;
 }
 

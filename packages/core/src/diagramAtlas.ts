@@ -9,6 +9,10 @@ import { diagramScale, offerKey, polarityDiagram, type PhaseOffer, type Polarity
 import type { LimitRules } from './rules.js';
 import { BoundedCache } from './boundedCache.js';
 
+// Above this many named patterns a diagram is first tried with the moves between neighbouring
+// levels (see polarityDiagram): the full level-move search grows with the square of the patterns.
+const STAGED_PATTERNS = 8;
+
 // Polarity diagrams already built, by healthy leg, rule and the three phases' offers.
 const DIAGRAMS = new BoundedCache<PolarityDiagram>(2048);
 import { sharedSurvivingVectors, type SpaceVector } from './survivingVectors.js';
@@ -69,6 +73,7 @@ export function diagramAtlas(options: AnalyseLegOptions): DiagramAtlas {
   // them: a diagram whose Delaunay triangles are admissible under the moves between neighbouring
   // levels alone needs no more (see polarityDiagram), and on a many-level leg the full search is
   // most of the work.
+  const manyPatterns = Object.keys(analysis.leg.patterns).length > STAGED_PATTERNS;
   const offer = (t: LegTable): PhaseOffer => {
     const withMoves = rules.levelSteps !== 'any';
     let moves: PhaseOffer['moves'] | undefined;
@@ -83,7 +88,9 @@ export function diagramAtlas(options: AnalyseLegOptions): DiagramAtlas {
         const o = { levels: t.levels, moves: full() };
         return (keys ??= { '+': offerKey(o, '+', withMoves), '-': offerKey(o, '-', withMoves), '?': offerKey(o, '?', withMoves) });
       },
-      ...(withMoves ? { adjacent: (c: PhasePolarity) => t.commutations.adjacentMoves(c, dc) } : {}),
+      // the first stage pays only where the full search is costly (many patterns, many levels); on a
+      // small leg the full moves are cheap and the plain path wastes nothing (both give the same)
+      ...(withMoves && manyPatterns ? { adjacent: (c: PhasePolarity) => t.commutations.adjacentMoves(c, dc) } : {}),
     };
   };
   const build = (offers: Readonly<Record<Phase, PhaseOffer>>) =>

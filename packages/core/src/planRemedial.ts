@@ -237,10 +237,7 @@ export function polarityDocument(d: PolarityDiagram): PlanPolarity {
     radius: d.radius,
     reach: d.reach,
     outline: d.outline ? Object.freeze(d.outline.map((e) => e.segment)) : null,
-    // read through: the diagram builds its dwell matrices only when someone asks for them
-    get dwell() {
-      return d.dwell;
-    },
+    dwell: d.dwell,
     lost: Object.freeze(d.lost.map(vectorDocument)),
     lostTriplets: d.lostTriplets,
   });

@@ -1,6 +1,6 @@
 import { admissibleChecker, admissibleTriangles, type PhaseMoves } from './admissibleTriangles.js';
 import { admissibleTiling } from './admissibleTiling.js';
-import { BoundedCache, deepFreeze } from './boundedCache.js';
+import { BoundedCache } from './boundedCache.js';
 import type { Point } from './clarke.js';
 import { classifyVector, type VectorShell } from './classifyVectors.js';
 import { dwellMatrix, type DwellMatrix } from './dwell.js';
@@ -134,16 +134,14 @@ export function polarityDiagram(
   const adj = withMoves && phases.a.adjacent && phases.b.adjacent && phases.c.adjacent
     ? ([phases.a.adjacent(pa), phases.b.adjacent(pb), phases.c.adjacent(pc)] as PhaseMoves)
     : null;
-  const stageKey = adj
-    ? `A|${phaseLevels.map((l, k) => `${l.join(',')};${(adj[k] as readonly LevelMove[]).map((m) => `${m[0]}>${m[1]}`).join(',')}`).join('|')}`
-    : null;
+  const stageKey = adj ? `A|${stagePart(phases.a, pa)}|${stagePart(phases.b, pb)}|${stagePart(phases.c, pc)}` : null;
   if (stageKey) {
     const known = cache?.get(stageKey);
-    if (known) return withPolarity(known, polarity);
+    if (known) return { ...known, polarity };
   }
   if (!stageKey || NEEDS_FULL.get(stageKey) !== undefined) {
     const known = cache?.get(fullKey());
-    if (known) return withPolarity(known, polarity);
+    if (known) return { ...known, polarity };
   }
   // tolerances follow the size of the diagram, so that a leg written at another scale of potential
   // gives the same answer scaled (the healthy vectors' extent is the link's scale)
@@ -166,7 +164,7 @@ export function polarityDiagram(
   if (!tiling) {
     key = fullKey();
     const known = cache?.get(key);
-    if (known) return withPolarity(known, polarity);
+    if (known) return { ...known, polarity };
     const moves: PhaseMoves = [phases.a.moves[pa], phases.b.moves[pb], phases.c.moves[pc]];
     tiling = tile(vectors, points, delaunay, hull, convex, min.value, moves, rules, scale);
   }
@@ -176,19 +174,13 @@ export function polarityDiagram(
   // missing exactly when one of its levels is missing from its phase's set
   const [sa, sb, sc] = phaseLevels.map((l) => new Set(l));
   const lostTriplets = healthy.reduce((n, h) => n + h.levels.filter((t) => !(sa!.has(t[0]) && sb!.has(t[1]) && sc!.has(t[2]))).length, 0);
-  const triangles = tiling.triangles;
-  let dwell: readonly DwellMatrix[] | undefined;
   const diagram: PolarityDiagram = {
     polarity,
     phaseLevels,
     vectors,
     hull,
     triangles: tiling.triangles,
-    // computed on first read (frozen then): a plan or an atlas of a many-level leg reads none of
-    // the thousands it would build
-    get dwell(): readonly DwellMatrix[] {
-      return (dwell ??= deepFreeze(triangles.map((t) => dwellMatrix(points, t))));
-    },
+    dwell: tiling.triangles.map((t) => dwellMatrix(points, t)),
     radius: min.value,
     radiusEdge: e ? [e.from, e.to] : null,
     lost,
@@ -203,13 +195,20 @@ export function polarityDiagram(
   return diagram;
 }
 
-// A cached diagram for another polarity string: the same properties (the lazy dwell getter
-// included, so its matrices are built once for all copies) with this string's name.
-function withPolarity(d: PolarityDiagram, polarity: PolarityString): PolarityDiagram {
-  const props = Object.getOwnPropertyDescriptors(d) as Record<string, PropertyDescriptor>;
-  props.polarity = { value: polarity, enumerable: true, writable: false, configurable: false };
-  return Object.freeze(Object.defineProperties({}, props)) as PolarityDiagram;
+// One phase's part of a first-stage key (levels and neighbour moves), made once per offer and
+// polarity character: the 25 polarity strings of an atlas share three offers.
+function stagePart(o: PhaseOffer, c: PhasePolarity): string {
+  let parts = STAGE_PARTS.get(o);
+  if (!parts) STAGE_PARTS.set(o, (parts = new Map()));
+  let k = parts.get(c);
+  if (k === undefined) {
+    k = `${o.levels[c].join(',')};${(o.adjacent?.(c) ?? []).map((m) => `${m[0]}>${m[1]}`).join(',')}`;
+    parts.set(c, k);
+  }
+  return k;
 }
+
+const STAGE_PARTS = new WeakMap<PhaseOffer, Map<PhasePolarity, string>>();
 
 interface Tiling {
   readonly triangles: readonly Triangle[];
