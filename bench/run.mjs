@@ -66,7 +66,7 @@ const atlasMs = time(`diagrams + limits: ${faults.length} single open faults × 
 console.log(`  = ${evaluations} exact limits, ${((atlasMs * 1000) / evaluations).toFixed(1)} µs per limit including the atlas build`);
 
 // modulate: fast grid paths against the plain linear scan over all triangles (locateReference)
-const { createModulator, locateReference, polarityAt, POLARITY_STRINGS } = await import('../packages/core/dist/index.js');
+const { createModulator, locateReference, POLARITY_STRINGS } = await import('../packages/core/dist/index.js');
 const N = 200000;
 let seed = 12345;
 const rnd = () => ((seed = (seed * 1103515245 + 12345) >>> 0) / 2 ** 32);
@@ -120,21 +120,14 @@ for (const [label, faults] of [['healthy npc', []], ['npc a.outerUpper', ['a.out
   const lean = time(`linear scan, flat and allocation-free (${label}), ${N} refs`, () => { for (let i = 0; i < N; i++) scan(refs[2 * i], refs[2 * i + 1], pols[i]); }, 1000);
   console.log(`  ${label}: modulateInto ${rate(into)}, modulate ${rate(obj)}, locateReference scan ${rate(naive)}, lean linear scan ${rate(lean)}; modulateInto is ${(naive / into).toFixed(1)}x the locateReference scan and ${(lean / into).toFixed(1)}x the lean scan`);
 
-  // A rotating reference, as firmware and simulations feed it: one small angle step per call, the
-  // polarity following the currents (φ = 30°), at 90 % of the plan's limit.
-  const rot = new Float64Array(2 * N);
-  const rotPol = new Int32Array(N);
-  const steps = 2000;
-  for (let i = 0; i < N; i++) {
-    const th = (2 * Math.PI * i) / steps;
-    const m = 0.9 * Math.max(plan.mMax, 0.1);
-    rot[2 * i] = m * Math.cos(th);
-    rot[2 * i + 1] = m * Math.sin(th);
-    rotPol[i] = POLARITY_STRINGS.indexOf(polarityAt((th * 180) / Math.PI, 30, 0));
+}
+
+// The rotating-reference goals, one leg per process (see bench/rotating.mjs). Goals: modulateInto
+// ≥ 1.5x the lean scan on the faulted NPC, ≥ 10x on the five-level leg; modulate ≤ 2x modulateInto.
+{
+  const { spawnSync } = await import('node:child_process');
+  for (const label of ['healthy npc', 'npc a.outerUpper', 'five-level leg']) {
+    const r = spawnSync(process.execPath, [new URL('./rotating.mjs', import.meta.url).pathname, label], { encoding: 'utf8' });
+    process.stdout.write(r.stdout);
   }
-  const rotMod = createModulator(plan);
-  const rInto = time(`modulateInto, rotating reference (${label}), ${N} refs`, () => { for (let i = 0; i < N; i++) rotMod.modulateInto(rot[2 * i], rot[2 * i + 1], rotPol[i], out); }, 1000);
-  const rObj = time(`modulate, rotating reference (${label}), ${N} refs`, () => { for (let i = 0; i < N; i++) rotMod.modulate(rot[2 * i], rot[2 * i + 1], names[rotPol[i]]); }, 1000);
-  const rLean = time(`linear scan, rotating reference (${label}), ${N} refs`, () => { for (let i = 0; i < N; i++) scan(rot[2 * i], rot[2 * i + 1], rotPol[i]); }, 1000);
-  console.log(`  ${label}, rotating: modulateInto is ${(rLean / rInto).toFixed(2)}x the lean linear scan; modulate costs ${(rObj / rInto).toFixed(2)}x modulateInto`);
 }

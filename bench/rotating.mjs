@@ -1,0 +1,62 @@
+// The rotating-reference goals of the modulator, one leg per process (`node bench/rotating.mjs LEG`):
+// run.mjs starts one per leg, so that the engine's feedback from one leg's loops does not shape the
+// next leg's (in one process the same call sites see several modulators and may stop inlining).
+import { readFileSync } from 'node:fs';
+import { performance } from 'node:perf_hooks';
+import { createModulator, planRemedial, polarityAt, POLARITY_STRINGS } from '../packages/core/dist/index.js';
+
+const label = process.argv[2];
+const plan = label === 'five-level leg'
+  ? planRemedial({ topology: JSON.parse(readFileSync(new URL('../examples/five-level-leg.json', import.meta.url), 'utf8')) })
+  : planRemedial({ topology: 'npc', faults: label === 'healthy npc' ? [] : ['a.outerUpper'] });
+const N = 200000;
+const out = new Float64Array(4);
+const names = POLARITY_STRINGS;
+// the plain allocation-free scan: the same flat matrices and arithmetic, no grid, no memory
+const flat = names.map((p) => Float64Array.from(plan.polarities[p].dwell.flatMap((m) => m.flat())));
+const scan = (a, b, k) => {
+  const m = flat[k];
+  for (let o = 0; o < m.length; o += 9) {
+    const d0 = m[o] * a + m[o + 1] * b + m[o + 2];
+    if (d0 < -1e-9) continue;
+    const d1 = m[o + 3] * a + m[o + 4] * b + m[o + 5];
+    if (d1 < -1e-9) continue;
+    const d2 = m[o + 6] * a + m[o + 7] * b + m[o + 8];
+    if (d2 < -1e-9) continue;
+    const s = Math.max(0, d0) + Math.max(0, d1) + Math.max(0, d2);
+    out[0] = Math.max(0, d0) / s; out[1] = Math.max(0, d1) / s; out[2] = Math.max(0, d2) / s;
+    return o / 9;
+  }
+  return -1;
+};
+// one small angle step per call, the polarity following the currents (φ = 30°), at 90 % of mMax
+const rot = new Float64Array(2 * N);
+const rotPol = new Int32Array(N);
+for (let i = 0; i < N; i++) {
+  const th = (2 * Math.PI * i) / 2000;
+  const m = 0.9 * Math.max(plan.mMax, 0.1);
+  rot[2 * i] = m * Math.cos(th);
+  rot[2 * i + 1] = m * Math.sin(th);
+  rotPol[i] = POLARITY_STRINGS.indexOf(polarityAt((th * 180) / Math.PI, 30, 0));
+}
+const mod = createModulator(plan);
+function time(fn, minMs = 600) {
+  fn();
+  let n = 0;
+  const t0 = performance.now();
+  let t = t0;
+  while (t - t0 < minMs) { fn(); n++; t = performance.now(); }
+  return (t - t0) / n;
+}
+// interleaved, median of five rounds each
+const into = [];
+const obj = [];
+const lean = [];
+for (let r = 0; r < 5; r++) {
+  into.push(time(() => { for (let i = 0; i < N; i++) mod.modulateInto(rot[2 * i], rot[2 * i + 1], rotPol[i], out); }));
+  obj.push(time(() => { for (let i = 0; i < N; i++) mod.modulate(rot[2 * i], rot[2 * i + 1], names[rotPol[i]]); }));
+  lean.push(time(() => { for (let i = 0; i < N; i++) scan(rot[2 * i], rot[2 * i + 1], rotPol[i]); }));
+}
+const med = (xs) => [...xs].sort((a, b) => a - b)[2];
+const ns = (ms) => ((ms * 1e6) / N).toFixed(1);
+console.log(`  ${label}, rotating: modulateInto ${ns(med(into))} ns, modulate ${ns(med(obj))} ns, lean scan ${ns(med(lean))} ns per call; modulateInto is ${(med(lean) / med(into)).toFixed(2)}x the lean linear scan; modulate costs ${(med(obj) / med(into)).toFixed(2)}x modulateInto`);
