@@ -122,6 +122,15 @@ for (const [label, faults] of [['healthy npc', []], ['npc a.outerUpper', ['a.out
 
 }
 
+// One simulated period at fsw/f1 = 200 on a three-level leg, beside a plan of the same case.
+{
+  const { simulatePeriod } = await import('../packages/core/dist/index.js');
+  const o = { topology: 'npc', faults: ['a.outerUpper'], loadAngleDeg: 30, polarityMarginDeg: 5 };
+  const planMs = median(() => planRemedial(o), 200);
+  const simMs = median(() => simulatePeriod({ ...o, m: 0.5, vdc: 750, currentPeak: 150, f1: 50, fsw: 10000 }), 20);
+  console.log(`${'simulatePeriod npc a.outerUpper, fsw/f1 = 200, healthy beside'.padEnd(58)} ${simMs.toFixed(1).padStart(10)} ms median  (planRemedial of the case ${planMs.toFixed(3)} ms)`);
+}
+
 // The rotating-reference goals, one leg per process (see bench/rotating.mjs). Goals: modulateInto
 // ≥ 1.5x the lean scan on the faulted NPC, ≥ 10x on the five-level leg; modulate ≤ 2x modulateInto.
 {

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import {
-  builtinLeg, conductionLoss, DEMO_DEVICES, eventEnergy, HexsalvageInputError, parseDeviceParameters, simulatePeriod, simulationWaveform,
+  BUILTIN_TOPOLOGIES, builtinLeg, conductionLoss, expandElements, planRemedial, DEMO_DEVICES, eventEnergy, HexsalvageInputError, parseDeviceParameters, simulatePeriod, simulationWaveform,
   type DeviceParameterSet,
 } from '@hexsalvage/core';
 import { fc, fcParams } from '../support/fc.js';
@@ -45,6 +45,30 @@ describe('simulatePeriod: currents', () => {
     expect(three.midpoint.ripplePkPk).toBeCloseTo((three.midpoint.chargePkPkAs as number) / (2 * 0.002), 9);
     expect(simulatePeriod({ ...op, topology: 'npc', m: 0.6, loadAngleDeg: 30 }).midpoint.ripplePkPk).toBeNull();
     expect(simulatePeriod({ ...op, topology: 'two-level', m: 0.6, loadAngleDeg: 30, capacitance: 0.002 }).midpoint).toEqual({ ripplePkPk: null, chargePkPkAs: null, averageCurrent: null });
+  });
+
+  it('halves the midpoint ripple when the capacitance doubles (the swing is charge / (2C))', () => {
+    const at = (capacitance: number) => simulatePeriod({ ...op, topology: 'tnpc', faults: ['a.neutralToOut'], m: 0.5, loadAngleDeg: 40, capacitance, polarityMarginDeg: 5 }).midpoint.ripplePkPk as number;
+    expect(at(0.002)).toBeGreaterThan(0);
+    expect(at(0.004)).toBeCloseTo(at(0.002) / 2, 9);
+  });
+
+  it('runs on every built-in leg, healthy and faulted, and on a netlist object', () => {
+    for (const t of BUILTIN_TOPOLOGIES) {
+      const e = expandElements(builtinLeg(t))[0]!.id;
+      for (const faults of [[], [`b.${e}`], [`b.${e}:short`]]) {
+        const mMax = planRemedial({ topology: t, faults, loadAngleDeg: 15, polarityMarginDeg: 5 }).mMax;
+        if (mMax === 0) {
+          expect(() => simulatePeriod({ ...op, topology: t, faults, m: 0.1, loadAngleDeg: 15, polarityMarginDeg: 5 })).toThrow(/cannot run in this state/);
+          continue;
+        }
+        const s = simulatePeriod({ ...op, topology: t, faults, m: 0.9 * mMax, loadAngleDeg: 15, polarityMarginDeg: 5 });
+        expect(s.lineVoltage.fundamentalPeak).toBeGreaterThan(0);
+        expect(Object.keys(s.devices).length).toBe(3 * expandElements(builtinLeg(t)).length);
+      }
+    }
+    const leg = JSON.parse(JSON.stringify(builtinLeg('npc')));
+    expect(simulatePeriod({ ...op, topology: leg, m: 0.5, loadAngleDeg: 0 }).topology).toBe(leg.name);
   });
 
   it('refuses an m above the limit, and says plainly when the drive cannot run', () => {
