@@ -2,7 +2,8 @@ import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { diodeClampedLeg } from '../support/legs.js';
 import {
-  BUILTIN_TOPOLOGIES, builtinLeg, diagramAtlas, expandElements, legLevels, phaseMoves, polarityDiagram, POLARITY_STRINGS, type LegTable, type PhaseOffer,
+  admissibleChecker, admissibleStands, BUILTIN_TOPOLOGIES, builtinLeg, diagramAtlas, expandElements, legLevels, phaseMoves, polarityDiagram, POLARITY_STRINGS,
+  triangulate, type LegTable, type PhaseOffer,
 } from '@hexsalvage/core';
 
 // On a leg with many named patterns diagramAtlas first tries each diagram with the level moves
@@ -69,5 +70,36 @@ describe('diagrams built from neighbour moves first equal the plain ones', () =>
         expect(got.reach).toBe(want.reach);
       }
     }
+  });
+});
+
+describe('admissibleStands', () => {
+  it('answers as admissibleChecker does on every Delaunay triangle of every built-in diagram, the five-level example and a nine-level leg', () => {
+    const legs: unknown[] = [...BUILTIN_TOPOLOGIES, JSON.parse(readFileSync(new URL('../../examples/five-level-leg.json', import.meta.url), 'utf8')), diodeClampedLeg(9)];
+    let yes = 0;
+    let no = 0;
+    for (const topology of legs) {
+      const ids = expandElements(typeof topology === 'string' ? builtinLeg(topology as never) : (topology as never)).map((e) => e.id);
+      for (const f of [[], [`a.${ids[0]}`], [`b.${ids[1]}:short`]]) {
+        const atlas = diagramAtlas({ topology, faults: f });
+        const dc = legLevels(atlas.analysis.leg);
+        const moves = (['a', 'b', 'c'] as const).map((ph) => phaseMoves(atlas.analysis.phases[ph], atlas.analysis.rules, dc));
+        for (const p of POLARITY_STRINGS) {
+          const d = atlas.faulted.get(p)!;
+          const chars = [...p] as ('+' | '-' | '?')[];
+          const pm = [moves[0]![chars[0]!], moves[1]![chars[1]!], moves[2]![chars[2]!]] as const;
+          const chain = admissibleChecker(pm);
+          const stands = admissibleStands(d.vectors, pm);
+          for (const t of triangulate(d.vectors.map((v) => [v.alpha, v.beta]))) {
+            const want = chain(d.vectors, t) !== null;
+            expect(stands(t)).toBe(want);
+            if (want) yes++;
+            else no++;
+          }
+        }
+      }
+    }
+    expect(yes).toBeGreaterThan(1000);
+    expect(no).toBeGreaterThan(10);
   });
 });

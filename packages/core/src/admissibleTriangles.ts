@@ -124,6 +124,55 @@ export function admissibleChecker(moves: PhaseMoves): (vectors: readonly SpaceVe
   };
 }
 
+/**
+ * Whether a triangle is admissible ({@link admissibleChecker} finds a chain), decided with a look-up
+ * per candidate instead of a scan of realisations: for each realisation r2 of the middle vertex and
+ * each one-phase move from it, the triplet reached is looked up among all triplets of the diagram.
+ * The moves are symmetric (the sequence rule needs both ways), so a move r1 → r2 exists exactly
+ * when r2 → r1 does. Gives the same answer as `admissibleChecker(moves)(vectors, tri) !== null`.
+ *
+ * @param vectors - the diagram's vectors
+ * @param moves - per phase, the level moves
+ * @returns a test of a triangle
+ * @example
+ * ```ts
+ * const stands = admissibleStands(vectors, moves);
+ * delaunay.every(stands);
+ * ```
+ */
+export function admissibleStands(vectors: readonly SpaceVector[], moves: PhaseMoves): (tri: Triangle) => boolean {
+  const next = moveMaps(moves);
+  // every triplet of the diagram → its vector, keyed by the levels' indices
+  const index = new Map<number, number>();
+  for (const v of vectors) for (const t of v.levels) for (const l of t) if (!index.has(l)) index.set(l, index.size);
+  const L = index.size + 1;
+  const key = (a: number, b: number, c: number) => ((index.get(a) as number) * L + (index.get(b) as number)) * L + (index.get(c) as number);
+  const owner = new Map<number, number>();
+  vectors.forEach((v, i) => { for (const t of v.levels) owner.set(key(t[0], t[1], t[2]), i); });
+  // a realisation of vector `target` one allowed phase move away from t
+  const near = (t: LevelTriplet, target: number): boolean => {
+    for (let k = 0; k < 3; k++) {
+      for (const l of next[k]?.get(t[k] as number) ?? []) {
+        if (!index.has(l)) continue;
+        const a = k === 0 ? l : (t[0] as number);
+        const b = k === 1 ? l : (t[1] as number);
+        const c = k === 2 ? l : (t[2] as number);
+        if (owner.get(key(a, b, c)) === target) return true;
+      }
+    }
+    return false;
+  };
+  return (tri) => {
+    for (let m = 0; m < 3; m++) {
+      const mid = vectors[tri[m] as number] as SpaceVector;
+      const x = tri[(m + 1) % 3] as number;
+      const y = tri[(m + 2) % 3] as number;
+      for (const r2 of mid.levels) if (near(r2, x) && near(r2, y)) return true;
+    }
+    return false;
+  };
+}
+
 function moveMaps(moves: PhaseMoves): Map<number, number[]>[] {
   return moves.map((list) => {
     const m = new Map<number, number[]>();

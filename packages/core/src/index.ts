@@ -30,7 +30,7 @@ export { DEFAULT_RULES, LEVEL_STEP_RULES, describeRules, resolveRules, type Leve
 export { ratingCheck, ratingChecker, type RatingCheck } from './ratingCheck.js';
 export { gateSetSolver, usableLevel, type GateSetOutcome, type GateSetSolver } from './gateSetSolver.js';
 export { commutates, patternLevel, phaseCommutations, type LevelMove, type PhaseCommutations } from './commutation.js';
-export { admissibleChain, admissibleChecker, admissibleTriangles, type AdmissibleTriangle, type PhaseMoves } from './admissibleTriangles.js';
+export { admissibleChain, admissibleChecker, admissibleStands, admissibleTriangles, type AdmissibleTriangle, type PhaseMoves } from './admissibleTriangles.js';
 export { admissibleTiling, type AdmissibleTiling } from './admissibleTiling.js';
 export { coveredBy, segmentEntersTriangle, tilingOutline, unionOutline, type OutlineEdge, type Segment } from './triangleUnion.js';
 export { originStrictlyInside, outlineGeometry } from './outlineGeometry.js';

@@ -1,4 +1,4 @@
-import { admissibleChecker, admissibleTriangles, type PhaseMoves } from './admissibleTriangles.js';
+import { admissibleStands, admissibleTriangles, type PhaseMoves } from './admissibleTriangles.js';
 import { admissibleTiling } from './admissibleTiling.js';
 import { BoundedCache } from './boundedCache.js';
 import type { Point } from './clarke.js';
@@ -157,8 +157,8 @@ export function polarityDiagram(
   let key = stageKey;
   let tiling: Tiling | null = null;
   if (stageKey && adj) {
-    const chain = admissibleChecker(adj);
-    if (delaunay.length > 0 && delaunay.every((t) => chain(vectors, t) !== null)) tiling = { triangles: delaunay, geometry: convex, reach: min.value, outline: null, exact: true };
+    const stands = admissibleStands(vectors, adj);
+    if (delaunay.length > 0 && delaunay.every(stands)) tiling = { triangles: delaunay, geometry: convex, reach: min.value, outline: null, exact: true };
     else NEEDS_FULL.set(stageKey, true);
   }
   if (!tiling) {
@@ -221,8 +221,8 @@ interface Tiling {
 function tile(vectors: readonly SpaceVector[], points: readonly Point[], delaunay: readonly Triangle[], hull: readonly number[], convex: HullGeometry, radius: number, moves: PhaseMoves, rules: LimitRules, scale: number): Tiling {
   const whole = { triangles: delaunay, geometry: convex, reach: radius, outline: null, exact: true };
   if (rules.levelSteps === 'any') return whole;
-  const chain = admissibleChecker(moves);
-  if (delaunay.length > 0 && delaunay.every((t) => chain(vectors, t) !== null)) return whole;
+  const stands = admissibleStands(vectors, moves);
+  if (delaunay.length > 0 && delaunay.every(stands)) return whole;
   const t = admissibleTiling(points, admissibleTriangles(vectors, moves, points, scale), 1e-9 * scale, delaunay);
   // a tiling that fills the hull has the hull as its region: keep the hull's geometry and clamp
   const area = t.triangles.reduce((acc, tri) => acc + triangleArea(points, tri), 0);
