@@ -4,6 +4,7 @@
 import { readFileSync } from 'node:fs';
 import { performance } from 'node:perf_hooks';
 import { createModulator, planRemedial, polarityAt, POLARITY_STRINGS } from '../packages/core/dist/index.js';
+import { leanScan } from './leanScan.mjs';
 
 const label = process.argv[2];
 const plan = label === 'five-level leg'
@@ -12,23 +13,8 @@ const plan = label === 'five-level leg'
 const N = 200000;
 const out = new Float64Array(4);
 const names = POLARITY_STRINGS;
-// the plain allocation-free scan: the same flat matrices and arithmetic, no grid, no memory
-const flat = names.map((p) => Float64Array.from(plan.polarities[p].dwell.flatMap((m) => m.flat())));
-const scan = (a, b, k) => {
-  const m = flat[k];
-  for (let o = 0; o < m.length; o += 9) {
-    const d0 = m[o] * a + m[o + 1] * b + m[o + 2];
-    if (d0 < -1e-9) continue;
-    const d1 = m[o + 3] * a + m[o + 4] * b + m[o + 5];
-    if (d1 < -1e-9) continue;
-    const d2 = m[o + 6] * a + m[o + 7] * b + m[o + 8];
-    if (d2 < -1e-9) continue;
-    const s = Math.max(0, d0) + Math.max(0, d1) + Math.max(0, d2);
-    out[0] = Math.max(0, d0) / s; out[1] = Math.max(0, d1) / s; out[2] = Math.max(0, d2) / s;
-    return o / 9;
-  }
-  return -1;
-};
+// the plain allocation-free scan (bench/leanScan.mjs)
+const scan = leanScan(plan, out);
 // one small angle step per call, the polarity following the currents (φ = 30°), at 90 % of mMax
 const rot = new Float64Array(2 * N);
 const rotPol = new Int32Array(N);

@@ -1,5 +1,6 @@
 // Benchmarks (`pnpm bench`): wall-clock figures on this machine, printed, never asserted.
 import { performance } from 'node:perf_hooks';
+import { leanScan } from './leanScan.mjs';
 import { BUILTIN_TOPOLOGIES, builtinLeg, diagramAtlas, expandElements, modulationLimit, planRemedial } from '../packages/core/dist/index.js';
 
 function time(label, fn, minMs = 1500) {
@@ -97,23 +98,8 @@ for (const [label, faults] of [['healthy npc', []], ['npc a.outerUpper', ['a.out
   const into = time(`modulateInto (${label}), ${N} refs`, () => { for (let i = 0; i < N; i++) mod.modulateInto(refs[2 * i], refs[2 * i + 1], pols[i], out); }, 1000);
   const obj = time(`modulate (${label}), ${N} refs`, () => { for (let i = 0; i < N; i++) mod.modulate(refs[2 * i], refs[2 * i + 1], names[pols[i]]); }, 1000);
   const naive = time(`linear scan, all triangles (${label}), ${N} refs`, () => { for (let i = 0; i < N; i++) locateReference(plan.polarities[names[pols[i]]], refs[2 * i], refs[2 * i + 1]); }, 1000);
-  // a fair baseline as well: the same flat matrices and arithmetic, no allocation, no grid
-  const flat = names.map((p) => Float64Array.from(plan.polarities[p].dwell.flatMap((m) => m.flat())));
-  const scan = (a, b, k) => {
-    const m = flat[k];
-    for (let o = 0; o < m.length; o += 9) {
-      const d0 = m[o] * a + m[o + 1] * b + m[o + 2];
-      if (d0 < -1e-9) continue;
-      const d1 = m[o + 3] * a + m[o + 4] * b + m[o + 5];
-      if (d1 < -1e-9) continue;
-      const d2 = m[o + 6] * a + m[o + 7] * b + m[o + 8];
-      if (d2 < -1e-9) continue;
-      const s = Math.max(0, d0) + Math.max(0, d1) + Math.max(0, d2);
-      out[0] = Math.max(0, d0) / s; out[1] = Math.max(0, d1) / s; out[2] = Math.max(0, d2) / s;
-      return o / 9;
-    }
-    return -1;
-  };
+  // a fair baseline as well (bench/leanScan.mjs): flat matrices, same arithmetic, no grid
+  const scan = leanScan(plan, out);
   const far = references(plan, true);
   const clampMs = time(`modulateInto, references outside the hull, clamped (${label}), ${N} refs`, () => { for (let i = 0; i < N; i++) mod.modulateInto(far.refs[2 * i], far.refs[2 * i + 1], far.pols[i], out); }, 1000);
   console.log(`  ${label}: clamped references ${rate(clampMs)}`);
