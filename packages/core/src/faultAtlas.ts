@@ -44,6 +44,8 @@ export interface AtlasSettings {
   readonly polarityMarginDeg: number;
   readonly pairs: boolean;
   readonly vdc: number | null;
+  /** Devices without a voltage rating (found once, from the leg resolved here). */
+  readonly unrated: readonly string[];
 }
 
 /** The work of an atlas: the fault sets to list, grouped into classes computed once each. */
@@ -149,6 +151,7 @@ export function atlasWork(options: FaultAtlasOptions): AtlasWork {
     polarityMarginDeg,
     pairs: options.pairs === true,
     vdc,
+    unrated: unratedDevices(leg),
   };
   const elements = expandElements(leg).map((e) => e.id);
   const faultSets: string[][] = [];
@@ -288,7 +291,7 @@ export function assembleAtlas(work: AtlasWork, results: readonly AtlasClassResul
     entries: entries.map((e) => e.entry),
     classesComputed: work.classes.length,
     ...(hv && s.vdc !== null ? { volts: { vdc: s.vdc, phasePeakMaxHealthy: hv.phasePeak, lineRmsMaxHealthy: hv.lineRms } } : {}),
-    unrated: unratedDevices(resolveTopology(s.topology)),
+    unrated: s.unrated,
     cautions: CAUTIONS,
   };
 }

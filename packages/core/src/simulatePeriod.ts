@@ -215,6 +215,7 @@ function runPeriod(x: RunInputs): RunOutput {
   const mod = createModulator(table);
   const leg = analysis.leg;
   const elements = expandElements(leg);
+  const elementById = new Map(elements.map((e) => [e.id, e] as const));
   const kindOf = new Map(leg.devices.map((d) => [d.id, d.kind] as const));
   const lineDevices = new Set(leg.devices.filter((d) => d.switching === 'line').map((d) => d.id));
   const dc = new Set(Object.values(leg.dcNodes));
@@ -257,7 +258,7 @@ function runPeriod(x: RunInputs): RunOutput {
   const paramsOf = (id: string): ElementParameters => {
     let p = paramCache.get(id);
     if (!p) {
-      const e = elements.find((el) => el.id === id) as (typeof elements)[number];
+      const e = elementById.get(id) as (typeof elements)[number];
       p = elementParameters(x.params, e, kindOf.get(e.device) ?? e.kind);
       paramCache.set(id, p);
     }
@@ -394,7 +395,7 @@ function runPeriod(x: RunInputs): RunOutput {
     const lin = (ep.part === 'mosfet' ? 0 : (ep.p.v0 ?? 0) * avg) + sw;
     scaling.set(id, { a: lin, b: cond - (ep.part === 'mosfet' ? 0 : (ep.p.v0 ?? 0) * avg), rth: ep.rth });
     if (cond + sw > hottest.loss) hottest = { device: id, loss: cond + sw };
-    const element = elements.find((el) => el.id === id.slice(2));
+    const element = elementById.get(id.slice(2));
     // a line-frequency device that commutates current under PWM (above 50 mW: not a rounding trace)
     if (element && lineDevices.has(element.device) && sw > 0.05) line.push({ device: id, switchingLoss: sw });
   }
