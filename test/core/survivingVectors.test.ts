@@ -29,6 +29,25 @@ describe('survivingVectors', () => {
     }), fcParams(300));
   });
 
+  it('gives the vectors of the linear scan in its order (length, then angle, each rounded to the tolerance; first made first), triplets descending, also where points lie within the tolerance of each other (property)', () => {
+    // levels a quarter apart, some nudged by less than the tolerance: distinct triplets then give
+    // points closer than the tolerance, which must join one vector
+    const level = fc.tuple(fc.integer({ min: -4, max: 4 }), fc.constantFrom(0, 1e-11, -3e-11)).map(([k, d]) => k / 4 + d);
+    const set = fc.uniqueArray(level, { minLength: 1, maxLength: 6 });
+    fc.assert(fc.property(fc.tuple(set, set, set), (sets) => {
+      const tol = VECTOR_TOLERANCE;
+      const key = (p: readonly [number, number]) => {
+        const r = Math.hypot(p[0], p[1]);
+        return [Math.round(r / tol), Math.round((r <= tol ? 0 : (Math.atan2(p[1], p[0]) + 2 * Math.PI) % (2 * Math.PI)) / tol)] as const;
+      };
+      const expected = linear(sets)
+        .map((g) => ({ g, k: key(g.p) }))
+        .sort((x, y) => x.k[0] - y.k[0] || x.k[1] - y.k[1])
+        .map(({ g }) => ({ alpha: g.p[0], beta: g.p[1], levels: [...g.levels].sort((x, y) => y[0] - x[0] || y[1] - x[1] || y[2] - x[2]) }));
+      expect(survivingVectors(sets)).toEqual(expected);
+    }), fcParams(300));
+  });
+
   it('finds vectors through its grid exactly as indexOfVector scans for them (property)', () => {
     const level = fc.integer({ min: -4, max: 4 }).map((k) => k / 4);
     fc.assert(fc.property(fc.uniqueArray(level, { minLength: 1, maxLength: 5 }), fc.array(fc.tuple(fc.double({ min: -2, max: 2, noNaN: true }), fc.double({ min: -2, max: 2, noNaN: true })), { maxLength: 10 }), (set, extra) => {

@@ -141,36 +141,72 @@ export function admissibleChecker(moves: PhaseMoves): (vectors: readonly SpaceVe
  * ```
  */
 export function admissibleStands(vectors: readonly SpaceVector[], moves: PhaseMoves): (tri: Triangle) => boolean {
-  const next = moveMaps(moves);
-  // every triplet of the diagram → its vector, keyed by the levels' indices
+  // levels by index, and every triplet of the diagram as a code (its three level indices) → its
+  // vector, in a flat table (L³ entries, a few bytes for each triplet the diagram already holds)
   const index = new Map<number, number>();
-  for (const v of vectors) for (const t of v.levels) for (const l of t) if (!index.has(l)) index.set(l, index.size);
-  const L = index.size + 1;
-  const key = (a: number, b: number, c: number) => ((index.get(a) as number) * L + (index.get(b) as number)) * L + (index.get(c) as number);
-  const owner = new Map<number, number>();
-  vectors.forEach((v, i) => { for (const t of v.levels) owner.set(key(t[0], t[1], t[2]), i); });
-  // a realisation of vector `target` one allowed phase move away from t
-  const near = (t: LevelTriplet, target: number): boolean => {
-    for (let k = 0; k < 3; k++) {
-      for (const l of next[k]?.get(t[k] as number) ?? []) {
-        if (!index.has(l)) continue;
-        const a = k === 0 ? l : (t[0] as number);
-        const b = k === 1 ? l : (t[1] as number);
-        const c = k === 2 ? l : (t[2] as number);
-        if (owner.get(key(a, b, c)) === target) return true;
-      }
+  for (let i = 0; i < vectors.length; i++) {
+    const levels = (vectors[i] as SpaceVector).levels;
+    for (let j = 0; j < levels.length; j++) {
+      const t = levels[j] as LevelTriplet;
+      for (let k = 0; k < 3; k++) if (!index.has(t[k] as number)) index.set(t[k] as number, index.size);
     }
-    return false;
+  }
+  const L = index.size;
+  const owner = new Int32Array(L * L * L).fill(-1);
+  // per vector, its realisations as codes
+  const codes: Int32Array[] = new Array(vectors.length);
+  for (let i = 0; i < vectors.length; i++) {
+    const levels = (vectors[i] as SpaceVector).levels;
+    const c = new Int32Array(levels.length);
+    for (let j = 0; j < levels.length; j++) {
+      const t = levels[j] as LevelTriplet;
+      const code = ((index.get(t[0]) as number) * L + (index.get(t[1]) as number)) * L + (index.get(t[2]) as number);
+      c[j] = code;
+      owner[code] = i;
+    }
+    codes[i] = c;
+  }
+  // per phase, per level index: the level indices it may move to (moves to levels the diagram does
+  // not use lead nowhere and are left out)
+  const reach = moves.map((list) => {
+    const to: number[][] = Array.from({ length: L }, () => []);
+    for (let j = 0; j < list.length; j++) {
+      const m = list[j] as LevelMove;
+      const from = index.get(m[0]);
+      const dest = index.get(m[1]);
+      if (from !== undefined && dest !== undefined) (to[from] as number[]).push(dest);
+    }
+    return to;
+  });
+  const [ra, rb, rc] = reach as [number[][], number[][], number[][]];
+  const LL = L * L;
+  // a realisation of vector `target` one allowed phase move away from the triplet with this code:
+  // phase a's index is worth L², b's L, c's 1 in the code
+  const near = (code: number, target: number): boolean => {
+    const ic = code % L;
+    const q = (code - ic) / L;
+    const ib = q % L;
+    const ia = (q - ib) / L;
+    return hits(owner, ra[ia] as number[], code - ia * LL, LL, target)
+      || hits(owner, rb[ib] as number[], code - ib * L, L, target)
+      || hits(owner, rc[ic] as number[], code - ic, 1, target);
   };
   return (tri) => {
     for (let m = 0; m < 3; m++) {
-      const mid = vectors[tri[m] as number] as SpaceVector;
+      const mid = codes[tri[m] as number] as Int32Array;
       const x = tri[(m + 1) % 3] as number;
       const y = tri[(m + 2) % 3] as number;
-      for (const r2 of mid.levels) if (near(r2, x) && near(r2, y)) return true;
+      for (let j = 0; j < mid.length; j++) if (near(mid[j] as number, x) && near(mid[j] as number, y)) return true;
     }
     return false;
   };
+}
+
+// Whether moving one phase from `base` (the code with that phase's index taken out) to any of the
+// level indices `to` lands on a triplet of vector `target`.
+function hits(owner: Int32Array, to: readonly number[], base: number, stride: number, target: number): boolean {
+  for (let j = 0; j < to.length; j++) if (owner[base + (to[j] as number) * stride] === target) return true;
+  return false;
 }
 
 function moveMaps(moves: PhaseMoves): Map<number, number[]>[] {

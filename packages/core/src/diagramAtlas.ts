@@ -5,7 +5,7 @@ import type { LevelMove } from './commutation.js';
 import type { Phase } from './faults.js';
 import type { LegTable, PhasePolarity } from './legTable.js';
 import { POLARITY_STRINGS, type PolarityString } from './polarity.js';
-import { diagramScale, offerKey, polarityDiagram, type PhaseOffer, type PolarityDiagram } from './polarityDiagram.js';
+import { diagramScale, levelSetScale, offerKey, polarityDiagram, type PhaseOffer, type PolarityDiagram } from './polarityDiagram.js';
 import type { LimitRules } from './rules.js';
 import { BoundedCache } from './boundedCache.js';
 
@@ -42,10 +42,11 @@ export function diagramAtlas(options: AnalyseLegOptions): DiagramAtlas {
   const analysis = analyseLeg(options);
   const h = analysis.healthy.levels;
   // The healthy diagram uses the robust sets; for any well-formed leg they equal the signed ones.
-  // the link's half span sets the scale of every tolerance (a leg written in volts works the same)
-  const pots = Object.values(analysis.leg.dcNodes);
-  const span = (Math.max(...pots) - Math.min(...pots)) / 2;
-  const healthyVectors = sharedSurvivingVectors([h['?'], h['?'], h['?']], span > 0 ? span : 1);
+  // The longest healthy vector sets the scale of every tolerance (a leg written in volts works the
+  // same), and the healthy vectors are built at that scale: the healthy diagram's vectors are then
+  // the same shared set, not a second one built at another tolerance.
+  const scale = levelSetScale(h['?']);
+  const healthyVectors = sharedSurvivingVectors([h['?'], h['?'], h['?']], scale);
   const levelCount = new Set([...h['+'], ...h['-']]).size;
   const shells = vectorShells(healthyVectors, levelCount, diagramScale(healthyVectors));
   // Diagrams are shared by every call that meets the same offers under the same healthy leg and

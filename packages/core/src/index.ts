@@ -19,7 +19,7 @@ export { rotateToMin, triangleArea, triangulate, type Triangle } from './triangu
 export { hullGeometry, minRadialExtent, radialExtent, type HullEdge, type HullGeometry, type RadialValue } from './radialExtent.js';
 export { mod360, polarityAt, polaritySectors, type PolaritySector } from './polaritySectors.js';
 export { dwellMatrix, dwellTimes, type DwellMatrix } from './dwell.js';
-export { classifyVector, vectorShells, type VectorShell } from './classifyVectors.js';
+export { classifyVector, shellClassifier, vectorShells, type VectorShell } from './classifyVectors.js';
 export { offerKey, polarityDiagram, type ClassifiedVector, type PhaseOffer, type PolarityDiagram } from './polarityDiagram.js';
 export { diagramAtlas, phaseMoves, type DiagramAtlas } from './diagramAtlas.js';
 export { extentGeometry, limitOverLoadAngles, modulationLimit, type ExtentKind, type LimitOverRange, type ModulationLimit } from './modulationLimit.js';

@@ -237,7 +237,10 @@ export function polarityDocument(d: PolarityDiagram): PlanPolarity {
     radius: d.radius,
     reach: d.reach,
     outline: d.outline ? Object.freeze(d.outline.map((e) => e.segment)) : null,
-    dwell: d.dwell,
+    // read through: the diagram builds its dwell matrices only when someone asks for them
+    get dwell() {
+      return d.dwell;
+    },
     lost: Object.freeze(d.lost.map(vectorDocument)),
     lostTriplets: d.lostTriplets,
   });

@@ -1,8 +1,8 @@
 import { admissibleStands, admissibleTriangles, type PhaseMoves } from './admissibleTriangles.js';
 import { admissibleTiling } from './admissibleTiling.js';
-import { BoundedCache } from './boundedCache.js';
-import type { Point } from './clarke.js';
-import { classifyVector, type VectorShell } from './classifyVectors.js';
+import { BoundedCache, deepFreeze } from './boundedCache.js';
+import { clarkeAlpha, clarkeBeta, type Point } from './clarke.js';
+import { shellClassifier, type VectorShell } from './classifyVectors.js';
 import { dwellMatrix, type DwellMatrix } from './dwell.js';
 import type { Phase } from './faults.js';
 import { convexHull, polygonArea } from './hull.js';
@@ -31,7 +31,7 @@ export interface PolarityDiagram {
   readonly hull: readonly number[];
   /** The tiling a modulator uses: admissible triangles (Delaunay under `levelSteps: any`). */
   readonly triangles: readonly Triangle[];
-  /** Dwell-time matrix per triangle (same order as `triangles`). */
+  /** Dwell-time matrix per triangle (same order as `triangles`), built on first read. */
   readonly dwell: readonly DwellMatrix[];
   /** min over all θ of r(θ): the largest origin-centred circle inside the hull (0 if degenerate). */
   readonly radius: number;
@@ -137,17 +137,18 @@ export function polarityDiagram(
   const stageKey = adj ? `A|${stagePart(phases.a, pa)}|${stagePart(phases.b, pb)}|${stagePart(phases.c, pc)}` : null;
   if (stageKey) {
     const known = cache?.get(stageKey);
-    if (known) return { ...known, polarity };
+    if (known) return withPolarity(known, polarity);
   }
   if (!stageKey || NEEDS_FULL.get(stageKey) !== undefined) {
     const known = cache?.get(fullKey());
-    if (known) return { ...known, polarity };
+    if (known) return withPolarity(known, polarity);
   }
   // tolerances follow the size of the diagram, so that a leg written at another scale of potential
   // gives the same answer scaled (the healthy vectors' extent is the link's scale)
   const scale = diagramScale(healthy);
   const raw = sharedSurvivingVectors(phaseLevels, scale);
-  const vectors = raw.map((v) => ({ ...v, class: classifyVector(shells, v, scale) }));
+  const shellOf = shellClassifier(shells, scale);
+  const vectors = raw.map((v) => ({ ...v, class: shellOf(v) }));
   const points: Point[] = vectors.map((v) => [v.alpha, v.beta]);
   const hull = convexHull(points, scale);
   const delaunay = triangulate(points, scale);
@@ -164,23 +165,25 @@ export function polarityDiagram(
   if (!tiling) {
     key = fullKey();
     const known = cache?.get(key);
-    if (known) return { ...known, polarity };
+    if (known) return withPolarity(known, polarity);
     const moves: PhaseMoves = [phases.a.moves[pa], phases.b.moves[pb], phases.c.moves[pc]];
     tiling = tile(vectors, points, delaunay, hull, convex, min.value, moves, rules, scale);
   }
-  const find = vectorFinder(vectors, scale);
-  const lost = healthy.filter((h) => find([h.alpha, h.beta]) < 0).map((v) => ({ ...v, class: classifyVector(shells, v, scale) }));
-  // the surviving triplets are the whole product of the three level sets, so a healthy triplet is
-  // missing exactly when one of its levels is missing from its phase's set
-  const [sa, sb, sc] = phaseLevels.map((l) => new Set(l));
-  const lostTriplets = healthy.reduce((n, h) => n + h.levels.filter((t) => !(sa!.has(t[0]) && sb!.has(t[1]) && sc!.has(t[2]))).length, 0);
+  // nothing is lost where the vectors are the healthy set itself (the healthy diagram's)
+  const { lost, lostTriplets } = raw === healthy ? { lost: [], lostTriplets: 0 } : losses(phaseLevels, vectors, healthy, shellOf, scale);
+  const triangles = tiling.triangles;
+  let dwell: readonly DwellMatrix[] | undefined;
   const diagram: PolarityDiagram = {
     polarity,
     phaseLevels,
     vectors,
     hull,
-    triangles: tiling.triangles,
-    dwell: tiling.triangles.map((t) => dwellMatrix(points, t)),
+    triangles,
+    // built on first read (and frozen then): a plan of a many-level leg reads none of the thousands
+    // of matrices its diagrams would hold; a table, a modulator or an export reads them all
+    get dwell(): readonly DwellMatrix[] {
+      return (dwell ??= deepFreeze(triangles.map((t) => dwellMatrix(points, t))));
+    },
     radius: min.value,
     radiusEdge: e ? [e.from, e.to] : null,
     lost,
@@ -209,6 +212,42 @@ function stagePart(o: PhaseOffer, c: PhasePolarity): string {
 }
 
 const STAGE_PARTS = new WeakMap<PhaseOffer, Map<PhasePolarity, string>>();
+
+// Healthy vectors missing from a diagram, and healthy realising triplets missing from it.
+function losses(phaseLevels: PolarityDiagram['phaseLevels'], vectors: readonly SpaceVector[], healthy: readonly SpaceVector[], shellOf: (v: SpaceVector) => string, scale: number): Pick<PolarityDiagram, 'lost' | 'lostTriplets'> {
+  const find = vectorFinder(vectors, scale);
+  const lost = healthy.filter((h) => find([h.alpha, h.beta]) < 0).map((v) => ({ ...v, class: shellOf(v) }));
+  // the surviving triplets are the whole product of the three level sets, so a healthy triplet is
+  // missing exactly when one of its levels is missing from its phase's set
+  const [sa, sb, sc] = phaseLevels.map((l) => new Set(l));
+  const lostTriplets = healthy.reduce((n, h) => n + h.levels.filter((t) => !(sa!.has(t[0]) && sb!.has(t[1]) && sc!.has(t[2]))).length, 0);
+  return { lost, lostTriplets };
+}
+
+// A cached diagram under another polarity string's name. Written out as one literal (not a spread,
+// which would run the dwell getter, nor copied descriptors, which leave a slow object): the copies
+// share the diagram's dwell matrices, built once on the first read through any of them.
+function withPolarity(d: PolarityDiagram, polarity: PolarityString): PolarityDiagram {
+  return {
+    polarity,
+    phaseLevels: d.phaseLevels,
+    vectors: d.vectors,
+    hull: d.hull,
+    triangles: d.triangles,
+    get dwell(): readonly DwellMatrix[] {
+      return d.dwell;
+    },
+    radius: d.radius,
+    radiusEdge: d.radiusEdge,
+    lost: d.lost,
+    lostTriplets: d.lostTriplets,
+    geometry: d.geometry,
+    hullGeometry: d.hullGeometry,
+    reach: d.reach,
+    outline: d.outline,
+    exactTiling: d.exactTiling,
+  };
+}
 
 interface Tiling {
   readonly triangles: readonly Triangle[];
@@ -243,5 +282,31 @@ function tile(vectors: readonly SpaceVector[], points: readonly Point[], delauna
  */
 export function diagramScale(healthy: readonly { readonly alpha: number; readonly beta: number }[]): number {
   const r = Math.max(0, ...healthy.map((v) => Math.hypot(v.alpha, v.beta)));
+  return r > 0 ? r : 1;
+}
+
+/**
+ * {@link diagramScale} of the vectors one level set gives every phase, found without building them:
+ * the longest vector is a corner of the hexagon (top level in one or two phases, bottom level in
+ * the rest), realised by that triplet alone, so it is its own vector's position, and only the eight
+ * triplets of the top and bottom levels need a look. Lets the healthy vectors be built once, at the
+ * scale every diagram of the leg uses (see diagramAtlas); were a leg's levels within rounding of
+ * each other so that the two differed in the last bit, its healthy vectors would merely be built a
+ * second time.
+ *
+ * @param levels - the healthy leg's levels (one phase)
+ * @returns the number `diagramScale(survivingVectors([levels, levels, levels], s))` gives
+ * @example
+ * ```ts
+ * levelSetScale([-1, 0, 1]); // 4/3
+ * ```
+ */
+export function levelSetScale(levels: readonly number[]): number {
+  const ends = levels.length === 0 ? [] : [Math.min(...levels), Math.max(...levels)];
+  let r = 0;
+  for (const la of ends) for (const lb of ends) for (const lc of ends) {
+    const x = Math.hypot(clarkeAlpha(la, lb, lc), clarkeBeta(lb, lc));
+    if (x > r) r = x;
+  }
   return r > 0 ? r : 1;
 }

@@ -26,52 +26,90 @@ export interface SpaceVector {
  */
 export function survivingVectors(sets: readonly [readonly number[], readonly number[], readonly number[]], scale = 1): SpaceVector[] {
   const tol = VECTOR_TOLERANCE * scale;
-  const groups: { p: Point; levels: LevelTriplet[]; order: number }[] = [];
+  const [sa, sb, sc] = sets;
   // Groups are found through a grid of cells: a point within the tolerance of a group lies in that
   // group's cell or a neighbouring one, and among those the earliest group within the tolerance
   // takes it (the group a scan of all groups in order would find), so the result is a linear
   // search's, in linear time (a many-level leg has N³ triplets). Cells are 16 tolerances wide and a
   // neighbour is looked at only where the point is near that side (two tolerances, safe from
-  // rounding in the cell index): most points look at one cell. No point is built for a triplet that
-  // joins a group.
-  const cells = new CellGrid<(typeof groups)[number]>();
+  // rounding in the cell index): most points look at one cell. A group is its index into `gx`/`gy`
+  // (its first point) and `members` (its triplets, by position in the sets); indexed loops and
+  // plain numbers throughout, because this runs once per diagram, mostly before the engine has
+  // optimised it, where every iterator and every small array costs an allocation.
+  const gx: number[] = [];
+  const gy: number[] = [];
+  const members: number[][] = [];
+  const cells = new CellGrid<number>();
   const size = 16 * tol;
-  for (const la of sets[0]) for (const lb of sets[1]) for (const lc of sets[2]) {
-    const px = clarkeAlpha(la, lb, lc);
-    const py = clarkeBeta(lb, lc);
-    const cx = Math.floor(px / size);
-    const cy = Math.floor(py / size);
-    const fx = px - cx * size;
-    const fy = py - cy * size;
-    const x0 = fx < 2 * tol ? -1 : 0;
-    const x1 = size - fx < 2 * tol ? 1 : 0;
-    const y0 = fy < 2 * tol ? -1 : 0;
-    const y1 = size - fy < 2 * tol ? 1 : 0;
-    let g: (typeof groups)[number] | undefined;
-    for (let dx = x0; dx <= x1; dx++) for (let dy = y0; dy <= y1; dy++) {
-      const list = cells.get(cx + dx, cy + dy);
-      if (list) for (const x of list) {
-        if ((g === undefined || x.order < g.order) && Math.hypot(x.p[0] - px, x.p[1] - py) <= tol) g = x;
+  const nb = sb.length;
+  const nc = sc.length;
+  for (let ia = 0; ia < sa.length; ia++) {
+    const la = sa[ia] as number;
+    for (let ib = 0; ib < nb; ib++) {
+      const lb = sb[ib] as number;
+      for (let ic = 0; ic < nc; ic++) {
+        const lc = sc[ic] as number;
+        const px = clarkeAlpha(la, lb, lc);
+        const py = clarkeBeta(lb, lc);
+        const cx = Math.floor(px / size);
+        const cy = Math.floor(py / size);
+        const fx = px - cx * size;
+        const fy = py - cy * size;
+        const x1 = size - fx < 2 * tol ? 1 : 0;
+        const y1 = size - fy < 2 * tol ? 1 : 0;
+        const y0 = fy < 2 * tol ? -1 : 0;
+        let g = -1;
+        for (let dx = fx < 2 * tol ? -1 : 0; dx <= x1; dx++) for (let dy = y0; dy <= y1; dy++) {
+          const list = cells.get(cx + dx, cy + dy);
+          if (list === undefined) continue;
+          // a cell lists its groups in the order they were made: the first match is its earliest
+          for (let k = 0; k < list.length; k++) {
+            const x = list[k] as number;
+            if (g >= 0 && x > g) break;
+            if (Math.hypot((gx[x] as number) - px, (gy[x] as number) - py) <= tol) {
+              g = x;
+              break;
+            }
+          }
+        }
+        const code = (ia * nb + ib) * nc + ic;
+        if (g >= 0) (members[g] as number[]).push(code);
+        else {
+          cells.add(cx, cy, gx.length);
+          gx.push(px);
+          gy.push(py);
+          members.push([code]);
+        }
       }
     }
-    const t: LevelTriplet = [la, lb, lc];
-    if (g) g.levels.push(t);
-    else {
-      const fresh = { p: [px, py] as Point, levels: [t], order: groups.length };
-      groups.push(fresh);
-      cells.add(cx, cy, fresh);
-    }
   }
-  const q = (x: number) => Math.round(x / tol);
-  const key = (p: Point) => {
-    const r = Math.hypot(p[0], p[1]);
-    const a = r <= tol ? 0 : (Math.atan2(p[1], p[0]) + 2 * Math.PI) % (2 * Math.PI);
-    return [q(r), q(a)] as const;
-  };
-  return groups
-    .map((g) => ({ g, k: key(g.p) }))
-    .sort((x, y) => x.k[0] - y.k[0] || x.k[1] - y.k[1])
-    .map(({ g }) => ({ alpha: g.p[0], beta: g.p[1], levels: g.levels.sort(compareTripletsDesc) }));
+  // order by length, then by angle, both rounded to the tolerance
+  const count = gx.length;
+  const kr = new Float64Array(count);
+  const ka = new Float64Array(count);
+  for (let i = 0; i < count; i++) {
+    const x = gx[i] as number;
+    const y = gy[i] as number;
+    const r = Math.hypot(x, y);
+    kr[i] = Math.round(r / tol);
+    ka[i] = Math.round((r <= tol ? 0 : (Math.atan2(y, x) + 2 * Math.PI) % (2 * Math.PI)) / tol);
+  }
+  const order = Array.from({ length: count }, (_, i) => i).sort((i, j) => (kr[i] as number) - (kr[j] as number) || (ka[i] as number) - (ka[j] as number));
+  const out: SpaceVector[] = new Array(count);
+  for (let k = 0; k < count; k++) {
+    const i = order[k] as number;
+    const codes = members[i] as number[];
+    const levels: LevelTriplet[] = new Array(codes.length);
+    for (let m = 0; m < codes.length; m++) {
+      const code = codes[m] as number;
+      const ic = code % nc;
+      const ib = ((code - ic) / nc) % nb;
+      const ia = (code - ic - ib * nc) / (nb * nc);
+      levels[m] = [sa[ia] as number, sb[ib] as number, sc[ic] as number];
+    }
+    out[k] = { alpha: gx[i] as number, beta: gy[i] as number, levels: levels.sort(compareTripletsDesc) };
+  }
+  return out;
 }
 
 // Vector sets already built, by level sets and scale (frozen; see BoundedCache).
