@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { admissibleChain, BUILTIN_TOPOLOGIES, builtinLeg, diagramAtlas, expandElements, parsePolarity, phaseMoves, polygonArea, POLARITY_STRINGS, triangleArea, type Point } from '@hexsalvage/core';
+import { admissibleChain, BUILTIN_TOPOLOGIES, builtinLeg, diagramAtlas, expandElements, parsePolarity, phaseMoves, polygonArea, POLARITY_STRINGS, triangleArea, triangulate, type Point } from '@hexsalvage/core';
 import { fc, fcParams } from '../support/fc.js';
 
 const caseArb = fc.constantFrom(...BUILTIN_TOPOLOGIES).chain((t) => {
@@ -9,6 +9,24 @@ const caseArb = fc.constantFrom(...BUILTIN_TOPOLOGIES).chain((t) => {
 });
 
 describe('triangulate properties', () => {
+  it('lists each Delaunay triangle once, counter-clockwise from its smallest index, sorted lexicographically, frozen (property, random and grid point sets)', () => {
+    const coord = fc.oneof(fc.integer({ min: -3, max: 3 }).map((k) => k / 3), fc.double({ min: -1, max: 1, noNaN: true }));
+    // points at least 1e-6 apart, as vectors are (survivingVectors merges closer ones)
+    const apart = (pts: readonly (readonly [number, number])[]) => pts.every((p, i) => pts.every((q, j) => j <= i || Math.hypot(p[0] - q[0], p[1] - q[1]) > 1e-6));
+    fc.assert(fc.property(fc.uniqueArray(fc.tuple(coord, coord), { minLength: 3, maxLength: 40, selector: (p) => `${p[0]},${p[1]}` }).filter(apart), (pts) => {
+      const tris = triangulate(pts);
+      for (const t of tris) {
+        expect(Object.isFrozen(t)).toBe(true);
+        expect(t[0]).toBeLessThan(Math.min(t[1], t[2]));
+        expect(triangleArea(pts, t)).toBeGreaterThan(0);
+      }
+      // the order a comparator sort gives, and no triangle twice
+      const sorted = [...tris].sort((x, y) => x[0] - y[0] || x[1] - y[1] || x[2] - y[2]);
+      expect(tris).toEqual(sorted);
+      expect(new Set(tris.map((t) => t.join(','))).size).toBe(tris.length);
+    }), fcParams(300));
+  });
+
   it('tiles the hull exactly under --level-steps any (first version): areas add up, no gap, no overlap', () => {
     fc.assert(fc.property(caseArb, ([t, faults, pol, samples]) => {
       const d = diagramAtlas({ topology: t, faults, levelSteps: 'any' }).faulted.get(pol)!;

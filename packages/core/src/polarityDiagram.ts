@@ -148,7 +148,8 @@ export function polarityDiagram(
   const scale = diagramScale(healthy);
   const raw = sharedSurvivingVectors(phaseLevels, scale);
   const shellOf = shellClassifier(shells, scale);
-  const vectors = raw.map((v) => ({ ...v, class: shellOf(v) }));
+  // frozen as made: the diagram is cached frozen, and a fresh object freezes cheaper than a walk
+  const vectors = raw.map((v) => Object.freeze({ alpha: v.alpha, beta: v.beta, levels: v.levels, class: shellOf(v) }));
   const points: Point[] = vectors.map((v) => [v.alpha, v.beta]);
   const hull = convexHull(points, scale);
   const delaunay = triangulate(points, scale);

@@ -1,4 +1,4 @@
-import { clarkeAlpha, clarkeBeta, type LevelTriplet, type Point } from './clarke.js';
+import { type LevelTriplet, type Point } from './clarke.js';
 import { BoundedCache } from './boundedCache.js';
 import { VECTOR_TOLERANCE } from './tolerance.js';
 
@@ -49,8 +49,10 @@ export function survivingVectors(sets: readonly [readonly number[], readonly num
       const lb = sb[ib] as number;
       for (let ic = 0; ic < nc; ic++) {
         const lc = sc[ic] as number;
-        const px = clarkeAlpha(la, lb, lc);
-        const py = clarkeBeta(lb, lc);
+        // clarkeAlpha and clarkeBeta written out (the same operations, so the same bits): this loop
+        // mostly runs before the engine optimises it, where each call costs
+        const px = (2 / 3) * (la - (lb + lc) / 2);
+        const py = (lb - lc) / SQRT3;
         const cx = Math.floor(px / size);
         const cy = Math.floor(py / size);
         const fx = px - cx * size;
@@ -105,12 +107,16 @@ export function survivingVectors(sets: readonly [readonly number[], readonly num
       const ic = code % nc;
       const ib = ((code - ic) / nc) % nb;
       const ia = (code - ic - ib * nc) / (nb * nc);
-      levels[m] = [sa[ia] as number, sb[ib] as number, sc[ic] as number];
+      levels[m] = Object.freeze([sa[ia] as number, sb[ib] as number, sc[ic] as number] as const);
     }
-    out[k] = { alpha: gx[i] as number, beta: gy[i] as number, levels: levels.sort(compareTripletsDesc) };
+    // frozen as made (the shared sets are frozen anyway, and freezing a fresh object costs less than
+    // walking the finished graph to freeze it)
+    out[k] = Object.freeze({ alpha: gx[i] as number, beta: gy[i] as number, levels: Object.freeze(levels.sort(compareTripletsDesc)) });
   }
   return out;
 }
+
+const SQRT3 = Math.sqrt(3);
 
 // Vector sets already built, by level sets and scale (frozen; see BoundedCache).
 const SHARED = new BoundedCache<readonly SpaceVector[]>(256);

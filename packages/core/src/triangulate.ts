@@ -25,15 +25,45 @@ export type Triangle = readonly [number, number, number];
 export function triangulate(points: readonly Point[], scale = 1): Triangle[] {
   if (points.length < 3) return [];
   const d = Delaunay.from(points as unknown as ArrayLike<[number, number]>);
+  const tris = triangleList(points, d.triangles, scale);
+  // Sorted by a radix sort on the three indices (counting sorts, last index first, each stable), not
+  // by a comparator: a many-level diagram has thousands of triangles, sorted once before the engine
+  // optimises anything, where calling a comparator for every comparison costs more than the
+  // triangulation itself.
+  let order: Int32Array = Int32Array.from(tris.keys());
+  for (let digit = 2; digit >= 0; digit--) order = countingSort(order, (t) => (tris[t] as Triangle)[digit] as number, points.length);
+  return Array.from(order, (t) => tris[t] as Triangle);
+}
+
+// Stable counting sort of positions by an integer key in [0, size).
+function countingSort(order: Int32Array, key: (t: number) => number, size: number): Int32Array {
+  const start = new Int32Array(size + 1);
+  for (let i = 0; i < order.length; i++) {
+    const v = key(order[i] as number) + 1;
+    start[v] = (start[v] as number) + 1;
+  }
+  for (let v = 0; v < size; v++) start[v + 1] = (start[v + 1] as number) + (start[v] as number);
+  const out = new Int32Array(order.length);
+  for (let i = 0; i < order.length; i++) {
+    const t = order[i] as number;
+    const v = key(t);
+    out[start[v] as number] = t;
+    start[v] = (start[v] as number) + 1;
+  }
+  return out;
+}
+
+// Delaunator's triangles without zero-area slivers, each counter-clockwise from its smallest index.
+function triangleList(points: readonly Point[], indices: Uint32Array, scale: number): Triangle[] {
   const out: Triangle[] = [];
-  for (let t = 0; t < d.triangles.length; t += 3) {
-    let tri = [d.triangles[t], d.triangles[t + 1], d.triangles[t + 2]] as [number, number, number];
+  for (let t = 0; t < indices.length; t += 3) {
+    let tri = [indices[t], indices[t + 1], indices[t + 2]] as [number, number, number];
     const area = triangleArea(points, tri);
     if (Math.abs(area) <= AREA_TOLERANCE * scale * scale) continue;
     if (area < 0) tri = [tri[0], tri[2], tri[1]];
-    out.push(rotateToMin(tri));
+    out.push(Object.freeze(rotateToMin(tri)));
   }
-  return out.sort((x, y) => x[0] - y[0] || x[1] - y[1] || x[2] - y[2]);
+  return out;
 }
 
 /**
