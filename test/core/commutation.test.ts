@@ -1,14 +1,15 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import {
-  BUILTIN_TOPOLOGIES, builtinLeg, commutates, expandElements, gateSetSolver, parseNetlist, patternLevel, phaseCommutations,
+  BUILTIN_TOPOLOGIES, builtinLeg, commutates, expandElements, gateSetSolver, legLevels, parseNetlist, patternLevel, phaseCommutations,
   type LegNetlist, type LevelMove, type PhasePolarity,
 } from '@hexsalvage/core';
 
 // phaseCommutations takes two shortcuts: it stops at the first commutating pattern pair of each
 // level change, and it reuses the '?' moves for a sign whose levels they already join completely.
 // Here the moves are recomputed the plain way (every pattern pair, every polarity on its own) and
-// must agree, and the on-demand pattern-pair answers must be what `commutates` says.
+// must agree, and the on-demand pattern-pair answers must be what `commutates` says; the neighbour
+// moves (searched on their own, with the same reuse of '?') must be the plain moves restricted.
 function plainMoves(leg: LegNetlist, faults: ReadonlyMap<string, 'open' | 'short'>, pol: PhasePolarity): LevelMove[] {
   const solve = gateSetSolver(leg, faults, true);
   const patterns = Object.values(leg.patterns);
@@ -31,6 +32,14 @@ function check(leg: LegNetlist, faults: ReadonlyMap<string, 'open' | 'short'>): 
     patterns.forEach((a, i) => patterns.forEach((b, j) => {
       if (i !== j) expect(c.patternsCommute(pol, i, j)).toBe(commutates(solve, a, b, pol));
     }));
+  }
+  // the neighbour moves, asked of a fresh search (signs first, so that the reuse of '?' is taken
+  // before the '?' moves are asked for), are the plain moves between neighbouring levels
+  const dc = legLevels(leg);
+  const fresh = phaseCommutations(solve, patterns);
+  for (const pol of ['+', '-', '?'] as const) {
+    const near = plainMoves(leg, faults, pol).filter(([a, b]) => Math.abs(dc.indexOf(a) - dc.indexOf(b)) === 1);
+    expect(fresh.adjacentMoves(pol, dc), `${leg.name} ${[...faults].join()} ${pol} neighbours`).toEqual(near);
   }
 }
 

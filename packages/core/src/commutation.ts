@@ -203,21 +203,34 @@ export function phaseCommutations(solve: GateSetSolver, patterns: readonly (read
     return moves;
   };
   const adjacent = new Map<string, readonly LevelMove[]>();
+  const adjacentMoves = (pol: PhasePolarity, dcLevels: readonly number[]): readonly LevelMove[] => {
+    const key = `${pol}|${dcLevels.join(',')}`;
+    let r = adjacent.get(key);
+    if (!r) {
+      const near = (l1: number, l2: number) => Math.abs(dcLevels.indexOf(l1) - dcLevels.indexOf(l2)) === 1;
+      if (all) r = all[pol].filter(([l1, l2]) => near(l1, l2));
+      else if (pol === '?') r = levelMoves(pol, levelOf(pol), near);
+      else {
+        // as in computeAll: the '?' moves serve this sign too, so where they already join every pair
+        // of neighbouring levels both ways (and the levels are the same) they are this sign's moves
+        const robust = adjacentMoves('?', dcLevels);
+        const level = levelOf(pol);
+        const levels = [...new Set(level.filter((l): l is number => l !== null))];
+        const robustLevels = new Set(levelOf('?').filter((l): l is number => l !== null));
+        const pairs = levels.reduce((n, l1) => n + levels.filter((l2) => near(l1, l2)).length, 0);
+        const same = levels.length === robustLevels.size && levels.every((l) => robustLevels.has(l));
+        r = same && robust.length === pairs ? robust : levelMoves(pol, level, near);
+      }
+      adjacent.set(key, r);
+    }
+    return r;
+  };
   return {
     get moves() {
       all ??= computeAll();
       return all;
     },
-    adjacentMoves(pol, dcLevels) {
-      const key = `${pol}|${dcLevels.join(',')}`;
-      let r = adjacent.get(key);
-      if (!r) {
-        const near = (l1: number, l2: number) => Math.abs(dcLevels.indexOf(l1) - dcLevels.indexOf(l2)) === 1;
-        r = all ? all[pol].filter(([l1, l2]) => near(l1, l2)) : levelMoves(pol, levelOf(pol), near);
-        adjacent.set(key, r);
-      }
-      return r;
-    },
+    adjacentMoves,
     patternsCommute,
   };
 }

@@ -102,16 +102,31 @@ export function survivingVectors(sets: readonly [readonly number[], readonly num
     const i = order[k] as number;
     const codes = members[i] as number[];
     const levels: LevelTriplet[] = new Array(codes.length);
+    // triplets come in the order of the sets; they are wanted in descending order, which is that
+    // order (or its reverse) whenever the sets are sorted, as a leg's are: checked in passing, so
+    // that the comparator sort runs only where it must
+    let descending = true;
+    let ascending = true;
     for (let m = 0; m < codes.length; m++) {
       const code = codes[m] as number;
       const ic = code % nc;
       const ib = ((code - ic) / nc) % nb;
       const ia = (code - ic - ib * nc) / (nb * nc);
-      levels[m] = Object.freeze([sa[ia] as number, sb[ib] as number, sc[ic] as number] as const);
+      const t = Object.freeze([sa[ia] as number, sb[ib] as number, sc[ic] as number] as const);
+      if (m > 0) {
+        const c = compareTripletsDesc(levels[m - 1] as LevelTriplet, t);
+        if (c >= 0) descending = false;
+        if (c <= 0) ascending = false;
+      }
+      levels[m] = t;
+    }
+    if (!descending) {
+      if (ascending) levels.reverse();
+      else levels.sort(compareTripletsDesc);
     }
     // frozen as made (the shared sets are frozen anyway, and freezing a fresh object costs less than
     // walking the finished graph to freeze it)
-    out[k] = Object.freeze({ alpha: gx[i] as number, beta: gy[i] as number, levels: Object.freeze(levels.sort(compareTripletsDesc)) });
+    out[k] = Object.freeze({ alpha: gx[i] as number, beta: gy[i] as number, levels: Object.freeze(levels) });
   }
   return out;
 }

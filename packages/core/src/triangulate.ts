@@ -23,45 +23,81 @@ export type Triangle = readonly [number, number, number];
  * ```
  */
 export function triangulate(points: readonly Point[], scale = 1): Triangle[] {
-  if (points.length < 3) return [];
-  const d = Delaunay.from(points as unknown as ArrayLike<[number, number]>);
-  const tris = triangleList(points, d.triangles, scale);
-  // Sorted by a radix sort on the three indices (counting sorts, last index first, each stable), not
-  // by a comparator: a many-level diagram has thousands of triangles, sorted once before the engine
-  // optimises anything, where calling a comparator for every comparison costs more than the
-  // triangulation itself.
-  let order: Int32Array = Int32Array.from(tris.keys());
-  for (let digit = 2; digit >= 0; digit--) order = countingSort(order, (t) => (tris[t] as Triangle)[digit] as number, points.length);
-  return Array.from(order, (t) => tris[t] as Triangle);
-}
-
-// Stable counting sort of positions by an integer key in [0, size).
-function countingSort(order: Int32Array, key: (t: number) => number, size: number): Int32Array {
-  const start = new Int32Array(size + 1);
-  for (let i = 0; i < order.length; i++) {
-    const v = key(order[i] as number) + 1;
-    start[v] = (start[v] as number) + 1;
+  const n = points.length;
+  if (n < 3) return [];
+  const coords = new Float64Array(2 * n);
+  for (let i = 0; i < n; i++) {
+    const p = points[i] as Point;
+    coords[2 * i] = p[0];
+    coords[2 * i + 1] = p[1];
   }
-  for (let v = 0; v < size; v++) start[v + 1] = (start[v + 1] as number) + (start[v] as number);
-  const out = new Int32Array(order.length);
-  for (let i = 0; i < order.length; i++) {
-    const t = order[i] as number;
-    const v = key(t);
-    out[start[v] as number] = t;
-    start[v] = (start[v] as number) + 1;
+  const d = new Delaunay(coords);
+  // Delaunator's triangles without zero-area slivers, each counter-clockwise from its smallest
+  // index, as three columns of indices
+  const all = d.triangles;
+  const cols = [new Int32Array(all.length / 3), new Int32Array(all.length / 3), new Int32Array(all.length / 3)] as const;
+  let count = 0;
+  for (let t = 0; t < all.length; t += 3) {
+    let i = all[t] as number;
+    let j = all[t + 1] as number;
+    let k = all[t + 2] as number;
+    // triangleArea, written out (this runs once per triangle, before the engine optimises anything),
+    // on the points given: d3-delaunay jitters its copy of collinear points, whose triangles are slivers
+    const a = points[i] as Point;
+    const b = points[j] as Point;
+    const c = points[k] as Point;
+    const area = ((b[0] - a[0]) * (c[1] - a[1]) - (b[1] - a[1]) * (c[0] - a[0])) / 2;
+    if (Math.abs(area) <= AREA_TOLERANCE * scale * scale) continue;
+    if (area < 0) {
+      const x = j;
+      j = k;
+      k = x;
+    }
+    // rotated to start at the smallest index (rotateToMin)
+    if (j < i && j <= k) {
+      const x = i;
+      i = j;
+      j = k;
+      k = x;
+    } else if (k < i && k < j) {
+      const x = k;
+      k = j;
+      j = i;
+      i = x;
+    }
+    cols[0][count] = i;
+    cols[1][count] = j;
+    cols[2][count] = k;
+    count++;
+  }
+  // Sorted by a radix sort on the three indices (stable counting sorts, last index first), not by a
+  // comparator: a many-level diagram has thousands of triangles, sorted once before the engine
+  // optimises anything, where a comparator call per comparison costs more than the triangulation.
+  let order: Int32Array = new Int32Array(count);
+  for (let t = 0; t < count; t++) order[t] = t;
+  for (let c = 2; c >= 0; c--) order = countingSort(order, cols[c as 0 | 1 | 2], n);
+  const out: Triangle[] = new Array(count);
+  for (let r = 0; r < count; r++) {
+    const t = order[r] as number;
+    out[r] = Object.freeze([cols[0][t] as number, cols[1][t] as number, cols[2][t] as number] as const);
   }
   return out;
 }
 
-// Delaunator's triangles without zero-area slivers, each counter-clockwise from its smallest index.
-function triangleList(points: readonly Point[], indices: Uint32Array, scale: number): Triangle[] {
-  const out: Triangle[] = [];
-  for (let t = 0; t < indices.length; t += 3) {
-    let tri = [indices[t], indices[t + 1], indices[t + 2]] as [number, number, number];
-    const area = triangleArea(points, tri);
-    if (Math.abs(area) <= AREA_TOLERANCE * scale * scale) continue;
-    if (area < 0) tri = [tri[0], tri[2], tri[1]];
-    out.push(Object.freeze(rotateToMin(tri)));
+// Stable counting sort of positions by their integer key in [0, size).
+function countingSort(order: Int32Array, key: Int32Array, size: number): Int32Array {
+  const start = new Int32Array(size + 1);
+  for (let r = 0; r < order.length; r++) {
+    const v = (key[order[r] as number] as number) + 1;
+    start[v] = (start[v] as number) + 1;
+  }
+  for (let v = 0; v < size; v++) start[v + 1] = (start[v + 1] as number) + (start[v] as number);
+  const out = new Int32Array(order.length);
+  for (let r = 0; r < order.length; r++) {
+    const t = order[r] as number;
+    const v = key[t] as number;
+    out[start[v] as number] = t;
+    start[v] = (start[v] as number) + 1;
   }
   return out;
 }
