@@ -2,9 +2,24 @@ import type { PolarityString } from './polarity.js';
 import type { PolarityDiagram } from './polarityDiagram.js';
 import { mod360, polaritySectors, type PolaritySector } from './polaritySectors.js';
 import { minRadialExtent } from './radialExtent.js';
+import { BoundedCache } from './boundedCache.js';
 import { requireNumber } from './validate.js';
 
 const RAD = Math.PI / 180;
+
+// Sectors by load angle and margin (frozen, shared): a derating curve or a fault atlas asks for the
+// same few hundred angles again for every leg and fault.
+const SECTORS = new BoundedCache<readonly PolaritySector[]>(2048);
+
+function sharedSectors(loadAngleDeg: number, marginDeg: number): readonly PolaritySector[] {
+  const key = `${loadAngleDeg}|${marginDeg}`;
+  let s = SECTORS.get(key);
+  if (!s) {
+    s = polaritySectors(loadAngleDeg, marginDeg);
+    SECTORS.set(key, s);
+  }
+  return s;
+}
 
 /**
  * Which extent a limit is taken over: `tiling` — the admissible tiling (the safe limit, `mMax`);
@@ -61,7 +76,7 @@ export interface ModulationLimit {
 export function modulationLimit(diagrams: ReadonlyMap<PolarityString, PolarityDiagram>, loadAngleDeg: number, marginDeg: number, kind: ExtentKind = 'tiling'): ModulationLimit {
   requireNumber(loadAngleDeg, 'modulationLimit', 'loadAngleDeg', { min: -360, max: 360 });
   requireNumber(marginDeg, 'modulationLimit', 'marginDeg', { min: 0, max: 60, openMax: true });
-  const sectors = polaritySectors(loadAngleDeg, marginDeg);
+  const sectors = sharedSectors(loadAngleDeg, marginDeg);
   let best: { value: number; theta: number; polarity: PolarityString; edge: readonly [number, number] | null } | null = null;
   const sectorMinima = sectors.map((s) => {
     const g = extentGeometry(diagrams.get(s.polarity) as PolarityDiagram, kind);

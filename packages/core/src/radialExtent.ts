@@ -78,19 +78,8 @@ export function hullGeometry(points: readonly Point[], hull: readonly number[], 
  */
 export function radialExtent(g: HullGeometry, theta: number): RadialValue {
   if (!g.containsOrigin) return { value: 0, theta, edge: null };
-  let best = Infinity;
-  let edge = 0;
-  g.edges.forEach((e, i) => {
-    if (e.span && !inSpan(e.span, theta)) return;
-    const c = Math.cos(theta - e.normalAngle);
-    if (c <= 0) return;
-    const r = e.offset / c;
-    if (r < best) {
-      best = r;
-      edge = i;
-    }
-  });
-  return { value: best, theta, edge };
+  const i = bindingEdge(g.edges, theta);
+  return i < 0 ? { value: Infinity, theta, edge: 0 } : { value: extentOf(g.edges[i] as HullEdge, theta), theta, edge: i };
 }
 
 /**
@@ -111,17 +100,63 @@ export function radialExtent(g: HullGeometry, theta: number): RadialValue {
  */
 export function minRadialExtent(g: HullGeometry, from: number, to: number): RadialValue {
   if (!g.containsOrigin) return { value: 0, theta: from, edge: null };
-  if (g.edges.some((e) => e.span)) return minOverSpans(g, from, to);
-  let best = radialExtent(g, from);
-  const consider = (c: RadialValue) => {
-    if (c.value < best.value || (c.value === best.value && c.theta < best.theta)) best = c;
-  };
-  consider(radialExtent(g, to));
-  g.edges.forEach((e, i) => {
+  const edges = g.edges;
+  if (hasSpans(edges)) return minOverSpans(g, from, to);
+  // the range's ends, then every edge normal inside the range; ties go to the smaller angle. Plain
+  // numbers and indexed loops: a fault atlas asks this thousands of times per leg.
+  const first = bindingEdge(edges, from);
+  let value = first < 0 ? Infinity : extentOf(edges[first] as HullEdge, from);
+  let theta = from;
+  let edge = first < 0 ? 0 : first;
+  const last = bindingEdge(edges, to);
+  const atTo = last < 0 ? Infinity : extentOf(edges[last] as HullEdge, to);
+  if (atTo < value || (atTo === value && to < theta)) {
+    value = atTo;
+    theta = to;
+    edge = last < 0 ? 0 : last;
+  }
+  for (let i = 0; i < edges.length; i++) {
+    const e = edges[i] as HullEdge;
     const k0 = Math.ceil((from - e.normalAngle) / (2 * Math.PI));
-    for (let k = k0; e.normalAngle + 2 * Math.PI * k <= to; k++) consider({ value: e.offset, theta: e.normalAngle + 2 * Math.PI * k, edge: i });
-  });
-  return best;
+    for (let k = k0; e.normalAngle + 2 * Math.PI * k <= to; k++) {
+      const t = e.normalAngle + 2 * Math.PI * k;
+      if (e.offset < value || (e.offset === value && t < theta)) {
+        value = e.offset;
+        theta = t;
+        edge = i;
+      }
+    }
+  }
+  return { value, theta, edge };
+}
+
+// The index of the edge that binds along θ (the first smallest offset/cos among the edges facing θ
+// and, on an outline, whose span holds θ), or -1 when none does.
+function bindingEdge(edges: readonly HullEdge[], theta: number): number {
+  let best = Infinity;
+  let edge = -1;
+  for (let i = 0; i < edges.length; i++) {
+    const e = edges[i] as HullEdge;
+    if (e.span && !inSpan(e.span, theta)) continue;
+    const c = Math.cos(theta - e.normalAngle);
+    if (c <= 0) continue;
+    const r = e.offset / c;
+    if (r < best) {
+      best = r;
+      edge = i;
+    }
+  }
+  return edge;
+}
+
+// The extent along θ that an edge gives (the same arithmetic as bindingEdge, so the same bits).
+function extentOf(e: HullEdge, theta: number): number {
+  return e.offset / Math.cos(theta - e.normalAngle);
+}
+
+function hasSpans(edges: readonly HullEdge[]): boolean {
+  for (let i = 0; i < edges.length; i++) if ((edges[i] as HullEdge).span) return true;
+  return false;
 }
 
 // On an outline each edge bounds only its span: the minimum over [from, to] is among the ends of
