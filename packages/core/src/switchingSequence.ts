@@ -77,50 +77,97 @@ export function chooseSequence(
   step?: StepAllowed,
 ): SwitchingSequence | null {
   if (triplets.length !== 3 || triplets.some((r) => r.length === 0)) return null;
-  let best: { rank: number[]; seq: SwitchingSequence } | null = null;
-  // the same three levels of one phase recur across orders, triplets and triangles: solve each once
-  // integer keys from the levels' positions: no string building in the innermost loop
+  // the same three levels of one phase recur across orders, triplets and triangles: solve each once,
+  // keyed by an integer made of the levels' positions in the leg (no string in the innermost loop)
   const L = levels.length + 1;
-  const pos = (l: number) => levels.indexOf(l) + 1;
-  const phasePath = (ph: Phase, k: number, lv: number[]) => {
-    const key = ((k * L + pos(lv[0] as number)) * L + pos(lv[1] as number)) * L + pos(lv[2] as number);
-    if (!memo.has(key)) memo.set(key, bestPhasePath(ph, lv, (l) => candidates(k, l), lineDevices, step && ((a, b) => step(k, a, b))));
-    return memo.get(key) as PhasePath | null;
+  const phasePath = (k: number, i0: number, i1: number, i2: number): PhasePath | null => {
+    const key = ((k * L + i0 + 1) * L + i1 + 1) * L + i2 + 1;
+    let p = memo.get(key) as PhasePath | null | undefined;
+    if (p === undefined) {
+      const lv = [i0, i1, i2].map((i) => levels[i] as number);
+      p = bestPhasePath(PHASES[k] as Phase, lv, (l) => candidates(k, l), lineDevices, step && ((x, y) => step(k, x, y)));
+      memo.set(key, p);
+    }
+    return p;
   };
+  // each realisation as the positions of its three levels in the leg, found once per vertex
+  const at = triplets.map((list) => {
+    const ix = new Int32Array(3 * list.length);
+    list.forEach((t, c) => {
+      for (let k = 0; k < 3; k++) ix[3 * c + k] = levels.indexOf(t[k] as number);
+    });
+    return ix;
+  });
+  // one phase changes between the realisations at offsets a and b (of the two position arrays)
+  const apart = (x: Int32Array, a: number, y: Int32Array, b: number) =>
+    (x[a] !== y[b] ? 1 : 0) + (x[a + 1] !== y[b + 1] ? 1 : 0) + (x[a + 2] !== y[b + 2] ? 1 : 0) === 1;
+  // The search visits every order and triplet combination (thousands per triangle on a many-level
+  // leg) and keeps the first of the lowest rank: the rank is compared as four numbers and the
+  // sequence is built only when a combination beats the best so far.
+  let best: SwitchingSequence | null = null;
+  let bestLine = 0;
+  let bestTotal = 0;
+  let bestJumps = 0;
+  let bestPref = 0;
   for (const order of PERMUTATIONS) {
-    const lists = order.map((k) => triplets[k] as readonly LevelTriplet[]);
-    for (let c0 = 0; c0 < (lists[0] as LevelTriplet[]).length; c0++) for (let c1 = 0; c1 < (lists[1] as LevelTriplet[]).length; c1++) for (let c2 = 0; c2 < (lists[2] as LevelTriplet[]).length; c2++) {
-      const t = [lists[0]![c0], lists[1]![c1], lists[2]![c2]] as LevelTriplet[];
-      if (step && !(onePhaseApart(t[0]!, t[1]!) && onePhaseApart(t[1]!, t[2]!))) continue;
-      const perPhase = PHASES.map((ph, k) => phasePath(ph, k, [t[0]![k], t[1]![k], t[2]![k]] as number[]));
-      if (perPhase.some((p) => p === null)) continue;
-      const paths = perPhase as PhasePath[];
-      const jumps: LevelJump[] = [];
-      PHASES.forEach((ph, k) => {
-        for (let s = 0; s < 2; s++) {
-          const [a, b] = [t[s]![k] as number, t[s + 1]![k] as number];
-          if (Math.abs(levels.indexOf(b) - levels.indexOf(a)) > 1) jumps.push({ phase: ph, from: a, to: b });
+    const r0 = triplets[order[0]] as readonly LevelTriplet[];
+    const r1 = triplets[order[1]] as readonly LevelTriplet[];
+    const r2 = triplets[order[2]] as readonly LevelTriplet[];
+    const x0 = at[order[0]] as Int32Array;
+    const x1 = at[order[1]] as Int32Array;
+    const x2 = at[order[2]] as Int32Array;
+    for (let c0 = 0; c0 < r0.length; c0++) for (let c1 = 0; c1 < r1.length; c1++) {
+      const a0 = 3 * c0;
+      const a1 = 3 * c1;
+      // under the sequence rule the first step must change one phase: tested before the third
+      // vertex's realisations are gone through (the order of the search is unchanged)
+      if (step && !apart(x0, a0, x1, a1)) continue;
+      for (let c2 = 0; c2 < r2.length; c2++) {
+        const a2 = 3 * c2;
+        if (step && !apart(x1, a1, x2, a2)) continue;
+        const pa = phasePath(0, x0[a0] as number, x1[a1] as number, x2[a2] as number);
+        if (pa === null) continue;
+        const pb = phasePath(1, x0[a0 + 1] as number, x1[a1 + 1] as number, x2[a2 + 1] as number);
+        if (pb === null) continue;
+        const pc = phasePath(2, x0[a0 + 2] as number, x1[a1 + 2] as number, x2[a2 + 2] as number);
+        if (pc === null) continue;
+        const t0 = r0[c0] as LevelTriplet;
+        const t1 = r1[c1] as LevelTriplet;
+        const t2 = r2[c2] as LevelTriplet;
+        const line = pa.line + pb.line + pc.line;
+        const total = pa.total + pb.total + pc.total;
+        let jumps = 0;
+        for (let k = 0; k < 3; k++) {
+          if (Math.abs((x1[a1 + k] as number) - (x0[a0 + k] as number)) > 1) jumps++;
+          if (Math.abs((x2[a2 + k] as number) - (x1[a1 + k] as number)) > 1) jumps++;
         }
-      });
-      const rank = [sum(paths.map((p) => p.line)), sum(paths.map((p) => p.total)), jumps.length, sum(paths.map((p) => p.pref))];
-      if (best && !lexLess(rank, best.rank)) continue;
-      const choice = [0, 0, 0] as [number, number, number];
-      [choice[order[0]], choice[order[1]], choice[order[2]]] = [c0, c1, c2];
-      const states = [0, 1, 2].map((s) => paths.map((p) => p.states[s]) as unknown as LegState) as unknown as [LegState, LegState, LegState];
-      const changes = paths.flatMap((p) => Object.entries(p.changes)).sort(([a], [b]) => (a < b ? -1 : 1));
-      best = {
-        rank,
-        seq: {
+        const pref = pa.pref + pb.pref + pc.pref;
+        if (best !== null && !(line < bestLine || (line === bestLine && (total < bestTotal || (total === bestTotal && (jumps < bestJumps || (jumps === bestJumps && pref < bestPref))))))) continue;
+        [bestLine, bestTotal, bestJumps, bestPref] = [line, total, jumps, pref];
+        const t = [t0, t1, t2] as const;
+        const paths = [pa, pb, pc];
+        const levelJumps: LevelJump[] = [];
+        PHASES.forEach((ph, k) => {
+          for (let s = 0; s < 2; s++) {
+            const [a, b] = [t[s]![k] as number, t[s + 1]![k] as number];
+            if (Math.abs(levels.indexOf(b) - levels.indexOf(a)) > 1) levelJumps.push({ phase: ph, from: a, to: b });
+          }
+        });
+        const choice = [0, 0, 0] as [number, number, number];
+        [choice[order[0]], choice[order[1]], choice[order[2]]] = [c0, c1, c2];
+        const states = [0, 1, 2].map((s) => paths.map((p) => p.states[s]) as unknown as LegState) as unknown as [LegState, LegState, LegState];
+        const changes = paths.flatMap((p) => Object.entries(p.changes)).sort(([a], [b]) => (a < b ? -1 : 1));
+        best = {
           order, choice, states,
           gateChanges: Object.fromEntries(changes),
-          totalGateChanges: rank[1] as number,
-          levelJumps: jumps,
+          totalGateChanges: total,
+          levelJumps,
           lineDevicesSwitching: paths.flatMap((p) => p.lineSwitching),
-        },
-      };
+        };
+      }
     }
   }
-  return best ? best.seq : null;
+  return best;
 }
 
 interface PhasePath {
@@ -162,10 +209,6 @@ function bestPhasePath(ph: Phase, lv: readonly number[], cands: (level: number) 
  */
 export function gateDifference(a: readonly string[], b: readonly string[]): string[] {
   return [...a.filter((g) => !b.includes(g)), ...b.filter((g) => !a.includes(g))];
-}
-
-function onePhaseApart(a: LevelTriplet, b: LevelTriplet): boolean {
-  return (a[0] !== b[0] ? 1 : 0) + (a[1] !== b[1] ? 1 : 0) + (a[2] !== b[2] ? 1 : 0) === 1;
 }
 
 const PERMUTATIONS: readonly (readonly [number, number, number])[] = [[0, 1, 2], [0, 2, 1], [1, 0, 2], [1, 2, 0], [2, 0, 1], [2, 1, 0]];
