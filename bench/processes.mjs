@@ -1,7 +1,8 @@
 // Whole-process figures for the speed goals users feel (`pnpm bench` runs this after run.mjs):
 // start-up, `plan` on a 21-level diode-clamped leg against a three-level one, `report` on a
-// 9-level leg against a three-level one. Commands run in turn (A B A B …) and the ratio is taken
-// pair by pair, so that a drift in the shared machine's speed moves both sides; medians printed.
+// 9-level leg against a three-level one, and the peak memory of `report` on an 11-level leg.
+// Commands run in turn (A B A B …) and the ratio is taken pair by pair, so that a drift in the
+// shared machine's speed moves both sides; medians printed.
 import { spawnSync } from 'node:child_process';
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -84,6 +85,19 @@ try {
   alone('atlas, every single fault of the 5 built-in legs, 181 angles', ['--input-type=module', '-e', allLegs], 1000);
   alone('atlas --pairs, ANPC open faults, 37 angles, --jobs 2', [BIN, 'atlas', '--topology', 'anpc', '--modes', 'open', '--pairs', '--step', '5', '--jobs', '2', '--json'], 10000);
   paired('report, 9-level diode-clamped leg against npc', [BIN, 'report', '--topology', leg9, '--out', out('r9.html')], [BIN, 'report', '--topology', 'npc', '--out', out('r3.html')], 4);
+  // peak memory of an 11-level report: the CLI's main run in a process that then prints its own
+  // peak resident set (the operating system's figure, kilobytes), largest of three runs
+  const leg11 = join(dir, 'leg11.json');
+  writeFileSync(leg11, JSON.stringify(diodeClampedLeg(11)));
+  const MAIN = new URL('../packages/cli/dist/main.js', import.meta.url).href;
+  const args = ['report', '--topology', leg11, '--out', out('r11.html')];
+  const probe = `const { main } = await import(${JSON.stringify(MAIN)}); const code = await main(${JSON.stringify(args)}, { stdout: async () => {}, stderr: (t) => process.stderr.write(t) }); if (code !== 0) process.exit(code); process.stdout.write(String(process.resourceUsage().maxRSS));`;
+  const peaks = [0, 1, 2].map(() => {
+    const r = spawnSync(process.execPath, ['--input-type=module', '-e', probe], { encoding: 'utf8' });
+    if (r.status !== 0) throw new Error(`report of an 11-level leg exited ${r.status}: ${r.stderr}`);
+    return Number(r.stdout) / 1024;
+  });
+  console.log(`${'report, 11-level diode-clamped leg, peak memory'.padEnd(58)} ${Math.max(...peaks).toFixed(0).padStart(6)} MB largest of 3 (goal < 200 MB)`);
 } finally {
   rmSync(dir, { recursive: true, force: true });
 }
