@@ -5,7 +5,8 @@ import type { LevelMove } from './commutation.js';
 import type { Phase } from './faults.js';
 import type { LegTable, PhasePolarity } from './legTable.js';
 import { POLARITY_STRINGS, type PolarityString } from './polarity.js';
-import { diagramScale, levelSetScale, offerKey, polarityDiagram, type PhaseOffer, type PolarityDiagram } from './polarityDiagram.js';
+import { diagramScale, levelSetScale } from './diagramScale.js';
+import { offerKey, polarityDiagram, type PhaseOffer, type PolarityDiagram } from './polarityDiagram.js';
 import type { LimitRules } from './rules.js';
 import { BoundedCache } from './boundedCache.js';
 
