@@ -62,7 +62,8 @@ export type StepAllowed = (phase: number, a: PhaseState, b: PhaseState) => boole
  *   (same candidates) to solve each phase/level combination once
  * @param step - the sequence rule; with it consecutive states differ in exactly one phase, by a step
  *   it allows (the same pattern pair both ways), and the other phases keep their pattern
- * @returns the chosen sequence, or `null` when a vertex cannot be realised (or no order obeys the rule)
+ * @returns the chosen sequence, or `null` when a vertex cannot be realised (a level not among
+ *   `levels`, no pattern for a level, or no order that obeys the rule)
  * @example
  * ```ts
  * chooseSequence([[[0, 0, 0]], [[1, 0, 0]], [[1, 1, 0]]], candidates, [-1, 0, 1], new Set())?.order;
@@ -90,7 +91,8 @@ export function chooseSequence(
     }
     return p;
   };
-  // each realisation as the positions of its three levels in the leg, found once per vertex
+  // each realisation as the positions of its three levels in the leg, found once per vertex (a
+  // level the leg does not have cannot be realised)
   const at = triplets.map((list) => {
     const ix = new Int32Array(3 * list.length);
     list.forEach((t, c) => {
@@ -98,6 +100,7 @@ export function chooseSequence(
     });
     return ix;
   });
+  if (at.some((ix) => ix.includes(-1))) return null;
   // one phase changes between the realisations at offsets a and b (of the two position arrays)
   const apart = (x: Int32Array, a: number, y: Int32Array, b: number) =>
     (x[a] !== y[b] ? 1 : 0) + (x[a + 1] !== y[b + 1] ? 1 : 0) + (x[a + 2] !== y[b + 2] ? 1 : 0) === 1;
