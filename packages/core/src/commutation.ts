@@ -186,21 +186,22 @@ export function phaseCommutations(solve: GateSetSolver, patterns: readonly (read
     return list.sort((x, y) => x[0] - y[0] || x[1] - y[1]);
   };
   const any = () => true;
+  // A sign's moves among the level pairs `wanted` accepts, given the '?' moves among the same pairs:
+  // an order that serves both signs serves each, so where the '?' moves already join every wanted
+  // pair of the sign's levels both ways (and the levels are the same), they are the sign's moves
+  // and need no search of their own (the usual case for a healthy phase)
+  const signMoves = (sign: CurrentSign, robust: readonly LevelMove[], wanted: (l1: number, l2: number) => boolean): readonly LevelMove[] => {
+    const level = levelOf(sign);
+    const levels = [...new Set(level.filter((l): l is number => l !== null))];
+    const robustLevels = new Set(levelOf('?').filter((l): l is number => l !== null));
+    const same = levels.length === robustLevels.size && levels.every((l) => robustLevels.has(l));
+    const pairs = levels.reduce((n, l1) => n + levels.filter((l2) => l1 !== l2 && wanted(l1, l2)).length, 0);
+    return same && robust.length === pairs ? robust : levelMoves(sign, level, wanted);
+  };
   let all: Record<PhasePolarity, readonly LevelMove[]> | undefined;
   const computeAll = (): Record<PhasePolarity, readonly LevelMove[]> => {
-    // '?' first: an order that serves both signs serves each, so where the '?' moves already join
-    // every pair of a sign's levels (and the levels are the same), that sign's moves are the same
-    // set and need no search of their own (the usual case for a healthy phase)
-    const robustLevel = levelOf('?');
-    const robust = levelMoves('?', robustLevel, any);
-    const moves: Record<PhasePolarity, readonly LevelMove[]> = { '?': robust, '+': robust, '-': robust };
-    for (const sign of ['+', '-'] as const) {
-      const level = levelOf(sign);
-      const levels = [...new Set(level.filter((l): l is number => l !== null))].sort((x, y) => x - y);
-      const same = levels.length === new Set(robustLevel.filter((l) => l !== null)).size && levels.every((l) => robustLevel.includes(l));
-      moves[sign] = same && robust.length === levels.length * (levels.length - 1) ? robust : levelMoves(sign, level, any);
-    }
-    return moves;
+    const robust = levelMoves('?', levelOf('?'), any);
+    return { '?': robust, '+': signMoves('+', robust, any), '-': signMoves('-', robust, any) };
   };
   const adjacent = new Map<string, readonly LevelMove[]>();
   const adjacentMoves = (pol: PhasePolarity, dcLevels: readonly number[]): readonly LevelMove[] => {
@@ -209,18 +210,7 @@ export function phaseCommutations(solve: GateSetSolver, patterns: readonly (read
     if (!r) {
       const near = (l1: number, l2: number) => Math.abs(dcLevels.indexOf(l1) - dcLevels.indexOf(l2)) === 1;
       if (all) r = all[pol].filter(([l1, l2]) => near(l1, l2));
-      else if (pol === '?') r = levelMoves(pol, levelOf(pol), near);
-      else {
-        // as in computeAll: the '?' moves serve this sign too, so where they already join every pair
-        // of neighbouring levels both ways (and the levels are the same) they are this sign's moves
-        const robust = adjacentMoves('?', dcLevels);
-        const level = levelOf(pol);
-        const levels = [...new Set(level.filter((l): l is number => l !== null))];
-        const robustLevels = new Set(levelOf('?').filter((l): l is number => l !== null));
-        const pairs = levels.reduce((n, l1) => n + levels.filter((l2) => near(l1, l2)).length, 0);
-        const same = levels.length === robustLevels.size && levels.every((l) => robustLevels.has(l));
-        r = same && robust.length === pairs ? robust : levelMoves(pol, level, near);
-      }
+      else r = pol === '?' ? levelMoves(pol, levelOf(pol), near) : signMoves(pol, adjacentMoves('?', dcLevels), near);
       adjacent.set(key, r);
     }
     return r;
