@@ -56,12 +56,7 @@ export function analyseLeg(options: AnalyseLegOptions): LegAnalysis {
   const legKey = JSON.stringify(leg);
   const tableOf = (faults: ReadonlyMap<string, string>) => {
     const key = `${rules.ratings}|${[...faults].map(([e, m]) => `${e}:${m}`).sort().join(',')}|${legKey}`;
-    let t = TABLES.get(key);
-    if (!t) {
-      t = legTable(leg, faults as never, rules.ratings);
-      TABLES.set(key, t);
-    }
-    return t;
+    return TABLES.through(key, () => legTable(leg, faults as never, rules.ratings));
   };
   const healthy = tableOf(new Map());
   const phases = {} as Record<Phase, LegTable>;

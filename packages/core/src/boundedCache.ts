@@ -48,6 +48,25 @@ export class BoundedCache<V> {
     return this;
   }
 
+  /**
+   * The value for a key, made (and stored, frozen) on the first ask.
+   *
+   * @param key - the key
+   * @param make - computes the value when the key is not stored
+   * @returns the stored value
+   * @example
+   * ```ts
+   * const sectors = SECTORS.through(`${load}|${margin}`, () => polaritySectors(load, margin));
+   * ```
+   */
+  through(key: string, make: () => V): V {
+    const known = this.get(key);
+    if (known !== undefined) return known;
+    const v = make();
+    this.set(key, v);
+    return v;
+  }
+
   /** Number of entries. */
   get size(): number {
     return this.#map.size;

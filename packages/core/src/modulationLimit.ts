@@ -12,13 +12,7 @@ const RAD = Math.PI / 180;
 const SECTORS = new BoundedCache<readonly PolaritySector[]>(2048);
 
 function sharedSectors(loadAngleDeg: number, marginDeg: number): readonly PolaritySector[] {
-  const key = `${loadAngleDeg}|${marginDeg}`;
-  let s = SECTORS.get(key);
-  if (!s) {
-    s = polaritySectors(loadAngleDeg, marginDeg);
-    SECTORS.set(key, s);
-  }
-  return s;
+  return SECTORS.through(`${loadAngleDeg}|${marginDeg}`, () => polaritySectors(loadAngleDeg, marginDeg));
 }
 
 /**

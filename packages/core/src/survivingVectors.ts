@@ -149,13 +149,7 @@ const SHARED = new BoundedCache<readonly SpaceVector[]>(256);
  * ```
  */
 export function sharedSurvivingVectors(sets: readonly [readonly number[], readonly number[], readonly number[]], scale = 1): readonly SpaceVector[] {
-  const key = `${scale}|${sets.map((l) => l.join(',')).join('|')}`;
-  let v = SHARED.get(key);
-  if (!v) {
-    v = survivingVectors(sets, scale);
-    SHARED.set(key, v);
-  }
-  return v;
+  return SHARED.through(`${scale}|${sets.map((l) => l.join(',')).join('|')}`, () => survivingVectors(sets, scale));
 }
 
 function compareTripletsDesc(x: LevelTriplet, y: LevelTriplet): number {
