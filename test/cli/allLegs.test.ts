@@ -30,8 +30,10 @@ describe('hexsalvage cycle', () => {
     const r = await runInProcess(['cycle', '--topology', 'tnpc', '--fault', 'a.neutralToOut', '--m', '1.1', '--load-angle', '80', '--ratio', '240', '--json']);
     expect(r.code).toBe(0);
     const d = JSON.parse(r.stdout);
-    expect(d.voltSecondErrorMax).toBeLessThan(1e-12);
+    // volt-seconds exact but where a chain of one-phase steps had to be inserted
+    if (d.chainSteps === 0) expect(d.voltSecondErrorMax).toBeLessThan(1e-12);
     expect(d.midpointDrift).toBe(true);
+    expect(d.midpointCurrent.runtime).toBeGreaterThan(0.05);
     const ok = JSON.parse((await runInProcess(['cycle', '--topology', 'npc', '--m', '1', '--load-angle', '30', '--json'])).stdout);
     expect(ok.midpointDrift).toBe(false);
   });

@@ -38,7 +38,7 @@ describe('exportCsv', () => {
 
 // A C program that reads "p alpha beta" lines and prints, per reference, the triangle (within its
 // polarity), the three dwell times, the clamp flag, the polarity index of +-?, and the nine gate
-// masks of the triangle's states.
+// masks of each vertex's first realisation.
 const DRIVER_C = `#include <stdio.h>
 #include "pump_table.h"
 int main(void) {
@@ -47,7 +47,7 @@ int main(void) {
     t = pump_locate(p, a, b, d, &clamped);
     if (t < 0) { printf("-1\\n"); continue; }
     printf("%d %.17g %.17g %.17g %d %d", t - pump_tri_first[p], d[0], d[1], d[2], clamped, pump_polarity_index(1, -1, 0));
-    for (v = 0; v < 3; v++) for (k = 0; k < 3; k++) printf(" %lu", (unsigned long)pump_state_mask[t][v][k]);
+    for (v = 0; v < 3; v++) for (k = 0; k < 3; k++) printf(" %lu", (unsigned long)pump_real_mask[pump_real_first[3 * t + v]][k]);
     printf("\\n");
   }
   return 0;
@@ -58,9 +58,8 @@ int main(void) {
 // by phase, bit i = gated device i (table.devices), from each state's pattern.
 function expectedMasks(table: ReturnType<typeof switchingTable>, p: number, t: number): number[] {
   const tri = table.polarities[POLARITY_STRINGS[p]!]!.tableTriangles[t]!;
-  const seq = tri.sequence;
-  return tri.vertices.flatMap((v, k) => {
-    const phases = seq ? seq.states[seq.order.indexOf(k)]! : v.realisations[0]!.phases;
+  return tri.vertices.flatMap((v) => {
+    const phases = v.realisations[0]!.phases;
     return phases.map((s) => table.patternGates[table.patterns.indexOf(s.pattern)]!.reduce((m, g) => m + 2 ** table.devices.indexOf(g), 0));
   });
 }

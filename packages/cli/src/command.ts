@@ -40,3 +40,9 @@ export const ANGLE_OPTIONS: readonly OptionSpec[] = [
   { name: 'polarity-margin', type: 'number', min: 0, max: 60, value: 'DEG', help: 'polarity margin delta in degrees, 0 <= delta < 60 (default 0)' },
 ];
 
+
+/** The runtime's settings (contract, Version 3), as `table`, `export`, `cycle`, `simulate` and `report` take them. */
+export const RUNTIME_OPTIONS: readonly OptionSpec[] = [
+  { name: 'sequence', type: 'string', value: 'S', help: 'continuous (default: the centred seven-segment sequence) or discontinuous (one phase clamped per period)' },
+  { name: 'balance', type: 'string', value: 'on|off', help: 'on (default): the redundant dwell split holds the midpoint; off: split equally' },
+];

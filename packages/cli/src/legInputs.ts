@@ -1,4 +1,4 @@
-import { LEVEL_STEP_RULES, type LegNetlist, type LevelStepRule } from '@hexsalvage/core';
+import { LEVEL_STEP_RULES, SEQUENCE_MODES, UPDATE_MODES, type LegNetlist, type LevelStepRule, type SequenceMode, type UpdateMode } from '@hexsalvage/core';
 import { usage, type ParsedArgs } from './args.js';
 import { loadTopology } from './loadTopology.js';
 
@@ -77,4 +77,41 @@ export function ruleInputs(args: ParsedArgs): { ignoreRatings: boolean; levelSte
  */
 export function vdcInput(args: ParsedArgs): number | undefined {
   return args.values.get('vdc') as number | undefined;
+}
+
+/**
+ * Reads `--sequence` and `--balance` (contract, Version 3) with their defaults.
+ *
+ * @param args - parsed command line
+ * @returns the runtime settings
+ * @throws HexsalvageInputError for an unknown value
+ * @example
+ * ```ts
+ * runtimeInputs(args); // { sequence: 'continuous', balance: 'on' }
+ * ```
+ */
+export function runtimeInputs(args: ParsedArgs): { sequence: SequenceMode; balance: 'on' | 'off' } {
+  const sequence = args.values.get('sequence') ?? 'continuous';
+  if (!(SEQUENCE_MODES as readonly unknown[]).includes(sequence)) throw usage('--sequence', `one of ${SEQUENCE_MODES.join(', ')}`, sequence);
+  const balance = args.values.get('balance') ?? 'on';
+  if (balance !== 'on' && balance !== 'off') throw usage('--balance', 'on or off', balance);
+  return { sequence: sequence as SequenceMode, balance };
+}
+
+/**
+ * Reads `--update`: when the runtime samples the reference.
+ *
+ * @param args - parsed command line
+ * @param fallback - the command's default
+ * @returns `period` or `half`
+ * @throws HexsalvageInputError for an unknown value
+ * @example
+ * ```ts
+ * updateInput(args, 'period');
+ * ```
+ */
+export function updateInput(args: ParsedArgs, fallback: UpdateMode): UpdateMode {
+  const u = args.values.get('update') ?? fallback;
+  if (!(UPDATE_MODES as readonly unknown[]).includes(u)) throw usage('--update', `one of ${UPDATE_MODES.join(', ')}`, u);
+  return u as UpdateMode;
 }

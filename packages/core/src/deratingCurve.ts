@@ -1,6 +1,6 @@
 import type { DiagramAtlas } from './diagramAtlas.js';
 import { HexsalvageInputError } from './errors.js';
-import { extentGeometry, modulationLimit, type ExtentKind } from './modulationLimit.js';
+import { extentGeometry, limitOverLoadAngles, modulationLimit, type ExtentKind } from './modulationLimit.js';
 import { requireNumber, requireObject } from './validate.js';
 import type { PolarityDiagram } from './polarityDiagram.js';
 import { polaritySectors, type PolaritySector } from './polaritySectors.js';
@@ -179,4 +179,41 @@ function sectorValue(diagrams: ReadonlyMap<string, PolarityDiagram>, phi: number
 
 function roundDeg(x: number): number {
   return Math.round(x * 1e9) / 1e9;
+}
+
+/** Options of {@link deratingSteps}. */
+export interface DeratingStepsOptions {
+  /** Cell width, degrees; 360 must be a whole number of cells. Default 0.5. */
+  readonly stepDeg?: number;
+  /** Polarity margin δ, degrees. Default 0. */
+  readonly polarityMarginDeg?: number;
+}
+
+/**
+ * The safe limit over load angle as a step function that is never above it: the exact minimum of
+ * mMax over each cell `[−180 + i·step, −180 + (i+1)·step]` (breakpoints inside a cell included, as
+ * `check` computes a range). What the C header's `<prefix>_m_max_at()` returns.
+ *
+ * @param atlas - diagrams of the faulted leg
+ * @param options - cell width and margin
+ * @returns the cell width and one minimum per cell, from −180°
+ * @throws HexsalvageInputError on a bad cell width or margin
+ * @example
+ * ```ts
+ * deratingSteps(diagramAtlas({ topology: 'npc', faults: ['a.outerUpper'] })).minima.length; // 720
+ * ```
+ */
+export function deratingSteps(atlas: DiagramAtlas, options: DeratingStepsOptions = {}): { readonly stepDeg: number; readonly minima: readonly number[] } {
+  requireObject(options, 'deratingSteps', 'an options object { stepDeg?, polarityMarginDeg? }');
+  const stepDeg = requireNumber(options.stepDeg ?? 0.5, 'deratingSteps', 'stepDeg', { min: 0.01, max: 360 });
+  const cells = Math.round(360 / stepDeg);
+  if (Math.abs(cells * stepDeg - 360) > 1e-9) throw new HexsalvageInputError('option', 'deratingSteps', 'stepDeg', 'a cell width that divides 360 degrees', stepDeg);
+  const margin = requireNumber(options.polarityMarginDeg ?? 0, 'deratingSteps', 'polarityMarginDeg', { min: 0, max: 60, openMax: true });
+  const minima: number[] = [];
+  for (let i = 0; i < cells; i++) {
+    const lo = -180 + i * stepDeg;
+    const hi = i === cells - 1 ? 180 : -180 + (i + 1) * stepDeg;
+    minima.push(limitOverLoadAngles(atlas.faulted, lo, hi, margin).mMax);
+  }
+  return { stepDeg, minima };
 }

@@ -1,5 +1,8 @@
 import { CAUTIONS } from './cautions.js';
+import { cRuntimeCode, cRuntimeTables, intType } from './cRuntime.js';
+import { runtimeOptions, type RuntimeOptions } from './createRuntime.js';
 import { HexsalvageInputError } from './errors.js';
+import { runtimeProgram } from './runtimeProgram.js';
 import type { SwitchingTable } from './switchingTable.js';
 import { DWELL_TOLERANCE } from './tolerance.js';
 import { requireObject } from './validate.js';
@@ -16,6 +19,14 @@ export interface ExportCOptions {
   readonly limits?: { readonly mMax: number; readonly mMaxHull: number; readonly loadAngleDeg: number; readonly polarityMarginDeg: number; readonly rules: { readonly ratings: boolean; readonly levelSteps: string } };
   /** Total DC-link voltage in volts, as `<PREFIX>_VDC`. */
   readonly vdc?: number;
+  /** The runtime settings the header's defaults name (`<PREFIX>_RUNTIME_*`). Default: continuous, balance on. */
+  readonly runtime?: RuntimeOptions;
+  /**
+   * The safe limit over load angle for `<prefix>_m_max_at()`: the exact minimum of mMax over each
+   * cell of a grid from −180°, `stepDeg` wide (see `deratingSteps`). Without it the function returns
+   * `<PREFIX>_M_MAX` at the exported load angle only and 0 elsewhere.
+   */
+  readonly derating?: { readonly stepDeg: number; readonly minima: readonly number[] };
 }
 
 /**
@@ -62,15 +73,11 @@ export function exportC(table: SwitchingTable, options: ExportCOptions = {}): st
     for (const g of gates) { const i = devices.indexOf(g); if (i >= 0) m |= 1n << BigInt(i); }
     return `0x${m.toString(16).toUpperCase()}${wideMask ? 'ULL' : 'UL'}`;
   };
-  const stateMask: string[] = [];
   const realFirst: number[] = [0];
   const realLevels: string[] = [];
   const realMask: string[] = [];
   const realSign: number[] = [];
   const dwell: string[] = [];
-  const levels: string[] = [];
-  const patterns: string[] = [];
-  const order: string[] = [];
   const hull: string[] = [];
   const outline: string[] = [];
   const triFirst: number[] = [0];
@@ -80,20 +87,7 @@ export function exportC(table: SwitchingTable, options: ExportCOptions = {}): st
     const p = table.polarities[pol];
     const tris = p?.tableTriangles ?? [];
     tris.forEach((tri, t) => {
-      const seq = tri.sequence;
       dwell.push(`  /* ${pol.replace(/\?/g, 'x')} #${t} */ {${tri.dwell.flat().map(c).join(', ')}}`);
-      const rz = tri.vertices.map((v, k) => (seq ? v.realisations[seq.choice[k] as number] : v.realisations[0]));
-      levels.push(`  {${rz.map((r) => `{${(r?.levels ?? [0, 0, 0]).map(c).join(', ')}}`).join(', ')}}`);
-      const pat = tri.vertices.map((_, k) => {
-        const st = seq ? seq.states[seq.order.indexOf(k)] : rz[k]?.phases;
-        return `{${(st ?? []).map((s) => table.patterns.indexOf(s.pattern)).join(', ')}}`;
-      });
-      patterns.push(`  {${pat.join(', ')}}`);
-      order.push(`  {${(seq?.order ?? [0, 1, 2]).join(', ')}}`);
-      stateMask.push(`  {${tri.vertices.map((_, k) => {
-        const st = seq ? seq.states[seq.order.indexOf(k)] : rz[k]?.phases;
-        return `{${(st ?? []).map((x) => maskOf(x.pattern)).join(', ')}}`;
-      }).join(', ')}}`);
       for (const v of tri.vertices) {
         for (const r of v.realisations) {
           realLevels.push(`  {${r.levels.map(c).join(', ')}}`);
@@ -115,7 +109,13 @@ export function exportC(table: SwitchingTable, options: ExportCOptions = {}): st
   const nReal = realFirst[realFirst.length - 1] as number;
   const body = (rows: string[], empty: string) => (rows.length ? rows.join(',\n') : empty);
   const R = real === 'float' ? 4 : 8;
-  const bytes = nTri * (9 * R + 9 * R + 9 + 3 + 9 * (wideMask ? 8 : 4)) + nHull * 2 * R + nOutline * 4 * R + nReal * (3 * R + 3 * (wideMask ? 8 : 4) + 1) + (3 * nTri + 1) * 4;
+  const program = runtimeProgram(table);
+  const rtOpts = runtimeOptions(options.runtime ?? {}, 'exportC.runtime');
+  const runtimeTables = cRuntimeTables(program, { px, PX, real: c });
+  const derating = deratingTable(options, c, px, PX);
+  // the size of the tables: every initialiser counted (numbers, masks) at the width of its type
+  const bytes = (nTri * 9 + nHull * 2 + nOutline * 4 + nReal * 3) * R + nReal * 3 * (wideMask ? 8 : 4) + nReal + (3 * nTri + 1) * 4 + runtimeBytes(runtimeTables, R);
+  const firstType = intType(0, Math.max(nTri, nHull, nOutline));
   const lim = options.limits;
   const defines = [
     ...(lim ? [
@@ -126,6 +126,9 @@ export function exportC(table: SwitchingTable, options: ExportCOptions = {}): st
       `#define ${PX}_RULE_RATINGS ${lim.rules.ratings ? 1 : 0} /* 1: device voltage ratings applied */`,
       `#define ${PX}_RULE_LEVEL_STEPS ${cString(lim.rules.levelSteps)}`,
     ] : []),
+    `#define ${PX}_RUNTIME_CONTINUOUS ${rtOpts.sequence === 'continuous' ? 1 : 0} /* ${px}_runtime_init defaults: 1 seven segments, 0 one phase clamped */`,
+    `#define ${PX}_RUNTIME_BALANCE ${rtOpts.balance === 'on' ? 1 : 0}`,
+    `#define ${PX}_RUNTIME_CHAIN_DWELL ${c(rtOpts.chainDwell)} /* fraction of the switching period per chained state */`,
     ...(options.vdc !== undefined ? [`#define ${PX}_VDC ${c(options.vdc)} /* total DC-link voltage, volts: one unit of Vdc/2 is ${PX}_VDC / 2 */`] : []),
   ];
   return `/*
@@ -158,28 +161,15 @@ static const char *const ${px}_pattern_names[${PX}_PATTERN_COUNT] = {${table.pat
 static const char *const ${px}_device_names[${Math.max(1, devices.length)}] = {${devices.length ? devices.map(cString).join(', ') : '0'}};
 /* gate mask of each pattern (bit i = device i) */
 static const ${maskType} ${px}_pattern_mask[${PX}_PATTERN_COUNT] = {${table.patterns.map(maskOf).join(', ')}};
-static const unsigned short ${px}_tri_first[${PX}_POLARITY_COUNT + 1] = {${triFirst.join(', ')}};
-static const unsigned short ${px}_hull_first[${PX}_POLARITY_COUNT + 1] = {${hullFirst.join(', ')}};
-static const unsigned short ${px}_outline_first[${PX}_POLARITY_COUNT + 1] = {${outlineFirst.join(', ')}};
+static const ${firstType} ${px}_tri_first[${PX}_POLARITY_COUNT + 1] = {${triFirst.join(', ')}};
+static const ${firstType} ${px}_hull_first[${PX}_POLARITY_COUNT + 1] = {${hullFirst.join(', ')}};
+static const ${firstType} ${px}_outline_first[${PX}_POLARITY_COUNT + 1] = {${outlineFirst.join(', ')}};
 static const ${px}_real ${px}_dwell[${Math.max(1, nTri)}][9] = {
 ${body(dwell, '  {0}')}
 };
-static const ${px}_real ${px}_levels[${Math.max(1, nTri)}][3][3] = {
-${body(levels, '  {{0}}')}
-};
-static const unsigned char ${px}_pattern[${Math.max(1, nTri)}][3][3] = {
-${body(patterns, '  {{0}}')}
-};
-static const unsigned char ${px}_order[${Math.max(1, nTri)}][3] = {
-${body(order, '  {0}')}
-};
-/* gate masks of the state applied at each vertex, per phase (the realisation the sequence chose) */
-static const ${maskType} ${px}_state_mask[${Math.max(1, nTri)}][3][3] = {
-${body(stateMask, '  {{0}}')}
-};
-/* Every realisation of each vertex, for firmware that splits a small vector's dwell between its
- * redundant states: vertex v of global triangle t has rows [real_first[3t+v], real_first[3t+v+1]).
- * midpoint sign under the polarity: +1 / -1 (current into / out of the midpoint), 0 none, 2 unknown. */
+/* Every realisation of each vertex (for review; the runtime below chooses among them): vertex v of
+ * global triangle t has rows [real_first[3t+v], real_first[3t+v+1]). Sign of the current into the
+ * midpoint node under the polarity: +1, -1, 0 none, 2 unknown. */
 static const uint32_t ${px}_real_first[${PX}_TRIANGLE_COUNT * 3 + 1] = {${realFirst.join(', ')}};
 static const ${px}_real ${px}_real_levels[${Math.max(1, nReal)}][3] = {
 ${body(realLevels, '  {0}')}
@@ -207,6 +197,8 @@ static inline int ${px}_polarity_index(int sa, int sb, int sc)
   /* +++ (0) is skipped, and --- (13) too */
   return k - 1 - (k > 13 ? 1 : 0);
 }
+
+${derating}
 
 static inline int ${px}_inside_(int t, double a, double b, double d[3])
 {
@@ -310,8 +302,57 @@ static inline int ${px}_locate(int p, double alpha, double beta, double dwell[3]
   return best;
 }
 
+${runtimeTables}
+
+${cRuntimeCode({ px, PX, real: c })}
 #endif /* ${guard} */
 `;
+}
+
+// `<prefix>_m_max_at()`: the cell minima of the safe limit over load angle (a step function never
+// above mMax), or the exported load angle's limit alone.
+function deratingTable(options: ExportCOptions, c: (x: number) => string, px: string, PX: string): string {
+  const dr = options.derating;
+  if (!dr) {
+    const lim = options.limits;
+    return `/* Safe limit at a load angle: only the exported angle is known to this header (export with the
+ * derating grid for every angle); 0 (do not run) elsewhere. */
+static inline double ${px}_m_max_at(double load_angle_deg)
+{
+  return ${lim ? `load_angle_deg == ${c(lim.loadAngleDeg)} ? ${c(lim.mMax)} : ` : '(void)load_angle_deg, '}0.0;
+}`;
+  }
+  const ok = typeof dr === 'object' && dr !== null && Number.isFinite(dr.stepDeg) && dr.stepDeg > 0 && Array.isArray(dr.minima) && dr.minima.length === Math.ceil(360 / dr.stepDeg - 1e-9) && dr.minima.every((m) => Number.isFinite(m) && m >= 0);
+  if (!ok) throw new HexsalvageInputError('option', 'exportC', 'derating', 'a grid { stepDeg > 0, minima: one limit ≥ 0 per cell of [-180, 180] } (from deratingSteps)');
+  return `/* Safe limit over load angle (units of Vdc/2): ${px}_derating[i] is the exact minimum of mMax over
+ * load angles [-180 + i*STEP, -180 + (i+1)*STEP] degrees, so the value is never above mMax. */
+#define ${PX}_DERATING_STEP_DEG ${c(dr.stepDeg)}
+#define ${PX}_DERATING_CELLS ${dr.minima.length}
+static const ${options.cType === 'float' ? 'double' : `${px}_real`} ${px}_derating[${PX}_DERATING_CELLS] = {
+  ${dr.minima.map(c).join(',\n  ')}
+};
+/* The safe modulation index at a load angle in [-180, 180] degrees (currents lagging); 0 outside. */
+static inline double ${px}_m_max_at(double load_angle_deg)
+{
+  double u = (load_angle_deg + 180.0) / ${PX}_DERATING_STEP_DEG;
+  int i;
+  if (!(load_angle_deg >= -180.0 && load_angle_deg <= 180.0)) return 0.0;
+  i = (int)floor(u);
+  if (i < 0) i = 0;
+  if (i >= ${PX}_DERATING_CELLS) i = ${PX}_DERATING_CELLS - 1;
+  return ${px}_derating[i];
+}`;
+}
+
+// Bytes of the runtime's tables: each declaration's element count times its type's width.
+function runtimeBytes(decls: string, realBytes: number): number {
+  let total = 0;
+  const width: Record<string, number> = { uint8_t: 1, int8_t: 1, uint16_t: 2, int16_t: 2, uint32_t: 4, int32_t: 4 };
+  for (const m of decls.matchAll(/static const (\w+) \w+((?:\[[^\]]+\])+) = \{([\s\S]*?)\n\};/g)) {
+    const count = (m[3] as string).split(',').length;
+    total += count * (width[m[1] as string] ?? realBytes);
+  }
+  return total;
 }
 
 // A C string literal: quotes, backslashes and non-printable characters escaped, and every "?"

@@ -25,7 +25,7 @@ export { diagramAtlas, phaseMoves, type DiagramAtlas } from './diagramAtlas.js';
 export { extentGeometry, limitOverLoadAngles, modulationLimit, type ExtentKind, type LimitOverRange, type ModulationLimit } from './modulationLimit.js';
 export { CAUTIONS } from './cautions.js';
 export { PLAN_SCHEMA_VERSION, checkAngle, planFromAtlas, planRemedial, polarityDocument, withVolts, type PlanOptions, type PlanPolarity, type PlanSector, type PlanVector, type RemedialPlan } from './planRemedial.js';
-export { deratingCurve, type DeratingCurveOptions, type DeratingPoint } from './deratingCurve.js';
+export { deratingCurve, deratingSteps, type DeratingCurveOptions, type DeratingPoint, type DeratingStepsOptions } from './deratingCurve.js';
 export { DEFAULT_RULES, LEVEL_STEP_RULES, describeRules, resolveRules, type LevelStepRule, type LimitRuleOptions, type LimitRules } from './rules.js';
 export { ratingCheck, ratingChecker, type RatingCheck } from './ratingCheck.js';
 export { gateSetSolver, usableLevel, type GateSetOutcome, type GateSetSolver } from './gateSetSolver.js';
@@ -55,3 +55,7 @@ export { lineRmsVolts, modulationOfLineRms, phasePeakVolts, planVolts, requireVd
 export { levelNotation, vectorName, type LevelNotation } from './levelNotation.js';
 export { DEMO_DEVICES, conductionLoss, elementParameters, eventEnergy, parseDeviceParameters, type DeviceParameters, type DeviceParameterSet, type DiodeParameters, type ElementParameters, type SwitchParameters } from './deviceLosses.js';
 export { simulatePeriod, simulationWaveform, type DeviceResult, type SimulateOptions, type Simulation, type SimulationResult, type WaveformSegment } from './simulatePeriod.js';
+export { POLARITY_CHARS, patternSteps, type PhaseSteps } from './patternSteps.js';
+export { MAX_CANDIDATES, runtimeProgram, type RuntimeProgram } from './runtimeProgram.js';
+export { SEQUENCE_MODES, createRuntime, runtimeOptions, type Runtime, type RuntimeOptions, type RuntimeOutput, type SequenceMode } from './createRuntime.js';
+export { UPDATE_MODES, runtimeStream, type RuntimeStream, type RuntimeStreamOptions, type StreamSegment, type UpdateMode } from './runtimeStream.js';

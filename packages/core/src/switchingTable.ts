@@ -6,6 +6,7 @@ import type { AnalyseLegOptions } from './analyseLeg.js';
 import { POLARITY_STRINGS, type PolarityString } from './polarity.js';
 import { polarityDocument, type PlanPolarity } from './planRemedial.js';
 import type { PolarityDiagram } from './polarityDiagram.js';
+import { patternSteps, type PhaseSteps } from './patternSteps.js';
 import { polarityTable, type TableTriangle } from './polarityTable.js';
 
 /** Version of the switching-table document layout. */
@@ -40,6 +41,10 @@ export interface SwitchingTable {
   readonly devices: readonly string[];
   /** Per pattern (same order as `patterns`), the gated devices it switches on. */
   readonly patternGates: readonly (readonly string[])[];
+  /** Devices marked `switching: line` (meant to switch at the fundamental frequency). */
+  readonly lineDevices: readonly string[];
+  /** Per phase: the level of each pattern, the pattern changes allowed in one step, and pattern preference, per polarity character (what the runtime reads). */
+  readonly phaseSteps: Readonly<Record<Phase, PhaseSteps>>;
   /** Polarity strings by index. */
   readonly polarityOrder: readonly PolarityString[];
   readonly polarities: Readonly<Record<PolarityString, TablePolarity>>;
@@ -106,6 +111,12 @@ export function switchingTableFromAtlas(atlas: DiagramAtlas): SwitchingTable {
     patterns: Object.keys(leg.patterns),
     devices: gatedDeviceIds(leg),
     patternGates: Object.values(leg.patterns),
+    lineDevices: leg.devices.filter((d) => d.switching === 'line').map((d) => d.id),
+    phaseSteps: {
+      a: patternSteps(atlas.analysis.phases.a, atlas.analysis.healthy, atlas.analysis.rules, legLevels(leg)),
+      b: patternSteps(atlas.analysis.phases.b, atlas.analysis.healthy, atlas.analysis.rules, legLevels(leg)),
+      c: patternSteps(atlas.analysis.phases.c, atlas.analysis.healthy, atlas.analysis.rules, legLevels(leg)),
+    },
     polarityOrder: POLARITY_STRINGS,
     polarities,
     flags: { lineDevicesAtPwm, levelJumps, midpointAuthorityLost, noSequence },

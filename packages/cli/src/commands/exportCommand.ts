@@ -1,7 +1,7 @@
-import { exportC, exportCsv, exportDocument, planRemedial, switchingTable } from '@hexsalvage/core';
+import { deratingSteps, diagramAtlas, exportC, exportCsv, exportDocument, planFromAtlas, switchingTableFromAtlas, withVolts } from '@hexsalvage/core';
 import { usage } from '../args.js';
-import { ANGLE_OPTIONS, HELP_OPTION, LEG_OPTIONS, VDC_OPTION, type Command } from '../command.js';
-import { angleInputs, legInputs, vdcInput } from '../legInputs.js';
+import { ANGLE_OPTIONS, HELP_OPTION, LEG_OPTIONS, RUNTIME_OPTIONS, VDC_OPTION, type Command } from '../command.js';
+import { angleInputs, legInputs, runtimeInputs, vdcInput } from '../legInputs.js';
 import { writeFileAtomic } from '../output.js';
 
 const FORMATS = ['json', 'csv', 'c'] as const;
@@ -10,7 +10,7 @@ const FORMATS = ['json', 'csv', 'c'] as const;
 export const exportCommand: Command = {
   name: 'export',
   summary: 'write the plan and switching table as JSON, CSV or a C header for firmware',
-  usage: 'export --format json|csv|c --out FILE --topology T [--fault F]... [--load-angle DEG] [--polarity-margin DEG] [--prefix ID] [--c-type double|float] [--vdc V]',
+  usage: 'export --format json|csv|c --out FILE --topology T [--fault F]... [--load-angle DEG] [--polarity-margin DEG] [--prefix ID] [--c-type double|float] [--sequence S] [--balance on|off] [--vdc V]',
   options: [
     { name: 'format', type: 'string', value: 'FMT', help: 'json (plan + table), csv (one row per polarity x triangle x vertex) or c (header)' },
     { name: 'out', type: 'string', value: 'FILE', help: 'output file; an existing file is replaced atomically' },
@@ -18,6 +18,7 @@ export const exportCommand: Command = {
     ...ANGLE_OPTIONS,
     { name: 'prefix', type: 'string', value: 'ID', help: 'C symbol prefix (default hs)' },
     { name: 'c-type', type: 'string', value: 'T', help: 'C: floating type of the tables, double (default) or float (half the size, dwell to about 1e-6)' },
+    ...RUNTIME_OPTIONS,
     VDC_OPTION,
     HELP_OPTION,
   ],
@@ -28,16 +29,19 @@ export const exportCommand: Command = {
     if (typeof out !== 'string' || out === '') throw usage('--out', 'an output file path');
     const { topology, faults, rules } = legInputs(args);
     const angles = angleInputs(args);
-    const table = switchingTable({ topology, faults, ...rules });
+    const runtime = runtimeInputs(args);
+    const vdc = vdcInput(args);
+    const atlas = diagramAtlas({ topology, faults, ...rules });
+    const table = switchingTableFromAtlas(atlas);
+    const plan = planFromAtlas(atlas, angles.loadAngleDeg, angles.polarityMarginDeg);
     let text: string;
-    if (format === 'json') text = `${JSON.stringify(exportDocument(planRemedial({ topology, faults, ...rules, ...angles }), table))}\n`;
+    if (format === 'json') text = `${JSON.stringify(exportDocument(vdc === undefined ? plan : withVolts(plan, vdc), table))}\n`;
     else if (format === 'csv') text = exportCsv(table);
     else {
       const cType = (args.values.get('c-type') as string | undefined) ?? 'double';
       if (cType !== 'double' && cType !== 'float') throw usage('--c-type', 'double or float', cType);
-      const plan = planRemedial({ topology, faults, ...rules, ...angles });
-      const vdc = vdcInput(args);
-      text = exportC(table, { prefix: (args.values.get('prefix') as string | undefined) ?? 'hs', cType, fileName: out, limits: plan, ...(vdc === undefined ? {} : { vdc }) });
+      const derating = deratingSteps(atlas, { polarityMarginDeg: angles.polarityMarginDeg });
+      text = exportC(table, { prefix: (args.values.get('prefix') as string | undefined) ?? 'hs', cType, fileName: out, limits: plan, runtime, derating, ...(vdc === undefined ? {} : { vdc }) });
     }
     writeFileAtomic(out, text);
     await io.stdout(`wrote ${out} (${format}, ${Buffer.byteLength(text)} bytes)\n`);
