@@ -1,6 +1,7 @@
 import { existsSync } from 'node:fs';
 import { HexsalvageInputError, parseDeviceParameters, type LegNetlist, type LevelStepRule, type SimulateOptions } from '@hexsalvage/core';
 import { usage, type OptionSpec, type ParsedArgs } from './args.js';
+import { runtimeInputs, updateInput } from './legInputs.js';
 import { readJsonFile } from './readJsonFile.js';
 
 /** The options of one simulated period (`simulate`, `plot losses|spectrum|waveforms`). */
@@ -14,6 +15,10 @@ export const SIM_OPTIONS: readonly OptionSpec[] = [
   { name: 'fsw', type: 'number', min: 0, openMin: true, max: 1e8, value: 'HZ', help: 'switching frequency, Hz (fsw/f1, rounded, periods per fundamental; at least 6)' },
   { name: 'devices', type: 'string', value: 'FILE', help: 'device loss parameters (docs/schema/devices.schema.json); default: invented demo values' },
   { name: 'capacitance', type: 'number', min: 0, openMin: true, max: 1e3, value: 'F', help: 'capacitance of each half of the DC link, farads (midpoint ripple in volts)' },
+  { name: 'dead-time', type: 'number', min: 0, max: 1, value: 'S', help: 'dead time in seconds (default 0; at most a tenth of the switching period)' },
+  { name: 'sequence', type: 'string', value: 'S', help: 'runtime sequence: continuous (default) or discontinuous' },
+  { name: 'balance', type: 'string', value: 'on|off', help: 'runtime midpoint balance: on (default) or off' },
+  { name: 'update', type: 'string', value: 'U', help: 'runtime sampling: half (default: at the carrier peak and valley) or period' },
 ];
 
 /**
@@ -54,5 +59,16 @@ export function simulateInputs(args: ParsedArgs, topology: string | LegNetlist, 
     fsw: need('fsw', 'the switching frequency in Hz'),
     ...(devices ? { devices } : {}),
     ...(args.values.has('capacitance') ? { capacitance: args.values.get('capacitance') as number } : {}),
+    ...(args.values.has('dead-time') ? { deadTime: deadTimeInput(args) } : {}),
+    ...runtimeInputs(args),
+    update: updateInput(args, 'half'),
   };
+}
+
+// The dead time: at most a tenth of the switching period (checked here so the line names the option).
+function deadTimeInput(args: ParsedArgs): number {
+  const td = args.values.get('dead-time') as number;
+  const fsw = args.values.get('fsw');
+  if (typeof fsw === 'number' && fsw > 0 && td > 0.1 / fsw) throw usage('--dead-time', `at most a tenth of the switching period (${(0.1 / fsw).toExponential(3)} s at ${fsw} Hz)`, td);
+  return td;
 }

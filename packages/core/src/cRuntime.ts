@@ -215,6 +215,8 @@ static int ${px}_select_(const ${px}_runtime *rt, int g, int qi, int nq, int dir
   double bU = 0, bX = 0, bM = 0, bT = 0, bF = 0, bC = 0, bL = 0, bG = 0, bS = 0;
   double scale = fabs(ia) + fabs(ib) + fabs(ic), tol = 1e-12 * scale;
   int big = fabs(ia) >= fabs(ib) && fabs(ia) >= fabs(ic) ? 0 : fabs(ib) >= fabs(ic) ? 1 : 2;
+  double wI[3];
+  wI[0] = fabs(ia); wI[1] = fabs(ib); wI[2] = fabs(ic);
   for (c = (int)${px}_cand_first[g]; c < end; c++) {
     int k = ${px}_cand_count[c], all0 = 1, one = -1, path[3], o0[3], o1[3], at[3];
     double line = 0, gates = 0, cost = 0, unreach = 0, stuck = 0, cLine = INFINITY, cGates = INFINITY, tier, form, miss, clamp;
@@ -227,7 +229,7 @@ static int ${px}_select_(const ${px}_runtime *rt, int g, int qi, int nq, int dir
       o0[ph] = ${px}_pick[a][0];
       o1[ph] = ${px}_pick[a][1];
       if (o0[ph] < 0) all0 = 0;
-      else { line += ${px}_pick_line[a][0]; gates += ${px}_pick_gates[a][0]; }
+      else { line += wI[ph] * ${px}_pick_line[a][0]; gates += ${px}_pick_gates[a][0]; }
     }
     if (all0) { cLine = line; cGates = gates; for (ph = 0; ph < 3; ph++) path[ph] = o0[ph]; }
     for (ph = 0; ph < 3; ph++) {
@@ -235,9 +237,9 @@ static int ${px}_select_(const ${px}_runtime *rt, int g, int qi, int nq, int dir
       double l = 0, gt = 0;
       if (o1[ph] < 0) continue;
       for (x = 0; x < 3; x++) {
-        if (x == ph) { l += ${px}_pick_line[at[x]][1]; gt += ${px}_pick_gates[at[x]][1]; }
+        if (x == ph) { l += wI[x] * ${px}_pick_line[at[x]][1]; gt += ${px}_pick_gates[at[x]][1]; }
         else if (o0[x] < 0) ok = 0;
-        else { l += ${px}_pick_line[at[x]][0]; gt += ${px}_pick_gates[at[x]][0]; }
+        else { l += wI[x] * ${px}_pick_line[at[x]][0]; gt += ${px}_pick_gates[at[x]][0]; }
       }
       if (ok && (l < cLine || (l == cLine && gt < cGates))) { cLine = l; cGates = gt; one = ph; }
     }
@@ -250,7 +252,7 @@ static int ${px}_select_(const ${px}_runtime *rt, int g, int qi, int nq, int dir
         path[ph] = ${px}_pick[at[ph]][2];
         if (path[ph] < 0) { unreach++; path[ph] = (int)${px}_path_first[${px}_cand_seq[c][ph]]; continue; }
         cost += ${px}_pick_dist[at[ph]][2];
-        cLine += ${px}_pick_line[at[ph]][2];
+        cLine += wI[ph] * ${px}_pick_line[at[ph]][2];
         cGates += ${px}_pick_gates[at[ph]][2];
       }
     }

@@ -134,6 +134,7 @@ export function createRuntime(table: SwitchingTable, options: RuntimeOptions = {
   const o0 = new Int32Array(3);
   const o1 = new Int32Array(3);
   const at = new Int32Array(3);
+  const wI = new Float64Array(3);
   let up = true;
   const continuous = opts.sequence === 'continuous';
   const balance = opts.balance === 'on' && program.hasMidpoint;
@@ -169,7 +170,8 @@ export function createRuntime(table: SwitchingTable, options: RuntimeOptions = {
   const select = (g: number, qi: number, nq: number, dir: number, exit: number, ia: number, ib: number, ic: number, target: number): number => {
     let best = -1;
     // the best key so far: unreachable phases, phases left where the next character cannot be
-    // entered, chain tier, balance miss, form, clamp, line and all gate changes, entry steps
+    // entered, chain tier, balance miss, form, clamp, line-frequency gate changes weighted by their
+    // phase's current, all gate changes, entry steps
     let bU = 0;
     let bX = 0;
     let bM = 0;
@@ -182,6 +184,10 @@ export function createRuntime(table: SwitchingTable, options: RuntimeOptions = {
     const scale = Math.abs(ia) + Math.abs(ib) + Math.abs(ic);
     const tol = 1e-12 * scale;
     const big = Math.abs(ia) >= Math.abs(ib) && Math.abs(ia) >= Math.abs(ic) ? 0 : Math.abs(ib) >= Math.abs(ic) ? 1 : 2;
+    // a line-frequency device's gate change costs what it commutates: its phase's current
+    wI[0] = Math.abs(ia);
+    wI[1] = Math.abs(ib);
+    wI[2] = Math.abs(ic);
     const end = candFirst[g + 1] as number;
     for (let c = candFirst[g] as number; c < end; c++) {
       const k = candCount[c] as number;
@@ -198,7 +204,7 @@ export function createRuntime(table: SwitchingTable, options: RuntimeOptions = {
         o1[ph] = pick[a + 1] as number;
         if ((o0[ph] as number) < 0) all0 = false;
         else {
-          line += pickLine[a] as number;
+          line += (wI[ph] as number) * (pickLine[a] as number);
           gates += pickGates[a] as number;
         }
       }
@@ -221,11 +227,11 @@ export function createRuntime(table: SwitchingTable, options: RuntimeOptions = {
         for (let x = 0; x < 3; x++) {
           const a = at[x] as number;
           if (x === ph) {
-            l += pickLine[a + 1] as number;
+            l += (wI[x] as number) * (pickLine[a + 1] as number);
             gt += pickGates[a + 1] as number;
           } else if ((o0[x] as number) < 0) ok = false;
           else {
-            l += pickLine[a] as number;
+            l += (wI[x] as number) * (pickLine[a] as number);
             gt += pickGates[a] as number;
           }
         }
@@ -251,7 +257,7 @@ export function createRuntime(table: SwitchingTable, options: RuntimeOptions = {
             continue;
           }
           cost += pickDist[a + 2] as number;
-          cLine += pickLine[a + 2] as number;
+          cLine += (wI[ph] as number) * (pickLine[a + 2] as number);
           cGates += pickGates[a + 2] as number;
         }
       }

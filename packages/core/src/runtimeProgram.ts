@@ -122,8 +122,8 @@ interface CandidateDraft {
  *
  * Candidates of a triangle: every vertex order and choice of triplets in which each step changes
  * one phase's level and every phase's level sequence has a path; static rank, best first: fewest
- * gate changes of line-frequency devices, fewest gate changes, most preferred patterns (each of
- * the phases' best paths), then enumeration order.
+ * gate changes of line-frequency devices, the least common-mode voltage visited, fewest gate
+ * changes, most preferred patterns (each of the phases' best paths), then enumeration order.
  *
  * @param table - from `switchingTable`
  * @returns the flat tables
@@ -316,7 +316,10 @@ function triangleCandidates(
       gates += p.gates;
       pref += p.pref;
     }
-    found.push({ pos, levels, seq, rank: [line, gates, pref, found.length] });
+    // the common-mode voltage the states visit (|la + lb + lc| / 3 summed): the small-vector split
+    // of the conventional three-level sequence rather than a zero vector's P and N forms
+    const cm = levels.reduce((n, t) => n + Math.abs((t[0] as number) + (t[1] as number) + (t[2] as number)), 0);
+    found.push({ pos, levels, seq, rank: [line, cm, gates, pref, found.length] });
   };
   // Each step changes one phase (`most` = 1). Where no such sequence exists (a Delaunay triangle
   // under levelSteps: any), steps may change more phases: those with the fewest changes are kept,

@@ -1,17 +1,17 @@
-import { analyseLeg } from './analyseLeg.js';
 import { CAUTIONS } from './cautions.js';
-import { createModulator } from './createModulator.js';
+import type { CurrentSign } from './conduction.js';
+import { currentPaths, type CurrentPath } from './currentPaths.js';
+import { runtimeOptions, type SequenceMode } from './createRuntime.js';
 import { conductionLoss, DEMO_DEVICES, elementParameters, eventEnergy, type DeviceParameterSet, type ElementParameters } from './deviceLosses.js';
-import { diagramAtlas } from './diagramAtlas.js';
+import { diagramAtlas, type DiagramAtlas } from './diagramAtlas.js';
 import { HexsalvageInputError } from './errors.js';
 import { expandElements } from './expandElements.js';
-import { PHASES } from './faults.js';
-import type { LegTable } from './legTable.js';
+import { PHASES, type FaultMode, type PhaseFaults } from './faults.js';
+import type { LegElement, LegNetlist } from './netlist.js';
 import { planFromAtlas } from './planRemedial.js';
 import { requireVdc } from './physicalUnits.js';
-import { polarityAt } from './polaritySectors.js';
 import type { LimitRuleOptions } from './rules.js';
-import type { LegState } from './switchingSequence.js';
+import { runtimeStream, UPDATE_MODES, type StreamSegment, type UpdateMode } from './runtimeStream.js';
 import { switchingTableFromAtlas } from './switchingTable.js';
 import { requireNumber, requireObject } from './validate.js';
 
@@ -31,7 +31,7 @@ export interface SimulateOptions extends LimitRuleOptions {
   readonly currentPeak: number;
   /** Fundamental frequency, Hz. */
   readonly f1: number;
-  /** Switching frequency, Hz: fsw/f1 rounded is the number of switching periods per fundamental (≥ 6). */
+  /** Switching frequency, Hz: fsw/f1 rounded is the number of switching periods per fundamental (6 to 20000). */
   readonly fsw: number;
   /** Device loss parameters. Default: the invented demo values {@link DEMO_DEVICES}. */
   readonly devices?: DeviceParameterSet;
@@ -39,6 +39,14 @@ export interface SimulateOptions extends LimitRuleOptions {
   readonly capacitance?: number;
   /** Highest harmonic order listed. Default 4·fsw/f1 + 2 (the contract asks for at least 4·fsw/f1). */
   readonly maxHarmonic?: number;
+  /** Dead time, seconds (default 0, at most a tenth of the switching period): each phase sits in the intermediate gate set of every change for this long. */
+  readonly deadTime?: number;
+  /** The runtime's sequence (default `continuous`). */
+  readonly sequence?: SequenceMode;
+  /** The runtime's midpoint balancing (default `on`). */
+  readonly balance?: 'on' | 'off';
+  /** When the runtime samples (default `half`: at the carrier's peak and valley, which keeps half-wave symmetry for any fsw/f1). */
+  readonly update?: UpdateMode;
 }
 
 /** Losses and currents of one element over the fundamental period. */
@@ -47,6 +55,8 @@ export interface DeviceResult {
   readonly rmsCurrent: number;
   readonly conductionLoss: number;
   readonly switchingLoss: number;
+  /** The element's fault, where it has one: an open element carries nothing; a shorted one's conduction loss is indicative and it is never charged switching loss. */
+  readonly failed?: FaultMode;
 }
 
 /** The results for one leg (faulted or healthy) at the same operating point. */
@@ -54,17 +64,22 @@ export interface SimulationResult {
   readonly lineVoltage: { readonly fundamentalPeak: number; readonly thd: number; readonly wthd: number; readonly rms: number; readonly harmonics: readonly (readonly [number, number])[] };
   /** Per element `phase.element`, every element of every phase. */
   readonly devices: Readonly<Record<string, DeviceResult>>;
-  /** The element with the largest total loss, and that loss in watts. */
+  /** The surviving element with the largest total loss, and that loss in watts. */
   readonly hottest: { readonly device: string; readonly loss: number };
+  /** The midpoint: ripple (volts, with a capacitance), charge swing and average current into the node. */
   readonly midpoint: { readonly ripplePkPk: number | null; readonly chargePkPkAs: number | null; readonly averageCurrent: number | null };
   /**
    * Phase-seconds over the period in which a phase's current had the other sign than the polarity
-   * its switching period was planned for, so that its state gave another level than planned, or
-   * none (a polarity margin avoids it; see docs).
+   * its update was planned for, so that its state gave another level than planned (a polarity
+   * margin avoids it; see docs).
    */
   readonly wrongSignTime: number;
-  /** Line-frequency devices (`switching: line`) that switched a current under PWM, with their switching loss, W. */
+  /** Phase-seconds in which a phase's state gave no path for the current's actual sign (the current would be interrupted). */
+  readonly interruptedTime: number;
+  /** Line-frequency devices (`switching: line`) charged switching loss, with that loss, W. */
   readonly lineDevicesAtPwm: readonly { readonly device: string; readonly switchingLoss: number }[];
+  /** The runtime's steps of the period (from `runtimeStream`). */
+  readonly runtime: { readonly multiPhaseSteps: number; readonly chainSteps: number; readonly heldPeriods: number };
 }
 
 /** The simulation document (`simulate --json`). */
@@ -78,45 +93,57 @@ export interface Simulation extends SimulationResult {
   readonly f1: number;
   readonly fsw: number;
   readonly periods: number;
+  /** Dead time, seconds. */
+  readonly deadTime: number;
+  readonly sequence: SequenceMode;
+  readonly balance: 'on' | 'off';
+  readonly update: UpdateMode;
   readonly deviceParameters: string;
   readonly healthy: SimulationResult;
   /**
-   * Largest fraction of the given peak current at which no device of the faulted leg loses more
-   * than the hottest device of the healthy leg at full current (with thermal resistances: rises
-   * more in temperature); capped at 1. `assumption` says which comparison was made.
+   * Largest fraction of the given peak current at which no surviving device of the faulted leg
+   * loses more than the hottest device of the healthy leg at full current (with thermal
+   * resistances: rises more in temperature); capped at 1. `assumption` says which comparison was made.
    */
   readonly currentDerating: { readonly factor: number; readonly limitingDevice: string; readonly assumption: string };
   readonly cautions: readonly string[];
 }
 
-/** One piece of the period with every phase's level, sign and conducting path constant. */
+/** One piece of the period with every phase's gate set, current sign and conducting path constant. */
 export interface WaveformSegment {
   readonly t0: number;
   readonly t1: number;
-  /** Phase levels a, b, c, volts from the midpoint potential. */
+  /** Phase levels a, b, c, volts from the midpoint potential (what the leg gives for the actual current sign). */
   readonly phaseVolts: readonly [number, number, number];
   /** Midpoint voltage at t0 (volts; 0 without a capacitance or midpoint). */
   readonly midpointVolts: number;
-  /** Per phase, the elements carrying its current (the leg table's path for the current's sign). */
+  /** Per phase, the elements carrying its current, in order along the path (one branch: see docs/simulate.md). */
   readonly paths: readonly [readonly string[], readonly string[], readonly string[]];
+  /** Per phase and path element: true where the current runs from the element's `from` node to its `to` node. */
+  readonly forward: readonly [readonly boolean[], readonly boolean[], readonly boolean[]];
+  /** Per phase: the gate set is an intermediate one (dead time of a change). */
+  readonly dead: readonly [boolean, boolean, boolean];
 }
 
 const TWO_PI = 2 * Math.PI;
 
 /**
- * One fundamental period of the degraded converter, exact rather than time-stepped: every switching
- * period runs the table's sequence (centre-aligned, s1 s2 s3 s2 s1) with the modulator's dwell
- * times, so the phase voltages are piecewise constant and the phase currents (sinusoids of the
- * given peak, lagging by the load angle) are sinusoid pieces. Each piece is further split where a
- * phase current changes sign, since the conducting path (the leg table's `path`) depends on it.
- * From the pieces: the line voltage a–b's Fourier coefficients in closed form, each element's
- * average and RMS current (integrals of |i| and i²), conduction losses, switching losses per
- * commutation (the elements entering and leaving a phase's path when its level changes, energy
- * scaled with the voltage step and the current), and the midpoint charge. The healthy leg is run
- * at the same operating point for comparison.
+ * One fundamental period of the degraded converter, exact rather than time-stepped.
+ *
+ * The runtime (`runtimeStream`, with the chosen sequence, balancing and update) gives the states
+ * and their times. Each phase change passes through the intermediate gate set (the switches both
+ * states share) for the dead time. Phase currents are sinusoids of the given peak lagging by the
+ * load angle; every piece with constant gate sets and current signs gives each phase's level (the
+ * leg solver's, for the actual sign) and one conducting path: of the simple paths the state
+ * offers, the one with the lowest on-state voltage at the present current (device parameters), so
+ * no parallel branch is counted twice. From the pieces: the line voltage a–b in closed form
+ * (full-spectrum THD from its RMS), each element's average and RMS current, conduction losses,
+ * switching energy where a gate change commutates current against a voltage step (docs/simulate.md),
+ * and the midpoint charge. The healthy leg is run at the same operating point for comparison.
  *
  * @param options - see {@link SimulateOptions}
  * @returns the simulation document
+ * @throws HexsalvageInputError on bad options or an m above the limit
  * @example
  * ```ts
  * simulatePeriod({ topology: 'npc', faults: ['a.outerUpper'], m: 0.5, loadAngleDeg: 20, vdc: 750, currentPeak: 150, f1: 50, fsw: 5000 });
@@ -124,8 +151,8 @@ const TWO_PI = 2 * Math.PI;
  */
 export function simulatePeriod(options: SimulateOptions): Simulation {
   const { run, plan, atlas } = prepare(options);
-  const faulted = runPeriod(run);
-  const healthy = runPeriod({ ...run, faults: [] });
+  const faulted = runPeriod(run, atlas);
+  const healthy = runPeriod({ ...run, faults: [] }, diagramAtlas({ topology: run.topology, faults: [], ...run.rules }));
   return {
     topology: atlas.analysis.topology,
     faults: plan.faults,
@@ -136,37 +163,16 @@ export function simulatePeriod(options: SimulateOptions): Simulation {
     f1: run.f1,
     fsw: options.fsw,
     periods: run.periods,
+    deadTime: run.td,
+    sequence: run.sequence,
+    balance: run.balance,
+    update: run.update,
     deviceParameters: run.params.name,
     ...faulted.result,
     healthy: healthy.result,
     currentDerating: currentDerating(faulted, healthy),
     cautions: CAUTIONS,
   };
-}
-
-// The options checked once, and the plan they must respect (m at most its mMax).
-function prepare(options: SimulateOptions): { run: RunInputs; plan: ReturnType<typeof planFromAtlas>; atlas: ReturnType<typeof diagramAtlas> } {
-  requireObject(options, 'simulatePeriod', 'an options object { topology, faults?, m, loadAngleDeg, vdc, currentPeak, f1, fsw, devices?, capacitance? }');
-  const vdc = requireVdc(options.vdc, 'simulatePeriod', 'vdc');
-  const m = requireNumber(options.m, 'simulatePeriod', 'm', { min: 0, max: 10 });
-  const phi = requireNumber(options.loadAngleDeg, 'simulatePeriod', 'loadAngleDeg', { min: -180, max: 180 });
-  const delta = requireNumber(options.polarityMarginDeg ?? 0, 'simulatePeriod', 'polarityMarginDeg', { min: 0, max: 60, openMax: true });
-  const ipk = requireNumber(options.currentPeak, 'simulatePeriod', 'currentPeak', { min: 0, openMin: true, max: 1e7 });
-  const f1 = requireNumber(options.f1, 'simulatePeriod', 'f1', { min: 0, openMin: true, max: 1e5 });
-  const fsw = requireNumber(options.fsw, 'simulatePeriod', 'fsw', { min: 6 * f1, max: 1e8 });
-  const periods = Math.round(fsw / f1);
-  if (periods > 20000) throw new HexsalvageInputError('option', 'simulatePeriod', 'fsw', 'at most 20000 switching periods per fundamental (fsw/f1)', fsw);
-  const cap = options.capacitance === undefined ? undefined : requireNumber(options.capacitance, 'simulatePeriod', 'capacitance', { min: 0, openMin: true, max: 1e3 });
-  const maxH = options.maxHarmonic === undefined ? 4 * periods + 2 : requireNumber(options.maxHarmonic, 'simulatePeriod', 'maxHarmonic', { min: 1, max: 200000, integer: true });
-  const params = options.devices ?? DEMO_DEVICES;
-  const rules = { ignoreRatings: options.ignoreRatings, levelSteps: options.levelSteps };
-  const faults = options.faults ?? [];
-  const atlas = diagramAtlas({ topology: options.topology, faults, ...rules });
-  const plan = planFromAtlas(atlas, phi, delta);
-  if (m > plan.mMax + 1e-12) {
-    throw new HexsalvageInputError('option', 'simulatePeriod', 'm', plan.mMax === 0 ? 'nothing: the drive cannot run in this state (mMax = 0 at this load angle)' : `at most mMax = ${plan.mMax.toFixed(6)} at this load angle`, m);
-  }
-  return { run: { topology: options.topology, faults, rules, m, phi, delta, vdc, ipk, f1, periods, cap, maxH, params }, plan, atlas };
 }
 
 interface RunInputs {
@@ -183,11 +189,44 @@ interface RunInputs {
   readonly cap: number | undefined;
   readonly maxH: number;
   readonly params: DeviceParameterSet;
+  readonly td: number;
+  readonly sequence: SequenceMode;
+  readonly balance: 'on' | 'off';
+  readonly update: UpdateMode;
+}
+
+// The options checked once, and the plan they must respect (m at most its mMax).
+function prepare(options: SimulateOptions): { run: RunInputs; plan: ReturnType<typeof planFromAtlas>; atlas: DiagramAtlas } {
+  requireObject(options, 'simulatePeriod', 'an options object { topology, faults?, m, loadAngleDeg, vdc, currentPeak, f1, fsw, devices?, capacitance?, deadTime? }');
+  const vdc = requireVdc(options.vdc, 'simulatePeriod', 'vdc');
+  const m = requireNumber(options.m, 'simulatePeriod', 'm', { min: 0, max: 10 });
+  const phi = requireNumber(options.loadAngleDeg, 'simulatePeriod', 'loadAngleDeg', { min: -180, max: 180 });
+  const delta = requireNumber(options.polarityMarginDeg ?? 0, 'simulatePeriod', 'polarityMarginDeg', { min: 0, max: 60, openMax: true });
+  const ipk = requireNumber(options.currentPeak, 'simulatePeriod', 'currentPeak', { min: 0, openMin: true, max: 1e7 });
+  const f1 = requireNumber(options.f1, 'simulatePeriod', 'f1', { min: 0, openMin: true, max: 1e5 });
+  const fsw = requireNumber(options.fsw, 'simulatePeriod', 'fsw', { min: 6 * f1, max: 1e8 });
+  const periods = Math.round(fsw / f1);
+  if (periods > 20000) throw new HexsalvageInputError('option', 'simulatePeriod', 'fsw', 'at most 20000 switching periods per fundamental (fsw/f1)', fsw);
+  const td = requireNumber(options.deadTime ?? 0, 'simulatePeriod', 'deadTime', { min: 0, max: 0.1 / fsw });
+  const cap = options.capacitance === undefined ? undefined : requireNumber(options.capacitance, 'simulatePeriod', 'capacitance', { min: 0, openMin: true, max: 1e3 });
+  const maxH = options.maxHarmonic === undefined ? 4 * periods + 2 : requireNumber(options.maxHarmonic, 'simulatePeriod', 'maxHarmonic', { min: 1, max: 200000, integer: true });
+  const { sequence, balance } = runtimeOptions({ sequence: options.sequence, balance: options.balance }, 'simulatePeriod');
+  const update = options.update ?? 'half';
+  if (!(UPDATE_MODES as readonly unknown[]).includes(update)) throw new HexsalvageInputError('option', 'simulatePeriod', 'update', 'period or half', update);
+  const params = options.devices ?? DEMO_DEVICES;
+  const rules = { ignoreRatings: options.ignoreRatings, levelSteps: options.levelSteps };
+  const faults = options.faults ?? [];
+  const atlas = diagramAtlas({ topology: options.topology, faults, ...rules });
+  const plan = planFromAtlas(atlas, phi, delta);
+  if (m > plan.mMax + 1e-12) {
+    throw new HexsalvageInputError('option', 'simulatePeriod', 'm', plan.mMax === 0 ? 'nothing: the drive cannot run in this state (mMax = 0 at this load angle)' : `at most mMax = ${plan.mMax.toFixed(6)} at this load angle`, m);
+  }
+  return { run: { topology: options.topology, faults, rules, m, phi, delta, vdc, ipk, f1, periods, cap, maxH, params, td, sequence, balance, update }, plan, atlas };
 }
 
 interface RunOutput {
   readonly result: SimulationResult;
-  /** Per element: loss = a·x + b·x² at x times the current (for the derating factor), and its thermal resistance. */
+  /** Per surviving element: loss = a·x + b·x² at x times the current (for the derating factor), and its thermal resistance. */
   readonly scaling: ReadonlyMap<string, { a: number; b: number; rth: number | undefined }>;
   readonly segments: readonly WaveformSegment[];
 }
@@ -204,211 +243,399 @@ interface RunOutput {
  * ```
  */
 export function simulationWaveform(options: SimulateOptions): readonly WaveformSegment[] {
+  const { run, atlas } = prepare(options);
   // the spectrum is not needed for the pieces: one harmonic keeps the run short
-  return runPeriod({ ...prepare(options).run, maxH: 1 }).segments;
+  return runPeriod({ ...run, maxH: 1 }, atlas).segments;
 }
 
-function runPeriod(x: RunInputs): RunOutput {
-  const atlas = diagramAtlas({ topology: x.topology, faults: x.faults, ...x.rules });
-  const analysis = analyseLeg({ topology: x.topology, faults: x.faults, ...x.rules });
+/** One phase's gate set over a stretch of time. */
+interface GateSpan {
+  readonly t0: number;
+  readonly t1: number;
+  readonly gates: readonly string[];
+  readonly key: string;
+  /** The level the runtime planned (the state's level for the planned polarity). */
+  readonly planned: number;
+  readonly dead: boolean;
+}
+
+/** A change of one phase's state: what the commutation passes through. */
+interface Change {
+  readonly phase: number;
+  readonly t: number;
+  readonly from: readonly string[];
+  readonly mid: readonly string[];
+  readonly to: readonly string[];
+  /** When the incoming switches turn on (t + the dead time, or the end of the new state if shorter). */
+  readonly tOn: number;
+}
+
+function runPeriod(x: RunInputs, atlas: DiagramAtlas): RunOutput {
   const table = switchingTableFromAtlas(atlas);
-  const mod = createModulator(table);
+  const stream = runtimeStream(table, { m: x.m, loadAngleDeg: x.phi, polarityMarginDeg: x.delta, frequencyRatio: x.periods, update: x.update, sequence: x.sequence, balance: x.balance });
+  const analysis = atlas.analysis;
   const leg = analysis.leg;
   const elements = expandElements(leg);
   const elementById = new Map(elements.map((e) => [e.id, e] as const));
   const kindOf = new Map(leg.devices.map((d) => [d.id, d.kind] as const));
   const lineDevices = new Set(leg.devices.filter((d) => d.switching === 'line').map((d) => d.id));
-  const dc = new Set(Object.values(leg.dcNodes));
-  const hasMidpoint = dc.has(0) && dc.size >= 3;
+  const hasMidpoint = Object.values(leg.dcNodes).includes(0);
+  const phaseFaults = PHASES.map((ph) => new Map(analysis.faults.filter((f) => f.phase === ph).map((f) => [f.element, f.mode] as const)) as PhaseFaults);
   const T = 1 / x.f1;
   const w = TWO_PI * x.f1;
-  const ts = T / x.periods;
   const half = x.vdc / 2;
   const psi = PHASES.map((_, k) => (x.phi * Math.PI) / 180 + (k * TWO_PI) / 3);
   const current = (k: number, t: number) => x.ipk * Math.cos(w * t - (psi[k] as number));
-  // per-phase pattern results by name
-  const byName = PHASES.map((ph) => new Map((analysis.phases[ph] as LegTable).patterns.map((p) => [p.name, p] as const)));
-  const ids = PHASES.flatMap((ph) => elements.map((e) => `${ph}.${e.id}`));
-  const acc = new Map<string, { abs: number; sq: number; esw: number }>(ids.map((id) => [id, { abs: 0, sq: 0, esw: 0 }]));
-  // line voltage a–b Fourier sums (a_n, b_n) for n = 1…maxH, and the DC term and the square integral
-  const an = new Float64Array(x.maxH + 1);
-  const bn = new Float64Array(x.maxH + 1);
-  let sq = 0;
-  let q = 0;
-  let qMin = 0;
-  let qMax = 0;
-  let qAll = 0;
-  let wrong = 0;
+  const paramsOf = parameterLookup(x.params, elementById, kindOf);
+  const paths = pathLookup(leg, elements, phaseFaults, paramsOf);
+  const { spans, changes } = gateTimeline(stream.segments, leg, T, x.td, x.periods);
+  const acc = new Map<string, { abs: number; sq: number; esw: number }>(PHASES.flatMap((ph) => elements.map((e) => [`${ph}.${e.id}`, { abs: 0, sq: 0, esw: 0 }] as const)));
+
+  // switching energy of every change (see docs/simulate.md: which element takes which energy)
+  for (const c of changes) chargeChange(c, paths, current, half, phaseFaults, paramsOf, acc);
+
+  // the pieces: every boundary of every phase's spans and every current zero crossing
+  const cuts = pieceBoundaries(spans, psi, w, T);
+  const cursor = [0, 0, 0];
   const segments: WaveformSegment[] = [];
-  let prev: { levels: number[]; paths: string[][]; t: number } | null = null;
-  let first: { levels: number[]; paths: string[][] } | null = null;
-  const transition = (from: { levels: number[]; paths: string[][] }, to: { levels: number[]; paths: string[][] }, t: number) => {
+  const line = new LineVoltage(x.maxH, w, T);
+  const mid = new MidpointCharge(w);
+  let wrong = 0;
+  let interrupted = 0;
+  for (let c = 0; c + 1 < cuts.length; c++) {
+    const a = cuts[c] as number;
+    const b = cuts[c + 1] as number;
+    if (b <= a) continue;
+    const tm = (a + b) / 2;
+    const levels: number[] = [];
+    const chosen: CurrentPath[] = [];
+    const dead: boolean[] = [];
+    let qA = 0;
+    let qB = 0;
     for (let k = 0; k < 3; k++) {
-      const dl = Math.abs((to.levels[k] as number) - (from.levels[k] as number));
-      if (dl === 0) continue;
-      const v = dl * half;
-      const i = Math.abs(current(k, t));
-      const before = new Set(from.paths[k]);
-      const after = new Set(to.paths[k]);
-      for (const id of after) if (!before.has(id)) charge(k, id, 'on', v, i);
-      for (const id of before) if (!after.has(id)) charge(k, id, 'off', v, i);
+      const list = spans[k] as GateSpan[];
+      while ((cursor[k] as number) + 1 < list.length && (list[cursor[k] as number] as GateSpan).t1 <= tm) cursor[k] = (cursor[k] as number) + 1;
+      const span = list[cursor[k] as number] as GateSpan;
+      const i = current(k, tm);
+      const sign: CurrentSign = i >= 0 ? '+' : '-';
+      const got = paths(k, span.gates, span.key, sign, Math.abs(i));
+      dead.push(span.dead);
+      if (got.level === null) {
+        // no path for the actual sign: the current would be interrupted (reported); the planned level stands for the voltage
+        interrupted += b - a;
+        levels.push(span.planned);
+        chosen.push({ elements: [], forward: [] });
+      } else {
+        if (!span.dead && got.level !== span.planned) wrong += b - a;
+        levels.push(got.level);
+        chosen.push(got.path);
+      }
+      const ia = integralAbs(x.ipk, w, psi[k] as number, a, b);
+      const i2 = integralSq(x.ipk, w, psi[k] as number, a, b);
+      for (const id of (chosen[k] as CurrentPath).elements) {
+        const e = acc.get(`${PHASES[k]}.${id}`);
+        if (e) { e.abs += ia; e.sq += i2; }
+      }
+      // current into the midpoint node: −i_k for a phase at its potential, = A cos wt + B sin wt
+      if (hasMidpoint && levels[k] === 0) {
+        qA -= x.ipk * Math.cos(psi[k] as number);
+        qB -= x.ipk * Math.sin(psi[k] as number);
+      }
     }
-  };
-  const paramCache = new Map<string, ElementParameters>();
-  const paramsOf = (id: string): ElementParameters => {
-    let p = paramCache.get(id);
+    line.add(a, b, ((levels[0] as number) - (levels[1] as number)) * half);
+    segments.push({
+      t0: a, t1: b,
+      phaseVolts: [(levels[0] as number) * half, (levels[1] as number) * half, (levels[2] as number) * half],
+      midpointVolts: x.cap ? mid.charge / (2 * x.cap) : 0,
+      paths: [chosen[0]!.elements, chosen[1]!.elements, chosen[2]!.elements],
+      forward: [chosen[0]!.forward, chosen[1]!.forward, chosen[2]!.forward],
+      dead: [dead[0] as boolean, dead[1] as boolean, dead[2] as boolean],
+    });
+    mid.add(a, b, qA, qB);
+  }
+  return summarise(x, hasMidpoint, acc, line, mid, wrong, interrupted, stream, phaseFaults, paramsOf, lineDevices, segments, T);
+}
+
+// Every element's parameters, found once.
+function parameterLookup(set: DeviceParameterSet, elementById: ReadonlyMap<string, LegElement>, kindOf: ReadonlyMap<string, string>): (id: string) => ElementParameters {
+  const cache = new Map<string, ElementParameters>();
+  return (id) => {
+    let p = cache.get(id);
     if (!p) {
-      const e = elementById.get(id) as (typeof elements)[number];
-      p = elementParameters(x.params, e, kindOf.get(e.device) ?? e.kind);
-      paramCache.set(id, p);
+      const e = elementById.get(id) as LegElement;
+      p = elementParameters(set, e, kindOf.get(e.device) ?? e.kind);
+      cache.set(id, p);
     }
     return p;
   };
-  const charge = (k: number, id: string, what: 'on' | 'off', v: number, i: number) => {
-    const ep = paramsOf(id);
-    let e = 0;
-    if (ep.part === 'diode') e = what === 'off' ? eventEnergy(ep.p.eRec, ep.p.vRef, ep.p.iRef, v, i) : 0;
-    else e = eventEnergy(what === 'on' ? ep.p.eOn : ep.p.eOff, ep.p.vRef, ep.p.iRef, v, i);
-    const a = acc.get(`${PHASES[k]}.${id}`);
-    if (a) a.esw += e;
+}
+
+type PathLookup = (k: number, gates: readonly string[], key: string, sign: CurrentSign, current: number) => { level: number | null; path: CurrentPath };
+
+// The level and the one conducting path of a phase state at a current: of the simple paths, the
+// one with the lowest on-state voltage (threshold plus slope, on-resistance for a MOSFET channel,
+// none for a shorted element); paths and their drops cached per state and sign.
+function pathLookup(leg: LegNetlist, elements: readonly LegElement[], faults: readonly PhaseFaults[], paramsOf: (id: string) => ElementParameters): PathLookup {
+  const cache = new Map<string, { level: number | null; paths: readonly CurrentPath[]; v0: number[]; r: number[] }>();
+  const none: CurrentPath = { elements: [], forward: [] };
+  return (k, gates, key, sign, i) => {
+    const ck = `${k}|${sign}|${key}`;
+    let c = cache.get(ck);
+    if (!c) {
+      const pc = currentPaths(leg, elements, faults[k] as PhaseFaults, gates, sign);
+      const v0: number[] = [];
+      const r: number[] = [];
+      for (const p of pc.paths) {
+        let a = 0;
+        let b = 0;
+        for (const id of p.elements) {
+          if ((faults[k] as PhaseFaults).get(id) === 'short') continue;
+          const ep = paramsOf(id);
+          if (ep.part === 'mosfet') b += ep.p.rOn ?? 0;
+          else { a += ep.p.v0 ?? 0; b += ep.p.r ?? 0; }
+        }
+        v0.push(a);
+        r.push(b);
+      }
+      c = { level: pc.level, paths: pc.paths, v0, r };
+      cache.set(ck, c);
+    }
+    let best = -1;
+    let drop = Infinity;
+    for (let j = 0; j < c.paths.length; j++) {
+      const v = (c.v0[j] as number) + (c.r[j] as number) * i;
+      if (v < drop) [best, drop] = [j, v];
+    }
+    return { level: c.level, path: best >= 0 ? (c.paths[best] as CurrentPath) : none };
   };
-  for (let p = 0; p < x.periods; p++) {
-    const tStart = p * ts;
-    const thetaDeg = ((p + 0.5) * 360) / x.periods;
-    const th = (thetaDeg * Math.PI) / 180;
-    const pol = polarityAt(thetaDeg, x.phi, x.delta);
-    const r = mod.modulate(x.m * Math.cos(th), x.m * Math.sin(th), pol);
-    const entry = table.polarities[pol];
-    const seq = r.triangle >= 0 ? entry?.tableTriangles[r.triangle]?.sequence : undefined;
-    if (!seq) throw new HexsalvageInputError('option', 'simulatePeriod', 'm', `a point the table can modulate (polarity ${pol} has no sequence there)`, x.m);
-    const o = seq.order;
-    const parts = [r.dwell[o[0]] as number / 2, r.dwell[o[1]] as number / 2, r.dwell[o[2]] as number, r.dwell[o[1]] as number / 2, r.dwell[o[0]] as number / 2];
-    const states: LegState[] = [seq.states[0], seq.states[1], seq.states[2], seq.states[1], seq.states[0]];
-    let t0 = tStart;
-    for (let s = 0; s < 5; s++) {
-      const t1 = s === 4 ? tStart + ts : t0 + (parts[s] as number) * ts;
-      if (t1 <= t0) continue;
-      // split where a phase current changes sign
-      const cuts = [t0];
-      for (let k = 0; k < 3; k++) {
-        // zeros of cos(wt − ψ): wt − ψ = π/2 + nπ
-        const nStart = Math.ceil((w * t0 - (psi[k] as number) - Math.PI / 2) / Math.PI);
-        for (let n = nStart; ; n++) {
-          const tz = ((psi[k] as number) + Math.PI / 2 + n * Math.PI) / w;
-          if (tz >= t1) break;
-          if (tz > t0) cuts.push(tz);
-        }
+}
+
+// Each phase's gate sets over the period (state, then the intermediate set of each change for the
+// dead time), and the changes themselves; the stream is periodic, so the change at t = 0 comes
+// from its last state. A state the stream holds for no time is no pulse for that phase: the
+// phase goes from the state before it straight to the state after (nothing at all where those
+// are the same). Each state lasts from its start to the next held state's.
+function gateTimeline(stream: readonly StreamSegment[], leg: LegNetlist, T: number, td: number, periods: number): { spans: GateSpan[][]; changes: Change[] } {
+  const spans: GateSpan[][] = [[], [], []];
+  const changes: Change[] = [];
+  // below a billionth of a switching period a state is rounding, not a pulse
+  const held = stream.filter((s) => s.dt * periods > 1e-9);
+  const n = held.length;
+  for (let k = 0; k < 3; k++) {
+    for (let s = 0; s < n; s++) {
+      const seg = held[s] as StreamSegment;
+      const before = held[(s + n - 1) % n] as StreamSegment;
+      const t0 = seg.t * T;
+      const t1 = s + 1 < n ? (held[s + 1] as StreamSegment).t * T : T;
+      const to = leg.patterns[seg.patterns[k] as string] as readonly string[];
+      const key = [...to].sort().join(',');
+      if (before.patterns[k] !== seg.patterns[k]) {
+        const from = leg.patterns[before.patterns[k] as string] as readonly string[];
+        const mid = from.filter((g) => to.includes(g));
+        const tOn = Math.min(t1, t0 + td);
+        changes.push({ phase: k, t: t0, from, mid, to, tOn });
+        if (tOn > t0) spans[k]!.push({ t0, t1: tOn, gates: mid, key: [...mid].sort().join(','), planned: seg.levels[k] as number, dead: true });
+        if (t1 > tOn) spans[k]!.push({ t0: tOn, t1, gates: to, key, planned: seg.levels[k] as number, dead: false });
+      } else {
+        spans[k]!.push({ t0, t1, gates: to, key, planned: seg.levels[k] as number, dead: false });
       }
-      cuts.sort((u, v) => u - v);
-      cuts.push(t1);
-      for (let c = 0; c + 1 < cuts.length; c++) {
-        const a = cuts[c] as number;
-        const b = cuts[c + 1] as number;
-        if (b <= a) continue;
-        const mid = (a + b) / 2;
-        const levels: number[] = [];
-        const paths: string[][] = [];
-        let qRate = [0, 0]; // i_mid = −Σ (connected) I cos(wt − ψ) = A cos wt + B sin wt
-        for (let k = 0; k < 3; k++) {
-          const st = (states[s] as LegState)[k];
-          const sign = current(k, mid) >= 0 ? '+' : '-';
-          const pr = byName[k]?.get(st?.pattern ?? '');
-          const out = pr && pr.status === 'allowed' ? pr.bySign[sign] : null;
-          if (!out || out.level === null) {
-            // the state does not serve this sign (the polarity was taken at the period centre): the
-            // planned level stands for the voltage, and the time is reported
-            wrong += b - a;
-            levels.push(st?.level ?? 0);
-            paths.push([]);
-          } else {
-            // a pattern may give another level for the other sign (an open switch's diode path):
-            // that is what the hardware does, so it is used, and the time is reported too
-            if (out.level !== st?.level) wrong += b - a;
-            levels.push(out.level);
-            // a gated MOSFET and its own body diode both lie on a reverse path; the channel takes the
-            // current (synchronous rectification, common practice), so the diode is left out
-            paths.push(out.path.filter((id) => !(id.endsWith('.diode') && out.path.includes(id.slice(0, -'.diode'.length)))));
-          }
-          // element currents: |i| and i² integrals over [a, b]
-          const ia = integralAbs(x.ipk, w, psi[k] as number, a, b);
-          const i2 = integralSq(x.ipk, w, psi[k] as number, a, b);
-          for (const id of paths[k] as string[]) {
-            const e = acc.get(`${PHASES[k]}.${id}`);
-            if (e) { e.abs += ia; e.sq += i2; }
-          }
-          if (hasMidpoint && levels[k] === 0) qRate = [(qRate[0] as number) - x.ipk * Math.cos(psi[k] as number), (qRate[1] as number) - x.ipk * Math.sin(psi[k] as number)];
-        }
-        const cur = { levels, paths };
-        if (prev) transition(prev, cur, a);
-        else first = cur;
-        prev = { ...cur, t: a };
-        // line voltage a–b: constant over [a, b]
-        const vab = ((levels[0] as number) - (levels[1] as number)) * half;
-        sq += vab * vab * (b - a);
-        for (let n = 1; n <= x.maxH; n++) {
-          const nw = n * w;
-          an[n] = (an[n] as number) + (vab * (Math.sin(nw * b) - Math.sin(nw * a))) / nw;
-          bn[n] = (bn[n] as number) - (vab * (Math.cos(nw * b) - Math.cos(nw * a))) / nw;
-        }
-        // midpoint charge: q' = A cos wt + B sin wt; extremes inside where q' = 0
-        const [A, B] = qRate as [number, number];
-        const qAt = (t: number) => q + (A * (Math.sin(w * t) - Math.sin(w * a)) - B * (Math.cos(w * t) - Math.cos(w * a))) / w;
-        segments.push({ t0: a, t1: b, phaseVolts: [(levels[0] as number) * half, (levels[1] as number) * half, (levels[2] as number) * half], midpointVolts: x.cap ? q / (2 * x.cap) : 0, paths: [paths[0] as string[], paths[1] as string[], paths[2] as string[]] });
-        if (A !== 0 || B !== 0) {
-          const base = Math.atan2(-A, B); // A cos + B sin = 0 ⇒ tan(wt) = −A/B
-          const nS = Math.ceil((w * a - base) / Math.PI);
-          for (let n = nS; ; n++) {
-            const tz = (base + n * Math.PI) / w;
-            if (tz >= b) break;
-            if (tz > a) { const v = qAt(tz); qMin = Math.min(qMin, v); qMax = Math.max(qMax, v); }
-          }
-          qAll += (A * (Math.sin(w * b) - Math.sin(w * a)) - B * (Math.cos(w * b) - Math.cos(w * a))) / w;
-          q = qAt(b);
-        }
-        qMin = Math.min(qMin, q);
-        qMax = Math.max(qMax, q);
-      }
-      t0 = t1;
     }
   }
-  if (prev && first) transition(prev, first, T);
-  // line voltage spectrum: peak amplitudes Vn = (2/T)·|∫ v e^{−jnwt}|
-  const harmonics: [number, number][] = [];
-  for (let n = 1; n <= x.maxH; n++) harmonics.push([n, (2 / T) * Math.hypot(an[n] as number, bn[n] as number)]);
+  return { spans, changes };
+}
+
+// Switching energy of one change: at turn-off (t) a switch that stops carrying the current while
+// the output level changes takes E_off, and a diode that stops conducting and then blocks (its own
+// switch not gated) takes its recovery; at turn-on (tOn) a switch that takes the current over with
+// a level change takes E_on, and the diode it relieves its recovery. Energies scale with the
+// current and the level step. Failed elements take none.
+function chargeChange(c: Change, paths: PathLookup, current: (k: number, t: number) => number, half: number, faults: readonly PhaseFaults[], paramsOf: (id: string) => ElementParameters, acc: Map<string, { abs: number; sq: number; esw: number }>): void {
+  const k = c.phase;
+  const ph = PHASES[k] as string;
+  const healthy = (id: string) => !(faults[k] as PhaseFaults).has(id);
+  const key = (g: readonly string[]) => [...g].sort().join(',');
+  const charge = (id: string, what: 'eOn' | 'eOff' | 'eRec', volts: number, amps: number) => {
+    if (!healthy(id) || volts <= 0 || amps <= 0) return;
+    const ep = paramsOf(id);
+    const e = what === 'eRec' ? (ep.part === 'diode' ? eventEnergy(ep.p.eRec, ep.p.vRef, ep.p.iRef, volts, amps) : 0) : ep.part === 'diode' ? 0 : eventEnergy(ep.p[what], ep.p.vRef, ep.p.iRef, volts, amps);
+    const a = acc.get(`${ph}.${id}`);
+    if (a) a.esw += e;
+  };
+  const blocksAfter = (id: string, gates: readonly string[]) => {
+    // a diode next to its own gated, healthy switch carries no voltage
+    if (!id.endsWith('.diode')) return true;
+    const own = id.slice(0, -'.diode'.length);
+    return !(gates.includes(own) && healthy(own));
+  };
+  const event = (t: number, before: readonly string[], after: readonly string[], turning: readonly string[], what: 'eOn' | 'eOff') => {
+    const i = current(k, t);
+    const sign: CurrentSign = i >= 0 ? '+' : '-';
+    const amps = Math.abs(i);
+    const A = paths(k, before, key(before), sign, amps);
+    const B = paths(k, after, key(after), sign, amps);
+    if (A.level === null || B.level === null || A.level === B.level) return;
+    const volts = Math.abs(A.level - B.level) * half;
+    const inA = new Set(A.path.elements);
+    const inB = new Set(B.path.elements);
+    if (what === 'eOff') for (const g of turning) if (inA.has(g) && !inB.has(g)) charge(g, 'eOff', volts, amps);
+    if (what === 'eOn') for (const g of turning) if (inB.has(g) && !inA.has(g)) charge(g, 'eOn', volts, amps);
+    for (const id of A.path.elements) if (!inB.has(id) && paramsOf(id).part === 'diode' && blocksAfter(id, after)) charge(id, 'eRec', volts, amps);
+  };
+  const off = c.from.filter((g) => !c.to.includes(g));
+  const on = c.to.filter((g) => !c.from.includes(g));
+  event(c.t, c.from, c.mid, off, 'eOff');
+  event(c.tOn, c.mid, c.to, on, 'eOn');
+}
+
+// Sorted piece boundaries: the spans of the three phases and the zeros of the phase currents.
+function pieceBoundaries(spans: readonly GateSpan[][], psi: readonly number[], w: number, T: number): number[] {
+  const cuts: number[] = [0, T];
+  for (const list of spans) for (const s of list) cuts.push(s.t0, s.t1);
+  for (let k = 0; k < 3; k++) {
+    // zeros of cos(wt − ψ): wt − ψ = π/2 + nπ
+    for (let n = -2; n <= 2; n++) {
+      const tz = ((psi[k] as number) + Math.PI / 2 + n * Math.PI) / w;
+      if (tz > 0 && tz < T) cuts.push(tz);
+    }
+  }
+  cuts.sort((a, b) => a - b);
+  const out: number[] = [];
+  for (const c of cuts) if (out.length === 0 || c > (out[out.length - 1] as number)) out.push(c);
+  return out;
+}
+
+/** The line voltage a–b, piecewise constant: its square integral and Fourier sums, added at each change of value. */
+class LineVoltage {
+  private readonly an: Float64Array;
+  private readonly bn: Float64Array;
+  sq = 0;
+  private value = NaN;
+  private start = 0;
+  constructor(private readonly maxH: number, private readonly w: number, readonly T: number) {
+    this.an = new Float64Array(maxH + 1);
+    this.bn = new Float64Array(maxH + 1);
+  }
+  add(a: number, b: number, v: number): void {
+    this.sq += v * v * (b - a);
+    if (v === this.value) return;
+    this.flush(a);
+    this.value = v;
+    this.start = a;
+  }
+  /** Closes the last stretch and returns peak amplitudes per order, V_n = (2/T)·|∫ v e^{−jnwt} dt|. */
+  harmonics(): [number, number][] {
+    this.flush(this.T);
+    const out: [number, number][] = [];
+    for (let n = 1; n <= this.maxH; n++) out.push([n, (2 / this.T) * Math.hypot(this.an[n] as number, this.bn[n] as number)]);
+    return out;
+  }
+  // ∫ v cos(nwt) and ∫ v sin(nwt) over [start, b]: sines and cosines by rotation, order after order
+  private flush(b: number): void {
+    if (Number.isNaN(this.value) || b <= this.start || this.value === 0) return;
+    const v = this.value;
+    const w = this.w;
+    const ca = Math.cos(w * this.start);
+    const sa = Math.sin(w * this.start);
+    const cb = Math.cos(w * b);
+    const sb = Math.sin(w * b);
+    let cna = ca;
+    let sna = sa;
+    let cnb = cb;
+    let snb = sb;
+    for (let n = 1; n <= this.maxH; n++) {
+      const nw = n * w;
+      this.an[n] = (this.an[n] as number) + (v * (snb - sna)) / nw;
+      this.bn[n] = (this.bn[n] as number) - (v * (cnb - cna)) / nw;
+      // (n+1)·angle from n·angle and the angle
+      const c1 = cna * ca - sna * sa;
+      sna = sna * ca + cna * sa;
+      cna = c1;
+      const c2 = cnb * cb - snb * sb;
+      snb = snb * cb + cnb * sb;
+      cnb = c2;
+    }
+  }
+}
+
+/** The midpoint charge: q' = A cos wt + B sin wt per piece, its extremes and its net. */
+class MidpointCharge {
+  charge = 0;
+  min = 0;
+  max = 0;
+  net = 0;
+  constructor(private readonly w: number) {}
+  add(a: number, b: number, A: number, B: number): void {
+    const w = this.w;
+    if (A !== 0 || B !== 0) {
+      const q0 = this.charge;
+      const at = (t: number) => q0 + (A * (Math.sin(w * t) - Math.sin(w * a)) - B * (Math.cos(w * t) - Math.cos(w * a))) / w;
+      // extremes inside where q' = 0: tan(wt) = −A/B
+      const base = Math.atan2(-A, B);
+      for (let n = Math.ceil((w * a - base) / Math.PI); ; n++) {
+        const tz = (base + n * Math.PI) / w;
+        if (tz >= b) break;
+        if (tz > a) {
+          const v = at(tz);
+          if (v < this.min) this.min = v;
+          if (v > this.max) this.max = v;
+        }
+      }
+      const end = at(b);
+      this.net += end - q0;
+      this.charge = end;
+    }
+    if (this.charge < this.min) this.min = this.charge;
+    if (this.charge > this.max) this.max = this.charge;
+  }
+}
+
+function summarise(
+  x: RunInputs, hasMidpoint: boolean, acc: ReadonlyMap<string, { abs: number; sq: number; esw: number }>, line: LineVoltage, mid: MidpointCharge, wrong: number, interrupted: number,
+  stream: ReturnType<typeof runtimeStream>, faults: readonly PhaseFaults[], paramsOf: (id: string) => ElementParameters, lineDevices: ReadonlySet<string>, segments: WaveformSegment[], T: number,
+): RunOutput {
+  const harmonics = line.harmonics();
   const v1 = harmonics[0]?.[1] ?? 0;
-  const rest = harmonics.slice(1);
-  const thd = v1 > 0 ? Math.sqrt(rest.reduce((s, [, v]) => s + v * v, 0)) / v1 : 0;
-  const wthd = v1 > 0 ? Math.sqrt(rest.reduce((s, [n, v]) => s + (v / n) * (v / n), 0)) / v1 : 0;
+  const rms = Math.sqrt(line.sq / T);
+  const v1rms = v1 / Math.SQRT2;
+  // full spectrum: everything in the RMS that is not the fundamental
+  const thd = v1rms > 0 ? Math.sqrt(Math.max(0, rms * rms - v1rms * v1rms)) / v1rms : 0;
+  const wthd = v1 > 0 ? Math.sqrt(harmonics.slice(1).reduce((s, [n, v]) => s + (v / n) * (v / n), 0)) / v1 : 0;
   const devices: Record<string, DeviceResult> = {};
   const scaling = new Map<string, { a: number; b: number; rth: number | undefined }>();
   let hottest = { device: '', loss: -1 };
-  const line: { device: string; switchingLoss: number }[] = [];
-  for (const id of ids) {
-    const e = acc.get(id) as { abs: number; sq: number; esw: number };
+  const lineAtPwm: { device: string; switchingLoss: number }[] = [];
+  let totalSwitching = 0;
+  for (const e of acc.values()) totalSwitching += e.esw / T;
+  for (const [id, e] of acc) {
+    const k = PHASES.indexOf(id.slice(0, 1) as 'a');
+    const element = id.slice(2);
+    const failed = (faults[k] as PhaseFaults).get(element);
     const avg = e.abs / T;
-    const rms = Math.sqrt(e.sq / T);
-    const ep = paramsOf(id.slice(2));
-    const cond = conductionLoss(ep, avg, rms);
-    const sw = e.esw / T;
-    devices[id] = { avgCurrent: avg, rmsCurrent: rms, conductionLoss: cond, switchingLoss: sw };
+    const rmsI = Math.sqrt(e.sq / T);
+    const ep = paramsOf(element);
+    const cond = failed === 'open' ? 0 : conductionLoss(ep, avg, rmsI);
+    const sw = failed ? 0 : e.esw / T;
+    devices[id] = { avgCurrent: failed === 'open' ? 0 : avg, rmsCurrent: failed === 'open' ? 0 : rmsI, conductionLoss: cond, switchingLoss: sw, ...(failed ? { failed } : {}) };
+    if (failed) continue;
     // at x times the current: v0·Iavg and switching scale with x, r·Irms² with x²
     const lin = (ep.part === 'mosfet' ? 0 : (ep.p.v0 ?? 0) * avg) + sw;
     scaling.set(id, { a: lin, b: cond - (ep.part === 'mosfet' ? 0 : (ep.p.v0 ?? 0) * avg), rth: ep.rth });
     if (cond + sw > hottest.loss) hottest = { device: id, loss: cond + sw };
-    const element = elementById.get(id.slice(2));
-    // a line-frequency device that commutates current under PWM (above 50 mW: not a rounding trace)
-    if (element && lineDevices.has(element.device) && sw > 0.05) line.push({ device: id, switchingLoss: sw });
+    // a line-frequency device charged switching loss above a trace (0.05 W and 1 % of the leg's)
+    if (lineDevices.has(element.replace(/\.diode$/, '')) && sw > 0.05 && sw > 0.01 * totalSwitching) lineAtPwm.push({ device: id, switchingLoss: sw });
   }
   return {
     result: {
-      lineVoltage: { fundamentalPeak: v1, thd, wthd, rms: Math.sqrt(sq / T), harmonics },
+      lineVoltage: { fundamentalPeak: v1, thd, wthd, rms, harmonics },
       devices,
       hottest,
       midpoint: hasMidpoint
-        ? { ripplePkPk: x.cap ? (qMax - qMin) / (2 * x.cap) : null, chargePkPkAs: qMax - qMin, averageCurrent: qAll / T }
+        ? { ripplePkPk: x.cap ? (mid.max - mid.min) / (2 * x.cap) : null, chargePkPkAs: mid.max - mid.min, averageCurrent: mid.net / T }
         : { ripplePkPk: null, chargePkPkAs: null, averageCurrent: null },
       wrongSignTime: wrong,
-      lineDevicesAtPwm: line,
+      interruptedTime: interrupted,
+      lineDevicesAtPwm: lineAtPwm,
+      runtime: { multiPhaseSteps: stream.multiPhaseSteps, chainSteps: stream.chainSteps, heldPeriods: stream.heldUpdates },
     },
     scaling,
     segments,
@@ -444,7 +671,7 @@ function currentDerating(faulted: RunOutput, healthy: RunOutput): Simulation['cu
     factor: Math.max(0, factor),
     limitingDevice: limiting,
     assumption: withRth
-      ? 'temperature rise = thermal resistance × loss per device, from the parameter file'
-      : 'equal thermal resistance for every device: losses compared directly',
+      ? 'temperature rise = thermal resistance × loss per surviving device, from the parameter file'
+      : 'equal thermal resistance for every surviving device: losses compared directly',
   };
 }

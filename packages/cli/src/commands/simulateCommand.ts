@@ -10,7 +10,7 @@ import { SIM_OPTIONS, simulateInputs } from '../simulateInputs.js';
 export const simulateCommand: Command = {
   name: 'simulate',
   summary: 'one fundamental period of the degraded table: line-voltage spectrum, device currents and losses, midpoint swing',
-  usage: 'simulate --topology T [--fault F]... --m M --load-angle DEG --vdc V --current-peak A --f1 HZ --fsw HZ [--devices FILE.json] [--capacitance F] [--polarity-margin DEG] [--json|--csv] [--waveforms FILE.csv]',
+  usage: 'simulate --topology T [--fault F]... --m M --load-angle DEG --vdc V --current-peak A --f1 HZ --fsw HZ [--devices FILE.json] [--capacitance F] [--dead-time S] [--polarity-margin DEG] [--sequence S] [--balance on|off] [--update half|period] [--json|--csv] [--waveforms FILE.csv]',
   options: [
     ...LEG_OPTIONS,
     ...SIM_OPTIONS,
@@ -54,13 +54,14 @@ export function simulationText(s: Simulation): string {
     const f = s.devices[id] as Simulation['devices'][string];
     const h = s.healthy.devices[id] as Simulation['devices'][string];
     const change = total(h) > 1e-9 ? `${fmt(100 * (total(f) / total(h) - 1), 0)} %` : total(f) > 1e-9 ? 'new' : '-';
-    return [id, fmt(f.avgCurrent, 1), fmt(f.rmsCurrent, 1), fmt(f.conductionLoss, 1), fmt(f.switchingLoss, 1), fmt(total(f), 1), fmt(total(h), 1), change];
+    return [`${id}${f.failed ? ` (${f.failed.toUpperCase()})` : ''}`, fmt(f.avgCurrent, 1), fmt(f.rmsCurrent, 1), fmt(f.conductionLoss, 1), fmt(f.switchingLoss, 1), fmt(total(f), 1), fmt(total(h), 1), change];
   });
-  const mid = (x: Simulation['midpoint']) => (x.chargePkPkAs === null ? 'no midpoint' : `${x.ripplePkPk === null ? '(give --capacitance for volts)' : `${fmt(x.ripplePkPk, 2)} V peak to peak`}, charge swing ${fmt(x.chargePkPkAs, 4)} As, average current ${fmt(x.averageCurrent ?? 0, 2)} A`);
+  const mid = (x: Simulation['midpoint']) => (x.chargePkPkAs === null ? 'no midpoint' : `ripple ${x.ripplePkPk === null ? '(give --capacitance for volts)' : `${fmt(x.ripplePkPk, 2)} V peak to peak`}, charge swing ${fmt(x.chargePkPkAs, 4)} As, average current into the midpoint ${fmt(x.averageCurrent ?? 0, 2)} A`);
   const d = s.currentDerating;
   return [
     `Leg: ${s.topology}   faults: ${s.faults.join(', ') || 'none'}   m = ${fmt(s.m, 4)}   load angle ${fmt(s.loadAngleDeg, 1)} deg`,
     `Vdc ${fmt(s.vdc, 1)} V, phase current ${fmt(s.currentPeak, 1)} A peak, f1 ${fmt(s.f1, 2)} Hz, fsw ${fmt(s.fsw, 0)} Hz (${s.periods} switching periods per fundamental). Devices: ${s.deviceParameters}.`,
+    `Runtime: ${s.sequence} sequence, midpoint balance ${s.balance}, ${s.update === 'half' ? 'a sample at each half period' : 'one sample per period'}; ${s.deadTime > 0 ? `dead time ${fmt(s.deadTime * 1e6, 2)} us: during it each changing phase sits in the switches both states share and gives what the leg gives for its current's sign` : 'no dead time (ideal switching instants)'}.`,
     '',
     'Line voltage a-b:',
     textTable(['leg', 'V1 peak', 'V1 rms', 'rms total', 'THD %', 'WTHD %'], [['faulted', ...lv(s.lineVoltage)], ['healthy', ...lv(s.healthy.lineVoltage)]]),
@@ -70,7 +71,10 @@ export function simulationText(s: Simulation): string {
     textTable(['element', 'avg A', 'rms A', 'cond W', 'switch W', 'total W', 'healthy W', 'change'], rows),
     '',
     `Hottest element: ${s.hottest.device} ${fmt(s.hottest.loss, 1)} W (healthy leg: ${s.healthy.hottest.device} ${fmt(s.healthy.hottest.loss, 1)} W).`,
-    `Current derating: at most ${fmt(100 * d.factor, 1)} % of ${fmt(s.currentPeak, 1)} A peak keeps every element within the healthy leg's largest loss${d.limitingDevice ? ` (limited by ${d.limitingDevice})` : ''}; ${d.assumption}.`,
+    `Current derating: at most ${fmt(100 * d.factor, 1)} % of ${fmt(s.currentPeak, 1)} A peak keeps every surviving element within the healthy leg's largest loss${d.limitingDevice ? ` (limited by ${d.limitingDevice})` : ''}; ${d.assumption}.`,
+    ...(Object.values(s.devices).some((x) => x.failed === 'short') ? ['A shorted element still carries current: its conduction loss above is indicative (its parameters as if healthy); it is never charged switching loss nor named as limiting.'] : []),
+    ...(s.runtime.heldPeriods ? [`HELD ${s.runtime.heldPeriods} UPDATES: the runtime found no safe step into the triangle the reference needed and kept its state (the voltage above is not the one asked for).`] : []),
+    ...(s.interruptedTime > 0 ? [`WARNING: for ${fmt(s.interruptedTime * 1e6, 1)} us (phase-seconds) a phase's state offered no path for its current's actual sign: the current would be interrupted. Use a polarity margin.`] : []),
     `Midpoint: faulted ${mid(s.midpoint)}; healthy ${mid(s.healthy.midpoint)}.`,
     ...(s.lineDevicesAtPwm.length ? [`LINE-FREQUENCY DEVICES SWITCHED AT PWM RATE: ${s.lineDevicesAtPwm.map((x) => `${x.device} (${fmt(x.switchingLoss, 1)} W switching)`).join(', ')}.`] : []),
     ...(s.wrongSignTime > 0 ? [`WARNING: for ${fmt(s.wrongSignTime * 1e6, 1)} us (phase-seconds) a phase current had the other sign than the polarity its switching period was planned for, and its state gave another level than planned: use a polarity margin (--polarity-margin).`] : []),
