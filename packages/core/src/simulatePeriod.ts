@@ -123,6 +123,8 @@ export interface WaveformSegment {
   readonly forward: readonly [readonly boolean[], readonly boolean[], readonly boolean[]];
   /** Per phase: the gate set is an intermediate one (dead time of a change). */
   readonly dead: readonly [boolean, boolean, boolean];
+  /** Per phase: the switches gated on. */
+  readonly gates: readonly [readonly string[], readonly string[], readonly string[]];
 }
 
 const TWO_PI = 2 * Math.PI;
@@ -310,6 +312,7 @@ function runPeriod(x: RunInputs, atlas: DiagramAtlas): RunOutput {
     const levels: number[] = [];
     const chosen: CurrentPath[] = [];
     const dead: boolean[] = [];
+    const gates: (readonly string[])[] = [];
     let qA = 0;
     let qB = 0;
     for (let k = 0; k < 3; k++) {
@@ -320,6 +323,7 @@ function runPeriod(x: RunInputs, atlas: DiagramAtlas): RunOutput {
       const sign: CurrentSign = i >= 0 ? '+' : '-';
       const got = paths(k, span.gates, span.key, sign, Math.abs(i));
       dead.push(span.dead);
+      gates.push(span.gates);
       if (got.level === null) {
         // no path for the actual sign: the current would be interrupted (reported); the planned level stands for the voltage
         interrupted += b - a;
@@ -350,6 +354,7 @@ function runPeriod(x: RunInputs, atlas: DiagramAtlas): RunOutput {
       paths: [chosen[0]!.elements, chosen[1]!.elements, chosen[2]!.elements],
       forward: [chosen[0]!.forward, chosen[1]!.forward, chosen[2]!.forward],
       dead: [dead[0] as boolean, dead[1] as boolean, dead[2] as boolean],
+      gates: [gates[0] as readonly string[], gates[1] as readonly string[], gates[2] as readonly string[]],
     });
     mid.add(a, b, qA, qB);
   }
