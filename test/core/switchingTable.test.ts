@@ -53,10 +53,12 @@ describe('switchingTable', () => {
     expect(coeff([1, 0, -1])).toEqual([0, 1, 0]);
     expect(coeff([1, -1, -1])).toEqual([0, 0, 0]);
     expect(coeff([0, 0, 0])).toEqual([1, 1, 1]);
-    // with i_a > 0 the two small-vector twins push the midpoint opposite ways: full authority
+    // with i_a > 0 the two small-vector twins push the midpoint opposite ways: full authority. The
+    // sign is that of the current into the midpoint node (contract, Version 3): POO feeds −(i_b + i_c)
+    // = i_a > 0 into it, ONN takes i_a out of it
     const r100 = all.find((r) => r.levels.join() === '1,0,0')!;
     const r0nn = all.find((r) => r.levels.join() === '0,-1,-1')!;
-    expect([r100.midpointSign, r0nn.midpointSign]).toEqual([-1, 1]);
+    expect([r100.midpointSign, r0nn.midpointSign]).toEqual([1, -1]);
   });
 
   it('gives a healthy NPC sequences that move one phase by one level per step', () => {
@@ -124,15 +126,15 @@ describe('cycleCheck', () => {
 });
 
 describe('midpointSign', () => {
-  it('resolves an unknown phase where the three currents summing to zero decide (Version 2)', () => {
-    // one phase at the midpoint: its own sign, unknown when it reads ?
-    expect(midpointSign([1, 0, 0], ['+', '-', '?'])).toBe(1);
+  it('resolves an unknown phase where the three currents summing to zero decide (current into the midpoint node)', () => {
+    // one phase at the midpoint: minus its own sign, unknown when it reads ?
+    expect(midpointSign([1, 0, 0], ['+', '-', '?'])).toBe(-1);
     expect(midpointSign([1, 0, 0], ['?', '-', '+'])).toBeNull();
-    // two at the midpoint: i_a + i_b = −i_c, from the third phase when known …
-    expect(midpointSign([1, 1, 0], ['?', '?', '+'])).toBe(-1);
+    // two at the midpoint: −(i_a + i_b) = i_c, from the third phase when known …
+    expect(midpointSign([1, 1, 0], ['?', '?', '+'])).toBe(1);
     // … or, the third reading ?, from the two when they share one known sign
-    expect(midpointSign([1, 1, 0], ['+', '+', '?'])).toBe(1);
-    expect(midpointSign([1, 1, 0], ['-', '-', '?'])).toBe(-1);
+    expect(midpointSign([1, 1, 0], ['+', '+', '?'])).toBe(-1);
+    expect(midpointSign([1, 1, 0], ['-', '-', '?'])).toBe(1);
     expect(midpointSign([1, 1, 0], ['+', '-', '?'])).toBeNull();
     expect(midpointSign([0, 0, 0], ['?', '?', '?'])).toBe(0);
   });

@@ -2,7 +2,7 @@ import { existsSync, readFileSync, writeFileSync } from 'node:fs';
 import { XMLParser, XMLValidator } from 'fast-xml-parser';
 import { describe, expect, it } from 'vitest';
 import {
-  builtinLeg, deratingCurve, diagramAtlas, faultAtlas, gatedDeviceIds, simulatePeriod, simulationWaveform, parseNetlist, planFromAtlas, planRemedial, switchingTableFromAtlas,
+  builtinLeg, deratingCurve, diagramAtlas, faultAtlas, gatedDeviceIds, samplePeriod, simulatePeriod, simulationWaveform, parseNetlist, planFromAtlas, planRemedial, switchingTableFromAtlas,
 } from '@hexsalvage/core';
 import { atlasHeatmapSvg, atlasPairMatrixSvg, deratingCurveSvg, legSchematicSvg, lossBarsSvg, ratioColour, spectrumSvg, waveformsSvg, sectorOverviewSvg, switchingPeriodSvg, vectorDiagramSvg } from '@hexsalvage/plot';
 
@@ -108,17 +108,31 @@ describe('legSchematicSvg', () => {
 describe('switchingPeriodSvg', () => {
   const table = switchingTableFromAtlas(diagramAtlas({ topology: 'anpc-hybrid', faults: ['a.innerUpper'] }));
   const switches = gatedDeviceIds(builtinLeg('anpc-hybrid'));
-  it('draws a level trace per phase and gate rows whose changes add up to the sequence count', () => {
-    const tri = table.polarities['+--']!.tableTriangles[7]!;
-    const svg = switchingPeriodSvg(tri, { switches, levels: table.levels, dwell: [0.2, 0.3, 0.5] });
+  // the runtime's period at the centroid of triangle 7 of +--, with the currents of a 25° load angle there
+  const tri = table.polarities['+--']!.tableTriangles[7]!;
+  const [alpha, beta] = [(tri.vertices[0].alpha + tri.vertices[1].alpha + tri.vertices[2].alpha) / 3, (tri.vertices[0].beta + tri.vertices[1].beta + tri.vertices[2].beta) / 3];
+  const th = Math.atan2(beta, alpha);
+  const currents = [0, 1, 2].map((k) => Math.cos(th - (25 * Math.PI) / 180 - (k * 2 * Math.PI) / 3)) as [number, number, number];
+  const period = samplePeriod(table, { alpha, beta, polarity: '+--', currents });
+  it('draws a level trace per phase and gate rows whose changes add up to the period\'s gate changes', () => {
+    const svg = switchingPeriodSvg(period, { switches, levels: table.levels, lineDevices: table.lineDevices });
     wellFormed(svg);
     expect(byClass(svg, 'level-trace')).toHaveLength(3);
     const counts = [...svg.matchAll(/>(\d+) ch\.</g)].map((m) => Number(m[1]));
     expect(counts).toHaveLength(3 * switches.length);
-    expect(counts.reduce((a, b) => a + b, 0)).toBe(tri.sequence!.totalGateChanges);
-    expect(svg).toContain('LINE-RATE DEVICES AT PWM');
+    // every gate change between consecutive states, counted independently here
+    let expected = 0;
+    for (let i = 0; i + 1 < period.states.length; i++) for (let k = 0; k < 3; k++) {
+      const a = period.states[i]!.gates[k]!;
+      const b = period.states[i + 1]!.gates[k]!;
+      expected += a.filter((g) => !b.includes(g)).length + b.filter((g) => !a.includes(g)).length;
+    }
+    expect(counts.reduce((x, y) => x + y, 0)).toBe(expected);
+    expect(expected).toBeGreaterThan(0);
+    // a period begins and ends in the same state
+    expect(period.states[0]!.patterns).toEqual(period.states[period.states.length - 1]!.patterns);
   });
-  it('matches its golden file', () => golden('sequence-anpcHybrid-innerUpper', switchingPeriodSvg(table.polarities['+--']!.tableTriangles[7]!, { switches, levels: table.levels })));
+  it('matches its golden file', () => golden('sequence-anpcHybrid-innerUpper', switchingPeriodSvg(period, { switches, levels: table.levels, lineDevices: table.lineDevices })));
 });
 
 describe('plots are byte-stable', () => {

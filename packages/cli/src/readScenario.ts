@@ -19,6 +19,8 @@ export interface Scenario {
   readonly switchingHz?: number;
   /** Capacitance of each half of the DC link, farads. */
   readonly dcLinkCapacitanceF?: number;
+  /** Dead time, seconds (at most a tenth of the switching period). */
+  readonly deadTimeS?: number;
   /** Operating load-angle range [LO, HI], degrees. */
   readonly loadAngleRangeDeg?: readonly [number, number];
   /** The load angle the report is drawn at, degrees (default: the middle of the range, else 0). */
@@ -34,7 +36,7 @@ export interface Scenario {
   readonly inputs: readonly { readonly path: string; readonly sha256: string }[];
 }
 
-const KEYS = ['$schema', 'drive', 'ratedPowerKw', 'ratedLineVoltageV', 'vdc', 'fundamentalHz', 'switchingHz', 'dcLinkCapacitanceF', 'loadAngleRangeDeg', 'loadAngleDeg', 'polarityMarginDeg', 'topology', 'faults', 'levelSteps', 'claims', 'claimsFile'];
+const KEYS = ['$schema', 'drive', 'ratedPowerKw', 'ratedLineVoltageV', 'vdc', 'fundamentalHz', 'switchingHz', 'dcLinkCapacitanceF', 'deadTimeS', 'loadAngleRangeDeg', 'loadAngleDeg', 'polarityMarginDeg', 'topology', 'faults', 'levelSteps', 'claims', 'claimsFile'];
 
 /**
  * SHA-256 of a file's bytes, hex.
@@ -126,6 +128,7 @@ export function readScenario(path: string): Scenario {
     ...opt('fundamentalHz', num('fundamentalHz', 0, 1e5)),
     ...opt('switchingHz', num('switchingHz', 0, 1e8)),
     ...opt('dcLinkCapacitanceF', num('dcLinkCapacitanceF', 0, 1e3)),
+    ...opt('deadTimeS', deadTime(num('deadTimeS', -1, 1), num('switchingHz', 0, 1e8))),
     ...(r ? { loadAngleRangeDeg: r } : {}),
     loadAngleDeg,
     polarityMarginDeg: margin,
@@ -136,4 +139,12 @@ export function readScenario(path: string): Scenario {
     claims,
     inputs,
   };
+}
+
+// The scenario's dead time: 0 or more, at most a tenth of the switching period.
+function deadTime(td: number | undefined, fsw: number | undefined): number | undefined {
+  if (td === undefined) return undefined;
+  const most = fsw === undefined ? 1e-3 : 0.1 / fsw;
+  if (!(td >= 0 && td <= most)) throw new HexsalvageInputError('scenario', 'scenario', 'deadTimeS', `a dead time in seconds from 0 to a tenth of the switching period (${most.toExponential(3)} s)`, td);
+  return td;
 }

@@ -59,3 +59,4 @@ export { POLARITY_CHARS, patternSteps, type PhaseSteps } from './patternSteps.js
 export { MAX_CANDIDATES, runtimeProgram, type RuntimeProgram } from './runtimeProgram.js';
 export { SEQUENCE_MODES, createRuntime, runtimeOptions, type Runtime, type RuntimeOptions, type RuntimeOutput, type SequenceMode } from './createRuntime.js';
 export { UPDATE_MODES, runtimeStream, type RuntimeStream, type RuntimeStreamOptions, type StreamSegment, type UpdateMode } from './runtimeStream.js';
+export { samplePeriod, type PeriodState, type SampledPeriod, type SamplePeriodOptions } from './samplePeriod.js';

@@ -1,14 +1,15 @@
 import type { LevelTriplet } from './clarke.js';
 import type { PhasePolarity } from './legTable.js';
 
-/** Sign of the current a realisation draws from the DC midpoint: +1, −1, 0, or null (unknown). */
+/** Sign of the current into the DC midpoint node under a realisation: +1, −1, 0, or null (unknown). */
 export type MidpointSign = 1 | -1 | 0 | null;
 
 /**
  * Which phase currents flow through the DC midpoint for a level triplet.
  *
- * A phase at the midpoint potential (0) exchanges its current with the midpoint; the leg then
- * draws `i_NP = Σ c_k·i_k` from it, with `i_k` positive out of the leg into the load.
+ * A phase at the midpoint potential (0) exchanges its current with the midpoint; the current into
+ * the midpoint node is then `i_mid = −Σ c_k·i_k` (contract, Version 3), with `i_k` positive out of
+ * the leg into the load.
  *
  * @param levels - phase levels
  * @param hasMidpoint - whether the leg has a DC node at potential 0
@@ -23,21 +24,28 @@ export function midpointCoefficients(levels: LevelTriplet, hasMidpoint: boolean)
 }
 
 /**
- * Sign of the midpoint current for a polarity string, using i_a + i_b + i_c = 0.
+ * Sign of the current into the midpoint node for a polarity string, `i_mid = −Σ c_k·i_k`, using
+ * i_a + i_b + i_c = 0.
  *
- * One phase at the midpoint: its own sign. Two: minus the sign of the third, or, where the third
- * reads `?`, the common sign of the two when they share one. None or all three: 0. Otherwise the
- * sign is unknown (`null`).
+ * One phase at the midpoint: minus its own sign. Two: the sign of the third, or, where the third
+ * reads `?`, minus the common sign of the two when they share one. None or all three: 0. Otherwise
+ * the sign is unknown (`null`).
  *
  * @param c - midpoint coefficients
  * @param polarity - per-phase polarity
- * @returns +1 (current drawn out of the midpoint), −1, 0 or null
+ * @returns +1 (current into the midpoint node), −1, 0 or null
  * @example
  * ```ts
- * midpointSign([0, 1, 1], ['+', '-', '-']); // -1: i_b + i_c = −i_a < 0
+ * midpointSign([0, 1, 1], ['+', '-', '-']); // +1: −(i_b + i_c) = i_a > 0
  * ```
  */
 export function midpointSign(c: readonly (0 | 1)[], polarity: readonly PhasePolarity[]): MidpointSign {
+  const s = drawnSign(c, polarity);
+  return s === null || s === 0 ? s : (-s as 1 | -1);
+}
+
+// The sign of Σ c_k·i_k, the current the phases at the midpoint draw out of it.
+function drawnSign(c: readonly (0 | 1)[], polarity: readonly PhasePolarity[]): MidpointSign {
   const n = c.filter((x) => x === 1).length;
   if (n === 0 || n === 3) return 0;
   const sign = (p: PhasePolarity | undefined) => (p === '+' ? 1 : p === '-' ? -1 : 0);

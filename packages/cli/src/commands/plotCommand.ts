@@ -1,10 +1,10 @@
-import { parsePolarity, diagramAtlas, simulatePeriod, simulationWaveform, deratingCurve, gatedDeviceIds, locateReference, planFromAtlas, switchingTableFromAtlas } from '@hexsalvage/core';
+import { parsePolarity, diagramAtlas, simulatePeriod, simulationWaveform, deratingCurve, gatedDeviceIds, planFromAtlas, samplePeriod, switchingTableFromAtlas, type DiagramAtlas, type RemedialPlan, type SequenceMode } from '@hexsalvage/core';
 import { atlasHeatmapSvg, atlasPairMatrixSvg, deratingCurveSvg, legSchematicSvg, lossBarsSvg, spectrumSvg, waveformsSvg, sectorOverviewSvg, switchingPeriodSvg, vectorDiagramSvg } from '@hexsalvage/plot';
 import { degreeRange, usage } from '../args.js';
 import { SIM_OPTIONS, simulateInputs } from '../simulateInputs.js';
 import { ATLAS_OPTIONS, atlasFromArgs } from '../atlasInputs.js';
 import { ANGLE_OPTIONS, HELP_OPTION, LEG_OPTIONS, VDC_OPTION, type Command } from '../command.js';
-import { angleInputs, legInputs, vdcInput } from '../legInputs.js';
+import { angleInputs, legInputs, runtimeInputs, vdcInput } from '../legInputs.js';
 import { writeSvgOrPng } from '../renderFile.js';
 import { schematicFocus } from '../schematicFocus.js';
 
@@ -87,26 +87,45 @@ export const plotCommand: Command = {
     } else if (kind === 'leg') {
       svg = legSchematicSvg(atlas.analysis.leg, schematicFocus(atlas.analysis, args.values.get('phase') as string | undefined, args.values.get('pattern') as string | undefined, args.values.get('sign') as string | undefined));
     } else {
-      const table = switchingTableFromAtlas(atlas);
-      const entry = table.polarities[polarity]!;
-      let t = args.values.get('triangle') as number | undefined;
-      let dwell: [number, number, number] | undefined;
-      if (t === undefined) {
-        const th = (plan.limitingAngleDeg * Math.PI) / 180;
-        const r = locateReference(entry, 0.7 * plan.mMax * Math.cos(th), 0.7 * plan.mMax * Math.sin(th));
-        t = r.ok ? r.triangle : 0;
-        if (r.ok) dwell = [...r.dwell] as [number, number, number];
-      }
-      if (!Number.isInteger(t) || t < 0 || t >= entry.tableTriangles.length) throw usage('--triangle', `a triangle index 0…${entry.tableTriangles.length - 1} of polarity ${polarity}`, t);
-      svg = switchingPeriodSvg(entry.tableTriangles[t]!, {
-        ...(dwell ? { dwell } : {}),
-        switches: gatedDeviceIds(atlas.analysis.leg),
-        levels: table.levels,
-        title: `Switching period: ${atlas.analysis.topology}, polarity ${polarity}, triangle ${t}`,
-      });
+      svg = sequencePicture(atlas, plan, polarity, args.values.get('triangle') as number | undefined, runtimeInputs(args));
     }
     const bytes = await writeSvgOrPng(out, svg);
     await io.stdout(`wrote ${out} (${kind}, ${bytes} bytes)\n`);
     return 0;
   },
 };
+
+/**
+ * The switching period the runtime applies in one triangle: by default at 0.7·mMax where the limit
+ * binds (0.7 of the healthy limit where the leg cannot run), or at the centroid of `--triangle`.
+ *
+ * @param atlas - the leg's diagrams
+ * @param plan - its plan at the load angle
+ * @param polarity - the polarity string drawn
+ * @param triangle - a triangle index of that polarity, or undefined
+ * @param runtime - the runtime's sequence and balance
+ * @returns the SVG
+ * @throws HexsalvageInputError for a triangle index out of range
+ */
+export function sequencePicture(atlas: DiagramAtlas, plan: RemedialPlan, polarity: string, triangle: number | undefined, runtime: { sequence: SequenceMode; balance: 'on' | 'off' }): string {
+  const table = switchingTableFromAtlas(atlas);
+  const entry = table.polarities[polarity]!;
+  let alpha: number;
+  let beta: number;
+  if (triangle === undefined) {
+    const th = (plan.limitingAngleDeg * Math.PI) / 180;
+    const r = 0.7 * (plan.mMax > 0 ? plan.mMax : plan.mMaxHealthy);
+    [alpha, beta] = [r * Math.cos(th), r * Math.sin(th)];
+  } else {
+    if (!Number.isInteger(triangle) || triangle < 0 || triangle >= entry.tableTriangles.length) throw usage('--triangle', `a triangle index 0…${entry.tableTriangles.length - 1} of polarity ${polarity}`, triangle);
+    const v = entry.tableTriangles[triangle]!.vertices;
+    [alpha, beta] = [(v[0].alpha + v[1].alpha + v[2].alpha) / 3, (v[0].beta + v[1].beta + v[2].beta) / 3];
+  }
+  const period = samplePeriod(table, { alpha, beta, polarity, ...runtime });
+  return switchingPeriodSvg(period, {
+    switches: gatedDeviceIds(atlas.analysis.leg),
+    levels: table.levels,
+    lineDevices: table.lineDevices,
+    title: `Switching period: ${atlas.analysis.topology}, polarity ${polarity}, triangle ${period.triangle}`,
+  });
+}

@@ -1,12 +1,12 @@
 import { readFileSync } from 'node:fs';
 import { dirname, relative, resolve } from 'node:path';
-import { diagramAtlas, modulationOfLineRms, planFromAtlas, simulatePeriod, simulationWaveform, switchingTableFromAtlas, type ClaimVerdict, type LegNetlist, type LevelStepRule } from '@hexsalvage/core';
+import { diagramAtlas, modulationOfLineRms, planFromAtlas, simulatePeriod, simulationWaveform, switchingTableFromAtlas, type ClaimVerdict, type LegNetlist, type LevelStepRule, type SequenceMode } from '@hexsalvage/core';
 import { usage, type ParsedArgs } from '../args.js';
 import { buildDate, commandLine } from '../commandLine.js';
 import { fileSha256, readScenario, type Scenario } from '../readScenario.js';
 import { ATLAS_OPTIONS, atlasFromArgs } from '../atlasInputs.js';
-import { ANGLE_OPTIONS, HELP_OPTION, LEG_OPTIONS, VDC_OPTION, type Command } from '../command.js';
-import { angleInputs, legInputs, vdcInput } from '../legInputs.js';
+import { ANGLE_OPTIONS, HELP_OPTION, LEG_OPTIONS, RUNTIME_OPTIONS, VDC_OPTION, type Command } from '../command.js';
+import { angleInputs, legInputs, runtimeInputs, vdcInput } from '../legInputs.js';
 import { writeFileAtomic } from '../output.js';
 import { judgeClaimList, judgeClaims } from '../readClaims.js';
 import { buildReport } from '../report/buildReport.js';
@@ -17,13 +17,14 @@ const VERSION = (JSON.parse(readFileSync(new URL('../../package.json', import.me
 export const reportCommand: Command = {
   name: 'report',
   summary: 'write a self-contained HTML design-review report (header, limit, plots, table, claims, sign-off)',
-  usage: 'report (--scenario FILE.json | --topology T [--fault F]... [--load-angle DEG] [--polarity-margin DEG] [--vdc V] [--claims FILE]) [--atlas [atlas options]] --out FILE.html',
+  usage: 'report (--scenario FILE.json | --topology T [--fault F]... [--load-angle DEG] [--polarity-margin DEG] [--vdc V] [--claims FILE]) [--sequence S] [--balance on|off] [--atlas [atlas options]] --out FILE.html',
   options: [
     { name: 'scenario', type: 'string', value: 'FILE', help: 'a review scenario (docs/schema/scenario.schema.json): drive data, leg, faults, load angles, claims; needs nothing else' },
     ...LEG_OPTIONS,
     ...ANGLE_OPTIONS,
     VDC_OPTION,
     { name: 'claims', type: 'string', value: 'FILE', help: 'also show the verdicts of a claims file' },
+    ...RUNTIME_OPTIONS,
     { name: 'atlas', type: 'flag', help: 'add an appendix with every fault of the leg (the fault atlas; shaped by the atlas options)' },
     ...ATLAS_OPTIONS,
     { name: 'out', type: 'string', value: 'FILE', help: 'output .html file (replaced atomically)' },
@@ -58,12 +59,14 @@ export const reportCommand: Command = {
     if (!args.flags.has('atlas') && atlasFlags.length > 0) throw usage(`--${atlasFlags[0]}`, 'only together with --atlas');
     const faultAtlas = args.flags.has('atlas') ? await atlasFromArgs(scenario && scenarioFile ? withScenario(args, scenario, scenarioFile) : args, io, false, true) : undefined;
     const plan = planFromAtlas(atlas, inputs.loadAngleDeg, inputs.polarityMarginDeg);
-    const simulation = scenario ? scenarioSimulation(scenario, inputs, plan.mMax) : undefined;
+    const runtime = runtimeInputs(args);
+    const simulation = scenario ? scenarioSimulation(scenario, { ...inputs, runtime }, plan.mMax) : undefined;
     const html = buildReport({
       atlas,
       plan,
       ...(simulation ? { simulation } : {}),
       table: switchingTableFromAtlas(atlas),
+      runtime,
       topologyText: inputs.topologyText,
       ...(verdicts ? { verdicts } : {}),
       ...(faultAtlas ? { faultAtlas } : {}),
@@ -83,7 +86,7 @@ export const reportCommand: Command = {
 // One simulated period at the scenario's operating point, when it gives the drive's data: m is the
 // rated voltage's, or the safe limit where that is lower; the current is the rated one,
 // √2·P / (√3·V·cos φ) at the operating load angle.
-function scenarioSimulation(sc: Scenario, inputs: { topology: string | LegNetlist; faults: readonly string[]; rules: { ignoreRatings: boolean; levelSteps: LevelStepRule }; loadAngleDeg: number; polarityMarginDeg: number }, mMax: number) {
+function scenarioSimulation(sc: Scenario, inputs: { topology: string | LegNetlist; faults: readonly string[]; rules: { ignoreRatings: boolean; levelSteps: LevelStepRule }; loadAngleDeg: number; polarityMarginDeg: number; runtime: { sequence: SequenceMode; balance: 'on' | 'off' } }, mMax: number) {
   if (sc.ratedPowerKw === undefined || sc.ratedLineVoltageV === undefined || sc.fundamentalHz === undefined || sc.switchingHz === undefined || mMax <= 0) return undefined;
   const cos = Math.cos((inputs.loadAngleDeg * Math.PI) / 180);
   if (cos < 0.1 || sc.switchingHz < 6 * sc.fundamentalHz) return undefined;
@@ -99,6 +102,8 @@ function scenarioSimulation(sc: Scenario, inputs: { topology: string | LegNetlis
     f1: sc.fundamentalHz,
     fsw: sc.switchingHz,
     ...(sc.dcLinkCapacitanceF !== undefined ? { capacitance: sc.dcLinkCapacitanceF } : {}),
+    ...(sc.deadTimeS !== undefined ? { deadTime: sc.deadTimeS } : {}),
+    ...inputs.runtime,
   };
   return { sim: simulatePeriod(options), segments: simulationWaveform(options) };
 }

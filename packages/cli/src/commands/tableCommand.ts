@@ -1,26 +1,27 @@
 import { lineRmsVolts, parsePolarity, switchingTable, type SwitchingTable } from '@hexsalvage/core';
-import { HELP_OPTION, JSON_OPTION, LEG_OPTIONS, VDC_OPTION, type Command } from '../command.js';
+import { HELP_OPTION, JSON_OPTION, LEG_OPTIONS, RUNTIME_OPTIONS, VDC_OPTION, type Command } from '../command.js';
 import { cautionBlock, fmt, levelText, textTable, tripletText } from '../format.js';
-import { legInputs, vdcInput } from '../legInputs.js';
+import { legInputs, runtimeInputs, vdcInput } from '../legInputs.js';
 
 /** `hexsalvage table`: the degraded switching-state table, readable. */
 export const tableCommand: Command = {
   name: 'table',
   summary: 'degraded switching-state table: per polarity and triangle, states, sequence and flags',
-  usage: 'table --topology T [--fault F]... [--polarity XYZ] [--vdc V] [--json]',
-  options: [...LEG_OPTIONS, { name: 'polarity', type: 'string', value: 'XYZ', help: 'show one polarity string only (default: all 25)' }, VDC_OPTION, JSON_OPTION, HELP_OPTION],
+  usage: 'table --topology T [--fault F]... [--polarity XYZ] [--sequence S] [--balance on|off] [--vdc V] [--json]',
+  options: [...LEG_OPTIONS, { name: 'polarity', type: 'string', value: 'XYZ', help: 'show one polarity string only (default: all 25)' }, ...RUNTIME_OPTIONS, VDC_OPTION, JSON_OPTION, HELP_OPTION],
   run: async (args, io) => {
     const { topology, faults, rules } = legInputs(args);
     const vdc = vdcInput(args);
+    const runtime = runtimeInputs(args);
     const table = switchingTable({ topology, faults, ...rules });
     const only = args.values.get('polarity') as string | undefined;
     if (only !== undefined) parsePolarity(only, '--polarity');
     if (args.flags.has('json')) {
-      const doc = only === undefined ? table : onlyPolarity(table, only);
+      const doc = { ...(only === undefined ? table : onlyPolarity(table, only)), runtime };
       await io.stdout(`${JSON.stringify(vdc === undefined ? doc : { ...doc, volts: { vdc, unitVolts: vdc / 2 } })}\n`);
       return 0;
     }
-    await io.stdout(`${tableText(table, only, vdc)}\n`);
+    await io.stdout(`${tableText(table, only, vdc)}\nRuntime (what firmware runs, see docs/table.md): ${runtime.sequence} sequence, midpoint balance ${runtime.balance}; each period picks one of a triangle's candidate sequences, chained to the period before.\n`);
     return 0;
   },
 };
@@ -61,7 +62,7 @@ export function tableText(table: SwitchingTable, only?: string, vdc?: number): s
   }
   const f = (only === undefined ? table : onlyPolarity(table, only)).flags;
   lines.push(`Flags${only === undefined ? '' : ` (polarity ${only})`}: ${f.lineDevicesAtPwm.length} triangles drive line-frequency devices at PWM rate, ${f.levelJumps.length} have level jumps, ${f.midpointAuthorityLost.length} lost midpoint control.`);
-  lines.push('Sequence: states from the start to the centre of a centre-aligned period, mirrored after; changes = gate changes per period.');
+  lines.push('Sequence: the reference order (fewest switchings) from the start to the centre of a centre-aligned period, mirrored after; changes = gate changes per period.');
   lines.push(cautionBlock(table.cautions));
   return lines.join('\n');
 }

@@ -1,5 +1,5 @@
 import {
-  CAUTIONS, deratingCurve, describeRules, lineRmsVolts, phasePeakVolts, gatedDeviceIds, locateReference, PHASES, type ClaimVerdict, type DiagramAtlas, type FaultAtlas, type PatternResult, type Simulation, type WaveformSegment,
+  CAUTIONS, deratingCurve, describeRules, lineRmsVolts, phasePeakVolts, gatedDeviceIds, PHASES, samplePeriod, type SequenceMode, type ClaimVerdict, type DiagramAtlas, type FaultAtlas, type PatternResult, type Simulation, type WaveformSegment,
   type PhasePolarity, type RemedialPlan, type SwitchingTable,
 } from '@hexsalvage/core';
 import { atlasHeatmapSvg, atlasPairMatrixSvg, deratingCurveSvg, esc, lossBarsSvg, spectrumSvg, waveformsSvg, legSchematicSvg, sectorOverviewSvg, switchingPeriodSvg, vectorDiagramSvg } from '@hexsalvage/plot';
@@ -13,6 +13,8 @@ export interface ReportInputs {
   readonly atlas: DiagramAtlas;
   readonly plan: RemedialPlan;
   readonly table: SwitchingTable;
+  /** The runtime's settings (the switching period drawn, the simulation). Default: continuous, balance on. */
+  readonly runtime?: { readonly sequence: SequenceMode; readonly balance: 'on' | 'off' };
   /** The `--topology` value as the user gave it. */
   readonly topologyText: string;
   readonly verdicts?: readonly ClaimVerdict[];
@@ -129,11 +131,16 @@ export function buildReport(r: ReportInputs): string {
     s.push(`<tr><td><code>${esc(pol)}</code></td><td>${p.vectors.length}</td><td>${p.lost.length}</td><td>${p.tableTriangles.length}</td><td>${fmt(p.reach, 4)}</td><td>${count('full')} / ${count('partial')} / ${count('none')}</td></tr>`);
   }
   s.push('</tbody></table>');
-  const entry = table.polarities[plan.limitingPolarity]!;
-  const th = (plan.limitingAngleDeg * Math.PI) / 180;
-  const at = locateReference(entry, 0.7 * plan.mMax * Math.cos(th), 0.7 * plan.mMax * Math.sin(th));
-  if (at.ok) {
-    s.push(figure(switchingPeriodSvg(entry.tableTriangles[at.triangle]!, { dwell: [...at.dwell] as [number, number, number], switches: gatedDeviceIds(leg), levels: table.levels, title: `Switching period, polarity ${plan.limitingPolarity}, triangle ${at.triangle}` }), `One centre-aligned switching period at 0.7·mMax in the direction where the limit binds: phase levels and gate signals, gate changes counted per device.`));
+  if (plan.mMax > 0) {
+    // the period the runtime applies at 0.7·mMax where the limit binds, with the currents there
+    const th = (plan.limitingAngleDeg * Math.PI) / 180;
+    const phi = (plan.loadAngleDeg * Math.PI) / 180;
+    const currents = [0, 1, 2].map((k) => Math.cos(th - phi - (k * 2 * Math.PI) / 3)) as [number, number, number];
+    const period = samplePeriod(table, { alpha: 0.7 * plan.mMax * Math.cos(th), beta: 0.7 * plan.mMax * Math.sin(th), polarity: plan.limitingPolarity, currents, ...(r.runtime ?? {}) });
+    if (period.triangle >= 0) {
+      const how = `${r.runtime?.sequence ?? 'continuous'} sequence, midpoint balance ${r.runtime?.balance ?? 'on'}`;
+      s.push(figure(switchingPeriodSvg(period, { switches: gatedDeviceIds(leg), levels: table.levels, lineDevices: table.lineDevices, title: `Switching period, polarity ${plan.limitingPolarity}, triangle ${period.triangle}` }), `One switching period as the runtime applies it (${how}) at 0.7·mMax in the direction where the limit binds: phase levels and gate signals, gate changes counted per device.`));
+    }
   }
 
   if (r.verdicts && r.verdicts.length) {
