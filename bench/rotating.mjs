@@ -3,7 +3,7 @@
 // next leg's (in one process the same call sites see several modulators and may stop inlining).
 import { readFileSync } from 'node:fs';
 import { performance } from 'node:perf_hooks';
-import { createModulator, planRemedial, polarityAt, POLARITY_STRINGS } from '../packages/core/dist/index.js';
+import { createModulator, createRuntime, planRemedial, polarityAt, POLARITY_STRINGS, switchingTable } from '../packages/core/dist/index.js';
 import { leanScan } from './leanScan.mjs';
 
 const label = process.argv[2];
@@ -46,3 +46,22 @@ for (let r = 0; r < 5; r++) {
 const med = (xs) => [...xs].sort((a, b) => a - b)[2];
 const ns = (ms) => ((ms * 1e6) / N).toFixed(1);
 console.log(`  ${label}, rotating: modulateInto ${ns(med(into))} ns, modulate ${ns(med(obj))} ns, lean scan ${ns(med(lean))} ns per call; modulateInto is ${(med(lean) / med(into)).toFixed(2)}x the lean linear scan; modulate costs ${(med(obj) / med(into)).toFixed(2)}x modulateInto`);
+
+// The runtime per switching period (goal: at most 3x modulateInto): one period per call, the same
+// rotating reference, measured currents, midpoint error 0; modulateInto on the table's modulator.
+{
+  const topology = label === 'five-level leg' ? JSON.parse(readFileSync(new URL('../examples/five-level-leg.json', import.meta.url), 'utf8')) : 'npc';
+  const table = switchingTable({ topology, faults: label === 'npc a.outerUpper' ? ['a.outerUpper'] : [] });
+  const tmod = createModulator(table);
+  const rt = createRuntime(table);
+  const buf = rt.output();
+  const cur = new Float64Array(3 * N);
+  for (let i = 0; i < N; i++) for (let k = 0; k < 3; k++) cur[3 * i + k] = Math.cos((2 * Math.PI * i) / 2000 - Math.PI / 6 - (k * 2 * Math.PI) / 3);
+  const tInto = [];
+  const tRt = [];
+  for (let r = 0; r < 5; r++) {
+    tInto.push(time(() => { for (let i = 0; i < N; i++) tmod.modulateInto(rot[2 * i], rot[2 * i + 1], rotPol[i], out); }));
+    tRt.push(time(() => { for (let i = 0; i < N; i++) rt.period(rot[2 * i], rot[2 * i + 1], rotPol[i], cur[3 * i], cur[3 * i + 1], cur[3 * i + 2], 0, buf); }));
+  }
+  console.log(`  ${label}, rotating: runtime ${ns(med(tRt))} ns per switching period, modulateInto ${ns(med(tInto))} ns; the runtime costs ${(med(tRt) / med(tInto)).toFixed(2)}x modulateInto (goal: at most 3x)`);
+}

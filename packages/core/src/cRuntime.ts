@@ -208,7 +208,10 @@ static inline double ${px}_miss_(int c, int k, const double d[3], double ia, dou
   return miss <= tol ? 0.0 : miss;
 }
 
-/* The candidate of global triangle g for this period and each phase's path (see createRuntime). */
+/* The candidate of global triangle g for this period and each phase's path (see createRuntime):
+ * the key, compared in order, is unreachable phases, phases left stuck for the next character,
+ * chain tier, balance miss, form, clamp, line-device changes weighed by current, gate changes,
+ * entry steps; ties go to the first candidate. */
 static int ${px}_select_(const ${px}_runtime *rt, int g, int qi, int nq, int dir, int exit, const double d[3], double ia, double ib, double ic, double target, int best_path[3], int *unreachable)
 {
   int best = -1, c, ph, x, end = (int)${px}_cand_first[g + 1];
@@ -218,9 +221,8 @@ static int ${px}_select_(const ${px}_runtime *rt, int g, int qi, int nq, int dir
   double wI[3];
   wI[0] = fabs(ia); wI[1] = fabs(ib); wI[2] = fabs(ic);
   for (c = (int)${px}_cand_first[g]; c < end; c++) {
-    int k = ${px}_cand_count[c], all0 = 1, one = -1, path[3], o0[3], o1[3], at[3];
+    int k = ${px}_cand_count[c], all0 = 1, one = -1, path[3], o0[3], o1[3], at[3], lines[3], xs, order;
     double line = 0, gates = 0, cost = 0, unreach = 0, stuck = 0, cLine = INFINITY, cGates = INFINITY, tier, form, miss, clamp;
-    int xs;
     if (!rt->continuous && k == 4) continue;
     for (ph = 0; ph < 3; ph++) {
       int b = rt->prev[ph] < 0 || rt->prev_char[ph] == ${px}_polarity_chars[qi][ph] ? 0 : 1;
@@ -229,32 +231,31 @@ static int ${px}_select_(const ${px}_runtime *rt, int g, int qi, int nq, int dir
       o0[ph] = ${px}_pick[a][0];
       o1[ph] = ${px}_pick[a][1];
       if (o0[ph] < 0) all0 = 0;
-      else { line += wI[ph] * ${px}_pick_line[a][0]; gates += ${px}_pick_gates[a][0]; }
+      else { line += ${px}_pick_line[a][0]; gates += ${px}_pick_gates[a][0]; }
     }
-    if (all0) { cLine = line; cGates = gates; for (ph = 0; ph < 3; ph++) path[ph] = o0[ph]; }
+    if (all0) { cLine = line; cGates = gates; }
     for (ph = 0; ph < 3; ph++) {
       int ok = 1;
       double l = 0, gt = 0;
       if (o1[ph] < 0) continue;
       for (x = 0; x < 3; x++) {
-        if (x == ph) { l += wI[x] * ${px}_pick_line[at[x]][1]; gt += ${px}_pick_gates[at[x]][1]; }
+        if (x == ph) { l += ${px}_pick_line[at[x]][1]; gt += ${px}_pick_gates[at[x]][1]; }
         else if (o0[x] < 0) ok = 0;
-        else { l += wI[x] * ${px}_pick_line[at[x]][0]; gt += ${px}_pick_gates[at[x]][0]; }
+        else { l += ${px}_pick_line[at[x]][0]; gt += ${px}_pick_gates[at[x]][0]; }
       }
       if (ok && (l < cLine || (l == cLine && gt < cGates))) { cLine = l; cGates = gt; one = ph; }
     }
-    if (one >= 0) {
-      for (ph = 0; ph < 3; ph++) path[ph] = ph == one ? o1[ph] : o0[ph];
-      cost = 1;
-    } else if (!all0) {
-      cLine = 0; cGates = 0;
-      for (ph = 0; ph < 3; ph++) {
-        path[ph] = ${px}_pick[at[ph]][2];
-        if (path[ph] < 0) { unreach++; path[ph] = (int)${px}_path_first[${px}_cand_seq[c][ph]]; continue; }
-        cost += ${px}_pick_dist[at[ph]][2];
-        cLine += wI[ph] * ${px}_pick_line[at[ph]][2];
-        cGates += ${px}_pick_gates[at[ph]][2];
-      }
+    for (ph = 0; ph < 3; ph++) {
+      int o = one >= 0 ? (ph == one ? 1 : 0) : !all0 ? 2 : 0;
+      path[ph] = ${px}_pick[at[ph]][o];
+      if (path[ph] < 0) { unreach++; path[ph] = (int)${px}_path_first[${px}_cand_seq[c][ph]]; lines[ph] = 0; }
+      else lines[ph] = ${px}_pick_line[at[ph]][o];
+      if (o == 2 && ${px}_pick[at[ph]][2] >= 0) cost += ${px}_pick_dist[at[ph]][2];
+    }
+    if (one >= 0) cost = 1;
+    else if (!all0) {
+      cGates = 0;
+      for (ph = 0; ph < 3; ph++) if (${px}_pick[at[ph]][2] >= 0) cGates += ${px}_pick_gates[at[ph]][2];
     }
     xs = exit < 0 ? k - 1 : exit;
     for (ph = 0; ph < 3; ph++) {
@@ -265,8 +266,9 @@ static int ${px}_select_(const ${px}_runtime *rt, int g, int qi, int nq, int dir
     form = rt->continuous ? (k == 4 ? 0 : 1) : 0;
     miss = rt->balance ? ${px}_miss_(c, k, d, ia, ib, ic, target, tol) : 0.0;
     clamp = rt->continuous ? 0 : (${px}_cand_clamped[c] == big ? 0 : 1);
+    cLine = wI[0] * lines[0] + wI[1] * lines[1] + wI[2] * lines[2];
     if (best >= 0) {
-      int order = ${px}_cmp_(unreach, bU);
+      order = ${px}_cmp_(unreach, bU);
       if (!order) order = ${px}_cmp_(stuck, bX);
       if (!order) order = ${px}_cmp_(tier, bT);
       if (!order) order = ${px}_cmp_(miss, bM);

@@ -58,7 +58,7 @@ export interface RuntimeOutput {
 export interface Runtime {
   /** Options in force, defaults filled in. */
   readonly options: Required<RuntimeOptions>;
-  /** A buffer large enough for any call. */
+  /** A buffer large enough for any call of this runtime (calls accept only this runtime's buffers). */
   output(): RuntimeOutput;
   /** Forgets the previous state (the next call chooses freely) and starts again with an up half. */
   reset(): void;
@@ -129,18 +129,27 @@ export function createRuntime(table: SwitchingTable, options: RuntimeOptions = {
   const q = new Float64Array(4);
   const d = new Float64Array(3);
   // the paths of the candidate being weighed and of the best one so far, per phase
-  const path = new Int32Array(3);
   const bestPath = new Int32Array(3);
   const o0 = new Int32Array(3);
   const o1 = new Int32Array(3);
   const at = new Int32Array(3);
   const wI = new Float64Array(3);
   let up = true;
+  // the candidate whose charges q holds (this call's), and what the output buffer holds (so that a
+  // period in the same candidate, paths and layout rewrites only the durations)
+  let qFor = -1;
+  let lastOut: RuntimeOutput | null = null;
+  let lastC = -1;
+  let lastP0 = -1;
+  let lastP1 = -1;
+  let lastP2 = -1;
+  let lastLayout = -1;
   const continuous = opts.sequence === 'continuous';
   const balance = opts.balance === 'on' && program.hasMidpoint;
 
   // midpoint current of each state of candidate c, into the midpoint node (contract sign)
   const chargesOf = (c: number, k: number, ia: number, ib: number, ic: number) => {
+    qFor = c;
     for (let s = 0; s < k; s++) {
       const mask = candMask[4 * c + s] as number;
       q[s] = -((mask & 1 ? ia : 0) + (mask & 2 ? ib : 0) + (mask & 4 ? ic : 0));
@@ -167,20 +176,148 @@ export function createRuntime(table: SwitchingTable, options: RuntimeOptions = {
     return miss <= tol ? 0 : miss;
   };
 
+  // The choice has a static part, fixed by the context (triangle, previous state and characters,
+  // next polarity, direction): which candidates can be entered at all, how (no step, one step, a
+  // chain), the form, gate changes and steps; and a dynamic part from the currents and dwell
+  // times: the balance miss, the clamped phase and the line-device changes weighed by current. The
+  // static part is worked out once per context and kept per triangle (G0: the candidates with the
+  // best unreachable / stuck / chain tier, in the order form, gates, steps, rank); a period then
+  // weighs only those, and stops at the first that nothing can beat (miss 0, no line change).
+  const stat = new Int32Array(16);
+  const staticOf = (c: number, qi: number, nq: number, dir: number, exit: number): void => {
+    // stat: 0 unreach, 1 stuck, 2 tier, 3 form, 4 cost, 5 gates, 6-8 paths, 9-11 line changes per phase
+    const k = candCount[c] as number;
+    let all0 = true;
+    let line = 0;
+    let gates = 0;
+    for (let ph = 0; ph < 3; ph++) {
+      const b = (prev[ph] as number) < 0 || prevChar[ph] === polarityChars[3 * qi + ph] ? 0 : 1;
+      const a = ((((candSeq[3 * c + ph] as number) * 2 + dir) * 2 + b) * (P + 1) + (prev[ph] as number) + 1) * 3;
+      at[ph] = a;
+      o0[ph] = pick[a] as number;
+      o1[ph] = pick[a + 1] as number;
+      if ((o0[ph] as number) < 0) all0 = false;
+      else {
+        line += pickLine[a] as number;
+        gates += pickGates[a] as number;
+      }
+    }
+    let cost = 0;
+    let unreach = 0;
+    let cLine = Infinity;
+    let cGates = Infinity;
+    let one = -1;
+    if (all0) {
+      cLine = line;
+      cGates = gates;
+    }
+    // one phase entered by one step, the others without (where that saves changes, or is the only way)
+    for (let ph = 0; ph < 3; ph++) {
+      if ((o1[ph] as number) < 0) continue;
+      let ok = true;
+      let l = 0;
+      let gt = 0;
+      for (let x = 0; x < 3; x++) {
+        const a = at[x] as number;
+        if (x === ph) {
+          l += pickLine[a + 1] as number;
+          gt += pickGates[a + 1] as number;
+        } else if ((o0[x] as number) < 0) ok = false;
+        else {
+          l += pickLine[a] as number;
+          gt += pickGates[a] as number;
+        }
+      }
+      if (ok && (l < cLine || (l === cLine && gt < cGates))) {
+        cLine = l;
+        cGates = gt;
+        one = ph;
+      }
+    }
+    for (let ph = 0; ph < 3; ph++) {
+      const a = at[ph] as number;
+      let o = 0;
+      if (one >= 0) o = ph === one ? 1 : 0;
+      else if (!all0) o = 2;
+      let path = pick[a + o] as number;
+      if (path < 0) {
+        unreach++;
+        path = program.pathFirst[candSeq[3 * c + ph] as number] as number;
+        stat[9 + ph] = 0;
+      } else stat[9 + ph] = pickLine[a + o] as number;
+      stat[6 + ph] = path;
+      if (o === 2 && (pick[a + 2] as number) >= 0) cost += pickDist[a + 2] as number;
+    }
+    if (one >= 0) cost = 1;
+    else if (!all0) {
+      cGates = 0;
+      for (let ph = 0; ph < 3; ph++) if ((pick[(at[ph] as number) + 2] as number) >= 0) cGates += pickGates[(at[ph] as number) + 2] as number;
+    }
+    // a phase whose character changes at the next boundary must be left where it can enter it
+    let stuck = 0;
+    const xs = exit < 0 ? k - 1 : exit;
+    for (let ph = 0; ph < 3; ph++) {
+      const nc = polarityChars[3 * nq + ph] as number;
+      if (nc !== polarityChars[3 * qi + ph] && enterable[(ph * 3 + nc) * P + (pathPattern[4 * (stat[6 + ph] as number) + xs] as number)] !== 1) stuck++;
+    }
+    stat[0] = unreach;
+    stat[1] = stuck;
+    stat[2] = cost <= 1 ? 0 : cost;
+    stat[3] = continuous ? (k === 4 ? 0 : 1) : 0;
+    stat[4] = cost;
+    stat[5] = cGates;
+  };
+
+  // per triangle: the context last seen and its G0, as rows of 12 numbers (candidate, form, cost,
+  // gates, three paths, three line-change counts, unreach, pad)
+  const ctxKey = new Float64Array(triFirst[POLARITY_STRINGS.length] as number).fill(NaN);
+  const ctxRows: (Int32Array | null)[] = new Array(triFirst[POLARITY_STRINGS.length] as number).fill(null);
+  const keyable = P < 100;
+  const contextOf = (g: number, qi: number, nq: number, dir: number, exit: number): Int32Array => {
+    let key = NaN;
+    if (keyable) {
+      const B = P + 1;
+      const code = (prev[0] as number) + 1 + B * ((prev[1] as number) + 1 + B * ((prev[2] as number) + 1));
+      const chars = (prevChar[0] as number) + 1 + 4 * ((prevChar[1] as number) + 1 + 4 * ((prevChar[2] as number) + 1));
+      key = ((((g * B * B * B + code) * 64 + chars) * 25 + nq) * 3 + (exit < 0 ? 2 : dir));
+      if (ctxKey[g] === key) return ctxRows[g] as Int32Array;
+    }
+    const first = candFirst[g] as number;
+    const end = candFirst[g + 1] as number;
+    const rows: number[][] = [];
+    let bU = Infinity;
+    let bX = Infinity;
+    let bT = Infinity;
+    for (let c = first; c < end; c++) {
+      const k = candCount[c] as number;
+      if (!continuous && k === 4) continue;
+      staticOf(c, qi, nq, dir, exit);
+      const u = stat[0] as number;
+      const x = stat[1] as number;
+      const t = stat[2] as number;
+      const order = cmp(u, bU) || cmp(x, bX) || cmp(t, bT);
+      if (order > 0) continue;
+      if (order < 0) {
+        rows.length = 0;
+        [bU, bX, bT] = [u, x, t];
+      }
+      rows.push([c, stat[3] as number, stat[4] as number, stat[5] as number, stat[6] as number, stat[7] as number, stat[8] as number, stat[9] as number, stat[10] as number, stat[11] as number, u, 0]);
+    }
+    // the order of the early stop: form, gates, steps, rank (candidate index)
+    rows.sort((a, b) => (a[1] as number) - (b[1] as number) || (a[3] as number) - (b[3] as number) || (a[2] as number) - (b[2] as number) || (a[0] as number) - (b[0] as number));
+    const flat = new Int32Array(12 * rows.length);
+    rows.forEach((r, i) => flat.set(r, 12 * i));
+    if (keyable) {
+      ctxKey[g] = key;
+      ctxRows[g] = flat;
+    }
+    return flat;
+  };
+
   const select = (g: number, qi: number, nq: number, dir: number, exit: number, ia: number, ib: number, ic: number, target: number): number => {
-    let best = -1;
-    // the best key so far: unreachable phases, phases left where the next character cannot be
-    // entered, chain tier, balance miss, form, clamp, line-frequency gate changes weighted by their
-    // phase's current, all gate changes, entry steps
-    let bU = 0;
-    let bX = 0;
-    let bM = 0;
-    let bT = 0;
-    let bF = 0;
-    let bC = 0;
-    let bL = 0;
-    let bG = 0;
-    let bS = 0;
+    const rows = contextOf(g, qi, nq, dir, exit);
+    const n = rows.length / 12;
+    if (n === 0) return -1;
     const scale = Math.abs(ia) + Math.abs(ib) + Math.abs(ic);
     const tol = 1e-12 * scale;
     const big = Math.abs(ia) >= Math.abs(ib) && Math.abs(ia) >= Math.abs(ic) ? 0 : Math.abs(ib) >= Math.abs(ic) ? 1 : 2;
@@ -188,117 +325,64 @@ export function createRuntime(table: SwitchingTable, options: RuntimeOptions = {
     wI[0] = Math.abs(ia);
     wI[1] = Math.abs(ib);
     wI[2] = Math.abs(ic);
-    const end = candFirst[g + 1] as number;
-    for (let c = candFirst[g] as number; c < end; c++) {
-      const k = candCount[c] as number;
-      if (!continuous && k === 4) continue;
-      // each phase's path: entered without a step, or one phase with one step, else the chain
-      let all0 = true;
-      let line = 0;
-      let gates = 0;
-      for (let ph = 0; ph < 3; ph++) {
-        const b = prev[ph] as number < 0 || prevChar[ph] === polarityChars[3 * qi + ph] ? 0 : 1;
-        const a = ((((candSeq[3 * c + ph] as number) * 2 + dir) * 2 + b) * (P + 1) + (prev[ph] as number) + 1) * 3;
-        at[ph] = a;
-        o0[ph] = pick[a] as number;
-        o1[ph] = pick[a + 1] as number;
-        if ((o0[ph] as number) < 0) all0 = false;
-        else {
-          line += (wI[ph] as number) * (pickLine[a] as number);
-          gates += pickGates[a] as number;
-        }
+    const formMin = rows[1] as number;
+    let r = -1;
+    if (continuous) {
+      // the first of the best form that meets the balance target without a line-device change
+      for (let i = 0; i < n && (rows[12 * i + 1] as number) === formMin; i++) {
+        const o = 12 * i;
+        const c = rows[o] as number;
+        const line = (wI[0] as number) * (rows[o + 7] as number) + (wI[1] as number) * (rows[o + 8] as number) + (wI[2] as number) * (rows[o + 9] as number);
+        if (line !== 0) continue;
+        if (balance && missOf(c, candCount[c] as number, ia, ib, ic, target, tol) !== 0) continue;
+        r = i;
+        break;
       }
-      let cost = 0;
-      let unreach = 0;
-      let cLine = Infinity;
-      let cGates = Infinity;
-      if (all0) {
-        cLine = line;
-        cGates = gates;
-        for (let ph = 0; ph < 3; ph++) path[ph] = o0[ph] as number;
-      }
-      // one phase entered by one step, the others without (where that saves gate changes, or is the only way)
-      let one = -1;
-      for (let ph = 0; ph < 3; ph++) {
-        if ((o1[ph] as number) < 0) continue;
-        let ok = true;
-        let l = 0;
-        let gt = 0;
-        for (let x = 0; x < 3; x++) {
-          const a = at[x] as number;
-          if (x === ph) {
-            l += (wI[x] as number) * (pickLine[a + 1] as number);
-            gt += pickGates[a + 1] as number;
-          } else if ((o0[x] as number) < 0) ok = false;
-          else {
-            l += (wI[x] as number) * (pickLine[a] as number);
-            gt += pickGates[a] as number;
-          }
-        }
-        if (ok && (l < cLine || (l === cLine && gt < cGates))) {
-          cLine = l;
-          cGates = gt;
-          one = ph;
-        }
-      }
-      if (one >= 0) {
-        for (let ph = 0; ph < 3; ph++) path[ph] = ph === one ? (o1[ph] as number) : (o0[ph] as number);
-        cost = 1;
-      } else if (!all0) {
-        // the fewest steps (a chain), phase by phase
-        cLine = 0;
-        cGates = 0;
-        for (let ph = 0; ph < 3; ph++) {
-          const a = at[ph] as number;
-          path[ph] = pick[a + 2] as number;
-          if ((path[ph] as number) < 0) {
-            unreach++;
-            path[ph] = firstPath(candSeq[3 * c + ph] as number);
-            continue;
-          }
-          cost += pickDist[a + 2] as number;
-          cLine += (wI[ph] as number) * (pickLine[a + 2] as number);
-          cGates += pickGates[a + 2] as number;
-        }
-      }
-      // a phase whose character changes at the next boundary must be left where it can enter it
-      let stuck = 0;
-      const xs = exit < 0 ? k - 1 : exit;
-      for (let ph = 0; ph < 3; ph++) {
-        const nc = polarityChars[3 * nq + ph] as number;
-        if (nc !== polarityChars[3 * qi + ph] && enterable[(ph * 3 + nc) * P + (pathPattern[4 * (path[ph] as number) + xs] as number)] !== 1) stuck++;
-      }
-      const tier = cost <= 1 ? 0 : cost;
-      const form = continuous ? (k === 4 ? 0 : 1) : 0;
-      const miss = balance ? missOf(c, k, ia, ib, ic, target, tol) : 0;
-      const clamp = continuous ? 0 : candClamped[c] === big ? 0 : 1;
-      if (best >= 0) {
-        const order = cmp(unreach, bU) || cmp(stuck, bX) || cmp(tier, bT) || cmp(miss, bM) || cmp(form, bF) || cmp(clamp, bC) || cmp(cLine, bL) || cmp(cGates, bG) || cmp(cost, bS);
-        if (order >= 0) continue;
-      }
-      best = c;
-      bU = unreach;
-      bX = stuck;
-      bM = miss;
-      bT = tier;
-      bF = form;
-      bC = clamp;
-      bL = cLine;
-      bG = cGates;
-      bS = cost;
-      for (let ph = 0; ph < 3; ph++) bestPath[ph] = path[ph] as number;
     }
-    bestUnreach = bU;
-    return best;
+    if (r < 0) {
+      // the whole key: balance miss, form, clamp, line changes by current, gates, steps, rank
+      let bM = 0;
+      let bF = 0;
+      let bC = 0;
+      let bL = 0;
+      let bG = 0;
+      let bS = 0;
+      let bI = 0;
+      for (let i = 0; i < n; i++) {
+        const o = 12 * i;
+        const c = rows[o] as number;
+        const miss = balance ? missOf(c, candCount[c] as number, ia, ib, ic, target, tol) : 0;
+        const clamp = continuous ? 0 : candClamped[c] === big ? 0 : 1;
+        const line = (wI[0] as number) * (rows[o + 7] as number) + (wI[1] as number) * (rows[o + 8] as number) + (wI[2] as number) * (rows[o + 9] as number);
+        if (r >= 0) {
+          const order = cmp(miss, bM) || cmp(rows[o + 1] as number, bF) || cmp(clamp, bC) || cmp(line, bL) || cmp(rows[o + 3] as number, bG) || cmp(rows[o + 2] as number, bS) || cmp(c, bI);
+          if (order >= 0) continue;
+        }
+        r = i;
+        bM = miss;
+        bF = rows[o + 1] as number;
+        bC = clamp;
+        bL = line;
+        bG = rows[o + 3] as number;
+        bS = rows[o + 2] as number;
+        bI = c;
+      }
+    }
+    const o = 12 * r;
+    bestPath[0] = rows[o + 4] as number;
+    bestPath[1] = rows[o + 5] as number;
+    bestPath[2] = rows[o + 6] as number;
+    bestUnreach = rows[o + 10] as number;
+    return rows[o] as number;
   };
+
   // unreachable phases of the last selection (0: the candidate can be entered safely)
   let bestUnreach = 0;
 
-  const firstPath = (s: number): number => program.pathFirst[s] as number;
-
   const splitOf = (c: number, ia: number, ib: number, ic: number, target: number): number => {
     if (!balance) return 0.5;
-    chargesOf(c, 4, ia, ib, ic);
+    // the charges are still those of c when its balance miss was the last one worked out
+    if (qFor !== c) chargesOf(c, 4, ia, ib, ic);
     const dA = d[candPos[4 * c] as number] as number;
     const den = dA * ((q[0] as number) - (q[3] as number));
     const scale = Math.abs(ia) + Math.abs(ib) + Math.abs(ic);
@@ -306,6 +390,13 @@ export function createRuntime(table: SwitchingTable, options: RuntimeOptions = {
     const rest = (d[candPos[4 * c + 1] as number] as number) * (q[1] as number) + (d[candPos[4 * c + 2] as number] as number) * (q[2] as number) + dA * (q[3] as number);
     const x = (target - rest) / den;
     return x < 0 ? 0 : x > 1 ? 1 : x;
+  };
+
+  // the dwell of state s of candidate c: the split vertex's share x at the start, 1 − x at the end
+  const durationOf = (c: number, k: number, s: number, x: number): number => {
+    const dv = d[candPos[4 * c + s] as number] as number;
+    if (k !== 4) return dv;
+    return s === 0 ? x * dv : s === 3 ? (1 - x) * dv : dv;
   };
 
   const writeState = (out: RuntimeOutput, n: number, c: number, s: number, duration: number) => {
@@ -360,6 +451,7 @@ export function createRuntime(table: SwitchingTable, options: RuntimeOptions = {
     out.chainSteps = 0;
     out.held = false;
     out.split = NaN;
+    qFor = -1;
     const t = mod.modulateInto(alpha, beta, qi, loc);
     out.triangle = t;
     if (t < 0) return -1;
@@ -374,6 +466,7 @@ export function createRuntime(table: SwitchingTable, options: RuntimeOptions = {
     if (c < 0 && (prev[0] as number) < 0) return -1;
     if (c < 0 || bestUnreach > 0) {
       // no safe way into this triangle: the present state is held, nothing switches
+      lastC = -1;
       out.held = true;
       for (let ph = 0; ph < 3; ph++) {
         out.patterns[ph] = prev[ph] as number;
@@ -407,21 +500,33 @@ export function createRuntime(table: SwitchingTable, options: RuntimeOptions = {
     }
     const x = k === 4 ? splitOf(c, ia, ib, ic, target) : NaN;
     out.split = x;
-    const durationOf = (s: number): number => {
-      const dv = d[candPos[4 * c + s] as number] as number;
-      if (k !== 4) return dv;
-      return s === 0 ? x * dv : s === 3 ? (1 - x) * dv : dv;
-    };
+    // the states are those of the last call (same buffer, candidate, paths and layout, no chain):
+    // only the durations change
+    const layout = n > 0 ? -1 : whole ? 2 : dir;
+    const same = layout >= 0 && out === lastOut && lastC === c && lastP0 === bestPath[0] && lastP1 === bestPath[1] && lastP2 === bestPath[2] && lastLayout === layout;
     if (whole) {
       // first half forwards, then mirrored; the centre state once, durations as period fractions
-      for (let s = 0; s < k; s++) writeState(out, n++, c, s, (rest * durationOf(s)) / (s === k - 1 ? 1 : 2));
-      for (let s = k - 2; s >= 0; s--) writeState(out, n++, c, s, (rest * durationOf(s)) / 2);
+      for (let s = 0; s < k; s++) {
+        if (same) out.duration[n++] = (rest * durationOf(c, k, s, x)) / (s === k - 1 ? 1 : 2);
+        else writeState(out, n++, c, s, (rest * durationOf(c, k, s, x)) / (s === k - 1 ? 1 : 2));
+      }
+      for (let s = k - 2; s >= 0; s--) {
+        if (same) out.duration[n++] = (rest * durationOf(c, k, s, x)) / 2;
+        else writeState(out, n++, c, s, (rest * durationOf(c, k, s, x)) / 2);
+      }
     } else {
       for (let i = 0; i < k; i++) {
         const s = dir === 0 ? i : k - 1 - i;
-        writeState(out, n++, c, s, rest * durationOf(s));
+        if (same) out.duration[n++] = rest * durationOf(c, k, s, x);
+        else writeState(out, n++, c, s, rest * durationOf(c, k, s, x));
       }
     }
+    lastOut = out;
+    lastC = layout >= 0 ? c : -1;
+    lastP0 = bestPath[0] as number;
+    lastP1 = bestPath[1] as number;
+    lastP2 = bestPath[2] as number;
+    lastLayout = layout;
     out.count = n;
     const exit = dir === 0 && !whole ? k - 1 : 0;
     for (let ph = 0; ph < 3; ph++) {
@@ -431,19 +536,27 @@ export function createRuntime(table: SwitchingTable, options: RuntimeOptions = {
     return t;
   };
 
+  // buffers this runtime made (a buffer of another runtime may be too small for this one's states)
+  const own = new WeakSet<RuntimeOutput>();
   const checkIndex = (qi: number, out: RuntimeOutput) => {
     if (!(Number.isInteger(qi) && qi >= 0 && qi < POLARITY_STRINGS.length)) throw new HexsalvageInputError('option', 'runtime', 'polarityIndex', `an integer from 0 to ${POLARITY_STRINGS.length - 1}`, qi);
-    if (!out || !(out.duration instanceof Float64Array) || out.duration.length < maxSegments) throw new HexsalvageInputError('option', 'runtime', 'out', 'a buffer from runtime.output()');
+    if (out !== lastOut && !own.has(out)) throw new HexsalvageInputError('option', 'runtime', 'out', 'a buffer from this runtime\'s output()');
   };
 
   return {
     options: opts,
     program,
-    output: () => ({ count: 0, patterns: new Int32Array(3 * maxSegments), levels: new Float64Array(3 * maxSegments), duration: new Float64Array(maxSegments), triangle: -1, clamped: false, split: NaN, chainSteps: 0, held: false }),
+    output: () => {
+      const o: RuntimeOutput = { count: 0, patterns: new Int32Array(3 * maxSegments), levels: new Float64Array(3 * maxSegments), duration: new Float64Array(maxSegments), triangle: -1, clamped: false, split: NaN, chainSteps: 0, held: false };
+      own.add(o);
+      return o;
+    },
     reset() {
       prev.fill(-1);
       prevChar.fill(-1);
       up = true;
+      ctxKey.fill(NaN);
+      lastC = -1;
     },
     period(alpha, beta, qi, ia, ib, ic, err, out, nq = qi) {
       checkIndex(qi, out);
