@@ -13,6 +13,7 @@ export default defineConfig({
   },
   test: {
     include: ['test/**/*.test.ts'],
+    globalSetup: ['test/support/tmpCleanup.ts'],
     testTimeout: 60000,
   },
 });

@@ -28,7 +28,7 @@ describe('hexsalvage atlas', () => {
     const one = runBin([...base, '--jobs', '1']);
     expect(one.code).toBe(0);
     const two = runBin([...base, '--jobs', '2']);
-    const four = runBin([...base, '--jobs', '4']);
+    const four = runBin([...base, '--jobs', '4', '--force-jobs']);
     expect(two.stdout).toBe(one.stdout);
     expect(four.stdout).toBe(one.stdout);
     // not a terminal: nothing on stderr

@@ -121,7 +121,7 @@ describe('createModulator', () => {
     // the same triangle was the last one: a NaN must not be answered from it
     expect(() => mod.modulate(Number.NaN, 0.02, '+--')).toThrow('finite');
     expect(() => mod.modulate(0.05, Number.POSITIVE_INFINITY, '+--')).toThrow('finite');
-    expect(mod.modulateInto(Number.NaN, 0.02, mod.polarityIndex('+--'), new Float64Array(4))).toBe(-1);
+    expect(mod.modulateInto(Number.NaN, 0.02, mod.polarityIndex('+--'), new Float64Array(4))).toBe(-2);
     // the last polarity string is remembered; another string, valid or not, is looked up afresh
     expect(() => mod.modulate(0.05, 0.02, '+++')).toThrow(HexsalvageInputError);
     expect(mod.polarityIndex('-++')).toBe(POLARITY_STRINGS.indexOf('-++'));

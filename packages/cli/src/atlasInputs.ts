@@ -13,7 +13,8 @@ export const ATLAS_OPTIONS: readonly OptionSpec[] = [
   { name: 'load-angle-range', type: 'string', value: 'LO,HI', help: 'atlas: load-angle range in degrees, -180 <= LO <= HI <= 180 (default -90,90)' },
   { name: 'step', type: 'number', min: 0, openMin: true, max: 360, value: 'DEG', help: 'atlas: step of the mMax curve over the range (default 5)' },
   { name: 'pairs', type: 'flag', help: 'atlas: every unordered pair of faults in any phases instead of every single fault of phase a' },
-  { name: 'jobs', type: 'number', min: 1, max: 256, integer: true, value: 'N', help: 'atlas: worker threads (default: the number of CPUs, one for fewer than 400 fault classes); the result does not depend on it' },
+  { name: 'jobs', type: 'number', min: 1, max: 256, integer: true, value: 'N', help: 'atlas: worker threads, at most the number of CPUs (default: that number, one for fewer than 400 fault classes); the result does not depend on it' },
+  { name: 'force-jobs', type: 'flag', help: 'atlas: allow --jobs above the number of CPUs (each thread holds its own diagrams: memory grows with N)' },
 ];
 
 /** Below this many classes the default is one thread: starting workers costs more than it saves. */
@@ -52,7 +53,11 @@ export async function atlasFromArgs(args: ParsedArgs, io: CommandIO, quiet: bool
     vdc: args.values.get('vdc') as number | undefined,
     ...ruleInputs(args),
   });
-  const jobs = (args.values.get('jobs') as number | undefined) ?? (work.classes.length >= SMALL_ATLAS ? availableParallelism() : 1);
+  const asked = args.values.get('jobs') as number | undefined;
+  if (asked !== undefined && asked > availableParallelism() && !args.flags.has('force-jobs')) {
+    throw usage('--jobs', `at most the number of CPUs here (${availableParallelism()}; --force-jobs allows more)`, asked);
+  }
+  const jobs = asked ?? (work.classes.length >= SMALL_ATLAS ? availableParallelism() : 1);
   const progress = progressLine(io, 'fault classes', !quiet);
   try {
     return assembleAtlas(work, await computeClasses(work, jobs, (d, n) => progress.update(d, n)));

@@ -78,6 +78,10 @@ export async function main(argv: readonly string[], io: CommandIO): Promise<numb
       io.stderr(`hexsalvage ${cmd.name}: ${e.message}\n`);
       return 2;
     }
+    if (e instanceof RangeError && /string length/i.test(e.message)) {
+      io.stderr(`hexsalvage ${cmd.name}: the document is too large to hold in memory as text: ask for less (one polarity, a smaller leg, fewer load angles)\n`);
+      return 2;
+    }
     if (e instanceof OutputError) {
       io.stderr(`hexsalvage ${cmd.name}: ${e.message}\n`);
       return 74;
@@ -103,6 +107,7 @@ async function generalHelp(): Promise<string> {
 }
 
 function commandHelp(c: Command): string {
-  const opts = c.options.map((o) => `  --${o.name}${o.value ? ` ${o.value}` : ''}`.padEnd(26) + o.help);
+  // a long option still keeps a space before its help
+  const opts = c.options.map((o) => `${`  --${o.name}${o.value ? ` ${o.value}` : ''}`.padEnd(25)} ${o.help}`);
   return [`Usage: hexsalvage ${c.usage}`, '', c.summary, '', 'Options:', ...opts].join('\n');
 }

@@ -1,6 +1,6 @@
 import { existsSync } from 'node:fs';
 import { dirname } from 'node:path';
-import { evaluateClaim, HexsalvageInputError, LEVEL_STEP_RULES, type ClaimVerdict, type DeratingClaim, type LevelStepRule } from '@hexsalvage/core';
+import { evaluateClaim, fileValue, HexsalvageInputError, LEVEL_STEP_RULES, type ClaimVerdict, type DeratingClaim, type LevelStepRule } from '@hexsalvage/core';
 import { loadTopology } from './loadTopology.js';
 import { readJsonFile } from './readJsonFile.js';
 
@@ -18,7 +18,7 @@ import { readJsonFile } from './readJsonFile.js';
  * ```
  */
 export function readClaims(path: string): DeratingClaim[] {
-  const err = (key: string, expected: string, got?: unknown) => new HexsalvageInputError('claims', path, key, expected, got);
+  const err = (key: string, expected: string, got?: unknown) => new HexsalvageInputError('claims', path, key, expected, got === undefined ? undefined : fileValue(got));
   if (!existsSync(path)) throw err('(file)', 'an existing claims file');
   return claimsFromDocument(readJsonFile(path, path, 'claims'), path);
 }
@@ -35,7 +35,7 @@ export function readClaims(path: string): DeratingClaim[] {
  * ```
  */
 export function claimsFromDocument(doc: unknown, path: string): DeratingClaim[] {
-  const err = (key: string, expected: string, got?: unknown) => new HexsalvageInputError('claims', path, key, expected, got);
+  const err = (key: string, expected: string, got?: unknown) => new HexsalvageInputError('claims', path, key, expected, got === undefined ? undefined : fileValue(got));
   if (typeof doc !== 'object' || doc === null || Array.isArray(doc)) throw err('(document)', 'an object { "claims": [...] }', doc);
   for (const k of Object.keys(doc)) if (k !== 'claims') throw err(k, 'only the key "claims" at the top level', k);
   return parseClaimList((doc as Record<string, unknown>).claims, path, 'claims');
@@ -57,7 +57,7 @@ export function claimsFromDocument(doc: unknown, path: string): DeratingClaim[] 
  * ```
  */
 export function parseClaimList(list: unknown, path: string, listKey: string, code: 'claims' | 'scenario' = 'claims', defaultVdc?: number): DeratingClaim[] {
-  const err = (key: string, expected: string, got?: unknown) => new HexsalvageInputError(code, path, key, expected, got);
+  const err = (key: string, expected: string, got?: unknown) => new HexsalvageInputError(code, path, key, expected, got === undefined ? undefined : fileValue(got));
   if (!Array.isArray(list) || list.length === 0) throw err(listKey, 'a non-empty array of claims', list);
   const names = new Set<string>();
   return list.map((c, i) => {
@@ -142,7 +142,7 @@ export function judgeClaimList(claims: readonly DeratingClaim[], path: string, i
     try {
       return evaluateClaim(ignoreRatings ? { ...c, ignoreRatings: true } : c);
     } catch (e) {
-      if (e instanceof HexsalvageInputError) throw new HexsalvageInputError(code, path, `${listKey}[${i}] ("${c.name}")`, e.message);
+      if (e instanceof HexsalvageInputError) throw new HexsalvageInputError(code, path, `${listKey}[${i}]`, e.message);
       throw e;
     }
   });

@@ -1,4 +1,4 @@
-import { closeSync, fstatSync, openSync, readSync } from 'node:fs';
+import { closeSync, constants, fstatSync, openSync, readSync, statSync } from 'node:fs';
 import { HexsalvageInputError, type InputErrorCode } from '@hexsalvage/core';
 
 /** Largest input file read (netlists, claims): 1 MiB. */
@@ -27,7 +27,10 @@ export function readJsonFile(path: string, shown: string, code: InputErrorCode):
   let text: string;
   let fd: number | undefined;
   try {
-    fd = openSync(path, 'r');
+    // a pipe would block the open itself: look first, then open without blocking and look again
+    // (the file may have been swapped in between)
+    if (!statSync(path).isFile()) throw bad('(file)', 'a regular file (not a device, pipe or folder)');
+    fd = openSync(path, constants.O_RDONLY | constants.O_NONBLOCK);
     const st = fstatSync(fd);
     if (!st.isFile()) throw bad('(file)', 'a regular file (not a device, pipe or folder)');
     if (st.size > MAX_INPUT_BYTES) throw bad('(file)', `a file of at most ${MAX_INPUT_BYTES} bytes (it has ${st.size})`);
@@ -38,7 +41,11 @@ export function readJsonFile(path: string, shown: string, code: InputErrorCode):
       if (n === 0) break;
       got += n;
     }
-    text = buf.subarray(0, got).toString('utf8');
+    try {
+      text = new TextDecoder('utf-8', { fatal: true }).decode(buf.subarray(0, got));
+    } catch {
+      throw bad('(file)', 'text in UTF-8 (the file holds bytes that are not)');
+    }
   } catch (e) {
     if (e instanceof HexsalvageInputError) throw e;
     throw bad('(file)', `a readable file (${(e as NodeJS.ErrnoException).code ?? 'read failed'})`);

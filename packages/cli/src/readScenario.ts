@@ -1,8 +1,8 @@
 import { createHash } from 'node:crypto';
-import { existsSync, readFileSync } from 'node:fs';
+import { existsSync, readFileSync, statSync } from 'node:fs';
 import { dirname, resolve } from 'node:path';
-import { HexsalvageInputError, isBuiltinTopology, LEVEL_STEP_RULES, type DeratingClaim, type LegNetlist, type LevelStepRule } from '@hexsalvage/core';
-import { loadTopology } from './loadTopology.js';
+import { fileValue, HexsalvageInputError, isBuiltinTopology, MAX_SIMULATED_PERIODS, LEVEL_STEP_RULES, type DeratingClaim, type LegNetlist, type LevelStepRule } from '@hexsalvage/core';
+import { confined, loadTopology } from './loadTopology.js';
 import { claimsFromDocument, parseClaimList } from './readClaims.js';
 import { readJsonFile } from './readJsonFile.js';
 
@@ -49,6 +49,8 @@ const KEYS = ['$schema', 'drive', 'ratedPowerKw', 'ratedLineVoltageV', 'vdc', 'f
  * ```
  */
 export function fileSha256(path: string): string {
+  // a regular file only: a pipe or device would block or never end
+  if (!statSync(path).isFile()) throw new HexsalvageInputError('usage', path, '(file)', 'a regular file (not a device, pipe or folder)');
   return createHash('sha256').update(readFileSync(path)).digest('hex');
 }
 
@@ -63,7 +65,8 @@ export function fileSha256(path: string): string {
  * ```
  */
 export function readScenario(path: string): Scenario {
-  const err = (key: string, expected: string, got?: unknown) => new HexsalvageInputError('scenario', path, key, expected, got);
+  // messages name the key and what was expected; a value from the file only by its kind
+  const err = (key: string, expected: string, got?: unknown) => new HexsalvageInputError('scenario', path, key, expected, got === undefined ? undefined : fileValue(got));
   if (!existsSync(path)) throw err('(file)', 'an existing scenario file');
   const doc = readJsonFile(path, path, 'scenario');
   if (typeof doc !== 'object' || doc === null || Array.isArray(doc)) throw err('(document)', 'an object (see docs/schema/scenario.schema.json)', doc);
@@ -93,7 +96,7 @@ export function readScenario(path: string): Scenario {
   const inputs = [{ path, sha256: fileSha256(path) }];
   let topology: string | LegNetlist;
   try {
-    topology = loadTopology(o.topology, base);
+    topology = loadTopology(o.topology, base, true);
   } catch (e) {
     if (e instanceof HexsalvageInputError) throw err('topology', e.expected, o.topology);
     throw e;
@@ -108,6 +111,12 @@ export function readScenario(path: string): Scenario {
     if (typeof o.claimsFile !== 'string' || o.claimsFile === '') throw err('claimsFile', 'a claims file path relative to the scenario file', o.claimsFile);
     const cf = resolve(base, o.claimsFile);
     if (!existsSync(cf)) throw err('claimsFile', 'an existing claims file (relative to the scenario file)', o.claimsFile);
+    try {
+      confined(o.claimsFile, base, 'claimsFile', 'a claims file in the scenario file\'s folder or below');
+    } catch (e) {
+      if (e instanceof HexsalvageInputError) throw err('claimsFile', e.expected, o.claimsFile);
+      throw e;
+    }
     const doc = readJsonFile(cf, o.claimsFile, 'claims');
     claims = claimsFromDocument(doc, cf);
     inputs.push({ path: cf, sha256: fileSha256(cf) });
@@ -120,6 +129,12 @@ export function readScenario(path: string): Scenario {
     if (!isBuiltinTopology(t) && !inputs.some((x) => x.path === p)) inputs.push({ path: p, sha256: fileSha256(p) });
   }
   const opt = (k: string, v: number | undefined) => (v === undefined ? {} : { [k]: v });
+  // the simulated period: 6 to MAX_SIMULATED_PERIODS switching periods per fundamental
+  const f1 = num('fundamentalHz', 0, 1e5);
+  const fsw = num('switchingHz', 0, 1e8);
+  if (f1 !== undefined && fsw !== undefined && !(fsw / f1 >= 6 && Math.round(fsw / f1) <= MAX_SIMULATED_PERIODS)) {
+    throw err('switchingHz', `a switching frequency of 6 to ${MAX_SIMULATED_PERIODS} times fundamentalHz (${f1} Hz; a documented limit of the simulated period)`, fsw);
+  }
   return {
     drive: o.drive,
     ...opt('ratedPowerKw', num('ratedPowerKw', 0, 1e7)),

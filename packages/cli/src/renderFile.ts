@@ -16,12 +16,12 @@ import { writeFileAtomic } from './output.js';
  */
 export async function writeSvgOrPng(path: string, svg: string): Promise<number> {
   if (path.endsWith('.svg')) {
-    writeFileAtomic(path, svg);
+    await writeFileAtomic(path, svg);
     return Buffer.byteLength(svg);
   }
   if (path.endsWith('.png')) {
     const png = await svgToPng(svg);
-    writeFileAtomic(path, png);
+    await writeFileAtomic(path, png);
     return png.length;
   }
   throw new HexsalvageInputError('usage', '--out', '--out', 'a file name ending in .svg or .png', path);

@@ -1,3 +1,4 @@
+import { HexsalvageInputError } from './errors.js';
 import type { DeviceSpec, LegNetlist } from './netlist.js';
 
 /** Ids of the legs hexsalvage ships with. */
@@ -119,5 +120,6 @@ export function isBuiltinTopology(id: string): id is BuiltinTopology {
  * ```
  */
 export function builtinLeg(id: BuiltinTopology): LegNetlist {
+  if (typeof id !== 'string' || !isBuiltinTopology(id)) throw new HexsalvageInputError('topology', 'builtinLeg', 'id', `one of ${BUILTIN_TOPOLOGIES.join(', ')}`, id);
   return JSON.parse(JSON.stringify(LEGS[id])) as LegNetlist;
 }

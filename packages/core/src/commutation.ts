@@ -1,3 +1,4 @@
+import { HexsalvageInputError } from './errors.js';
 import type { CurrentSign } from './conduction.js';
 import { usableLevel, type GateSetOutcome, type GateSetSolver } from './gateSetSolver.js';
 import type { PhasePolarity } from './legTable.js';
@@ -56,6 +57,8 @@ export function commutates(solve: GateSetSolver, from: readonly string[], to: re
   const off = from.filter((g) => !to.includes(g));
   const on = to.filter((g) => !from.includes(g));
   if (off.length === 0 && on.length === 0) return true;
+  // subsets are named by bit masks: 31 bits hold them exactly (netlists allow 24, NETLIST_LIMITS)
+  if (off.length > 30 || on.length > 30) throw new HexsalvageInputError('netlist', 'leg', 'patterns', 'a change of at most 30 switches each way between two gate sets', Math.max(off.length, on.length));
   const common = from.filter((g) => to.includes(g));
   // Intermediate sets are named by a numeric key (the sum of their gates' key values) so that a set
   // already solved costs one look-up and no array; the member list is built only for a new set.

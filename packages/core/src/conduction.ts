@@ -1,3 +1,4 @@
+import { HexsalvageInputError } from './errors.js';
 import type { PhaseFaults } from './faults.js';
 import type { LegElement, LegNetlist } from './netlist.js';
 
@@ -124,28 +125,52 @@ export function findShootThrough(leg: LegNetlist, edges: readonly ConductionEdge
   return null;
 }
 
-// Leg graphs have a handful of nodes, so a depth-first enumeration of simple paths is cheap; it
-// keeps loops such as out → diode → X → channel → out out of the reported conduction path.
+// Elements on some simple path from start to goal through non-DC nodes. The walk goes over nodes,
+// not elements: elements side by side between the same two nodes (a MOSFET channel and its body
+// diode, parallel devices) are all on a path when one of them is, so a chain of k such pairs costs
+// one node path, not 2^k element paths. It keeps loops such as out → diode → X → channel → out
+// out of the reported conduction path.
 function collectSimplePaths(start: string, goal: string, adj: Map<string, ConductionEdge[]>, isDc: (n: string) => boolean, into: Set<string>): void {
+  const hops = nodeHops(adj);
   const onStack = new Set<string>([start]);
-  const trail: string[] = [];
+  const trail: ConductionEdge[][] = [];
+  let walked = 0;
   const visit = (n: string): void => {
-    for (const e of adj.get(n) ?? []) {
-      if (onStack.has(e.to)) continue;
-      if (e.to === goal) {
-        for (const el of trail) into.add(el);
-        into.add(e.element);
+    for (const [to, edges] of hops.get(n) ?? []) {
+      if (++walked > MAX_WALK) throw new HexsalvageInputError('netlist', 'leg', '(structure)', `a leg whose conducting paths can be listed in ${MAX_WALK} steps (this one has more: too many meshed branches)`);
+      if (onStack.has(to)) continue;
+      if (to === goal) {
+        for (const hop of trail) for (const e of hop) into.add(e.element);
+        for (const e of edges) into.add(e.element);
         continue;
       }
-      if (isDc(e.to)) continue;
-      onStack.add(e.to);
-      trail.push(e.element);
-      visit(e.to);
+      if (isDc(to)) continue;
+      onStack.add(to);
+      trail.push(edges);
+      visit(to);
       trail.pop();
-      onStack.delete(e.to);
+      onStack.delete(to);
     }
   };
   visit(start);
+}
+
+/** Most node visits one path listing may take (legs take a few hundred). */
+const MAX_WALK = 200000;
+
+// Per node, the nodes one edge leads to, each with every edge that does.
+function nodeHops(adj: Map<string, ConductionEdge[]>): Map<string, Map<string, ConductionEdge[]>> {
+  const hops = new Map<string, Map<string, ConductionEdge[]>>();
+  for (const [n, edges] of adj) {
+    const m = new Map<string, ConductionEdge[]>();
+    for (const e of edges) {
+      const list = m.get(e.to);
+      if (list) list.push(e);
+      else m.set(e.to, [e]);
+    }
+    hops.set(n, m);
+  }
+  return hops;
 }
 
 function tracePath(parent: Map<string, ConductionEdge | null>, end: string): string[] {

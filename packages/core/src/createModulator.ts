@@ -43,7 +43,9 @@ export interface Modulator {
    * @param beta - reference β
    * @param polarityIndex - index into `POLARITY_STRINGS` (see {@link Modulator.polarityIndex})
    * @param out - caller-owned array of length ≥ 4
-   * @returns the triangle index, or -1 when the polarity has no triangles
+   * @returns the triangle index; -1 when the polarity has no triangles, -2 when the reference is not
+   *   a finite number within ±{@link REFERENCE_LIMIT}
+   * @throws HexsalvageInputError when `out` is shorter than 4
    */
   modulateInto(alpha: number, beta: number, polarityIndex: number, out: Float64Array): number;
   /** Index of a polarity string for {@link Modulator.modulateInto}. */
@@ -112,6 +114,8 @@ export function createModulator(source: ModulatorSource): Modulator {
   const lastAt = new Int32Array(POLARITY_STRINGS.length).fill(-1);
 
   const run = (alpha: number, beta: number, k: number, out: Float64Array): number => {
+    // four slots are written: a shorter buffer would lose the clamp flag (or more) without a word
+    if (out.length < 4) throw new HexsalvageInputError('option', 'modulateInto', 'out', 'a Float64Array of length 4 or more', out.length);
     // the previous triangle first, written out here because this is the path almost every call of
     // a rotating reference takes; a reference that is not finite fails the comparisons
     const o = k >= 0 && k < lastAt.length ? (lastAt[k] as number) : -1;
@@ -136,9 +140,10 @@ export function createModulator(source: ModulatorSource): Modulator {
   // loop (measured: the rotating-reference call costs about two thirds of what it costs otherwise).
   const locate = (alpha: number, beta: number, k: number, out: Float64Array): number => {
     const pr = prepared[k];
-    // a reference beyond ±REFERENCE_LIMIT (or not finite) is not a modulation index: -1, as for a
-    // polarity without triangles (the object path refuses it with a typed error)
-    if (!pr || pr.count === 0 || !(Math.abs(alpha) <= REFERENCE_LIMIT && Math.abs(beta) <= REFERENCE_LIMIT)) return -1;
+    if (!pr || pr.count === 0) return -1;
+    // a reference beyond ±REFERENCE_LIMIT (or not finite) is not a modulation index: -2, told apart
+    // from a polarity without triangles (the object path refuses it with a typed error)
+    if (!(Math.abs(alpha) <= REFERENCE_LIMIT && Math.abs(beta) <= REFERENCE_LIMIT)) return -2;
     let t = search(pr, alpha, beta, out);
     if (t >= 0) {
       last[k] = t;

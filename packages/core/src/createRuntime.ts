@@ -3,7 +3,7 @@ import { HexsalvageInputError } from './errors.js';
 import { POLARITY_STRINGS, type PolarityString } from './polarity.js';
 import { runtimeProgram, type RuntimeProgram } from './runtimeProgram.js';
 import type { SwitchingTable } from './switchingTable.js';
-import { requireObject } from './validate.js';
+import { requireObject, requireTable } from './validate.js';
 
 /** How each switching period is built. */
 export const SEQUENCE_MODES = ['continuous', 'discontinuous'] as const;
@@ -76,7 +76,8 @@ export interface Runtime {
    * @param out - buffer from {@link Runtime.output}
    * @param nextPolarityIndex - the polarity expected at the next update (default: the same): a
    *   phase about to change character is left in a pattern it can leave safely then
-   * @returns the triangle index, or −1 when the polarity has no triangles
+   * @returns the triangle index; −1 when the polarity has no triangles (or none can be entered on a
+   *   first call), −2 when the reference is not a finite number within ±1e6
    */
   period(alpha: number, beta: number, polarityIndex: number, ia: number, ib: number, ic: number, midpointError: number, out: RuntimeOutput, nextPolarityIndex?: number): number;
   /**
@@ -114,7 +115,7 @@ export interface Runtime {
  * ```
  */
 export function createRuntime(table: SwitchingTable, options: RuntimeOptions = {}): Runtime {
-  requireObject(table, 'createRuntime', 'a switching table (from switchingTable)');
+  requireTable(table, 'createRuntime');
   const opts = runtimeOptions(options);
   const program = runtimeProgram(table);
   const mod = createModulator(table);
@@ -454,7 +455,7 @@ export function createRuntime(table: SwitchingTable, options: RuntimeOptions = {
     qFor = -1;
     const t = mod.modulateInto(alpha, beta, qi, loc);
     out.triangle = t;
-    if (t < 0) return -1;
+    if (t < 0) return t;
     out.clamped = loc[3] === 1;
     d[0] = loc[0] as number;
     d[1] = loc[1] as number;

@@ -1,5 +1,5 @@
 import { HexsalvageInputError } from './errors.js';
-import { requireNumber, requireObject } from './validate.js';
+import { requireNumber, requireObject, requireTable } from './validate.js';
 import { MIDPOINT_TOLERANCE, midpointProfile, midpointRangeAt } from './midpointBalance.js';
 import type { RuntimeOptions, SequenceMode } from './createRuntime.js';
 import { runtimeStream, type StreamSegment, type UpdateMode } from './runtimeStream.js';
@@ -84,6 +84,7 @@ export interface CycleReport {
  * ```
  */
 export function cycleCheck(table: SwitchingTable, options: CycleCheckOptions): CycleReport {
+  requireTable(table, 'cycleCheck');
   requireObject(options, 'cycleCheck', 'an options object { m, loadAngleDeg?, polarityMarginDeg?, frequencyRatio?, currentAmplitude?, sequence?, balance?, update? }');
   const { m } = options;
   const phi = options.loadAngleDeg ?? 0;

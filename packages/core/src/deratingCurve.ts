@@ -1,7 +1,7 @@
 import type { DiagramAtlas } from './diagramAtlas.js';
 import { HexsalvageInputError } from './errors.js';
 import { extentGeometry, limitOverLoadAngles, modulationLimit, type ExtentKind } from './modulationLimit.js';
-import { requireNumber, requireObject } from './validate.js';
+import { requireNumber, requireObject, requireAtlas } from './validate.js';
 import type { PolarityDiagram } from './polarityDiagram.js';
 import { polaritySectors, type PolaritySector } from './polaritySectors.js';
 import { minRadialExtent } from './radialExtent.js';
@@ -56,6 +56,7 @@ export interface DeratingPoint {
  * ```
  */
 export function deratingCurve(atlas: DiagramAtlas, options: DeratingCurveOptions = {}): DeratingPoint[] {
+  requireAtlas(atlas, 'deratingCurve');
   requireObject(options, 'deratingCurve', 'an options object { fromDeg?, toDeg?, stepDeg?, polarityMarginDeg?, extent? }');
   const fromDeg = requireNumber(options.fromDeg ?? -90, 'deratingCurve', 'fromDeg', { min: -180, max: 180 });
   const toDeg = requireNumber(options.toDeg ?? 90, 'deratingCurve', 'toDeg', { min: fromDeg, max: 180 });
@@ -204,6 +205,7 @@ export interface DeratingStepsOptions {
  * ```
  */
 export function deratingSteps(atlas: DiagramAtlas, options: DeratingStepsOptions = {}): { readonly stepDeg: number; readonly minima: readonly number[] } {
+  requireAtlas(atlas, 'deratingSteps');
   requireObject(options, 'deratingSteps', 'an options object { stepDeg?, polarityMarginDeg? }');
   const stepDeg = requireNumber(options.stepDeg ?? 0.5, 'deratingSteps', 'stepDeg', { min: 0.01, max: 360 });
   const cells = Math.round(360 / stepDeg);

@@ -1,4 +1,4 @@
-import { HexsalvageInputError } from './errors.js';
+import { fileValue, HexsalvageInputError } from './errors.js';
 import type { LegElement } from './netlist.js';
 
 /** Loss parameters of a switch channel (IGBT: v0 + r·i; MOSFET: rOn·i²), energies per event in joules. */
@@ -144,7 +144,7 @@ export function eventEnergy(eRef: number, vRef: number, iRef: number, v: number,
  * ```
  */
 export function parseDeviceParameters(doc: unknown, input: string): DeviceParameterSet {
-  const err = (key: string, expected: string, got?: unknown) => new HexsalvageInputError('option', input, key, expected, got);
+  const err = (key: string, expected: string, got?: unknown) => new HexsalvageInputError('option', input, key, expected, got === undefined ? undefined : fileValue(got));
   if (typeof doc !== 'object' || doc === null || Array.isArray(doc)) throw err('(document)', 'an object { "name", "devices": { ID|KIND|"*": { "switch"?, "diode"?, "thermalResistance"? } } }', doc);
   const o = doc as Record<string, unknown>;
   for (const k of Object.keys(o)) if (!['$schema', 'name', 'devices'].includes(k)) throw err(k, 'one of the keys name, devices', k);

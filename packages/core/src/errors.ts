@@ -64,14 +64,66 @@ export class HexsalvageInputError extends Error {
  */
 export function plainText(text: string, max: number): string {
   const named: Record<string, string> = { '\n': '\\n', '\r': '\\r', '\t': '\\t' };
-  // eslint-disable-next-line no-control-regex
-  const esc = text.replace(/[\u0000-\u001f\u007f-\u009f\u2028\u2029]/g, (c) => named[c] ?? `\\u${c.charCodeAt(0).toString(16).padStart(4, '0')}`);
+  const esc = String(text).replace(INVISIBLE_G, (c) => named[c] ?? `\\u${c.charCodeAt(0).toString(16).padStart(4, '0')}`);
   return esc.length > max ? `${esc.slice(0, max - 3)}...` : esc;
+}
+
+// Characters a terminal would act on or that print as nothing: C0 and C1 controls, DEL, line and
+// paragraph separators, bidirectional controls, zero-width and other invisible format characters.
+// eslint-disable-next-line no-control-regex
+const INVISIBLE_SOURCE = '[\\u0000-\\u001f\\u007f-\\u009f\\u00ad\\u034f\\u061c\\u115f\\u1160\\u17b4\\u17b5\\u180b-\\u180e\\u200b-\\u200f\\u2028-\\u202e\\u2060-\\u206f\\u3164\\ufe00-\\ufe0f\\ufeff\\uffa0\\ufff9-\\ufffb]';
+const INVISIBLE_G = new RegExp(INVISIBLE_SOURCE, 'g');
+const INVISIBLE = new RegExp(INVISIBLE_SOURCE);
+
+/**
+ * Whether a text holds a character a terminal would act on or that prints as nothing (controls,
+ * bidirectional controls, zero-width characters): names in netlists may not.
+ *
+ * @param text - the text
+ * @returns true when it holds one
+ * @example
+ * ```ts
+ * hasInvisible('out\u200b'); // true
+ * ```
+ */
+export function hasInvisible(text: string): boolean {
+  return INVISIBLE.test(text);
+}
+
+/** A value read from a file, shown in messages by its kind only (messages never quote files). */
+export class FileValue {
+  /**
+   * @param value - the value as read
+   */
+  constructor(readonly value: unknown) {}
+}
+
+/**
+ * Wraps a value read from a file so that an error names its kind, never its content.
+ *
+ * @param v - the value
+ * @returns the wrapped value for {@link HexsalvageInputError}'s `got`
+ * @example
+ * ```ts
+ * new HexsalvageInputError('netlist', 'leg.json', 'devices[0].kind', 'igbt, mosfet or diode', fileValue('thyristor'));
+ * // … got a text of 9 characters
+ * ```
+ */
+export function fileValue(v: unknown): FileValue {
+  return v instanceof FileValue ? v : new FileValue(v);
 }
 
 /** Short, single-line rendering of an offending value for error messages. */
 function describeValue(v: unknown): string {
-  if (typeof v === 'string') return JSON.stringify(v.length > 60 ? `${v.slice(0, 57)}...` : v);
+  if (v instanceof FileValue) {
+    const x = v.value;
+    if (typeof x === 'string') return `a text of ${x.length} character${x.length === 1 ? '' : 's'}`;
+    if (typeof x === 'number') return 'a number';
+    if (typeof x === 'boolean' || x === null) return String(x);
+    if (Array.isArray(x)) return 'an array';
+    return typeof x === 'object' ? 'an object' : typeof x;
+  }
+  if (typeof v === 'string') return `"${plainText(v.replace(/["\\]/g, (c) => `\\${c}`), 60)}"`;
   if (typeof v === 'number' || typeof v === 'boolean' || v === null) return String(v);
   if (Array.isArray(v)) return 'an array';
   return typeof v === 'object' ? 'an object' : typeof v;

@@ -5,7 +5,7 @@ import { HexsalvageInputError } from './errors.js';
 import { runtimeProgram } from './runtimeProgram.js';
 import type { SwitchingTable } from './switchingTable.js';
 import { DWELL_TOLERANCE } from './tolerance.js';
-import { requireObject } from './validate.js';
+import { requireObject, requireTable } from './validate.js';
 
 /** Options of {@link exportC}. */
 export interface ExportCOptions {
@@ -53,6 +53,7 @@ export interface ExportCOptions {
  * ```
  */
 export function exportC(table: SwitchingTable, options: ExportCOptions = {}): string {
+  requireTable(table, 'exportC');
   requireObject(options, 'exportC', 'an options object { prefix?, cType?, fileName?, limits?, vdc? }');
   const px = options.prefix ?? 'hs';
   if (!/^[A-Za-z_][A-Za-z0-9_]{0,30}$/.test(px)) throw new HexsalvageInputError('option', 'exportC', 'prefix', 'a C identifier of up to 31 characters', px);
@@ -376,9 +377,12 @@ function utf8(c: number): number[] {
   return [0xf0 | (c >> 18), 0x80 | ((c >> 12) & 63), 0x80 | ((c >> 6) & 63), 0x80 | (c & 63)];
 }
 
-// Text inside a C comment: no "*/" and no trigraphs.
+// Text inside a C comment: no backslash (a backslash before a line end splices lines before
+// comments are read, so "*\<newline>/" would end the comment), no line ends or other control
+// characters, no "*/", no trigraphs. Such characters become "?" (names are shown, never compiled).
 function comment(s: string): string {
-  return s.replace(/\*\//g, '* /').replace(/\?\?/g, '? ?');
+  // eslint-disable-next-line no-control-regex
+  return s.replace(/[\\\u0000-\u001f\u007f-\u009f\u2028\u2029]/g, '?').replace(/\*\//g, '* /').replace(/\?\?/g, '? ?').replace(/\*$/, '* ');
 }
 
 // Doubles printed so that C reads back exactly the same value (17 significant digits).

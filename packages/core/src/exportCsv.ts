@@ -1,3 +1,4 @@
+import { requireTable } from './validate.js';
 import type { TableTriangle } from './polarityTable.js';
 import type { SwitchingTable } from './switchingTable.js';
 
@@ -21,6 +22,7 @@ export const CSV_COLUMNS = [
  * ```
  */
 export function exportCsv(table: SwitchingTable): string {
+  requireTable(table, 'exportCsv');
   const rows: string[] = [CSV_COLUMNS.join(',')];
   for (const pol of table.polarityOrder) {
     const p = table.polarities[pol];
@@ -35,12 +37,12 @@ export function exportCsv(table: SwitchingTable): string {
         rows.push([
           p.index, pol, t, k, position + 1, num(v.alpha), num(v.beta), v.class,
           ...(rz?.levels ?? ['', '', '']).map(String),
-          ...(state ?? []).map((s) => s.pattern),
+          ...(state ?? []).map((s) => csvText(s.pattern)),
           ...(rz?.midpoint ?? ['', '', '']).map(String),
           num(rz?.commonMode ?? NaN),
           num(m[0]), num(m[1]), num(m[2]),
           tri.midpointAuthority, tri.authorityLost ? 1 : 0,
-          (seq?.lineDevicesSwitching ?? []).join(';'),
+          csvText((seq?.lineDevicesSwitching ?? []).join(';')),
           (seq?.levelJumps ?? []).map((j) => `${j.phase}:${j.from}>${j.to}`).join(';'),
         ].map(csvCell).join(','));
       });
@@ -55,7 +57,33 @@ function num(x: number): string {
   return /^-0\.0+$/.test(s) ? s.slice(1) : s;
 }
 
-function csvCell(x: unknown): string {
+/**
+ * One CSV cell (RFC 4180): quoted, with quotes doubled, when it holds a comma, a quote, CR or LF.
+ *
+ * @param x - the cell's value
+ * @returns the cell as written
+ * @example
+ * ```ts
+ * csvCell('a,b'); // '"a,b"'
+ * ```
+ */
+export function csvCell(x: unknown): string {
   const s = String(x);
-  return /[",\n]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
+  return /[",\r\n]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
+}
+
+/**
+ * A cell of free text (a name from a netlist or a fault string): one that a spreadsheet would read
+ * as a formula (starting with =, +, -, @, a tab or CR) gets a leading apostrophe. Numbers and
+ * polarity strings are written as they are. Quote it with {@link csvCell} after.
+ *
+ * @param s - the text
+ * @returns the text, safe to open in a spreadsheet
+ * @example
+ * ```ts
+ * csvText('=HYPERLINK("x")'); // "'=HYPERLINK(\"x\")"
+ * ```
+ */
+export function csvText(s: string): string {
+  return /^[=+\-@\t\r]/.test(s) ? `'${s}` : s;
 }

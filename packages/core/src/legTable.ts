@@ -1,3 +1,5 @@
+import { HexsalvageInputError } from './errors.js';
+import { parseNetlist } from './parseNetlist.js';
 import { phaseCommutations, type PhaseCommutations } from './commutation.js';
 import type { CurrentSign, ShootThrough, SignOutcome } from './conduction.js';
 import type { PhaseFaults } from './faults.js';
@@ -60,6 +62,9 @@ export interface LegTable {
  * ```
  */
 export function legTable(leg: LegNetlist, faults: PhaseFaults, ratings = true): LegTable {
+  leg = parseNetlist(leg, 'legTable');
+  if (!(faults instanceof Map)) throw new HexsalvageInputError('option', 'legTable', 'faults', 'a Map of element id to fault mode (empty for a healthy phase)', faults);
+  if (typeof ratings !== 'boolean') throw new HexsalvageInputError('option', 'legTable', 'ratings', 'true or false', ratings);
   const solve = gateSetSolver(leg, faults, ratings);
   const named = gateSetSolver(leg, faults, ratings, true);
   const patterns = Object.entries(leg.patterns).map(([name, gates]): PatternResult => {

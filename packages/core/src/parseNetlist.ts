@@ -1,5 +1,5 @@
 import { deepFreeze } from './boundedCache.js';
-import { HexsalvageInputError } from './errors.js';
+import { fileValue, hasInvisible, HexsalvageInputError } from './errors.js';
 import type { DeviceKind, DeviceSpec, LegNetlist, SwitchingClass } from './netlist.js';
 
 const KINDS: readonly DeviceKind[] = ['igbt', 'mosfet', 'diode'];
@@ -14,6 +14,25 @@ const ID_RE = /^[^\s.:,;"'\\]{1,64}$/;
 const NODE_RE = /^\S(.{0,62}\S)?$/;
 
 type Obj = Record<string, unknown>;
+
+/**
+ * What a netlist may hold, so that the work on it is bounded before it starts (docs/interface.md,
+ * "Limits"): devices, named patterns, DC nodes (levels), devices side by side between the same two
+ * nodes, switches one named pattern turns on or off against another (the commutation search walks
+ * their subsets), and the span of potentials.
+ */
+export const NETLIST_LIMITS = Object.freeze({
+  devices: 64,
+  patterns: 64,
+  dcNodes: 21,
+  parallelDevices: 4,
+  patternChange: 24,
+  /** Largest |potential| of the DC nodes: from `potentialMin` to `potentialMax` (units of the file). */
+  potentialMin: 1e-6,
+  potentialMax: 1e6,
+  /** Smallest non-zero |potential| (or rating) beside the largest potential. */
+  resolution: 1e-9,
+});
 
 // Netlists this module has returned: frozen, so they stay as checked.
 const CHECKED = new WeakSet<object>();
@@ -35,14 +54,16 @@ const CHECKED = new WeakSet<object>();
  */
 export function parseNetlist(value: unknown, input: string): LegNetlist {
   if (typeof value === 'object' && value !== null && CHECKED.has(value)) return value as LegNetlist;
+  // messages name the key and what was expected; a value from the file only by its kind
   const err = (key: string, expected: string, got?: unknown) =>
-    new HexsalvageInputError('netlist', input, key, expected, got);
+    new HexsalvageInputError('netlist', input, key, expected, got === undefined ? undefined : fileValue(got));
   rejectPoisonKeys(value, '', err);
   const doc = asObject(value, '(document)', 'a JSON object describing one leg', err);
   for (const k of Object.keys(doc)) if (!TOP_KEYS.includes(k)) throw err(k, `one of the keys ${TOP_KEYS.join(', ')}`, k);
 
   const name = doc.name;
   if (typeof name !== 'string' || name.trim() === '') throw err('name', 'a non-empty string', name);
+  if (name.length > 200 || hasInvisible(name)) throw err('name', 'a name of at most 200 visible characters (no control, bidirectional or zero-width characters)', name);
   if (doc.description !== undefined && typeof doc.description !== 'string') throw err('description', 'a text (string), or no key', doc.description);
 
   const dcObj = asObject(doc.dcNodes, 'dcNodes', 'an object mapping DC node names to potentials in units of Vdc/2', err);
@@ -53,6 +74,14 @@ export function parseNetlist(value: unknown, input: string): LegNetlist {
     dcNodes[node] = v;
   }
   if (Object.keys(dcNodes).length < 2) throw err('dcNodes', 'at least two DC nodes', Object.keys(dcNodes).length);
+  if (Object.keys(dcNodes).length > NETLIST_LIMITS.dcNodes) throw err('dcNodes', `at most ${NETLIST_LIMITS.dcNodes} DC nodes (levels; a documented limit)`, Object.keys(dcNodes).length);
+  const top = Math.max(...Object.values(dcNodes).map(Math.abs));
+  if (!(top >= NETLIST_LIMITS.potentialMin && top <= NETLIST_LIMITS.potentialMax)) {
+    throw err('dcNodes', `potentials whose largest magnitude lies between ${NETLIST_LIMITS.potentialMin} and ${NETLIST_LIMITS.potentialMax} (write them in units of Vdc/2, or in volts)`);
+  }
+  for (const [node, v] of Object.entries(dcNodes)) {
+    if (v !== 0 && Math.abs(v) < NETLIST_LIMITS.resolution * top) throw err(`dcNodes.${node}`, `0, or a potential of at least ${NETLIST_LIMITS.resolution} times the largest`);
+  }
   // Two DC nodes at one potential would be one node written twice (which of them a current returns
   // to would be arbitrary): each node has its own potential, so a link has a span.
   const seen = new Map<number, string>();
@@ -68,6 +97,7 @@ export function parseNetlist(value: unknown, input: string): LegNetlist {
   if (output in dcNodes) throw err('output', 'a node that is not a DC node', output);
 
   if (!Array.isArray(doc.devices) || doc.devices.length === 0) throw err('devices', 'a non-empty array of devices', doc.devices);
+  if (doc.devices.length > NETLIST_LIMITS.devices) throw err('devices', `at most ${NETLIST_LIMITS.devices} devices (a documented limit)`, doc.devices.length);
   const devices: DeviceSpec[] = [];
   const elementIds = new Set<string>();
   doc.devices.forEach((raw, i) => {
@@ -80,12 +110,19 @@ export function parseNetlist(value: unknown, input: string): LegNetlist {
   });
 
   checkNodes(devices, dcNodes, output, err);
+  checkParallel(devices, err);
+  devices.forEach((d, i) => {
+    if (d.rating !== undefined && !(d.rating >= NETLIST_LIMITS.resolution * top && d.rating <= top / NETLIST_LIMITS.resolution)) {
+      throw err(`devices[${i}].rating`, `a rating between ${NETLIST_LIMITS.resolution} and ${1 / NETLIST_LIMITS.resolution} times the largest DC potential`);
+    }
+  });
 
   const patObj = asObject(doc.patterns, 'patterns', 'an object mapping pattern names to lists of gated switches', err);
   const gated = new Set(devices.filter((d) => d.kind !== 'diode').map((d) => d.id));
   const patterns: Record<string, string[]> = {};
+  if (Object.keys(patObj).length > NETLIST_LIMITS.patterns) throw err('patterns', `at most ${NETLIST_LIMITS.patterns} named patterns (a documented limit)`, Object.keys(patObj).length);
   for (const [pname, list] of Object.entries(patObj)) {
-    if (pname.trim() === '') throw err('patterns', 'non-empty pattern names', pname);
+    if (pname.trim() === '' || pname.length > 64 || hasInvisible(pname)) throw err('patterns', 'pattern names of 1 to 64 visible characters (no control, bidirectional or zero-width characters)', pname);
     if (!Array.isArray(list)) throw err(`patterns.${pname}`, 'an array of switch ids', list);
     const seen = new Set<string>();
     list.forEach((sw, j) => {
@@ -101,6 +138,14 @@ export function parseNetlist(value: unknown, input: string): LegNetlist {
     patterns[pname] = [...list] as string[];
   }
   if (Object.keys(patterns).length === 0) throw err('patterns', 'at least one gate pattern');
+  // the commutation search walks the subsets of the switches a change turns off and turns on
+  const names = Object.keys(patterns);
+  for (const a of names) for (const b of names) {
+    const pa = patterns[a] as string[];
+    const pb = patterns[b] as string[];
+    const off = pa.filter((g) => !pb.includes(g)).length;
+    if (off > NETLIST_LIMITS.patternChange) throw err(`patterns.${b}`, `patterns that differ from each other in at most ${NETLIST_LIMITS.patternChange} switches each way (from ${a} it turns off ${off}; a documented limit)`);
+  }
 
   // frozen, and remembered as checked: passing it on (CLI → planRemedial) is not checked twice
   const leg: LegNetlist = deepFreeze({ name, dcNodes, output, devices, patterns });
@@ -113,7 +158,7 @@ function parseDevice(raw: unknown, at: string, err: (k: string, e: string, g?: u
   for (const k of Object.keys(d)) if (!DEVICE_KEYS.includes(k)) throw err(`${at}.${k}`, `one of the keys ${DEVICE_KEYS.join(', ')}`, k);
   const { id, kind, from, to, antiparallelDiode, switching, technology, rating } = d;
   if (typeof id !== 'string') throw err(`${at}.id`, 'a device id (string)', id);
-  if (!ID_RE.test(id)) throw err(`${at}.id`, 'an id of up to 64 characters without spaces, ".", ":", ",", ";" or quotes', id);
+  if (!ID_RE.test(id) || hasInvisible(id)) throw err(`${at}.id`, 'an id of up to 64 visible characters without spaces, ".", ":", ",", ";" or quotes', id);
   if (typeof kind !== 'string' || !KINDS.includes(kind as DeviceKind)) throw err(`${at}.kind`, `one of ${KINDS.join(', ')}`, kind);
   if (typeof from !== 'string') throw err(`${at}.from`, 'a node name (string)', from);
   if (typeof to !== 'string') throw err(`${at}.to`, 'a node name (string)', to);
@@ -155,7 +200,18 @@ function checkNodes(devices: DeviceSpec[], dcNodes: Record<string, number>, outp
 }
 
 function checkNode(s: string, key: string, err: (k: string, e: string, g?: unknown) => HexsalvageInputError): void {
-  if (!NODE_RE.test(s)) throw err(key, 'a node name of 1 to 64 characters, not starting or ending with a space', s);
+  if (!NODE_RE.test(s) || hasInvisible(s)) throw err(key, 'a node name of 1 to 64 visible characters, not starting or ending with a space', s);
+}
+
+// Devices side by side between the same two nodes: each adds a branch to every conducting path.
+function checkParallel(devices: DeviceSpec[], err: (k: string, e: string, g?: unknown) => HexsalvageInputError): void {
+  const count = new Map<string, number>();
+  devices.forEach((d, i) => {
+    const key = [d.from, d.to].sort().join('\u0000');
+    const n = (count.get(key) ?? 0) + 1;
+    count.set(key, n);
+    if (n > NETLIST_LIMITS.parallelDevices) throw err(`devices[${i}]`, `at most ${NETLIST_LIMITS.parallelDevices} devices side by side between the same two nodes (a documented limit)`);
+  });
 }
 
 function asObject(v: unknown, key: string, expected: string, err: (k: string, e: string, g?: unknown) => HexsalvageInputError): Obj {

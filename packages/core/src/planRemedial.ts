@@ -12,7 +12,7 @@ import { POLARITY_STRINGS, type PolarityString } from './polarity.js';
 import type { ClassifiedVector, PolarityDiagram } from './polarityDiagram.js';
 import { explainRestrictions } from './restrictions.js';
 import { planVolts, requireVdc, type PlanVolts } from './physicalUnits.js';
-import { requireObject } from './validate.js';
+import { requireObject, requireAtlas } from './validate.js';
 import type { LimitRuleOptions, LimitRules } from './rules.js';
 
 /** Version of the plan document layout; bumped on any incompatible change. */
@@ -165,6 +165,7 @@ export function withVolts(plan: RemedialPlan, vdc: number): RemedialPlan {
  * ```
  */
 export function planFromAtlas(atlas: DiagramAtlas, loadAngleDeg: number, polarityMarginDeg: number): RemedialPlan {
+  requireAtlas(atlas, 'planFromAtlas');
   checkAngle(loadAngleDeg, 'loadAngleDeg', -180, 180, true);
   checkAngle(polarityMarginDeg, 'polarityMarginDeg', 0, 60, false);
   const lim = modulationLimit(atlas.faulted, loadAngleDeg, polarityMarginDeg);

@@ -3,7 +3,7 @@ import { HexsalvageInputError } from './errors.js';
 import { POLARITY_STRINGS, type PolarityString } from './polarity.js';
 import { polarityAt } from './polaritySectors.js';
 import type { SwitchingTable } from './switchingTable.js';
-import { requireNumber, requireObject } from './validate.js';
+import { requireNumber, requireObject, requireTable } from './validate.js';
 
 /** When the runtime takes a new sample: once per switching period, or at each half (carrier peak and valley). */
 export const UPDATE_MODES = ['period', 'half'] as const;
@@ -84,6 +84,7 @@ const SETTLED = 1e-6;
  * ```
  */
 export function runtimeStream(table: SwitchingTable, options: RuntimeStreamOptions): RuntimeStream {
+  requireTable(table, 'runtimeStream');
   requireObject(options, 'runtimeStream', 'an options object { m, loadAngleDeg?, polarityMarginDeg?, frequencyRatio?, update?, sequence?, balance? }');
   const m = requireNumber(options.m, 'runtimeStream', 'm', { min: 0, max: 10 });
   const phi = requireNumber(options.loadAngleDeg ?? 0, 'runtimeStream', 'loadAngleDeg', { min: -180, max: 180 });

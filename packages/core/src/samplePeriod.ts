@@ -2,7 +2,7 @@ import { createRuntime, type RuntimeOptions } from './createRuntime.js';
 import { HexsalvageInputError } from './errors.js';
 import { parsePolarity, POLARITY_STRINGS, type PolarityString } from './polarity.js';
 import type { SwitchingTable } from './switchingTable.js';
-import { requireNumber, requireObject } from './validate.js';
+import { requireNumber, requireObject, requireTable } from './validate.js';
 
 /** One state of a sampled switching period. */
 export interface PeriodState {
@@ -49,6 +49,7 @@ export interface SamplePeriodOptions extends Omit<RuntimeOptions, 'midpointGain'
  * ```
  */
 export function samplePeriod(table: SwitchingTable, options: SamplePeriodOptions): SampledPeriod {
+  requireTable(table, 'samplePeriod');
   requireObject(options, 'samplePeriod', 'an options object { alpha, beta, polarity, currents?, sequence?, balance? }');
   const alpha = requireNumber(options.alpha, 'samplePeriod', 'alpha', { min: -1e6, max: 1e6 });
   const beta = requireNumber(options.beta, 'samplePeriod', 'beta', { min: -1e6, max: 1e6 });

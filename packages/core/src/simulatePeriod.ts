@@ -31,7 +31,7 @@ export interface SimulateOptions extends LimitRuleOptions {
   readonly currentPeak: number;
   /** Fundamental frequency, Hz. */
   readonly f1: number;
-  /** Switching frequency, Hz: fsw/f1 rounded is the number of switching periods per fundamental (6 to 20000). */
+  /** Switching frequency, Hz: fsw/f1 rounded is the number of switching periods per fundamental (6 to {@link MAX_SIMULATED_PERIODS}). */
   readonly fsw: number;
   /** Device loss parameters. Default: the invented demo values {@link DEMO_DEVICES}. */
   readonly devices?: DeviceParameterSet;
@@ -129,6 +129,9 @@ export interface WaveformSegment {
 
 const TWO_PI = 2 * Math.PI;
 
+/** Most switching periods per fundamental a simulation runs (fsw/f1): the spectrum's work grows with its square. */
+export const MAX_SIMULATED_PERIODS = 2000;
+
 /**
  * One fundamental period of the degraded converter, exact rather than time-stepped.
  *
@@ -208,7 +211,7 @@ function prepare(options: SimulateOptions): { run: RunInputs; plan: ReturnType<t
   const f1 = requireNumber(options.f1, 'simulatePeriod', 'f1', { min: 0, openMin: true, max: 1e5 });
   const fsw = requireNumber(options.fsw, 'simulatePeriod', 'fsw', { min: 6 * f1, max: 1e8 });
   const periods = Math.round(fsw / f1);
-  if (periods > 20000) throw new HexsalvageInputError('option', 'simulatePeriod', 'fsw', 'at most 20000 switching periods per fundamental (fsw/f1)', fsw);
+  if (periods > MAX_SIMULATED_PERIODS) throw new HexsalvageInputError('option', 'simulatePeriod', 'fsw', `at most ${MAX_SIMULATED_PERIODS} switching periods per fundamental (fsw/f1; a documented limit)`, fsw);
   const td = requireNumber(options.deadTime ?? 0, 'simulatePeriod', 'deadTime', { min: 0, max: 0.1 / fsw });
   const cap = options.capacitance === undefined ? undefined : requireNumber(options.capacitance, 'simulatePeriod', 'capacitance', { min: 0, openMin: true, max: 1e3 });
   const maxH = options.maxHarmonic === undefined ? 4 * periods + 2 : requireNumber(options.maxHarmonic, 'simulatePeriod', 'maxHarmonic', { min: 1, max: 200000, integer: true });
@@ -377,41 +380,58 @@ function parameterLookup(set: DeviceParameterSet, elementById: ReadonlyMap<strin
 
 type PathLookup = (k: number, gates: readonly string[], key: string, sign: CurrentSign, current: number) => { level: number | null; path: CurrentPath };
 
-// The level and the one conducting path of a phase state at a current: of the simple paths, the
-// one with the lowest on-state voltage (threshold plus slope, on-resistance for a MOSFET channel,
-// none for a shorted element); paths and their drops cached per state and sign.
+// The level and the one conducting path of a phase state at a current: of the simple node paths,
+// the one with the lowest on-state voltage (threshold plus slope, on-resistance for a MOSFET
+// channel, none for a shorted element), each hop by its element of lowest voltage; node paths and
+// their elements' parameters cached per state and sign.
 function pathLookup(leg: LegNetlist, elements: readonly LegElement[], faults: readonly PhaseFaults[], paramsOf: (id: string) => ElementParameters): PathLookup {
-  const cache = new Map<string, { level: number | null; paths: readonly CurrentPath[]; v0: number[]; r: number[] }>();
+  interface Hop { readonly ids: readonly string[]; readonly forward: readonly boolean[]; readonly v0: Float64Array; readonly r: Float64Array }
+  const cache = new Map<string, { level: number | null; paths: readonly (readonly Hop[])[] }>();
   const none: CurrentPath = { elements: [], forward: [] };
   return (k, gates, key, sign, i) => {
     const ck = `${k}|${sign}|${key}`;
     let c = cache.get(ck);
     if (!c) {
       const pc = currentPaths(leg, elements, faults[k] as PhaseFaults, gates, sign);
-      const v0: number[] = [];
-      const r: number[] = [];
-      for (const p of pc.paths) {
-        let a = 0;
-        let b = 0;
-        for (const id of p.elements) {
-          if ((faults[k] as PhaseFaults).get(id) === 'short') continue;
-          const ep = paramsOf(id);
-          if (ep.part === 'mosfet') b += ep.p.rOn ?? 0;
-          else { a += ep.p.v0 ?? 0; b += ep.p.r ?? 0; }
-        }
-        v0.push(a);
-        r.push(b);
-      }
-      c = { level: pc.level, paths: pc.paths, v0, r };
+      const drop = (id: string): [number, number] => {
+        if ((faults[k] as PhaseFaults).get(id) === 'short') return [0, 0];
+        const ep = paramsOf(id);
+        return ep.part === 'mosfet' ? [0, ep.p.rOn ?? 0] : [ep.p.v0 ?? 0, ep.p.r ?? 0];
+      };
+      c = {
+        level: pc.level,
+        paths: pc.paths.map((p) => p.hops.map((h) => ({
+          ids: h.map((b) => b.element),
+          forward: h.map((b) => b.forward),
+          v0: Float64Array.from(h, (b) => drop(b.element)[0]),
+          r: Float64Array.from(h, (b) => drop(b.element)[1]),
+        }))),
+      };
       cache.set(ck, c);
     }
-    let best = -1;
-    let drop = Infinity;
-    for (let j = 0; j < c.paths.length; j++) {
-      const v = (c.v0[j] as number) + (c.r[j] as number) * i;
-      if (v < drop) [best, drop] = [j, v];
+    let best: CurrentPath = none;
+    let bestDrop = Infinity;
+    for (const hops of c.paths) {
+      let total = 0;
+      const ids: string[] = [];
+      const fwd: boolean[] = [];
+      for (const h of hops) {
+        let j = 0;
+        let v = Infinity;
+        for (let x = 0; x < h.ids.length; x++) {
+          const dv = (h.v0[x] as number) + (h.r[x] as number) * i;
+          if (dv < v) [j, v] = [x, dv];
+        }
+        total += v;
+        ids.push(h.ids[j] as string);
+        fwd.push(h.forward[j] as boolean);
+      }
+      if (total < bestDrop) {
+        bestDrop = total;
+        best = { elements: ids, forward: fwd };
+      }
     }
-    return { level: c.level, path: best >= 0 ? (c.paths[best] as CurrentPath) : none };
+    return { level: c.level, path: best };
   };
 }
 

@@ -1,3 +1,5 @@
+import { HexsalvageInputError } from './errors.js';
+import { requireAtlas } from './validate.js';
 import { CAUTIONS } from './cautions.js';
 import { gatedDeviceIds, legLevels } from './expandElements.js';
 import { diagramAtlas, type DiagramAtlas } from './diagramAtlas.js';
@@ -8,6 +10,9 @@ import { polarityDocument, type PlanPolarity } from './planRemedial.js';
 import type { PolarityDiagram } from './polarityDiagram.js';
 import { patternSteps, type PhaseSteps } from './patternSteps.js';
 import { polarityTable, type TableTriangle } from './polarityTable.js';
+
+/** Most levels (DC nodes) a leg may have for the switching table and what is built on it (runtime, exports, simulation, report). */
+export const MAX_TABLE_LEVELS = 11;
 
 /** Version of the switching-table document layout. */
 export const TABLE_SCHEMA_VERSION = 2;
@@ -85,6 +90,9 @@ export function switchingTable(options: AnalyseLegOptions): SwitchingTable {
  * ```
  */
 export function switchingTableFromAtlas(atlas: DiagramAtlas): SwitchingTable {
+  requireAtlas(atlas, 'switchingTableFromAtlas');
+  const count = legLevels(atlas.analysis.leg).length;
+  if (count > MAX_TABLE_LEVELS) throw new HexsalvageInputError('topology', atlas.analysis.topology, 'dcNodes', `a leg of at most ${MAX_TABLE_LEVELS} levels for the switching table, its runtime and exports (a documented limit: the table of ${count} levels would be too large)`, count);
   const polarities: Record<PolarityString, TablePolarity> = {};
   const lineDevicesAtPwm: TriangleFlag[] = [];
   const levelJumps: TriangleFlag[] = [];

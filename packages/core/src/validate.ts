@@ -54,3 +54,39 @@ export function requireNumber(v: unknown, input: string, key: string, range: Num
   }
   return v as number;
 }
+
+/**
+ * Checks that an argument is a switching table from `switchingTable` (or its JSON).
+ *
+ * @param v - the argument
+ * @param input - the function's name, for the message
+ * @throws HexsalvageInputError (code `option`)
+ * @example
+ * ```ts
+ * requireTable(table, 'exportC');
+ * ```
+ */
+export function requireTable(v: unknown, input: string): void {
+  const t = v as { kind?: unknown; polarities?: unknown; phaseSteps?: unknown } | null;
+  if (typeof t !== 'object' || t === null || t.kind !== 'hexsalvage-switching-table' || typeof t.polarities !== 'object' || typeof t.phaseSteps !== 'object') {
+    throw new HexsalvageInputError('option', input, '(table)', 'a switching table from switchingTable()', v);
+  }
+}
+
+/**
+ * Checks that an argument is a diagram atlas from `diagramAtlas`.
+ *
+ * @param v - the argument
+ * @param input - the function's name, for the message
+ * @throws HexsalvageInputError (code `option`)
+ * @example
+ * ```ts
+ * requireAtlas(atlas, 'deratingCurve');
+ * ```
+ */
+export function requireAtlas(v: unknown, input: string): void {
+  const a = v as { analysis?: unknown; faulted?: unknown; healthy?: unknown } | null;
+  if (typeof a !== 'object' || a === null || typeof a.analysis !== 'object' || !(a.faulted instanceof Map) || !(a.healthy instanceof Map)) {
+    throw new HexsalvageInputError('option', input, '(atlas)', 'a diagram atlas from diagramAtlas()', v);
+  }
+}

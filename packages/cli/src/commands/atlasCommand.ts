@@ -1,4 +1,4 @@
-import { describeRules, type FaultAtlas } from '@hexsalvage/core';
+import { csvCell, csvText, describeRules, type FaultAtlas } from '@hexsalvage/core';
 import { usage } from '../args.js';
 import { ATLAS_OPTIONS, atlasFromArgs } from '../atlasInputs.js';
 import { HELP_OPTION, JSON_OPTION, RULE_OPTIONS, type Command } from '../command.js';
@@ -29,7 +29,7 @@ export const atlasCommand: Command = {
     const json = args.flags.has('json');
     const doc = await atlasFromArgs(args, io, json);
     const text = json ? `${JSON.stringify(doc)}\n` : args.flags.has('csv') ? atlasCsv(doc) : `${atlasText(doc)}\n`;
-    if (out !== undefined) writeFileAtomic(out, text);
+    if (out !== undefined) await writeFileAtomic(out, text);
     if (out === undefined || json) await io.stdout(text);
     else await io.stdout(`wrote ${out} (${doc.entries.length} fault sets, ${Buffer.byteLength(text)} bytes)\n`);
     return 0;
@@ -90,16 +90,15 @@ export function atlasCsv(a: FaultAtlas): string {
   const grid = a.healthy.mMaxAt.map(([phi]) => phi);
   const volts = a.volts !== undefined;
   const head = ['faults', 'verdict', 'm_max_min', 'derating_ratio', 'worst_load_angle_deg', 'm_max_hull_min', ...(volts ? ['phase_peak_min_v', 'line_rms_min_v'] : []), 'reason', ...grid.map((g) => `m_max_at_${g}`)];
-  const quote = (s: string) => (/[",\n]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s);
   const rows = a.entries.map((e) => [
-    e.faults.join(' + '),
+    csvCell(csvText(e.faults.join(' + '))),
     e.verdict,
     e.mMaxMin.toFixed(9),
     e.deratingRatio.toFixed(9),
     String(e.worstLoadAngleDeg),
     e.mMaxHullMin.toFixed(9),
     ...(volts ? [(e.volts?.phasePeakMin ?? 0).toFixed(3), (e.volts?.lineRmsMin ?? 0).toFixed(3)] : []),
-    quote(e.reason),
+    csvCell(csvText(e.reason)),
     ...e.mMaxAt.map(([, m]) => m.toFixed(9)),
   ].join(','));
   return `${head.join(',')}\n${rows.join('\n')}\n`;

@@ -43,7 +43,7 @@ export const exportCommand: Command = {
       const derating = deratingSteps(atlas, { polarityMarginDeg: angles.polarityMarginDeg });
       text = exportC(table, { prefix: (args.values.get('prefix') as string | undefined) ?? 'hs', cType, fileName: out, limits: plan, runtime, derating, ...(vdc === undefined ? {} : { vdc }) });
     }
-    writeFileAtomic(out, text);
+    await writeFileAtomic(out, text);
     await io.stdout(`wrote ${out} (${format}, ${Buffer.byteLength(text)} bytes)\n`);
     return 0;
   },

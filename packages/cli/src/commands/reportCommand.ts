@@ -77,7 +77,7 @@ export const reportCommand: Command = {
       date: buildDate(),
       inputs: files.map((f) => ({ path: relative(process.cwd(), f.path) || f.path, sha256: f.sha256 })),
     });
-    writeFileAtomic(out, html);
+    await writeFileAtomic(out, html);
     await io.stdout(`wrote ${out} (review report, ${Buffer.byteLength(html)} bytes)\n`);
     return 0;
   },

@@ -1,4 +1,4 @@
-import { CAUTIONS, simulatePeriod, simulationWaveform, type Simulation, type SimulateOptions } from '@hexsalvage/core';
+import { CAUTIONS, csvCell, csvText, simulatePeriod, simulationWaveform, type Simulation, type SimulateOptions } from '@hexsalvage/core';
 import { usage } from '../args.js';
 import { HELP_OPTION, JSON_OPTION, LEG_OPTIONS, type Command } from '../command.js';
 import { cautionBlock, fmt, textTable } from '../format.js';
@@ -27,7 +27,7 @@ export const simulateCommand: Command = {
     const wave = args.values.get('waveforms') as string | undefined;
     if (wave !== undefined) {
       if (wave === '') throw usage('--waveforms', 'a CSV file path');
-      writeFileAtomic(wave, waveformCsv(options, sim));
+      await writeFileAtomic(wave, waveformCsv(options, sim));
     }
     if (args.flags.has('json')) await io.stdout(`${JSON.stringify(sim)}\n`);
     else if (args.flags.has('csv')) await io.stdout(deviceCsv(sim));
@@ -87,7 +87,7 @@ function deviceCsv(s: Simulation): string {
   const head = 'element,avg_current_a,rms_current_a,conduction_loss_w,switching_loss_w,healthy_avg_current_a,healthy_rms_current_a,healthy_conduction_loss_w,healthy_switching_loss_w';
   const rows = Object.entries(s.devices).map(([id, d]) => {
     const h = s.healthy.devices[id] as Simulation['devices'][string];
-    return [id, d.avgCurrent, d.rmsCurrent, d.conductionLoss, d.switchingLoss, h.avgCurrent, h.rmsCurrent, h.conductionLoss, h.switchingLoss].map((v) => (typeof v === 'number' ? v.toFixed(6) : v)).join(',');
+    return [csvCell(csvText(id)), d.avgCurrent, d.rmsCurrent, d.conductionLoss, d.switchingLoss, h.avgCurrent, h.rmsCurrent, h.conductionLoss, h.switchingLoss].map((v) => (typeof v === 'number' ? v.toFixed(6) : v)).join(',');
   });
   return `${head}\n${rows.join('\n')}\n`;
 }
