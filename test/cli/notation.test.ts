@@ -37,7 +37,11 @@ describe('one notation for levels and vectors', () => {
     const leg = parseNetlist(JSON.parse(readFileSync(FIVE, 'utf8')), 'five-level-leg.json');
     const plan = planRemedial({ topology: leg });
     const svg = vectorDiagramSvg(plan, plan.limitingPolarity);
-    const labels = [...svg.matchAll(/<text class="label[^"]*" x="([\d.]+)" y="([\d.]+)"[^>]*>([^<]*)<\/text>/g)].map((m) => ({ x: Number(m[1]), y: Number(m[2]), w: 5.6 * m[3]!.replace(/&[a-z]+;/g, '&').length }));
+    // a label anchored at its end (text-anchor="end") extends to the left of x
+    const labels = [...svg.matchAll(/<text class="label[^"]*" x="([\d.]+)" y="([\d.]+)"( text-anchor="end")?[^>]*>([^<]*)<\/text>/g)].map((m) => {
+      const w = 5.6 * m[4]!.replace(/&[a-z]+;/g, '&').length;
+      return { x: m[3] ? Number(m[1]) - w : Number(m[1]), y: Number(m[2]), w };
+    });
     expect(labels.length).toBeGreaterThan(10);
     for (let i = 0; i < labels.length; i++) for (let j = i + 1; j < labels.length; j++) {
       const a = labels[i]!;

@@ -42,6 +42,17 @@ describe.skipIf(!available && !process.env.CI)('report in a headless browser', (
       await page.emulateMedia({ media: 'print' });
       const pdf = await page.pdf({ format: 'A4', printBackground: true });
       expect(pdf.length).toBeGreaterThan(10000);
+      // A4 less the page margins (210 − 2·14 mm = 182 mm ≈ 688 px at 96 px/in): every table,
+      // the claims table with its "short by" column included, lies within the printable width
+      await page.setViewportSize({ width: 688, height: 1000 });
+      const tables = await page.$$eval('table', (ts) => ts.map((t) => [t.className, t.getBoundingClientRect().right, t.scrollWidth, t.clientWidth] as const));
+      expect(tables.some(([c]) => c === 'claims')).toBe(true);
+      for (const [c, right, scroll, client] of tables) {
+        expect(right, `table ${c}`).toBeLessThanOrEqual(688 + 0.5);
+        expect(scroll, `table ${c}`).toBeLessThanOrEqual(client + 1);
+      }
+      const last = await page.$eval('table.claims thead th:last-child', (th) => th.getBoundingClientRect().right);
+      expect(last).toBeLessThanOrEqual(688 + 0.5);
     } finally {
       await browser.close();
     }

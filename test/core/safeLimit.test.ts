@@ -48,7 +48,8 @@ describe('the safe limit (contract, Version 2)', () => {
       expect(p.mMax).toBe(c.mMax);
       expect(p.mMaxHull).toBe(c.mMax);
       expect(p.mMaxHealthy).toBe(c.mMaxHealthy);
-      expect(p.limitingAngleDeg).toBe(c.limitingAngleDeg);
+      // directions are reported rounded to 1e-9° (the contract's precision): 30, not 29.99999999999999
+      expect(Math.abs(p.limitingAngleDeg - c.limitingAngleDeg)).toBeLessThanOrEqual(1e-9);
       expect(p.limitingPolarity).toBe(c.limitingPolarity);
       if (c.radius) for (const [pol, r] of Object.entries(c.radius)) expect(p.polarities[pol]?.radius).toBe(r);
     }

@@ -1,4 +1,4 @@
-import { levelNotation, lineRmsVolts, phasePeakVolts } from '@hexsalvage/core';
+import { levelNotation, lineRmsVolts, phasePeakVolts, type ClaimVerdict } from '@hexsalvage/core';
 
 /**
  * Renders rows as a left-aligned text table with a header rule.
@@ -83,4 +83,26 @@ export function cautionBlock(cautions: readonly string[]): string {
 export function voltsText(m: number, vdc: number | undefined): string {
   if (vdc === undefined) return '';
   return ` = ${fmt(lineRmsVolts(m, vdc), 1)} V line-to-line RMS (${fmt(phasePeakVolts(m, vdc), 1)} V phase peak)`;
+}
+
+/**
+ * The rules of a verdict in a few words, saying when the rating check checked nothing or only
+ * part of the leg (devices without a rating pass unchecked).
+ *
+ * @param v - a verdict
+ * @returns e.g. `ratings, commutable` or `ratings NOT checked (no device rated), commutable`
+ * @example
+ * ```ts
+ * claimRulesText(evaluateClaim(claim));
+ * ```
+ */
+export function claimRulesText(v: ClaimVerdict): string {
+  const ratings = !v.rules.ratings
+    ? 'ratings IGNORED'
+    : v.unrated.length === 0
+      ? 'ratings'
+      : v.unrated.length >= v.deviceCount
+        ? 'ratings NOT checked (no device rated)'
+        : `ratings (unrated, not checked: ${v.unrated.join(', ')})`;
+  return `${ratings}, ${v.rules.levelSteps}`;
 }

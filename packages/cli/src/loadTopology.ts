@@ -1,7 +1,7 @@
 import { isAbsolute, relative, resolve, sep } from 'node:path';
 import { existsSync, realpathSync } from 'node:fs';
 import { BUILTIN_TOPOLOGIES, HexsalvageInputError, isBuiltinTopology, parseNetlist, type LegNetlist } from '@hexsalvage/core';
-import { readJsonFile } from './readJsonFile.js';
+import { readJsonFile } from '@hexsalvage/core/node';
 
 /**
  * Reads a `--topology` value: a built-in id, or a netlist file path (relative to `baseDir`), read

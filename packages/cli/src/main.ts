@@ -94,7 +94,7 @@ export async function main(argv: readonly string[], io: CommandIO): Promise<numb
 async function generalHelp(): Promise<string> {
   const commands = await Promise.all(COMMAND_NAMES.map(async (n) => (await loadCommand(n)) as Command));
   return [
-    `hexsalvage ${VERSION}: what a three-phase converter leg can still do after a device fails open`,
+    `hexsalvage ${VERSION}: what a three-phase converter leg can still do after a device (a switch or its diode) fails open or short`,
     '',
     'Usage: hexsalvage <command> [options]   (hexsalvage <command> --help for its options)',
     '',

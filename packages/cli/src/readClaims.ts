@@ -2,7 +2,7 @@ import { existsSync } from 'node:fs';
 import { dirname } from 'node:path';
 import { evaluateClaim, fileValue, HexsalvageInputError, LEVEL_STEP_RULES, type ClaimVerdict, type DeratingClaim, type LevelStepRule } from '@hexsalvage/core';
 import { loadTopology } from './loadTopology.js';
-import { readJsonFile } from './readJsonFile.js';
+import { readJsonFile } from '@hexsalvage/core/node';
 
 /**
  * Reads and validates a claims file; netlist paths are taken relative to the file and must stay in

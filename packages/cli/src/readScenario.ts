@@ -4,7 +4,7 @@ import { dirname, resolve } from 'node:path';
 import { fileValue, HexsalvageInputError, isBuiltinTopology, MAX_SIMULATED_PERIODS, LEVEL_STEP_RULES, type DeratingClaim, type LegNetlist, type LevelStepRule } from '@hexsalvage/core';
 import { confined, loadTopology } from './loadTopology.js';
 import { claimsFromDocument, parseClaimList } from './readClaims.js';
-import { readJsonFile } from './readJsonFile.js';
+import { readJsonFile } from '@hexsalvage/core/node';
 
 /** A review scenario: what a design review needs once (docs/schema/scenario.schema.json). */
 export interface Scenario {

@@ -1,4 +1,4 @@
-import type { LegAnalysis, PatternResult, Phase } from '@hexsalvage/core';
+import { conductionEdges, expandElements, outputForSign, reasonInWords, type LegAnalysis, type PatternResult, type Phase } from '@hexsalvage/core';
 import type { LegSchematicOptions } from '@hexsalvage/plot';
 import { usage } from './args.js';
 
@@ -30,14 +30,21 @@ export function schematicFocus(analysis: LegAnalysis, phaseArg?: string, pattern
   if (!p) throw usage('--pattern', `one of ${table.patterns.map((x) => x.name).join(', ')}`, patternArg);
   const sign = (signArg ?? (differs(p, '+') || !differs(p, '-') ? '+' : '-')) as '+' | '-';
   if (sign !== '+' && sign !== '-') throw usage('--sign', '+ or -', signArg);
-  const failed = analysis.faults.filter((f) => f.phase === phase).map((f) => f.element);
-  const outcome = p.status === 'allowed' ? p.bySign[sign] : null;
-  return {
-    failed,
-    pattern: { name: p.name, gates: p.gates },
-    sign,
-    path: outcome?.path ?? [],
-    level: outcome ? outcome.level : null,
-    title: `Leg ${analysis.topology}, phase ${phase}${failed.length ? `, failed: ${failed.join(', ')}` : ''}`,
-  };
+  const mine = analysis.faults.filter((f) => f.phase === phase);
+  const failed = mine.filter((f) => f.mode === 'open').map((f) => f.element);
+  const shorted = mine.filter((f) => f.mode === 'short').map((f) => f.element);
+  const title = `Leg ${analysis.topology}, phase ${phase}${mine.length ? `, failed: ${mine.map((f) => `${f.element} ${f.mode}`).join(', ')}` : ''}`;
+  const common = { failed, shorted, pattern: { name: p.name, gates: p.gates }, sign, title };
+  if (p.status === 'forbidden') {
+    return { ...common, state: 'shoot-through', path: p.shootThrough.path, level: null, reason: `${p.shootThrough.from}→${p.shootThrough.to} via ${p.shootThrough.path.join(', ')}` };
+  }
+  const outcome = p.bySign[sign];
+  const unsafe = p.unsafe[sign];
+  if (outcome.level === null && unsafe !== undefined) {
+    // where the current would flow if the pattern were used: the leg without the rating check
+    const faults = new Map(mine.map((f) => [f.element, f.mode] as const));
+    const raw = outputForSign(analysis.leg, conductionEdges(expandElements(analysis.leg), new Set(p.gates), faults), sign);
+    return { ...common, state: 'unsafe', path: raw.path, level: raw.level, reason: reasonInWords(unsafe) };
+  }
+  return { ...common, state: outcome.level === null ? 'interrupted' : 'path', path: outcome.path, level: outcome.level };
 }

@@ -2,7 +2,7 @@ import { existsSync } from 'node:fs';
 import { HexsalvageInputError, parseDeviceParameters, type LegNetlist, type LevelStepRule, type SimulateOptions } from '@hexsalvage/core';
 import { usage, type OptionSpec, type ParsedArgs } from './args.js';
 import { runtimeInputs, updateInput } from './legInputs.js';
-import { readJsonFile } from './readJsonFile.js';
+import { readJsonFile } from '@hexsalvage/core/node';
 
 /** The options of one simulated period (`simulate`, `plot losses|spectrum|waveforms`). */
 export const SIM_OPTIONS: readonly OptionSpec[] = [

@@ -47,6 +47,13 @@ export interface ClaimVerdict {
   readonly mMaxHullAtWorst: number;
   /** The rules the verdict was made under. */
   readonly rules: LimitRules;
+  /**
+   * Devices of the claim's leg without a voltage rating: the rating check passes them unchecked
+   * (all of them on a netlist that rates none, where `rules.ratings` checks nothing).
+   */
+  readonly unrated: readonly string[];
+  /** How many devices the claim's leg has (to say whether the rating check covered any). */
+  readonly deviceCount: number;
   /** The binding outline edge as its two vectors' level triplets and classes, or null. */
   readonly bindingEdge: readonly { readonly alpha: number; readonly beta: number; readonly class: string; readonly levels: readonly (readonly number[])[] }[] | null;
   /** The leg's DC potentials, ascending: how the binding edge's vectors are written (`levelNotation`). */
@@ -107,6 +114,8 @@ export function evaluateClaim(claim: DeratingClaim): ClaimVerdict {
     m,
     mMaxHullAtWorst: hull.mMax,
     rules,
+    unrated: atlas.analysis.unrated,
+    deviceCount: atlas.analysis.leg.devices.length,
     limitingAngleDeg: r.limitingAngleDeg,
     limitingPolarity: r.limitingPolarity,
     bindingEdge: edge,

@@ -264,7 +264,11 @@ export function assembleAtlas(work: AtlasWork, results: readonly AtlasClassResul
   const healthyAt = atlasGrid(s).map((phi) => [phi, modulationLimit(healthyAtlas.healthy, phi, s.polarityMarginDeg).mMax] as const);
   const volt = (m: number) => (s.vdc === null ? null : { phasePeak: phasePeakVolts(m, s.vdc), lineRms: lineRmsVolts(m, s.vdc) });
   const entries = work.faultSets.map((faults, i) => {
-    const r = results[work.classOf[i] as number] as AtlasClassResult;
+    const rep = work.classes[work.classOf[i] as number] as readonly string[];
+    const computed = results[work.classOf[i] as number] as AtlasClassResult;
+    // the class was computed for its representative: its words name that rotation's phases
+    const back = rotationFrom(rep, faults);
+    const r = back === 0 ? computed : { ...computed, reason: rotatePhaseNames(computed.reason, back), details: computed.details.map((d) => rotatePhaseNames(d, back)) };
     const verdict: AtlasEntry['verdict'] = r.mMaxMin <= VERDICT_TOLERANCE ? 'cannot-run' : r.mMaxMin >= healthyMin - VERDICT_TOLERANCE ? 'full' : 'derated';
     const v = volt(r.mMaxMin);
     const entry: AtlasEntry = {
@@ -294,6 +298,21 @@ export function assembleAtlas(work: AtlasWork, results: readonly AtlasClassResul
     unrated: s.unrated,
     cautions: CAUTIONS,
   };
+}
+
+// The rotation r (0, 1, 2) that takes the phases of `rep` to those of `faults` (a→b is one step).
+function rotationFrom(rep: readonly string[], faults: readonly string[]): number {
+  const want = [...faults].sort().join('|');
+  for (let r = 0; r < 3; r++) {
+    const turned = rep.map((f) => `${PHASES[(PHASES.indexOf(f[0] as (typeof PHASES)[number]) + r) % 3]}${f.slice(1)}`).sort().join('|');
+    if (turned === want) return r;
+  }
+  return 0;
+}
+
+// "phase a …" written for one rotation, for another: every phase named moves on by r.
+function rotatePhaseNames(text: string, r: number): string {
+  return text.replace(/\bphase ([abc])\b/g, (_, p: string) => `phase ${PHASES[(PHASES.indexOf(p as (typeof PHASES)[number]) + r) % 3]}`);
 }
 
 /**

@@ -80,7 +80,7 @@ export function modulationLimit(diagrams: ReadonlyMap<PolarityString, PolarityDi
     return { value: m.value, thetaDeg: mod360(m.theta / RAD) };
   });
   const b = best as unknown as { value: number; theta: number; polarity: PolarityString; edge: readonly [number, number] | null };
-  return { mMax: b.value, limitingAngleDeg: mod360(b.theta / RAD), limitingPolarity: b.polarity, bindingEdge: b.edge, sectorMinima, sectors };
+  return { mMax: b.value, limitingAngleDeg: angleOut(b.theta / RAD), limitingPolarity: b.polarity, bindingEdge: b.edge, sectorMinima, sectors };
 }
 
 /** The worst case of the limit over a range of load angles. */
@@ -94,6 +94,17 @@ export interface LimitOverRange {
   readonly limitingPolarity: PolarityString;
   readonly bindingEdge: readonly [number, number] | null;
 }
+
+// A direction as reported: in [0, 360), rounded to 1e-9° (the contract's precision), so that the
+// directions that are exact in the math (edge normals at multiples of 30°) print as such.
+function angleOut(deg: number): number {
+  const r = Math.round(mod360(deg) * 1e9) / 1e9;
+  return r >= 360 ? 0 : r;
+}
+
+// Minima of mMax within this of each other are the same minimum (closed forms in units of Vdc/2
+// agree to a few ulps); the lowest load angle among them is reported.
+const WORST_TIE = 1e-12;
 
 /**
  * Exact minimum of mMax over a closed range of load angles.
@@ -122,15 +133,22 @@ export function limitOverLoadAngles(diagrams: ReadonlyMap<PolarityString, Polari
     const g = extentGeometry(diagrams.get(s.polarity) as PolarityDiagram, kind);
     const lo = fromDeg + s.fromDeg;
     const hi = Math.min(toDeg + s.toDeg, lo + 360);
-    const m = minRadialExtent(g, lo * RAD, hi * RAD);
-    if (best !== null && !(m.value < best.mMax)) continue;
+    // the earliest direction among minima equal up to rounding, so that the load angle reported
+    // is the lowest one where the minimum is reached (on a flat curve: the range's low end)
+    const m = minRadialExtent(g, lo * RAD, hi * RAD, WORST_TIE);
     const theta = m.theta / RAD;
     // Any φ in the range with θ − φ inside the sector; the lowest one keeps the answer stable.
     // When the widened interval was capped at a full turn, θ may need a shift by a turn first.
     const shifted = [theta, theta - 360, theta + 360].find((t) => t >= fromDeg + s.fromDeg - 1e-9 && t <= toDeg + s.toDeg + 1e-9) ?? theta;
-    const phi = Math.min(toDeg, Math.max(fromDeg, shifted - s.toDeg));
+    // rounded to 1e-9°: the arithmetic of θ − b leaves noise (−59.999999999999986 for −60)
+    const phi = Math.min(toDeg, Math.max(fromDeg, Math.round((shifted - s.toDeg) * 1e9) / 1e9));
+    const prev: LimitOverRange | null = best;
+    if (prev !== null && !(m.value < prev.mMax - WORST_TIE || (m.value <= prev.mMax + WORST_TIE && phi < prev.loadAngleDeg))) {
+      if (m.value < prev.mMax) best = Object.assign({}, prev as LimitOverRange, { mMax: m.value });
+      continue;
+    }
     const e = m.edge === null ? null : g.edges[m.edge];
-    best = { mMax: m.value, loadAngleDeg: phi, limitingAngleDeg: mod360(theta), limitingPolarity: s.polarity, bindingEdge: e ? [e.from, e.to] : null };
+    best = { mMax: prev === null ? m.value : Math.min(m.value, prev.mMax), loadAngleDeg: phi, limitingAngleDeg: angleOut(theta), limitingPolarity: s.polarity, bindingEdge: e ? [e.from, e.to] : null };
   }
   return best as LimitOverRange;
 }

@@ -8,9 +8,11 @@ import { formatFault, PHASES, type Phase } from './faults.js';
 import type { LevelSets } from './legTable.js';
 import { balancedLimit, midpointProfile } from './midpointBalance.js';
 import { modulationLimit } from './modulationLimit.js';
-import { POLARITY_STRINGS, type PolarityString } from './polarity.js';
+import { parsePolarity, POLARITY_STRINGS, type PolarityString } from './polarity.js';
 import type { ClassifiedVector, PolarityDiagram } from './polarityDiagram.js';
 import { explainRestrictions } from './restrictions.js';
+import { faultReason } from './faultReason.js';
+import { originGaps } from './originGaps.js';
 import { planVolts, requireVdc, type PlanVolts } from './physicalUnits.js';
 import { requireObject, requireAtlas } from './validate.js';
 import type { LimitRuleOptions, LimitRules } from './rules.js';
@@ -110,7 +112,25 @@ export interface RemedialPlan {
   readonly polarities: Readonly<Record<PolarityString, PlanPolarity>>;
   /** With `vdc`: the limits in volts (contract "Physical units"). */
   readonly volts?: PlanVolts;
+  /** When `mMax` is 0: why the drive cannot run; `null` otherwise. */
+  readonly stop: PlanStop | null;
   readonly cautions: readonly string[];
+}
+
+/**
+ * Why a plan leaves no output voltage. Every polarity of the cycle is visited at every load angle
+ * (only where it falls in θ moves), and a polarity whose admissible triangles do not surround the
+ * origin has extent 0 in every direction: a leg that cannot run at one load angle cannot run at any.
+ */
+export interface PlanStop {
+  /** True: no load angle helps (always so for the reason above; kept explicit for readers). */
+  readonly everyLoadAngle: boolean;
+  /** The polarity whose triangles do not surround the origin. */
+  readonly polarity: PolarityString;
+  /** Directions next to the origin (degrees, `from < to`, `to` may pass 360) no admissible triangle covers. */
+  readonly gapsDeg: readonly (readonly [number, number])[];
+  /** The reason in words: the polarity, the directions, and what the faults take away. */
+  readonly reason: string;
 }
 
 /**
@@ -210,9 +230,30 @@ export function planFromAtlas(atlas: DiagramAtlas, loadAngleDeg: number, polarit
       return { ...s, vectors: polarityDocument(d).vectors, triangles: d.triangles, minExtent: m.value, minExtentAngleDeg: m.thetaDeg };
     }),
     polarities,
+    stop: lim.mMax > 0 ? null : planStop(atlas, limitDiagram, lim.limitingPolarity),
     cautions: CAUTIONS,
   };
 }
+
+// Why the limit is 0: the polarity, the uncovered directions, and the faults' findings.
+function planStop(atlas: DiagramAtlas, d: PolarityDiagram, polarity: PolarityString): PlanStop {
+  const gapsDeg = originGaps(d.vectors.map((v) => [v.alpha, v.beta] as const), d.triangles);
+  const signs = parsePolarity(polarity).map((c, k) => `i${'abc'[k]} ${c === '+' ? '> 0' : c === '-' ? '< 0' : 'near zero'}`).join(', ');
+  const where = gapsDeg.length === 0 || (gapsDeg.length === 1 && (gapsDeg[0] as [number, number])[1] - (gapsDeg[0] as [number, number])[0] >= 360)
+    ? 'no admissible triangle has the origin as a corner: not even a zero voltage can be held'
+    : `no admissible triangle covers the directions ${gapsDeg.map(([f, t]) => `${fmtDeg(f)}° to ${fmtDeg(t)}°`).join(' and ')} next to the origin, so no small voltage can be made there`;
+  const findings = faultReason(atlas.analysis, 0).details;
+  const rules = atlas.analysis.rules.levelSteps === 'adjacent' ? ' under the adjacent rule (a phase steps only to a neighbouring level)' : '';
+  return {
+    everyLoadAngle: true,
+    polarity,
+    gapsDeg,
+    reason: `with currents ${signs} (polarity ${polarity}), ${where}${rules}${findings.length ? `; ${findings.join('; ')}` : ''}.`,
+  };
+}
+
+// a gap's end past 360° is written as the direction it is (e.g. 390 → 30)
+const fmtDeg = (x: number): string => String(Math.round((x > 360 ? x - 360 : x) * 1e6) / 1e6);
 
 /**
  * One polarity diagram as a plain document (the `vectors` command prints this plus `polarity`).

@@ -92,16 +92,18 @@ export function radialExtent(g: HullGeometry, theta: number): RadialValue {
  * @param g - prepared hull
  * @param from - interval start, radians
  * @param to - interval end, radians (`to ≥ from`; spans of 2π or more cover every direction)
+ * @param tie - values within this of each other count as equal (default 0): the earliest direction
+ *   wins, so rounding noise between equal minima (a regular hexagon's six normals) cannot move it
  * @returns the minimum, the direction where it is reached (earliest on ties) and the edge
  * @example
  * ```ts
  * minRadialExtent(g, 0, 2 * Math.PI).value; // radius of the largest origin-centred inscribed circle
  * ```
  */
-export function minRadialExtent(g: HullGeometry, from: number, to: number): RadialValue {
+export function minRadialExtent(g: HullGeometry, from: number, to: number, tie = 0): RadialValue {
   if (!g.containsOrigin) return { value: 0, theta: from, edge: null };
   const edges = g.edges;
-  if (hasSpans(edges)) return minOverSpans(g, from, to);
+  if (hasSpans(edges)) return minOverSpans(g, from, to, tie);
   // the range's ends, then every edge normal inside the range; ties go to the smaller angle. Plain
   // numbers and indexed loops: a fault atlas asks this thousands of times per leg.
   const first = bindingEdge(edges, from);
@@ -110,21 +112,21 @@ export function minRadialExtent(g: HullGeometry, from: number, to: number): Radi
   let edge = first < 0 ? 0 : first;
   const last = bindingEdge(edges, to);
   const atTo = last < 0 ? Infinity : extentOf(edges[last] as HullEdge, to);
-  if (atTo < value || (atTo === value && to < theta)) {
+  if (atTo < value - tie) {
     value = atTo;
     theta = to;
     edge = last < 0 ? 0 : last;
-  }
+  } else value = Math.min(value, atTo);
   for (let i = 0; i < edges.length; i++) {
     const e = edges[i] as HullEdge;
     const k0 = Math.ceil((from - e.normalAngle) / (2 * Math.PI));
     for (let k = k0; e.normalAngle + 2 * Math.PI * k <= to; k++) {
       const t = e.normalAngle + 2 * Math.PI * k;
-      if (e.offset < value || (e.offset === value && t < theta)) {
-        value = e.offset;
+      if (e.offset < value - tie || (e.offset <= value + tie && t < theta)) {
         theta = t;
         edge = i;
       }
+      value = Math.min(value, e.offset);
     }
   }
   return { value, theta, edge };
@@ -161,10 +163,11 @@ function hasSpans(edges: readonly HullEdge[]): boolean {
 
 // On an outline each edge bounds only its span: the minimum over [from, to] is among the ends of
 // each span's overlap with the interval and the edge normals that fall inside such an overlap.
-function minOverSpans(g: HullGeometry, from: number, to: number): RadialValue {
+function minOverSpans(g: HullGeometry, from: number, to: number, tie: number): RadialValue {
   let best: RadialValue = { value: Infinity, theta: from, edge: null };
   const consider = (value: number, theta: number, edge: number) => {
-    if (value < best.value || (value === best.value && theta < best.theta)) best = { value, theta, edge };
+    if (value < best.value - tie || (value <= best.value + tie && theta < best.theta)) best = { value: Math.min(value, best.value), theta, edge };
+    else if (value < best.value) best = { ...best, value };
   };
   g.edges.forEach((e, i) => {
     const [lo, hi] = e.span as readonly [number, number];

@@ -17,7 +17,9 @@ import { parseNetlist } from './parseNetlist.js';
 export function resolveTopology(topology: unknown, input = 'topology'): LegNetlist {
   if (typeof topology === 'string') {
     if (isBuiltinTopology(topology)) return builtinLeg(topology);
-    throw new HexsalvageInputError('topology', input, 'topology', `a built-in leg (${BUILTIN_TOPOLOGIES.join(', ')}) or a netlist`, topology);
+    // a string that is not a built-in id is most likely a file path: the library takes objects (it
+    // runs in browsers too), so say how to read a file
+    throw new HexsalvageInputError('topology', input, 'topology', `a built-in leg (${BUILTIN_TOPOLOGIES.join(', ')}) or a netlist object; to use a netlist file, read it first, e.g. in Node with loadNetlistFile(path) from '@hexsalvage/core/node'`, topology);
   }
   return parseNetlist(topology, input);
 }

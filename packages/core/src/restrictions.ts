@@ -52,7 +52,7 @@ export function explainRestrictions(analysis: LegAnalysis): string[] {
       if (p.status !== 'allowed') continue;
       for (const s of ['+', '-'] as const) {
         const why = p.unsafe[s];
-        if (why) out.push(`phase ${ph}: pattern ${p.name} is not used ${SIGN_WORDS[s]}: ${inWords(why)}`);
+        if (why) out.push(`phase ${ph}: pattern ${p.name} is not used ${SIGN_WORDS[s]}: ${reasonInWords(why)}`);
       }
     }
     if (!analysis.rules.ratings && analysis.rules.levelSteps === 'any') continue;
@@ -92,15 +92,25 @@ function firstObstacle(solve: GateSetSolver, patterns: readonly (readonly string
         if (o.status === 'forbidden') return `${st.act} shoots through ${o.shootThrough.from}→${o.shootThrough.to}`;
         if (usableLevel(o, sign) !== null) continue;
         const why = o.unsafe[sign];
-        return `${st.act}, ${why ? inWords(why) : 'the current would find no path (interrupted)'}`;
+        return `${st.act}, ${why ? reasonInWords(why) : 'the current would find no path (interrupted)'}`;
       }
     }
   }
   return null;
 }
 
-// `outerUpper blocks 2 > rating 1` → `outerUpper would block 2 × Vdc/2 (rating 1 × Vdc/2)`
-function inWords(reason: string): string {
+/**
+ * A rating check's reason in words with units: `outerUpper blocks 2 > rating 1` becomes
+ * `outerUpper would block 2 × Vdc/2 (rating 1 × Vdc/2)`; other reasons are returned as they are.
+ *
+ * @param reason - a reason from {@link ratingCheck}
+ * @returns the reason for a reader
+ * @example
+ * ```ts
+ * reasonInWords('outerUpper blocks 2 > rating 1'); // 'outerUpper would block 2 × Vdc/2 (rating 1 × Vdc/2)'
+ * ```
+ */
+export function reasonInWords(reason: string): string {
   const m = /^(\S+) blocks (\S+) > rating (\S+)$/.exec(reason);
   return m ? `${m[1]} would block ${m[2]} × Vdc/2 (rating ${m[3]} × Vdc/2)` : reason;
 }

@@ -67,3 +67,23 @@ export function describeRules(rules: LimitRules): string {
   }[rules.levelSteps];
   return `${rules.ratings ? 'device voltage ratings applied' : 'device voltage ratings ignored'}; ${steps}`;
 }
+
+/**
+ * Why results under these rules are not a safe operating limit, or `null` when they are: ignoring
+ * ratings lets a device block more than it may; `any` lets a sequence make level changes no safe
+ * commutation exists for. Text output says "NOT safe" with this reason wherever it would say safe.
+ *
+ * @param rules - resolved rules
+ * @returns the reason in words, or `null` under ratings with `commutable` or `adjacent` steps
+ * @example
+ * ```ts
+ * unsafeRules({ ratings: false, levelSteps: 'commutable' }); // 'device voltage ratings ignored'
+ * ```
+ */
+export function unsafeRules(rules: LimitRules): string | null {
+  const why = [
+    rules.ratings ? '' : 'device voltage ratings ignored',
+    rules.levelSteps === 'any' ? 'level changes not checked for a safe commutation' : '',
+  ].filter(Boolean);
+  return why.length ? why.join('; ') : null;
+}

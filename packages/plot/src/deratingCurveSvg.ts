@@ -40,7 +40,10 @@ const DASHES = ['', '6 3', '2 2', '8 3 2 3', '4 4', '1 3'];
 export function deratingCurveSvg(series: readonly DeratingSeries[], options: DeratingCurveSvgOptions = {}): string {
   const healthy = options.healthy ?? 2 / Math.sqrt(3);
   const W = 640;
-  const legendRows = Math.ceil(series.length / 2) + 1;
+  // two legend columns, or one when an entry carries a note (it needs the width)
+  const noted = series.some((s) => s.points.every((p) => p.mMax <= 1e-9 || Math.abs(p.mMax - healthy) <= 1e-9)) || series.some((s, i) => series.some((t, j) => j < i && t.points.length === s.points.length && t.points.every((p, k) => Math.abs(p.mMax - (s.points[k] as DeratingPoint).mMax) <= 1e-9)));
+  const cols = noted ? 1 : 2;
+  const legendRows = Math.ceil(series.length / cols) + 1;
   const H = 344 + 14 * legendRows + (options.operatingDeg !== undefined || options.bandDeg ? 14 : 0);
   const L = 64;
   const R = W - 64;
@@ -77,6 +80,17 @@ export function deratingCurveSvg(series: readonly DeratingSeries[], options: Der
   body.push(`<text transform="translate(${W - 10} ${n((T + B) / 2)}) rotate(90)" text-anchor="middle">derating ratio mMax / healthy</text>`);
   // the first version's hull bound, thin and faint, wherever it differs from the safe limit
   const hullShown = series.some((s) => s.points.some((p) => Math.abs(p.mMaxHull - p.mMax) > 1e-9));
+  // lines that lie on others would vanish: say so in the legend and on the plot
+  const same = (a: readonly number[], b: readonly number[]) => a.length === b.length && a.every((v, j) => Math.abs(v - (b[j] as number)) <= 1e-9);
+  const curves = series.map((s) => s.points.map((p) => p.mMax));
+  const notes = series.map((_, i) => {
+    if (curves[i]?.every((m) => m <= 1e-9)) return 'cannot run (mMax = 0, on the axis)';
+    if (curves[i]?.every((m) => Math.abs(m - healthy) <= 1e-9)) return 'on the healthy line';
+    const k = series.findIndex((_, j) => j < i && same(curves[j] as number[], curves[i] as number[]));
+    return k >= 0 ? `on the line of ${series[k]?.label}` : '';
+  });
+  const hullOnHealthy = series.filter((s) => s.points.some((p) => Math.abs(p.mMaxHull - p.mMax) > 1e-9) && s.points.every((p) => Math.abs(p.mMaxHull - healthy) <= 1e-9)).map((s) => s.label);
+  const cannot = series.filter((_, i) => notes[i]?.startsWith('cannot run')).map((s) => s.label);
   series.forEach((s, i) => {
     const c = COLOURS[i % COLOURS.length] as string;
     const dash = DASHES[i % DASHES.length] as string;
@@ -87,12 +101,14 @@ export function deratingCurveSvg(series: readonly DeratingSeries[], options: Der
     const d = s.points.map((p, j) => `${j ? 'L' : 'M'}${X(p.loadAngleDeg)},${Y(p.mMax)}`).join(' ');
     body.push(`<path class="series" d="${d}" fill="none" stroke="${c}" stroke-width="2"${dash ? ` stroke-dasharray="${dash}"` : ''}/>`);
     for (const p of s.points.filter((q) => q.breakpoint)) body.push(`<circle class="breakpoint" cx="${X(p.loadAngleDeg)}" cy="${Y(p.mMax)}" r="2.6" fill="#fff" stroke="${c}" stroke-width="1.4"/>`);
-    const ly = B + 56 + Math.floor(i / 2) * 14;
-    const lx = L + (i % 2) * 270;
-    body.push(`<line x1="${lx}" y1="${ly}" x2="${lx + 26}" y2="${ly}" stroke="${c}" stroke-width="2"${dash ? ` stroke-dasharray="${dash}"` : ''}/><text x="${lx + 32}" y="${ly + 4}">${esc(s.label)}</text>`);
+    const ly = B + 56 + Math.floor(i / cols) * 14;
+    const lx = L + (i % cols) * 270;
+    body.push(`<line x1="${lx}" y1="${ly}" x2="${lx + 26}" y2="${ly}" stroke="${c}" stroke-width="2"${dash ? ` stroke-dasharray="${dash}"` : ''}/><text x="${lx + 32}" y="${ly + 4}">${esc(s.label)}${notes[i] ? `<tspan font-size="${STYLE.smallFont}" fill="#555555">${esc(`\u00a0\u2014 ${notes[i]}`)}</tspan>` : ''}</text>`);
   });
   // the healthy reference last, so that no series (a healthy one compared, say) hides it
   body.push(`<line class="healthy" x1="${L}" y1="${Y(healthy)}" x2="${R}" y2="${Y(healthy)}" stroke="${STYLE.ink}" stroke-dasharray="3 3"/><text x="${L + 4}" y="${n(Number(Y(healthy)) - 4)}" font-size="${STYLE.smallFont}">healthy ${n(healthy, 4)}</text>`);
+  if (hullOnHealthy.length) body.push(`<text class="hull-on-healthy" x="${R - 4}" y="${n(Number(Y(healthy)) + 13)}" text-anchor="end" font-size="${STYLE.smallFont}">${esc(`convex-hull bound of ${hullOnHealthy.join(', ')}: on the healthy line (not safe)`)}</text>`);
+  if (cannot.length) body.push(`<text class="cannot-run" x="${L + 6}" y="${B - 6}" font-size="${STYLE.smallFont}" font-weight="bold" fill="${STYLE.vermillion}">${esc(`cannot run at any load angle: ${cannot.join(', ')}`)}</text>`);
   const by = B + 56 + (legendRows - 1) * 14;
   // legend entries only for what is drawn
   if (series.some((s) => s.points.some((p) => p.breakpoint))) body.push(`<g font-size="${STYLE.smallFont}"><circle cx="${L + 13}" cy="${by}" r="2.6" fill="#fff" stroke="${STYLE.ink}"/><text x="${L + 32}" y="${by + 4}">computed breakpoint (a kink of the curve)</text></g>`);

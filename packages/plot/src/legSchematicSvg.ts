@@ -1,11 +1,13 @@
 import type { LegNetlist } from '@hexsalvage/core';
 import { legLayout } from './legLayout.js';
-import { esc, n, STYLE, svgFrame } from './svgStyle.js';
+import { esc, n, STYLE, svgFrame, wrapWords } from './svgStyle.js';
 
 /** What to highlight on a leg schematic. */
 export interface LegSchematicOptions {
-  /** Failed element ids (`outerUpper`, `outerUpper.diode`, …). */
+  /** Elements failed open (`outerUpper`, `outerUpper.diode`, …): crossed out, labelled OPEN. */
   readonly failed?: readonly string[];
+  /** Elements failed short: bridged by a thick bar, labelled SHORT (they conduct both ways). */
+  readonly shorted?: readonly string[];
   /** A gate pattern to show: its switches are drawn on. */
   readonly pattern?: { readonly name: string; readonly gates: readonly string[] };
   /** Current sign the conduction path is drawn for. */
@@ -14,6 +16,14 @@ export interface LegSchematicOptions {
   readonly path?: readonly string[];
   /** Output level for that pattern and sign; `null` = current interrupted. */
   readonly level?: number | null;
+  /**
+   * What the pattern does for the sign: `path` (the default: the current flows as drawn),
+   * `interrupted` (no path), `shoot-through` (the path drawn runs from one DC node to a lower one),
+   * `unsafe` (the current flows as drawn but a device would block more than its rating: not used).
+   */
+  readonly state?: 'path' | 'interrupted' | 'shoot-through' | 'unsafe';
+  /** Why, for `unsafe` and `shoot-through` (e.g. `outerUpper would block 2 × Vdc/2 (rating 1 × Vdc/2)`). */
+  readonly reason?: string;
   readonly title?: string;
 }
 
@@ -36,16 +46,21 @@ export function legSchematicSvg(leg: LegNetlist, options: LegSchematicOptions = 
   const pots = Object.values(leg.dcNodes);
   const span = Math.max(...pots) - Math.min(...pots) || 1;
   const W = 600;
-  const H = Math.max(374, 120 * Object.keys(leg.dcNodes).length + 94);
+  // the caption names devices and reasons: wrapped to the width of the drawing (bold 11 px text
+  // is about 7 px a character), and the drawing grows by its extra lines
+  const captionLines = wrapWords(captionText(options), 82);
+  const extra = (captionLines.length - 1) * 15;
+  const H = Math.max(374, 120 * Object.keys(leg.dcNodes).length + 94) + extra;
   const L = 80;
   const R = W - 90;
   const T = 56;
-  const B = H - 118;
+  const B = H - 118 - extra;
   const P = (node: string): [number, number] => {
     const [x, y] = layout.get(node) ?? [0.5, 0];
     return [L + x * (R - L), T + ((Math.max(...pots) - y) / span) * (B - T)];
   };
   const failed = new Set(options.failed ?? []);
+  const shorted = new Set(options.shorted ?? []);
   const gates = new Set(options.pattern?.gates ?? []);
   const path = new Set(options.path ?? []);
   const body: string[] = [];
@@ -69,30 +84,37 @@ export function legSchematicSvg(leg: LegNetlist, options: LegSchematicOptions = 
     const [ox, oy] = [-uy * off, ux * off];
     const mx = (x1 + x2) / 2 + ox;
     const my = (y1 + y2) / 2 + oy;
-    const onPath = path.has(d.id) || path.has(`${d.id}.diode`);
-    if (onPath) body.push(`<path class="conduction" d="M${n(x1)},${n(y1)} L${n(mx)},${n(my)} L${n(x2)},${n(y2)}" stroke="${STYLE.green}" stroke-width="7" stroke-linecap="round" fill="none" opacity="0.55"/>`);
-    body.push(`<path class="wire" d="M${n(x1)},${n(y1)} L${n(mx)},${n(my)} L${n(x2)},${n(y2)}" stroke="${STYLE.ink}" stroke-width="1.3" fill="none"/>`);
     const angle = (Math.atan2(uy, ux) * 180) / Math.PI;
     // antiparallel diodes and labels go to the side away from the drawing's centre line (label
     // outermost), so that mirror-image devices (upper/lower) never crowd into the middle
     const centre = (T + B) / 2;
     const away = Math.abs(ux) > 1e-9 ? (my < centre ? -Math.sign(ux) : Math.sign(ux)) : mx < (L + R) / 2 ? Math.sign(uy) : -Math.sign(uy);
     const side = away === 0 ? 1 : away;
+    // the current through the switch itself, or past it through its antiparallel diode (drawn
+    // through the diode, beside a failed switch it never crosses)
+    const viaDiode = path.has(`${d.id}.diode`) && !path.has(d.id);
+    const [px, py] = viaDiode ? [mx - uy * side * 17, my + ux * side * 17] : [mx, my];
+    const stroke = options.state === 'shoot-through' || options.state === 'unsafe' ? STYLE.vermillion : STYLE.green;
+    if (path.has(d.id) || viaDiode) body.push(`<path class="conduction" d="M${n(x1)},${n(y1)} L${n(px)},${n(py)} L${n(x2)},${n(y2)}" stroke="${stroke}" stroke-width="7" stroke-linecap="round" fill="none" opacity="${stroke === STYLE.green ? 0.55 : 0.8}"/>`);
+    body.push(`<path class="wire" d="M${n(x1)},${n(y1)} L${n(mx)},${n(my)} L${n(x2)},${n(y2)}" stroke="${STYLE.ink}" stroke-width="1.3" fill="none"/>`);
     const g: string[] = [`<g class="device ${d.kind}" data-id="${esc(d.id)}" transform="translate(${n(mx)} ${n(my)}) rotate(${n(angle, 1)})">`];
-    if (d.kind === 'diode') g.push(diodeSymbol(0, path.has(d.id)));
+    if (d.kind === 'diode') g.push(diodeSymbol(0, path.has(d.id), stroke));
     else {
       const on = gates.has(d.id);
       g.push(`<rect x="-13" y="-8" width="26" height="16" rx="2" fill="${on ? STYLE.blue : '#ffffff'}" stroke="${STYLE.ink}" stroke-width="1.2"/>`);
       g.push(`<path d="M-6,0 L5,0 M1,-3.5 L5,0 L1,3.5" stroke="${on ? '#ffffff' : STYLE.ink}" stroke-width="1.3" fill="none"/>`);
       if (d.kind === 'mosfet') g.push(`<circle class="mosfet-mark" cx="0" cy="${-side * 11}" r="2" fill="${STYLE.ink}"/>`);
-      if (d.antiparallelDiode) g.push(`<g transform="translate(0 ${side * 17}) rotate(180)">${diodeSymbol(0, path.has(`${d.id}.diode`))}</g>`);
+      if (d.antiparallelDiode) g.push(`<g transform="translate(0 ${side * 17}) rotate(180)">${diodeSymbol(0, path.has(`${d.id}.diode`), stroke)}</g>`);
     }
     if (failed.has(d.id)) g.push(crossMark(0, 0));
     if (d.antiparallelDiode && failed.has(`${d.id}.diode`)) g.push(crossMark(0, side * 17));
+    if (shorted.has(d.id)) g.push(shortMark(0));
+    if (d.antiparallelDiode && shorted.has(`${d.id}.diode`)) g.push(shortMark(side * 17));
     g.push('</g>');
     body.push(g.join(''));
-    const tag = [d.id, failed.has(d.id) ? 'OPEN' : '', failed.has(`${d.id}.diode`) ? 'diode OPEN' : ''].filter(Boolean).join(' · ');
-    body.push(`<text class="device-label${tag.includes('OPEN') ? ' failed' : ''}" x="${n(mx - uy * (d.antiparallelDiode ? 36 : 22) * side)}" y="${n(my + ux * (d.antiparallelDiode ? 36 : 22) * side + 4)}" text-anchor="middle" font-size="${STYLE.smallFont}" fill="${tag.includes('OPEN') ? STYLE.vermillion : STYLE.ink}"${tag.includes('OPEN') ? ' font-weight="bold"' : ''}>${esc(tag)}</text>`);
+    const tag = [d.id, failed.has(d.id) ? 'OPEN' : '', shorted.has(d.id) ? 'SHORT' : '', failed.has(`${d.id}.diode`) ? 'diode OPEN' : '', shorted.has(`${d.id}.diode`) ? 'diode SHORT' : ''].filter(Boolean).join(' · ');
+    const bad = /OPEN|SHORT/.test(tag);
+    body.push(`<text class="device-label${bad ? ' failed' : ''}" x="${n(mx - uy * (d.antiparallelDiode ? 36 : 22) * side)}" y="${n(my + ux * (d.antiparallelDiode ? 36 : 22) * side + 4)}" text-anchor="middle" font-size="${STYLE.smallFont}" fill="${bad ? STYLE.vermillion : STYLE.ink}"${bad ? ' font-weight="bold"' : ''}>${esc(tag)}</text>`);
   }
   const [ox, oy] = P(leg.output);
   body.push(`<g class="output"><circle cx="${n(ox)}" cy="${n(oy)}" r="5" fill="${STYLE.ink}"/><line x1="${n(ox)}" y1="${n(oy)}" x2="${n(ox + 40)}" y2="${n(oy)}" stroke="${STYLE.ink}" stroke-width="1.3"/><text x="${n(ox + 44)}" y="${n(oy + 4)}" font-weight="bold">${esc(leg.output)}</text></g>`);
@@ -101,27 +123,40 @@ export function legSchematicSvg(leg: LegNetlist, options: LegSchematicOptions = 
     body.push(`<circle class="node" cx="${n(x)}" cy="${n(y)}" r="3" fill="${STYLE.ink}"/><text x="${n(x + 5)}" y="${n(y - 6)}" font-size="${STYLE.smallFont}" fill="#666666">${esc(node)}</text>`);
   }
   const caption = captionText(options);
-  body.push(`<text class="caption${options.level === null ? ' interrupted' : ''}" x="12" y="${H - 54}" fill="${options.level === null ? STYLE.vermillion : STYLE.ink}"${options.level === null ? ' font-weight="bold"' : ''}>${esc(caption)}</text>`);
+  const warn = options.state === 'interrupted' || options.state === 'shoot-through' || options.state === 'unsafe' || (options.state === undefined && options.level === null);
+  const cls = options.state && options.state !== 'path' ? ` ${options.state}` : options.level === null ? ' interrupted' : '';
+  const spans = captionLines.map((line, i) => `<tspan x="12" dy="${i === 0 ? 0 : 15}">${esc(line)}</tspan>`).join('');
+  body.push(`<text class="caption${cls}" x="12" y="${H - 54 - extra}" fill="${warn ? STYLE.vermillion : STYLE.ink}"${warn ? ' font-weight="bold"' : ''}>${spans}</text>`);
   body.push(`<text x="12" y="${H - 34}" font-size="${STYLE.smallFont}" fill="${STYLE.ink}">Arrow: forward direction. Filled box: switch gated on. Dot: MOSFET (conducts both ways when on).</text>`);
-  body.push(`<text x="12" y="${H - 20}" font-size="${STYLE.smallFont}" fill="${STYLE.ink}">Thick green: conducting path. × and OPEN: failed element.</text>`);
+  body.push(`<text x="12" y="${H - 20}" font-size="${STYLE.smallFont}" fill="${STYLE.ink}">Thick green: conducting path; thick orange-red: a path never used. × and OPEN: failed open; bar and SHORT: failed short.</text>`);
+  const failedText = [failed.size ? ` Failed open: ${[...failed].join(', ')}.` : '', shorted.size ? ` Failed short: ${[...shorted].join(', ')}.` : ''].join('');
   return svgFrame({
     width: W,
     height: H,
     title: options.title ?? `Leg ${leg.name}`,
-    desc: `Schematic of leg ${leg.name} with ${leg.devices.length} devices.${failed.size ? ` Failed open: ${[...failed].join(', ')}.` : ''} ${caption}`,
+    desc: `Schematic of leg ${leg.name} with ${leg.devices.length} devices.${failedText} ${caption}`,
   }, body.join('\n'));
 }
 
 function captionText(o: LegSchematicOptions): string {
   if (!o.pattern || !o.sign) return 'No pattern selected.';
+  const s = o.sign === '+' ? 'i > 0' : 'i < 0';
   const dir = o.sign === '+' ? 'i > 0 (out of the leg)' : 'i < 0 (into the leg)';
-  if (o.level === null) return `Pattern ${o.pattern.name}, ${o.sign === '+' ? 'i > 0' : 'i < 0'}: current interrupted (no path), forbidden for this sign.`;
-  return `Pattern ${o.pattern.name}, ${dir}: output at ${n(o.level ?? 0, 2)}·Vdc/2 through ${(o.path ?? []).join(', ') || '(none)'}.`;
+  const through = (o.path ?? []).join(', ') || '(none)';
+  if (o.state === 'shoot-through') return `Pattern ${o.pattern.name}: shoot-through${o.reason ? ` ${o.reason}` : ''}: never used.`;
+  if (o.state === 'unsafe') return `Pattern ${o.pattern.name}, ${s}: the current flows through ${through}, but ${o.reason ?? 'a device would block more than its rating'}: not used for this sign.`;
+  if (o.state === 'interrupted' || o.level === null) return `Pattern ${o.pattern.name}, ${s}: current interrupted (no path), forbidden for this sign.`;
+  return `Pattern ${o.pattern.name}, ${dir}: output at ${n(o.level ?? 0, 2)}·Vdc/2 through ${through}.`;
 }
 
-function diodeSymbol(y: number, lit: boolean): string {
-  const c = lit ? STYLE.green : STYLE.ink;
-  return `<path d="M-5,${y - 6} L5,${y} L-5,${y + 6} Z" fill="${lit ? STYLE.green : '#ffffff'}" stroke="${c}" stroke-width="1.2"/><line x1="5" y1="${y - 6}" x2="5" y2="${y + 6}" stroke="${c}" stroke-width="1.6"/>`;
+// A failed-short element: a thick bar bridging it (it conducts both ways whatever its gate).
+function shortMark(y: number): string {
+  return `<path class="short-mark" d="M-15,${y} L15,${y}" stroke="${STYLE.vermillion}" stroke-width="4" stroke-linecap="round"/>`;
+}
+
+function diodeSymbol(y: number, lit: boolean, colour: string): string {
+  const c = lit ? colour : STYLE.ink;
+  return `<path d="M-5,${y - 6} L5,${y} L-5,${y + 6} Z" fill="${lit ? colour : '#ffffff'}" stroke="${c}" stroke-width="1.2"/><line x1="5" y1="${y - 6}" x2="5" y2="${y + 6}" stroke="${c}" stroke-width="1.6"/>`;
 }
 
 function crossMark(x: number, y: number): string {

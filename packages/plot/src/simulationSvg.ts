@@ -121,7 +121,10 @@ export function waveformsSvg(s: Simulation, segments: readonly WaveformSegment[]
   const B = 300;
   const period = 1 / s.f1;
   const vMax = s.vdc * 1.05;
-  const iMax = s.currentPeak * 1.25;
+  // the current axis shares the voltage axis's grid lines (±Vdc, ±Vdc/2, 0): its scale is chosen so
+  // that those lines fall on round currents (a step of 1, 2 or 5 times a power of ten)
+  const iStep = niceAbove(s.currentPeak * 1.25 / 2);
+  const iMax = (2 * iStep * vMax) / s.vdc;
   const X = (t: number) => L + (t / period) * (R - L);
   const Yv = (v: number) => (T + B) / 2 - (v / vMax) * ((B - T) / 2);
   const Yi = (i: number) => (T + B) / 2 - (i / iMax) * ((B - T) / 2);
@@ -150,6 +153,13 @@ export function waveformsSvg(s: Simulation, segments: readonly WaveformSegment[]
     title: `One fundamental period: ${s.topology}${s.faults.length ? `, ${s.faults.join(', ')}` : ''}`,
     desc: `Line voltage a-b over ${n(period * 1000, 2)} ms at m = ${n(s.m, 3)}, Vdc ${n(s.vdc, 0)} V, and phase currents a and b of ${n(s.currentPeak, 1)} A peak lagging by ${n(s.loadAngleDeg, 1)}°.`,
   }, `<g font-size="${STYLE.fontSize}" fill="${STYLE.ink}">${body.join('\n')}</g>`);
+}
+
+// The smallest 1, 2 or 5 times a power of ten at or above x.
+function niceAbove(x: number): number {
+  const p = 10 ** Math.floor(Math.log10(x > 0 ? x : 1));
+  const f = x / p;
+  return (f <= 1 ? 1 : f <= 2 ? 2 : f <= 5 ? 5 : 10) * p;
 }
 
 function niceStep(span: number): number {

@@ -114,3 +114,29 @@ function fnv1a(s: string): string {
   }
   return h.toString(16).padStart(8, '0');
 }
+
+/**
+ * Splits text into lines of at most `width` characters at spaces (a word longer than the width
+ * gets a line of its own). SVG text does not wrap by itself; plots call this for captions that
+ * name devices and reasons, whose length depends on the leg.
+ *
+ * @param text - the text
+ * @param width - the most characters per line
+ * @returns the lines, at least one
+ * @example
+ * ```ts
+ * wrapWords('one two three', 7); // ['one two', 'three']
+ * ```
+ */
+export function wrapWords(text: string, width: number): string[] {
+  const lines: string[] = [];
+  let line = '';
+  for (const word of text.split(/\s+/).filter(Boolean)) {
+    if (line && line.length + 1 + word.length > width) {
+      lines.push(line);
+      line = word;
+    } else line = line ? `${line} ${word}` : word;
+  }
+  lines.push(line);
+  return lines;
+}

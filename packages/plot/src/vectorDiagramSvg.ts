@@ -1,5 +1,5 @@
 import { levelNotation, type LevelNotation, type PlanPolarity, type PlanVector, type RemedialPlan } from '@hexsalvage/core';
-import { esc, n, STYLE, svgFrame } from './svgStyle.js';
+import { esc, n, STYLE, svgFrame, wrapWords } from './svgStyle.js';
 
 /** Options of {@link vectorDiagramSvg}. */
 export interface VectorDiagramOptions {
@@ -43,7 +43,8 @@ export function vectorDiagramSvg(plan: RemedialPlan, polarity: string, options: 
   const note = levelNotation(plan.dcLevels);
   const named = (v: PlanVector) => v.levels.map((t) => note.triplet(t)).join(', ');
   body.push(`<g stroke="${STYLE.grid}" stroke-width="1"><line x1="${X(-extent)}" y1="${Y(0)}" x2="${X(extent)}" y2="${Y(0)}"/><line x1="${X(0)}" y1="${Y(-extent)}" x2="${X(0)}" y2="${Y(extent)}"/></g>`);
-  body.push(`<text x="${X(extent)}" y="${n(cy + 14)}" text-anchor="end" fill="${STYLE.ink}">α (Vdc/2${options.vdc !== undefined ? ` = ${n(options.vdc / 2, 0)} V` : ''})</text><text x="${n(cx + 4)}" y="${Y(extent)}" dominant-baseline="hanging" fill="${STYLE.ink}">β (Vdc/2${options.vdc !== undefined ? ` = ${n(options.vdc / 2, 0)} V` : ''})</text>`);
+  const axisName = `α (Vdc/2${options.vdc !== undefined ? ` = ${n(options.vdc / 2, 0)} V` : ''})`;
+  body.push(`<text x="${X(extent)}" y="${n(cy + 14)}" text-anchor="end" fill="${STYLE.ink}">${esc(axisName)}</text><text x="${n(cx + 4)}" y="${Y(extent)}" dominant-baseline="hanging" fill="${STYLE.ink}">${esc(`β${axisName.slice(1)}`)}</text>`);
   // healthy limit circle, faint
   body.push(`<circle class="healthy-limit" cx="${X(0)}" cy="${Y(0)}" r="${n(k * plan.mMaxHealthy)}" fill="none" stroke="${STYLE.faint}" stroke-dasharray="2 3"/>`);
   // triangles
@@ -69,40 +70,76 @@ export function vectorDiagramSvg(plan: RemedialPlan, polarity: string, options: 
     ? ([[plan.bindingEdge[0].alpha, plan.bindingEdge[0].beta], [plan.bindingEdge[1].alpha, plan.bindingEdge[1].beta]] as [readonly [number, number], readonly [number, number]])
     : bindingEdge(d);
   if (bind) body.push(`<line class="binding-edge" x1="${X(bind[0][0])}" y1="${Y(bind[0][1])}" x2="${X(bind[1][0])}" y2="${Y(bind[1][1])}" stroke="${STYLE.vermillion}" stroke-width="3.2" stroke-linecap="round"/>`);
-  // vectors; a label is left out where it would overlap one already placed (a many-level diagram
-  // would be unreadable): every vector still names itself on hover (its <title>)
-  const placed: [number, number, number, number][] = [];
-  let thinned = 0;
-  const place = (x: number, y: number, text: string, cls: string, fill: string) => {
-    const box: [number, number, number, number] = [x, y - 8, x + 5.6 * text.length, y + 1];
-    if (placed.some((b) => box[0] < b[2] && b[0] < box[2] && box[1] < b[3] && b[1] < box[3])) {
-      thinned++;
-      return;
-    }
-    placed.push(box);
-    body.push(`<text class="${cls}" x="${n(x)}" y="${n(y)}" font-size="${STYLE.smallFont}" fill="${fill}">${esc(text)}</text>`);
-  };
+  // vectors first (dots), then their labels in order of importance: the binding edge's ends, the
+  // lost vectors, the hull's corners, the rest. A label tries four places around its dot and is
+  // left out where all four would overlap a label already placed or a dot (a many-level diagram
+  // would be unreadable); every vector still names itself on hover (its <title>). A white halo
+  // keeps a label readable where it crosses a triangle's side.
   body.push('<g class="vectors">');
-  for (const v of d.vectors) {
-    body.push(`<circle class="vector surviving" cx="${X(v.alpha)}" cy="${Y(v.beta)}" r="3.6" fill="${STYLE.ink}"><title>${esc(`${v.class} ${named(v)}`)}</title></circle>`);
-    if (labels) place(cx + k * v.alpha + 5, cy - k * v.beta - 5, levelLabel(v, note), 'label', STYLE.ink);
-  }
+  for (const v of d.vectors) body.push(`<circle class="vector surviving" cx="${X(v.alpha)}" cy="${Y(v.beta)}" r="3.6" fill="${STYLE.ink}"><title>${esc(`${v.class} ${named(v)}`)}</title></circle>`);
   for (const v of d.lost) {
     const x = cx + k * v.alpha;
     const y = cy - k * v.beta;
     body.push(`<g class="vector lost"><rect x="${n(x - 4)}" y="${n(y - 4)}" width="8" height="8" fill="#ffffff" stroke="${STYLE.vermillion}" stroke-width="1.4"/><path d="M${n(x - 3)},${n(y - 3)} L${n(x + 3)},${n(y + 3)} M${n(x - 3)},${n(y + 3)} L${n(x + 3)},${n(y - 3)}" stroke="${STYLE.vermillion}" stroke-width="1.2"/><title>${esc(`lost ${v.class} ${named(v)}`)}</title></g>`);
-    if (labels) place(x + 6, y - 6, `× ${levelLabel(v, note)}`, 'label lost-label', STYLE.vermillion);
   }
   body.push('</g>');
+  let thinned = 0;
+  if (labels) {
+    const dots = all.map((v) => [cx + k * v.alpha, cy - k * v.beta] as const);
+    const placed: Box[] = dots.map(([x, y]) => [x - 4.5, y - 4.5, x + 4.5, y + 4.5]);
+    // the axis names (11 px text, about 6.5 px a character)
+    const ax = cx + k * extent;
+    placed.push([ax - 6.5 * axisName.length, cy + 3, ax, cy + 17], [cx + 4, cy - k * extent, cx + 4 + 6.5 * axisName.length, cy - k * extent + 13]);
+    const near = (v: PlanVector, p: readonly [number, number] | undefined) => p !== undefined && Math.hypot(v.alpha - p[0], v.beta - p[1]) < 1e-9;
+    const onHull = (v: PlanVector) => d.hull.some((p) => near(v, p));
+    const rank = (v: PlanVector, lost: boolean) => (bind && (near(v, bind[0]) || near(v, bind[1])) ? 0 : lost ? 1 : onHull(v) ? 2 : 3);
+    const queue = [...d.vectors.map((v) => ({ v, lost: false })), ...d.lost.map((v) => ({ v, lost: true }))]
+      .map((q, i) => ({ ...q, i, r: rank(q.v, q.lost) }))
+      .sort((a, b) => a.r - b.r || a.i - b.i);
+    body.push(`<g class="labels" font-size="${STYLE.smallFont}" stroke="#ffffff" stroke-width="3" stroke-linejoin="round" paint-order="stroke">`);
+    for (const { v, lost, r } of queue) {
+      const text = `${lost ? '× ' : ''}${levelLabel(v, note)}`;
+      const spot = labelSpot(cx + k * v.alpha, cy - k * v.beta, text.length * 5.6, placed, r === 0);
+      if (!spot) {
+        thinned++;
+        continue;
+      }
+      placed.push(spot.box);
+      body.push(`<text class="label${lost ? ' lost-label' : ''}${r === 0 ? ' binding-end' : ''}" x="${n(spot.x)}" y="${n(spot.y)}"${spot.anchor === 'end' ? ' text-anchor="end"' : ''} fill="${lost ? STYLE.vermillion : STYLE.ink}"${r === 0 ? ' font-weight="bold"' : ''}>${esc(text)}</text>`);
+    }
+    body.push('</g>');
+  }
   body.push(legend(size, plan, options.referenceM, d.outline !== null, bind !== null));
   const ny = size + (d.outline ? 88 : 70);
-  body.push(`<g class="notation" font-size="${STYLE.smallFont}" fill="${STYLE.ink}"><text x="14" y="${ny}">${esc(`Labels: ${note.legend}.`)}</text><text x="14" y="${ny + 13}">${esc(`"+n" after a label: n more redundant realisations of the same vector${thinned ? `; ${thinned} labels left out where they would overlap (hover a dot for its name)` : ''}.`)}</text></g>`);
+  const foot = wrapWords(`Labels: ${note.legend}. "+n" after a label: n more redundant realisations of the same vector.${thinned ? ` ${thinned} labels left out where they would overlap; the binding edge's ends are always named (hover a dot for its name; \`vectors --json\` lists every vector).` : ''}`, Math.floor((size - 28) / 5.5));
+  body.push(`<g class="notation" font-size="${STYLE.smallFont}" fill="${STYLE.ink}">${foot.map((line, i) => `<text x="14" y="${ny + 13 * i}">${esc(line)}</text>`).join('')}</g>`);
   return svgFrame({
     width: size,
-    height: size + (d.outline ? 112 : 96),
+    height: size + (d.outline ? 112 : 96) + 13 * Math.max(0, foot.length - 2),
     title: `Vector diagram, polarity ${polarity}: ${plan.topology}${plan.faults.length ? `, ${plan.faults.join(', ')}` : ''}`,
     desc: `${d.vectors.length} surviving vectors (filled dots), ${d.lost.length} lost vectors (hollow squares marked ×), ${d.triangles.length} admissible triangles, reach ${n(d.reach, 4)} (hull radius ${n(d.radius, 4)}) of healthy ${n(plan.mMaxHealthy, 4)} (units of Vdc/2).`,
   }, body.join('\n'));
+}
+
+type Box = [number, number, number, number];
+
+// The first of four places around a dot (right above, left above, right below, left below) whose
+// text box overlaps nothing placed; a label that must appear takes the first place regardless.
+function labelSpot(x: number, y: number, width: number, placed: readonly Box[], must: boolean): { x: number; y: number; anchor: 'start' | 'end'; box: Box } | null {
+  const spots = [
+    { x: x + 6, y: y - 6, anchor: 'start' as const },
+    { x: x - 6, y: y - 6, anchor: 'end' as const },
+    { x: x + 6, y: y + 13, anchor: 'start' as const },
+    { x: x - 6, y: y + 13, anchor: 'end' as const },
+  ];
+  const boxOf = (s: (typeof spots)[number]): Box => (s.anchor === 'start' ? [s.x, s.y - 8, s.x + width, s.y + 2] : [s.x - width, s.y - 8, s.x, s.y + 2]);
+  const free = spots.find((s) => !placed.some((b) => overlaps(boxOf(s), b)));
+  const chosen = free ?? (must ? spots[0] : undefined);
+  return chosen ? { ...chosen, box: boxOf(chosen) } : null;
+}
+
+function overlaps(a: Box, b: Box): boolean {
+  return a[0] < b[2] && b[0] < a[2] && a[1] < b[3] && b[1] < a[3];
 }
 
 function levelLabel(v: PlanVector, note: LevelNotation): string {

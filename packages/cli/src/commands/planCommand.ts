@@ -1,4 +1,4 @@
-import { describeRules, levelNotation, planRemedial, type RemedialPlan } from '@hexsalvage/core';
+import { describeRules, levelNotation, planRemedial, unsafeRules, type RemedialPlan } from '@hexsalvage/core';
 import { ANGLE_OPTIONS, HELP_OPTION, JSON_OPTION, LEG_OPTIONS, VDC_OPTION, type Command } from '../command.js';
 import { cautionBlock, fmt, textTable, tripletText, voltsText } from '../format.js';
 import { angleInputs, legInputs, vdcInput } from '../legInputs.js';
@@ -29,11 +29,12 @@ export const planCommand: Command = {
  * ```
  */
 export function planText(plan: RemedialPlan): string {
+  const unsafe = unsafeRules(plan.rules);
   const edge = plan.bindingEdge
     ? `between ${plan.bindingEdge.map((v) => `${v.class} vector ${tripletText(v.levels[0] ?? [], plan.dcLevels)} (${fmt(v.alpha, 3)}, ${fmt(v.beta, 3)})`).join(' and ')}`
     : '';
-  const verdict = plan.mMax === 0
-    ? ['CANNOT RUN in this state: the drive must stop; no output voltage above 0 can be produced safely at this load angle.', `The surviving triangles do not surround the origin for polarity ${plan.limitingPolarity} (theta = ${fmt(plan.limitingAngleDeg, 3)} deg).`]
+  const verdict = plan.stop
+    ? [`CANNOT RUN in this state${plan.stop.everyLoadAngle ? ' at any load angle' : ' at this load angle'}: the drive must stop; no output voltage above 0 can be produced${unsafe ? '' : ' safely'}.`, `Why: ${plan.stop.reason}`]
     : [`Limit binds at theta = ${fmt(plan.limitingAngleDeg, 3)} deg with polarity ${plan.limitingPolarity}, on the outline edge ${edge}.`];
   const hullNote = Math.abs(plan.mMaxHull - plan.mMax) > 1e-9
     ? [`The convex hull of the surviving vectors would promise ${fmt(plan.mMaxHull, 6)}; that is NOT safe: the rules above leave only the admissible triangles.`]
@@ -47,7 +48,8 @@ export function planText(plan: RemedialPlan): string {
     `Rules: ${describeRules(plan.rules)}${plan.unrated.length ? `; unrated (not checked): ${plan.unrated.join(', ')}` : ''}`,
     '',
     ...(plan.volts ? [`DC link: ${fmt(plan.volts.vdc, 1)} V (1 unit of Vdc/2 = ${fmt(plan.volts.vdc / 2, 1)} V)`] : []),
-    `Maximum modulation index (faulted, safe):      ${fmt(plan.mMax, 6)}${voltsText(plan.mMax, plan.volts?.vdc)}`,
+    `${`Maximum modulation index (faulted, ${unsafe ? 'NOT safe' : 'safe'}):`.padEnd(47)}${fmt(plan.mMax, 6)}${voltsText(plan.mMax, plan.volts?.vdc)}`,
+    ...(unsafe ? [`  NOT a safe operating limit: ${unsafe}. For review only; never run a converter at it.`] : []),
     `Maximum modulation index (healthy):            ${fmt(plan.mMaxHealthy, 6)}${voltsText(plan.mMaxHealthy, plan.volts?.vdc)}`,
     `Derating ratio:                                ${fmt(plan.deratingRatio, 6)}`,
     `Convex-hull bound (first version, for review): ${fmt(plan.mMaxHull, 6)}`,

@@ -1,7 +1,7 @@
 import { CAUTIONS, describeRules, diagramAtlas, formatFault, levelNotation, parsePolarity, polarityDocument, type PlanVector } from '@hexsalvage/core';
 import { usage } from '../args.js';
 import { HELP_OPTION, JSON_OPTION, LEG_OPTIONS, type Command } from '../command.js';
-import { cautionBlock, fmt, textTable, tripletText } from '../format.js';
+import { cautionBlock, fmt, levelText, textTable, tripletText } from '../format.js';
 import { legInputs } from '../legInputs.js';
 
 /** `hexsalvage vectors`: surviving vectors, hull and triangles for one polarity string. */
@@ -28,7 +28,7 @@ export const vectorsCommand: Command = {
     const lines = [
       `Leg: ${atlas.analysis.topology}   faults: ${atlas.analysis.faults.map(formatFault).join(', ') || 'none'}   polarity: ${pol}`,
       `Rules: ${describeRules(atlas.analysis.rules)}`,
-      `Phase levels used: a ${d.phaseLevels[0].join(',') || '(none)'} | b ${d.phaseLevels[1].join(',') || '(none)'} | c ${d.phaseLevels[2].join(',') || '(none)'}`,
+      `Phase levels used: ${(['a', 'b', 'c'] as const).map((ph, k) => `${ph} ${(d.phaseLevels[k] as readonly number[]).map((l) => levelText(l, dc)).join(', ') || '(none)'}`).join(' | ')}`,
       '',
       `Surviving vectors (${doc.vectors.length}):`,
       textTable(['#', 'alpha', 'beta', '|v|', 'class', 'levels a, b, c'], doc.vectors.map((v, i) => [String(i), ...vec(v)])),

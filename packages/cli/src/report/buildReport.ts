@@ -1,9 +1,9 @@
 import {
-  CAUTIONS, deratingCurve, describeRules, lineRmsVolts, phasePeakVolts, gatedDeviceIds, PHASES, samplePeriod, type SequenceMode, type ClaimVerdict, type DiagramAtlas, type FaultAtlas, type PatternResult, type Simulation, type WaveformSegment,
+  CAUTIONS, deratingCurve, describeRules, limitOverLoadAngles, lineRmsVolts, modulationOfLineRms, unsafeRules, phasePeakVolts, gatedDeviceIds, PHASES, samplePeriod, type SequenceMode, type ClaimVerdict, type DiagramAtlas, type FaultAtlas, type PatternResult, type Simulation, type WaveformSegment,
   type PhasePolarity, type RemedialPlan, type SwitchingTable,
 } from '@hexsalvage/core';
 import { atlasHeatmapSvg, atlasPairMatrixSvg, deratingCurveSvg, esc, lossBarsSvg, spectrumSvg, waveformsSvg, legSchematicSvg, sectorOverviewSvg, switchingPeriodSvg, vectorDiagramSvg } from '@hexsalvage/plot';
-import { fmt, levelText, tripletText } from '../format.js';
+import { claimRulesText, fmt, levelText, tripletText } from '../format.js';
 import type { Scenario } from '../readScenario.js';
 import { schematicFocus } from '../schematicFocus.js';
 import { REPORT_CSS } from './reportStyles.js';
@@ -59,7 +59,9 @@ export function buildReport(r: ReportInputs): string {
   const s: string[] = [];
   s.push(`<h1>Remedial operation review: ${esc(r.scenario?.drive ?? plan.topology)}</h1>`);
   s.push(`<p class="muted">Leg ${esc(plan.topology)} · faults: <strong>${esc(faultText)}</strong> · load angle ${fmt(plan.loadAngleDeg, 1)}° · polarity margin ${fmt(plan.polarityMarginDeg, 1)}° · ${esc(r.generatedBy)}</p>`);
-  if (plan.mMax === 0) s.push('<p class="verdict-fails"><strong>Verdict: the drive cannot run in this state.</strong> It must stop; no output voltage can be produced safely at this load angle.</p>');
+  const unsafe = unsafeRules(plan.rules);
+  if (plan.stop) s.push(`<p class="verdict-fails"><strong>Verdict: the drive cannot run in this state${plan.stop.everyLoadAngle ? ', at any load angle' : ' at this load angle'}.</strong> It must stop until repaired; no output voltage can be produced${unsafe ? '' : ' safely'}. Why: ${esc(plan.stop.reason)}</p>`);
+  if (unsafe) s.push(`<p class="verdict-fails"><strong>These figures are NOT a safe operating limit</strong>: ${esc(unsafe)}. For review only; never run a converter at them.</p>`);
   s.push(`<div class="caution" role="note"><strong>Caution.</strong><ul>${CAUTIONS.map((c) => `<li>${esc(c)}</li>`).join('')}</ul></div>`);
   s.push(reviewHeader(r, vdc));
   s.push('<h2>1. Inputs and assumptions</h2>');
@@ -71,12 +73,14 @@ export function buildReport(r: ReportInputs): string {
     + `<tr><th>units</th><td>potentials and modulation index m in units of Vdc/2 (m = peak fundamental phase voltage / (Vdc/2)); healthy linear limit 2/√3 ≈ 1.1547${vdc === undefined ? '' : `; at Vdc = ${fmt(vdc, 1)} V one unit is ${fmt(vdc / 2, 1)} V, and m corresponds to m·${fmt(vdc / 2, 1)} V phase peak, m·${fmt(lineRmsVolts(1, vdc), 1)} V line-to-line RMS`}</td></tr></table>`);
 
   s.push('<h2>2. Limit and derating</h2>');
-  if (plan.mMax === 0) s.push(`<p class="verdict-fails"><strong>The drive cannot run in this state</strong> at this load angle: no output voltage above 0 can be produced without overstressing a device or breaking a current.</p>`);
+  if (plan.stop) s.push(`<p class="verdict-fails"><strong>The drive cannot run in this state</strong>${plan.stop.everyLoadAngle ? ' at any load angle (every polarity of the cycle occurs at every load angle)' : ' at this load angle'}: no output voltage above 0 can be produced without overstressing a device or breaking a current.</p>`);
   const hullDiffers = Math.abs(plan.mMaxHull - plan.mMax) > 1e-9;
-  s.push(`<table><tr><th>maximum modulation index, faulted (safe)</th><td><strong>${fmt(plan.mMax, 6)}</strong>${esc(volts(plan.mMax))}</td></tr><tr><th>healthy</th><td>${fmt(plan.mMaxHealthy, 6)}${esc(volts(plan.mMaxHealthy))}</td></tr><tr><th>derating ratio</th><td><strong>${fmt(plan.deratingRatio * 100, 2)} %</strong></td></tr>`
+  s.push(`<table><tr><th>maximum modulation index, faulted (${unsafe ? 'NOT safe' : 'safe'})</th><td><strong>${fmt(plan.mMax, 6)}</strong>${esc(volts(plan.mMax))}</td></tr><tr><th>healthy</th><td>${fmt(plan.mMaxHealthy, 6)}${esc(volts(plan.mMaxHealthy))}</td></tr><tr><th>derating ratio</th><td><strong>${fmt(plan.deratingRatio * 100, 2)} %</strong></td></tr>`
     + `<tr><th>convex-hull bound (first version)</th><td>${fmt(plan.mMaxHull, 6)}${hullDiffers ? ' <span class="flag">not safe: it ignores what the rules below take away</span>' : ''}</td></tr>`
     + `<tr><th>midpoint balance holds up to</th><td>m = ${fmt(plan.mMaxBalanced, 6)}${esc(volts(plan.mMaxBalanced))}${plan.mMaxBalanced < plan.mMax - 1e-9 ? ' <span class="flag">above this the average midpoint current cannot be held at zero</span>' : ''}</td></tr></table>`);
   s.push(`<p>${esc(bindingExplanation(plan))}</p>`);
+  const rated = ratedVoltageText(atlas, plan, r.scenario, vdc);
+  if (rated) s.push(`<p class="rated">${esc(rated)}</p>`);
   if (plan.restrictions.length) s.push(`<p>What the rules take away:</p><ul>${plan.restrictions.map((x) => `<li>${esc(x)}</li>`).join('')}</ul>`);
   if (plan.notes.length) s.push(`<ul>${plan.notes.map((x) => `<li class="flag">${esc(x)}</li>`).join('')}</ul>`);
 
@@ -117,7 +121,10 @@ export function buildReport(r: ReportInputs): string {
 
   s.push('<h2>6. Degraded switching-state table</h2>');
   const f = table.flags;
-  s.push(`<p>${Object.keys(table.polarities).length} polarity strings, ${Object.values(table.polarities).reduce((n, p) => n + p.tableTriangles.length, 0)} triangles in all. Export with <code>hexsalvage export --format json|csv|c</code>.</p>`);
+  const triangleCount = Object.values(table.polarities).reduce((n, p) => n + p.tableTriangles.length, 0);
+  s.push(plan.stop
+    ? `<p class="verdict-fails">Nothing to run: the table below is for diagnosis only (what survives per polarity). Do not export it to firmware; the drive must stop.</p>`
+    : `<p>${Object.keys(table.polarities).length} polarity strings, ${triangleCount} triangles in all. Export with <code>hexsalvage export --format json|csv|c</code>${unsafe ? ' — not under these rules: they are NOT safe' : ''}.</p>`);
   s.push(`<table><tr><th>flag</th><th>triangles</th><th>examples</th></tr>`
     + flagRow('line-frequency devices driven at PWM rate', f.lineDevicesAtPwm)
     + flagRow('midpoint (neutral-point) control lost', f.midpointAuthorityLost)
@@ -144,14 +151,14 @@ export function buildReport(r: ReportInputs): string {
   }
 
   if (r.verdicts && r.verdicts.length) {
-    s.push('<h2>7. Derating claims</h2><table><thead><tr><th>claim</th><th>case</th><th>promised</th><th>load angles</th><th>rules</th><th>verdict</th><th>worst mMax</th><th>at</th><th>short by</th></tr></thead>');
+    s.push('<h2>7. Derating claims</h2><table class="claims"><colgroup><col style="width:16%"><col style="width:13%"><col style="width:13%"><col style="width:9%"><col style="width:13%"><col style="width:9%"><col style="width:11%"><col style="width:7%"><col style="width:9%"></colgroup><thead><tr><th>claim</th><th>case</th><th>promised</th><th>load angles</th><th>rules</th><th>verdict</th><th>worst mMax</th><th>at</th><th>short by</th></tr></thead>');
     for (const v of r.verdicts) {
       const other = v.topology !== plan.topology || [...v.faults].sort().join(',') !== [...plan.faults].sort().join(',');
-      const rules = `${v.rules.ratings ? 'ratings' : 'ratings IGNORED'}, ${v.rules.levelSteps}, margin ${fmt(v.polarityMarginDeg, 1)}°`;
+      const rules = `${claimRulesText(v)}, margin ${fmt(v.polarityMarginDeg, 1)}°`;
       const promised = `m ${fmt(v.m, 4)}${v.volts ? ` (${fmt(v.volts.lineRmsPromised, 1)} V rms at Vdc ${fmt(v.volts.vdc, 0)} V)` : ''}`;
       const worst = v.mMaxAtWorst === 0 ? '0: cannot run in this state' : `${fmt(v.mMaxAtWorst, 6)}${v.volts ? ` (${fmt(v.volts.lineRmsAtWorst, 1)} V rms)` : ''}`;
       const short = v.holds ? '—' : `${fmt(v.shortfall, 6)}${v.volts ? ` (${fmt(v.volts.shortfallLineRms, 1)} V rms)` : ''}`;
-      s.push(`<tr><td>${esc(v.name)}</td><td>${esc(v.topology)}: ${esc(v.faults.join(', ') || 'healthy')}${other ? ' <span class="flag">(another case than this report\'s)</span>' : ''}</td><td>${esc(promised)}</td><td>${fmt(v.loadAngleDeg[0], 1)}° … ${fmt(v.loadAngleDeg[1], 1)}°</td><td>${esc(rules)}</td><td class="${v.holds ? 'verdict-holds' : 'verdict-fails'}">${v.holds ? 'holds' : 'FAILS'}</td><td>${esc(worst)}</td><td>${fmt(v.worstLoadAngleDeg, 2)}°</td><td>${esc(short)}</td></tr>`);
+      s.push(`<tr><td>${esc(v.name)}</td><td>${esc(v.topology)}: ${esc(v.faults.join(', ') || 'healthy')}${other ? ' <span class="flag">(another case than this report\'s)</span>' : ''}</td><td>${esc(promised)}</td><td>${fmt(v.loadAngleDeg[0], 1)}° … ${fmt(v.loadAngleDeg[1], 1)}°</td><td>${esc(rules)}</td><td class="${v.holds ? 'verdict-holds' : 'verdict-fails'}">${v.holds ? 'holds' : 'FAILS'}</td><td>${esc(worst)}</td><td>${fmt(v.worstLoadAngleDeg, 1)}°</td><td>${esc(short)}</td></tr>`);
     }
     s.push('</table><p class="muted">Each verdict is exact over the whole load-angle range of the claim, not sampled. A claim marked "another case" is about a different leg or other faults than the rest of this report; it is judged on its own case.</p>');
   }
@@ -259,9 +266,25 @@ function flagRow(label: string, list: readonly { polarity: string; triangle: num
 
 function bindingExplanation(plan: RemedialPlan): string {
   if (!plan.bindingEdge) {
-    return `The drive cannot run in this state: under the polarity ${plan.limitingPolarity} (around θ = ${fmt(plan.limitingAngleDeg, 1)}°) the triangles a switching sequence can safely run do not surround the origin, so no balanced three-phase voltage can be synthesised through that part of the cycle.`;
+    return `The drive cannot run in this state: ${plan.stop?.reason ?? `under the polarity ${plan.limitingPolarity} the triangles a switching sequence can safely run do not surround the origin.`} No balanced three-phase voltage can be synthesised through that part of the cycle.`;
   }
   const [a, b] = plan.bindingEdge;
   const v = (x: typeof a) => `the ${x.class} vector ${tripletText(x.levels[0] ?? [], plan.dcLevels)} (α ${fmt(x.alpha, 3)}, β ${fmt(x.beta, 3)})`;
   return `The limit binds at θ = ${fmt(plan.limitingAngleDeg, 2)}°, where the phase currents read ${plan.limitingPolarity} (a, b, c). There the reference leaves the region of safely runnable triangles through the edge from ${v(a)} to ${v(b)}: the reference vector can be no longer than ${fmt(plan.mMax, 4)} in that direction, against ${fmt(plan.mMaxHealthy, 4)} for the healthy leg.`;
+}
+
+// What the rated voltage needs against what the fault leaves, in the drive's terms (scenario data).
+function ratedVoltageText(atlas: DiagramAtlas, plan: RemedialPlan, sc: ReportScenario | undefined, vdc: number | undefined): string | null {
+  if (sc?.ratedLineVoltageV === undefined || vdc === undefined) return null;
+  const rated = sc.ratedLineVoltageV;
+  const need = modulationOfLineRms(rated, vdc);
+  const here = lineRmsVolts(plan.mMax, vdc);
+  const [lo, hi] = sc.loadAngleRangeDeg ?? [plan.loadAngleDeg, plan.loadAngleDeg];
+  const worst = limitOverLoadAngles(atlas.faulted, lo, hi, plan.polarityMarginDeg);
+  const worstV = lineRmsVolts(worst.mMax, vdc);
+  const share = Math.min(here, worstV) / rated;
+  const verdict = need <= worst.mMax + 1e-12
+    ? 'the rated voltage remains available over the whole load-angle range'
+    : `the rated voltage is NOT available: at most ${fmt(100 * share, 0)} % of it over the load-angle range; under a constant V/f law (common practice) that is about ${fmt(100 * share, 0)} % of rated speed, so a pump or fan (load torque rising with the square of speed) would run at about that share of its flow and ${fmt(100 * share ** 3, 0)} % of its power — confirm with the load's own curve`;
+  return `Rated line voltage ${fmt(rated, 0)} V RMS needs m = ${fmt(need, 4)} at Vdc = ${fmt(vdc, 0)} V. With the fault the leg gives at most m = ${fmt(plan.mMax, 4)} (${fmt(here, 1)} V) at the operating load angle ${fmt(plan.loadAngleDeg, 1)}°, and at least ${fmt(worstV, 1)} V over ${fmt(lo, 1)}° to ${fmt(hi, 1)}°: ${verdict}.`;
 }

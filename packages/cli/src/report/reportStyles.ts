@@ -22,6 +22,9 @@ tr { page-break-inside: avoid; }
 .muted { color: #555; }
 code { font-family: 'DejaVu Sans Mono', monospace; font-size: 9pt; }
 code.hash { font-size: 7.5pt; word-break: break-all; }
+.claims { width: 100%; table-layout: fixed; font-size: 8pt; }
+.claims th, .claims td { padding: 0.8mm 1.2mm; overflow-wrap: anywhere; }
+.claims th { overflow-wrap: normal; }
 .sign-off { page-break-inside: avoid; margin-top: 8mm; }
 .sign-off table { width: 100%; }
 .sign-off td { height: 10mm; }

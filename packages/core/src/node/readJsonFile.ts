@@ -1,5 +1,5 @@
 import { closeSync, constants, fstatSync, openSync, readSync, statSync } from 'node:fs';
-import { HexsalvageInputError, type InputErrorCode } from '@hexsalvage/core';
+import { HexsalvageInputError, type InputErrorCode } from '../errors.js';
 
 /** Largest input file read (netlists, claims): 1 MiB. */
 export const MAX_INPUT_BYTES = 1024 * 1024;
