@@ -19,8 +19,8 @@ function time(label, fn, minMs = 1500) {
 }
 
 console.log(`node ${process.version}, ${process.platform}/${process.arch}`);
-time('planRemedial npc, a.outerUpper, φ = 30°, δ = 5°', () => planRemedial({ topology: 'npc', faults: ['a.outerUpper'], loadAngleDeg: 30, polarityMarginDeg: 5 }));
-time('planRemedial anpc-hybrid healthy', () => planRemedial({ topology: 'anpc-hybrid' }));
+time('planRemedial npc, a.outerUpper, φ = 30°, δ = 5°', () => planRemedial({ topology: 'npc', faults: ['a.outerUpper'], loadAngleDeg: 30, polarityMarginDeg: 5, remedies: false }));
+time('planRemedial anpc-hybrid healthy', () => planRemedial({ topology: 'anpc-hybrid', remedies: false }));
 
 // Version 2 (ratings, commutation, admissible tiling, mMaxBalanced) against the first version's
 // rules on the same code (--ignore-ratings --level-steps any), one faulted case per built-in leg:
@@ -41,15 +41,29 @@ function median(fn, runs = 600) {
 {
   const cases = BUILTIN_TOPOLOGIES.flatMap((t) => expandElements(builtinLeg(t)).flatMap((e) => ['open', 'short'].map((m) => [t, `b.${e.id}:${m}`])));
   const t0 = performance.now();
-  for (const [topology, f] of cases) planRemedial({ topology, faults: [f], loadAngleDeg: 17, polarityMarginDeg: 1 });
+  for (const [topology, f] of cases) planRemedial({ topology, faults: [f], loadAngleDeg: 17, polarityMarginDeg: 1, remedies: false });
   const ms = performance.now() - t0;
   console.log(`planRemedial, first call of each of ${cases.length} single faults (cold tables)`.padEnd(58), `${(ms / cases.length).toFixed(3).padStart(10)} ms per plan`);
 }
 for (const [topology, fault, phi, delta] of [['two-level', 'a.upper', 20, 0], ['npc', 'a.outerUpper', 30, 5], ['npc', 'a.clampUpper', 25, 0], ['anpc', 'a.clampUpper', -30, 2], ['anpc-hybrid', 'a.innerUpper', 25, 3], ['tnpc', 'a.neutralToOut', 25, 0]]) {
   const o = { topology, faults: [fault], loadAngleDeg: phi, polarityMarginDeg: delta };
-  const v2 = median(() => planRemedial(o));
-  const v1 = median(() => planRemedial({ ...o, ignoreRatings: true, levelSteps: 'any' }));
+  const v2 = median(() => planRemedial({ ...o, remedies: false }));
+  const v1 = median(() => planRemedial({ ...o, ignoreRatings: true, levelSteps: 'any', remedies: false }));
   console.log(`planRemedial ${topology} ${fault} φ = ${phi}°, δ = ${delta}°`.padEnd(58), `${v2.toFixed(3).padStart(10)} ms median  (first-version rules ${v1.toFixed(3)} ms, ratio ${(v2 / v1).toFixed(2)})`);
+}
+
+// A plan with its remedies (clear-shorts, bypass-<phase>, both: each a further analysis at the same
+// load angle) against the plain plan, medians of repeated calls. Goal: at most 3×.
+{
+  const ratios = [];
+  for (const [topology, fault] of [['npc', 'a.outerUpper:short'], ['npc', 'a.innerUpper'], ['anpc', 'a.innerUpper:short'], ['anpc-hybrid', 'a.innerUpper'], ['tnpc', 'a.upper:short']]) {
+    const o = { topology, faults: [fault], loadAngleDeg: 25, polarityMarginDeg: 2 };
+    const plain = median(() => planRemedial({ ...o, remedies: false }), 300);
+    const full = median(() => planRemedial(o), 300);
+    ratios.push(full / plain);
+    console.log(`planRemedial with remedies, ${topology} ${fault}`.padEnd(58), `${full.toFixed(3).padStart(10)} ms median  (plain ${plain.toFixed(3)} ms, ratio ${(full / plain).toFixed(2)}; goal ≤ 3)`);
+  }
+  console.log('plan with remedies / plain plan, worst ratio'.padEnd(58), `${Math.max(...ratios).toFixed(2).padStart(10)}        (goal ≤ 3)`);
 }
 
 const faults = BUILTIN_TOPOLOGIES.flatMap((t) => expandElements(builtinLeg(t)).map((e) => [t, `a.${e.id}`]));

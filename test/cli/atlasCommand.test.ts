@@ -50,7 +50,7 @@ describe('hexsalvage atlas', () => {
     expect(csv.code).toBe(0);
     expect(csv.stdout).toMatch(/^wrote .*atlas\.csv \(20 fault sets/);
     const lines = readFileSync(csvFile, 'utf8').trim().split('\n');
-    expect(lines[0]).toBe('faults,verdict,m_max_min,derating_ratio,worst_load_angle_deg,m_max_hull_min,reason,m_max_at_-90,m_max_at_-45,m_max_at_0,m_max_at_45,m_max_at_90');
+    expect(lines[0]).toBe('faults,verdict,m_max_min,derating_ratio,worst_load_angle_deg,m_max_hull_min,best_remedy,best_remedy_m_max_min,reason,m_max_at_-90,m_max_at_-45,m_max_at_0,m_max_at_45,m_max_at_90');
     expect(lines).toHaveLength(21);
     expect(readdirSync(dir).filter((f) => f.endsWith('.tmp'))).toEqual([]);
   });

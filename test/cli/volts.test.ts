@@ -118,7 +118,7 @@ describe('scenario file and the review report', () => {
     expect(html).toContain('reviewed by');
     expect(html).toMatch(/0\.[0-9]+<\/strong> = [0-9.]+ V line-to-line RMS/);
     // the scenario gives the drive's data, so the report simulates the operating point
-    expect(html).toContain('8. What degraded operation costs');
+    expect(html).toContain('9. What degraded operation costs');
     expect(html).toContain('Current derating:');
     expect(html).toContain('Line-voltage spectrum');
   });

@@ -24,8 +24,9 @@ export const RULE_OPTIONS: readonly OptionSpec[] = [
 /** Options shared by the commands that take a leg (with the rules of the limit). */
 export const LEG_OPTIONS: readonly OptionSpec[] = [
   { name: 'topology', type: 'string', value: 'T', help: 'built-in leg (two-level, npc, anpc, anpc-hybrid, tnpc) or a netlist .json file' },
-  { name: 'fault', type: 'list', value: 'F', help: 'failed element PHASE.DEVICE[:open|short], e.g. a.outerUpper; repeatable' },
+  { name: 'fault', type: 'list', value: 'F', help: "failed element PHASE.DEVICE[:open|short], e.g. a.outerUpper; the candidates of an ambiguous diagnosis joined by |, e.g. 'a.outerUpper|a.outerUpper.diode'; repeatable" },
   ...RULE_OPTIONS,
+  { name: 'bypass', type: 'list', value: 'PHASE', help: 'tie that phase to the DC midpoint by a fitted bypass, every gate of it off (a leg with a DC node at 0)' },
 ];
 
 /** The `--json` switch. */

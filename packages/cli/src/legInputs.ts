@@ -1,4 +1,4 @@
-import { LEVEL_STEP_RULES, SEQUENCE_MODES, UPDATE_MODES, type LegNetlist, type LevelStepRule, type SequenceMode, type UpdateMode } from '@hexsalvage/core';
+import { LEVEL_STEP_RULES, PHASES, SEQUENCE_MODES, UPDATE_MODES, type LegNetlist, type LevelStepRule, type Phase, type SequenceMode, type UpdateMode } from '@hexsalvage/core';
 import { usage, type ParsedArgs } from './args.js';
 import { loadTopology } from './loadTopology.js';
 
@@ -59,10 +59,14 @@ export function angleInputs(args: ParsedArgs): { loadAngleDeg: number; polarityM
  * ruleInputs(args); // { ignoreRatings: false, levelSteps: 'commutable' }
  * ```
  */
-export function ruleInputs(args: ParsedArgs): { ignoreRatings: boolean; levelSteps: LevelStepRule } {
+export function ruleInputs(args: ParsedArgs): { ignoreRatings: boolean; levelSteps: LevelStepRule; bypass?: Phase } {
   const steps = args.values.get('level-steps') ?? 'commutable';
   if (!(LEVEL_STEP_RULES as readonly unknown[]).includes(steps)) throw usage('--level-steps', `one of ${LEVEL_STEP_RULES.join(', ')}`, steps);
-  return { ignoreRatings: args.flags.has('ignore-ratings'), levelSteps: steps as LevelStepRule };
+  const bypass = args.lists.get('bypass') ?? [];
+  if (bypass.length > 1) throw usage('--bypass', 'one phase at most (with two tied to the midpoint only one phase is left to modulate: no line-to-line voltage can be controlled)', bypass.join(', '));
+  const phase = bypass[0];
+  if (phase !== undefined && !(PHASES as readonly string[]).includes(phase)) throw usage('--bypass', `a phase, one of ${PHASES.join(', ')}`, phase);
+  return { ignoreRatings: args.flags.has('ignore-ratings'), levelSteps: steps as LevelStepRule, ...(phase === undefined ? {} : { bypass: phase as Phase }) };
 }
 
 /**

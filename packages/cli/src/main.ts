@@ -19,6 +19,7 @@ const LOADERS: Readonly<Record<string, () => Promise<Command>>> = {
   check: async () => (await import('./commands/checkCommand.js')).checkCommand,
   atlas: async () => (await import('./commands/atlasCommand.js')).atlasCommand,
   simulate: async () => (await import('./commands/simulateCommand.js')).simulateCommand,
+  switchover: async () => (await import('./commands/switchoverCommand.js')).switchoverCommand,
 };
 
 /** Every command name, in the order `--help` lists them. */

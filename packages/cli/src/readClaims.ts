@@ -65,7 +65,7 @@ export function parseClaimList(list: unknown, path: string, listKey: string, cod
     if (typeof c !== 'object' || c === null || Array.isArray(c)) throw err(at, 'a claim object', c);
     const o: Record<string, unknown> = { ...(defaultVdc !== undefined ? { vdc: defaultVdc } : {}), ...(c as Record<string, unknown>) };
     if (Object.prototype.hasOwnProperty.call(c, '__proto__')) throw err(`${at}.__proto__`, 'no "__proto__" key', '__proto__');
-    const keys = ['name', 'topology', 'faults', 'm', 'vdc', 'lineRmsV', 'loadAngleDeg', 'polarityMarginDeg', 'levelSteps'];
+    const keys = ['name', 'topology', 'faults', 'm', 'vdc', 'lineRmsV', 'loadAngleDeg', 'polarityMarginDeg', 'levelSteps', 'bypass'];
     for (const k of Object.keys(o)) if (!keys.includes(k)) throw err(`${at}.${k}`, `one of the keys ${keys.join(', ')}`, k);
     if (typeof o.name !== 'string' || o.name === '') throw err(`${at}.name`, 'a non-empty name', o.name);
     if (names.has(o.name)) throw err(`${at}.name`, 'a name not used by another claim', o.name);
@@ -85,6 +85,7 @@ export function parseClaimList(list: unknown, path: string, listKey: string, cod
     const d = o.polarityMarginDeg;
     if (d !== undefined && (typeof d !== 'number' || !(d >= 0 && d < 60))) throw err(`${at}.polarityMarginDeg`, 'degrees in [0, 60)', d);
     const steps = o.levelSteps;
+    if (o.bypass !== undefined && !['a', 'b', 'c'].includes(o.bypass as string)) throw err(`${at}.bypass`, 'a phase, one of a, b, c', o.bypass);
     if (steps !== undefined && !(LEVEL_STEP_RULES as readonly unknown[]).includes(steps)) throw err(`${at}.levelSteps`, `one of ${LEVEL_STEP_RULES.join(', ')}`, steps);
     let topology: unknown;
     try {
@@ -103,6 +104,7 @@ export function parseClaimList(list: unknown, path: string, listKey: string, cod
       ...(o.vdc !== undefined ? { vdc: o.vdc as number } : {}),
       ...(d !== undefined ? { polarityMarginDeg: d as number } : {}),
       ...(steps !== undefined ? { levelSteps: steps as LevelStepRule } : {}),
+      ...(o.bypass !== undefined ? { bypass: o.bypass as 'a' | 'b' | 'c' } : {}),
     };
   });
 }

@@ -150,26 +150,31 @@ export function patternLevel(solve: GateSetSolver, gates: readonly string[], pol
  * allowed when some pattern giving l1 commutates to some pattern giving l2, and some pattern giving
  * l2 commutates back to some pattern giving l1.
  *
- * @param solve - gate-set solver of the phase
- * @param patterns - the named patterns' gate lists, in netlist order
+ * @param solve - gate-set solver of the phase (the level each pattern gives)
+ * @param patterns - the named patterns' gate lists, in netlist order; `null` for a pattern the phase
+ *   never uses (it gives no level and takes part in no change)
+ * @param step - the solver that decides whether an intermediate state of a change is usable
+ *   (default `solve`; under an ambiguous diagnosis: usable in every configuration, whatever level)
  * @returns the moves and the commutating pattern pairs per polarity character
  * @example
  * ```ts
  * phaseCommutations(solve, Object.values(builtinLeg('npc').patterns)).moves['+']; // [[-1, 0], [0, -1], [0, 1], [1, 0]]
  * ```
  */
-export function phaseCommutations(solve: GateSetSolver, patterns: readonly (readonly string[])[]): PhaseCommutations {
+export function phaseCommutations(solve: GateSetSolver, patterns: readonly (readonly string[] | null)[], step: GateSetSolver = solve): PhaseCommutations {
   const known = new Map<string, boolean>();
   const patternsCommute = (pol: PhasePolarity, i: number, j: number): boolean => {
     const key = `${pol}${i}>${j}`;
     let r = known.get(key);
     if (r === undefined) {
-      r = i === j || commutates(solve, patterns[i] as readonly string[], patterns[j] as readonly string[], pol);
+      const a = patterns[i];
+      const b = patterns[j];
+      r = a !== null && a !== undefined && b !== null && b !== undefined && (i === j || commutates(step, a, b, pol));
       known.set(key, r);
     }
     return r;
   };
-  const levelOf = (pol: PhasePolarity) => patterns.map((g) => patternLevel(solve, g, pol));
+  const levelOf = (pol: PhasePolarity) => patterns.map((g) => (g === null ? null : patternLevel(solve, g, pol)));
   const levelMoves = (pol: PhasePolarity, level: readonly (number | null)[], wanted: (l1: number, l2: number) => boolean): LevelMove[] => {
     // one commutating pattern pair per level change is enough: pairs are searched until one is found
     const forward = new Set<string>();

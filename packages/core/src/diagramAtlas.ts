@@ -40,6 +40,26 @@ export interface DiagramAtlas {
  * ```
  */
 export function diagramAtlas(options: AnalyseLegOptions): DiagramAtlas {
+  // the same leg, faults, rules and bypass give the same atlas (a pure function of plain data):
+  // remedies and alternatives ask for a few atlases again and again
+  const key = atlasKey(options);
+  if (key === null) return buildAtlas(options);
+  return ATLASES.through(key, () => buildAtlas(options));
+}
+
+// Atlases already built, by their options as JSON.
+const ATLASES = new BoundedCache<DiagramAtlas>(64);
+
+function atlasKey(o: AnalyseLegOptions): string | null {
+  if (typeof o !== 'object' || o === null) return null;
+  try {
+    return JSON.stringify([o.topology, o.faults ?? [], o.ignoreRatings ?? false, o.levelSteps ?? 'commutable', o.bypass ?? null]);
+  } catch {
+    return null;
+  }
+}
+
+function buildAtlas(options: AnalyseLegOptions): DiagramAtlas {
   const analysis = analyseLeg(options);
   const h = analysis.healthy.levels;
   // The healthy diagram uses the robust sets; for any well-formed leg they equal the signed ones.

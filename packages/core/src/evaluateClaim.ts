@@ -1,6 +1,6 @@
+import { faultTexts } from './analyseLeg.js';
 import { diagramAtlas } from './diagramAtlas.js';
 import { legLevels } from './expandElements.js';
-import { formatFault } from './faults.js';
 import { lineRmsVolts, modulationOfLineRms, phasePeakVolts, requireVdc } from './physicalUnits.js';
 import { HexsalvageInputError } from './errors.js';
 import { limitOverLoadAngles } from './modulationLimit.js';
@@ -28,6 +28,8 @@ export interface DeratingClaim {
   readonly levelSteps?: LevelStepRule;
   /** Skip the device-rating check (unsafe; reproduces the first version). Default false. */
   readonly ignoreRatings?: boolean;
+  /** A phase tied to the DC midpoint by a fitted bypass (`a`, `b` or `c`). Default none. */
+  readonly bypass?: 'a' | 'b' | 'c';
 }
 
 /** The verdict on one claim. */
@@ -95,7 +97,7 @@ export function evaluateClaim(claim: DeratingClaim): ClaimVerdict {
   const delta = claim.polarityMarginDeg ?? 0;
   if (!(Number.isFinite(delta) && delta >= 0 && delta < 60)) throw bad('polarityMarginDeg', 'degrees in [0, 60)', delta);
   const rules = resolveRules({ levelSteps: claim.levelSteps, ignoreRatings: claim.ignoreRatings }, claim.name);
-  const atlas = diagramAtlas({ topology: claim.topology, faults: claim.faults, levelSteps: rules.levelSteps, ignoreRatings: !rules.ratings });
+  const atlas = diagramAtlas({ topology: claim.topology, faults: claim.faults, levelSteps: rules.levelSteps, ignoreRatings: !rules.ratings, ...(claim.bypass === undefined ? {} : { bypass: claim.bypass }) });
   const r = limitOverLoadAngles(atlas.faulted, lo, hi, delta);
   const hull = limitOverLoadAngles(atlas.faulted, lo, hi, delta, 'hull');
   const d = atlas.faulted.get(r.limitingPolarity) as PolarityDiagram;
@@ -121,7 +123,7 @@ export function evaluateClaim(claim: DeratingClaim): ClaimVerdict {
     bindingEdge: edge,
     dcLevels: legLevels(atlas.analysis.leg),
     topology: atlas.analysis.topology,
-    faults: atlas.analysis.faults.map(formatFault),
+    faults: faultTexts(atlas.analysis),
     loadAngleDeg: [lo, hi],
     polarityMarginDeg: delta,
     ...(vdc === undefined ? {} : { volts: { vdc, lineRmsPromised: lineRmsVolts(m, vdc), lineRmsAtWorst: lineRmsVolts(r.mMax, vdc), phasePeakAtWorst: phasePeakVolts(r.mMax, vdc), shortfallLineRms: lineRmsVolts(Math.max(0, m - r.mMax), vdc) } }),

@@ -7,6 +7,7 @@ import { limitOverLoadAngles, modulationLimit } from './modulationLimit.js';
 import { resolveRules, type LimitRuleOptions, type LimitRules } from './rules.js';
 import { resolveTopology } from './resolveTopology.js';
 import { faultReason } from './faultReason.js';
+import { bestRemedy } from './remedies.js';
 import { lineRmsVolts, phasePeakVolts, requireVdc } from './physicalUnits.js';
 import { requireNumber, requireObject } from './validate.js';
 
@@ -73,6 +74,11 @@ export interface AtlasClassResult {
   readonly reason: string;
   /** Every restriction and lost level, in words. */
   readonly details: readonly string[];
+  /**
+   * The remedy that raises the worst-case limit over the range most (`clear-shorts`, `bypass-<phase>`
+   * or both; see `plan` `remedies`), with that limit; `null` when none does better than as it is.
+   */
+  readonly bestRemedy: { readonly id: string; readonly mMaxMin: number } | null;
 }
 
 /** One line of the atlas. */
@@ -240,7 +246,11 @@ export function atlasClass(settings: AtlasSettings, faults: readonly string[]): 
   const hull = limitOverLoadAngles(atlas.faulted, lo, hi, settings.polarityMarginDeg, 'hull');
   const mMaxAt = atlasGrid(settings).map((phi) => [phi, modulationLimit(atlas.faulted, phi, settings.polarityMarginDeg).mMax] as const);
   const why = faultReason(atlas.analysis, worst.mMax);
-  return { mMaxMin: worst.mMax, worstLoadAngleDeg: worst.loadAngleDeg, mMaxHullMin: hull.mMax, mMaxAt, reason: why.reason, details: why.details };
+  const options = { topology: settings.topology, faults, levelSteps: settings.rules.levelSteps, ignoreRatings: !settings.rules.ratings };
+  // a fault that keeps full voltage needs no remedy (the healthy diagrams are shared: cheap)
+  const healthy = limitOverLoadAngles(atlas.healthy, lo, hi, settings.polarityMarginDeg).mMax;
+  const remedy = worst.mMax >= healthy - VERDICT_TOLERANCE ? null : bestRemedy(atlas, options, [lo, hi], settings.polarityMarginDeg, worst.mMax);
+  return { mMaxMin: worst.mMax, worstLoadAngleDeg: worst.loadAngleDeg, mMaxHullMin: hull.mMax, mMaxAt, reason: why.reason, details: why.details, bestRemedy: remedy ? { id: remedy.id, mMaxMin: remedy.mMaxMin } : null };
 }
 
 /**
@@ -268,7 +278,12 @@ export function assembleAtlas(work: AtlasWork, results: readonly AtlasClassResul
     const computed = results[work.classOf[i] as number] as AtlasClassResult;
     // the class was computed for its representative: its words name that rotation's phases
     const back = rotationFrom(rep, faults);
-    const r = back === 0 ? computed : { ...computed, reason: rotatePhaseNames(computed.reason, back), details: computed.details.map((d) => rotatePhaseNames(d, back)) };
+    const r = back === 0 ? computed : {
+      ...computed,
+      reason: rotatePhaseNames(computed.reason, back),
+      details: computed.details.map((d) => rotatePhaseNames(d, back)),
+      bestRemedy: computed.bestRemedy ? { ...computed.bestRemedy, id: computed.bestRemedy.id.replace(/bypass-([abc])$/, (_, p: string) => `bypass-${PHASES[(PHASES.indexOf(p as (typeof PHASES)[number]) + back) % 3]}`) } : null,
+    };
     const verdict: AtlasEntry['verdict'] = r.mMaxMin <= VERDICT_TOLERANCE ? 'cannot-run' : r.mMaxMin >= healthyMin - VERDICT_TOLERANCE ? 'full' : 'derated';
     const v = volt(r.mMaxMin);
     const entry: AtlasEntry = {

@@ -91,3 +91,88 @@ export function faultsByPhase(texts: readonly string[], leg: LegNetlist, input =
 export function formatFault(f: Fault): string {
   return `${f.phase}.${f.element}:${f.mode}`;
 }
+
+/**
+ * One reported failure: the element that failed, or the candidates a diagnosis could not tell
+ * apart (one of them has failed). A plain fault is a failure with one alternative.
+ */
+export type Failure = readonly Fault[];
+
+/** The most configurations (combinations of one alternative per failure) a fault list may make. */
+export const MAX_CONFIGURATIONS = 64;
+
+/**
+ * Parses fault strings that may list alternatives separated by `|` (an ambiguous diagnosis, e.g.
+ * `a.outerUpper|a.outerUpper.diode`): each string is one failure.
+ *
+ * @param texts - fault strings
+ * @param leg - the leg the faults refer to
+ * @param input - name of the input for error messages
+ * @returns each failure's alternatives, in the order given
+ * @throws HexsalvageInputError on an empty alternative, an element named twice in one failure, a
+ *   bad fault, or more than {@link MAX_CONFIGURATIONS} combinations
+ * @example
+ * ```ts
+ * parseFailures(['a.outerUpper|a.outerUpper.diode'], builtinLeg('npc'))[0]?.length; // 2
+ * ```
+ */
+export function parseFailures(texts: readonly string[], leg: LegNetlist, input = '--fault'): Failure[] {
+  let combinations = 1;
+  const failures = texts.map((t) => {
+    if (typeof t !== 'string') throw new HexsalvageInputError('fault', input, '(fault)', 'a string PHASE.DEVICE[:MODE], alternatives separated by |', t);
+    const parts = t.split('|');
+    const alternatives = parts.map((p) => {
+      if (p.trim() === '') throw new HexsalvageInputError('fault', input, t, 'alternatives PHASE.DEVICE[:MODE] separated by | (one is empty)', t);
+      return parseFault(p.trim(), leg, input);
+    });
+    const seen = new Set<string>();
+    for (const f of alternatives) {
+      const key = `${f.phase}.${f.element}`;
+      if (seen.has(key)) throw new HexsalvageInputError('fault', input, t, 'each element at most once among the alternatives of one failure', key);
+      seen.add(key);
+    }
+    combinations *= alternatives.length;
+    if (combinations > MAX_CONFIGURATIONS) throw new HexsalvageInputError('fault', input, t, `at most ${MAX_CONFIGURATIONS} combinations of alternatives in all (a documented limit)`, combinations);
+    return alternatives;
+  });
+  return failures;
+}
+
+/**
+ * Every combination of one alternative per failure that names each element with one mode only (a
+ * combination that would give one element two modes cannot happen and is left out).
+ *
+ * @param failures - from {@link parseFailures}
+ * @returns the configurations, each a list of faults (the first alternative of each failure first)
+ * @example
+ * ```ts
+ * failureConfigurations(parseFailures(['a.x|a.y', 'b.z'], leg)).length; // 2
+ * ```
+ */
+export function failureConfigurations(failures: readonly Failure[]): Fault[][] {
+  let configs: Fault[][] = [[]];
+  for (const alternatives of failures) configs = configs.flatMap((c) => alternatives.map((f) => [...c, f]));
+  return configs.filter((c) => {
+    const mode = new Map<string, FaultMode>();
+    return c.every((f) => {
+      const key = `${f.phase}.${f.element}`;
+      const prior = mode.get(key);
+      mode.set(key, f.mode);
+      return prior === undefined || prior === f.mode;
+    });
+  });
+}
+
+/**
+ * Canonical text of a failure: its alternatives joined by `|`.
+ *
+ * @param f - a failure
+ * @returns e.g. `a.outerUpper:open|a.outerUpper.diode:open`
+ * @example
+ * ```ts
+ * formatFailure([{ phase: 'a', element: 'upper', mode: 'open' }]); // 'a.upper:open'
+ * ```
+ */
+export function formatFailure(f: Failure): string {
+  return f.map(formatFault).join('|');
+}

@@ -1,6 +1,6 @@
-import type { LegAnalysis } from './analyseLeg.js';
+import { faultTexts, type LegAnalysis } from './analyseLeg.js';
 import { legLevels } from './expandElements.js';
-import { formatFault, PHASES, type Phase } from './faults.js';
+import { PHASES, type Phase } from './faults.js';
 import { phaseMoves } from './diagramAtlas.js';
 import type { LevelMove } from './commutation.js';
 import type { LegTable, PhasePolarity } from './legTable.js';
@@ -56,7 +56,7 @@ export function legDocument(analysis: LegAnalysis): LegDocument {
     }
     phases[ph] = { patterns, levels: table.levels, moves: documentedMoves(table, analysis.rules, dc), paths };
   }
-  return { topology: analysis.topology, faults: analysis.faults.map(formatFault), rules: analysis.rules, unrated: analysis.unrated, phases };
+  return { topology: analysis.topology, faults: faultTexts(analysis), rules: analysis.rules, unrated: analysis.unrated, phases };
 }
 
 // Under `levelSteps: any` every change between two levels of a set is allowed (no sequence rule).

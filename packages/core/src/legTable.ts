@@ -3,7 +3,7 @@ import { parseNetlist } from './parseNetlist.js';
 import { phaseCommutations, type PhaseCommutations } from './commutation.js';
 import type { CurrentSign, ShootThrough, SignOutcome } from './conduction.js';
 import type { PhaseFaults } from './faults.js';
-import { gateSetSolver, type GateSetSolver } from './gateSetSolver.js';
+import { gateSetSolver, type GateSetOutcome, type GateSetSolver } from './gateSetSolver.js';
 import type { LegNetlist } from './netlist.js';
 
 /** Polarity of one phase as used in level sets: a measured sign, or `?` (unknown: robust). */
@@ -42,6 +42,31 @@ export interface LegTable {
   readonly ratings: boolean;
   /** The phase's gate-set solver (memoised, levels only), for intermediate states and exploration. */
   readonly solve: GateSetSolver;
+  /**
+   * A solver that also names paths and the device an unsafe state overstresses (for explanations);
+   * under an ambiguous diagnosis, the joint one.
+   */
+  readonly explain: GateSetSolver;
+  /**
+   * Whether a gate set is usable as a state passed through (a step of a commutation, a way out of a
+   * state): under an ambiguous diagnosis usable in every configuration, whatever level each gives.
+   */
+  readonly step: GateSetSolver;
+}
+
+/** One configuration a phase may be in: its faults, and how a reason names it. */
+export interface PhaseConfiguration {
+  readonly faults: PhaseFaults;
+  /** e.g. `a.outerUpper:open` (used in reasons when configurations disagree). */
+  readonly label: string;
+}
+
+/** Options of {@link jointLegTable}. */
+export interface JointLegTableOptions {
+  /** Apply the static voltage check. Default true. */
+  readonly ratings?: boolean;
+  /** Named patterns (by index) this phase never uses, with the reason (e.g. a bypassed phase's own patterns). */
+  readonly disabled?: ReadonlyMap<number, string>;
 }
 
 /**
@@ -76,7 +101,115 @@ export function legTable(leg: LegNetlist, faults: PhaseFaults, ratings = true): 
     return { name, gates, status: 'allowed', bySign: o.bySign, unsafe: o.unsafe };
   });
   const commutations = phaseCommutations(solve, Object.values(leg.patterns));
-  return { patterns, levels: levelSets(patterns), commutations, ratings, solve };
+  return { patterns, levels: levelSets(patterns), commutations, ratings, solve, explain: named, step: solve };
+}
+
+/**
+ * The leg table of a phase that may be in any of several configurations (an ambiguous diagnosis:
+ * one of the alternatives has failed), and whose patterns may be partly disabled (a bypassed phase).
+ * A pattern keeps a level for a sign only when it is usable and gives that level in every
+ * configuration; a pattern that shoots through in any configuration is forbidden; a level change is
+ * a move only when one pattern pair and one turn-off/turn-on order are safe in every configuration
+ * (intermediate states usable in each, whatever level each gives). With one configuration and
+ * nothing disabled this is {@link legTable}.
+ *
+ * @param leg - the leg netlist
+ * @param configurations - the configurations the phase may be in (at least one)
+ * @param options - rating rule, disabled patterns
+ * @returns the joint table
+ * @example
+ * ```ts
+ * jointLegTable(builtinLeg('npc'), [{ faults: new Map([['outerUpper', 'open']]), label: 'a.outerUpper:open' }, { faults: new Map([['outerUpper.diode', 'open']]), label: 'a.outerUpper.diode:open' }]).levels['+'];
+ * ```
+ */
+export function jointLegTable(leg: LegNetlist, configurations: readonly PhaseConfiguration[], options: JointLegTableOptions = {}): LegTable {
+  const ratings = options.ratings ?? true;
+  const disabled = options.disabled ?? new Map<number, string>();
+  if (configurations.length === 0) throw new HexsalvageInputError('option', 'jointLegTable', 'configurations', 'at least one configuration', configurations);
+  const tables = configurations.map((c) => legTable(leg, c.faults, ratings));
+  // a level by the DC node at that potential (the reader's name for it)
+  const nodeOf = (l: number | null) => Object.entries(leg.dcNodes).find(([, v]) => v === l)?.[0] ?? `${l} × Vdc/2`;
+  const first = tables[0] as LegTable;
+  if (tables.length === 1 && disabled.size === 0) return first;
+  const patterns = first.patterns.map((p0, i): PatternResult => {
+    const off = disabled.get(i);
+    if (off !== undefined) return { name: p0.name, gates: p0.gates, status: 'allowed', bySign: { '+': NO_LEVEL, '-': NO_LEVEL }, unsafe: { '+': off, '-': off } };
+    const k = tables.findIndex((t) => t.patterns[i]?.status === 'forbidden');
+    if (k >= 0) {
+      const f = (tables[k] as LegTable).patterns[i] as Extract<PatternResult, { status: 'forbidden' }>;
+      return tables.length === 1 ? f : { ...f, reason: `${f.reason} if ${(configurations[k] as PhaseConfiguration).label}` };
+    }
+    const all = tables.map((t) => t.patterns[i] as Extract<PatternResult, { status: 'allowed' }>);
+    const unsafe: Partial<Record<CurrentSign, string>> = {};
+    const sign = (s: CurrentSign): SignOutcome => {
+      const bad = all.findIndex((q) => q.bySign[s].level === null);
+      if (bad >= 0) {
+        const q = all[bad] as Extract<PatternResult, { status: 'allowed' }>;
+        const why = q.unsafe[s] ?? 'the current finds no path (interrupted)';
+        if (q.unsafe[s] !== undefined || tables.length > 1) unsafe[s] = tables.length > 1 ? `${why} if ${(configurations[bad] as PhaseConfiguration).label}` : why;
+        return NO_LEVEL;
+      }
+      const l0 = (all[0] as Extract<PatternResult, { status: 'allowed' }>).bySign[s].level;
+      const other = all.findIndex((q) => q.bySign[s].level !== l0);
+      if (other >= 0) {
+        unsafe[s] = `gives ${nodeOf(l0)} if ${(configurations[0] as PhaseConfiguration).label} but ${nodeOf((all[other] as Extract<PatternResult, { status: 'allowed' }>).bySign[s].level)} if ${(configurations[other] as PhaseConfiguration).label}`;
+        return NO_LEVEL;
+      }
+      return (all[0] as Extract<PatternResult, { status: 'allowed' }>).bySign[s];
+    };
+    return { name: p0.name, gates: p0.gates, status: 'allowed', bySign: { '+': sign('+'), '-': sign('-') }, unsafe };
+  });
+  const solve = jointSolver(tables.map((t) => t.solve), true);
+  const step = jointSolver(tables.map((t) => t.solve), false);
+  const gates = Object.values(leg.patterns).map((g, i) => (disabled.has(i) ? null : g));
+  const commutations = phaseCommutations(solve, gates, step);
+  return { patterns, levels: levelSets(patterns), commutations, ratings, solve, explain: jointSolver(tables.map((t) => t.explain), true), step };
+}
+
+const NO_LEVEL: SignOutcome = Object.freeze({ level: null, dcNodes: Object.freeze([]) as readonly string[], path: Object.freeze([]) as readonly string[] });
+
+// One solver over several configurations: a gate set shoots through if it does in any; for a sign it
+// is usable only if usable in every one, and with `sameLevel` only if they all give one level (the
+// level a pattern is listed with); without, intermediate states of a commutation only need to be
+// usable in each configuration (the level may differ).
+function jointSolver(parts: readonly GateSetSolver[], sameLevel: boolean): GateSetSolver {
+  const base = parts[0] as GateSetSolver;
+  const cache = new Map<number | string, GateSetOutcome>();
+  const combine = (outs: readonly GateSetOutcome[]): GateSetOutcome => {
+    const bad = outs.find((o) => o.status === 'forbidden');
+    if (bad) return bad;
+    const allowed = outs as readonly Extract<GateSetOutcome, { status: 'allowed' }>[];
+    const unsafe: Partial<Record<CurrentSign, string>> = {};
+    const sign = (s: CurrentSign): SignOutcome => {
+      const levels = allowed.map((o) => o.bySign[s].level);
+      const k = allowed.findIndex((o) => o.bySign[s].level === null);
+      if (k >= 0) {
+        const why = (allowed[k] as Extract<GateSetOutcome, { status: 'allowed' }>).unsafe[s];
+        if (why) unsafe[s] = why;
+        return NO_LEVEL;
+      }
+      if (sameLevel && levels.some((l) => l !== levels[0])) return NO_LEVEL;
+      return (allowed[0] as Extract<GateSetOutcome, { status: 'allowed' }>).bySign[s];
+    };
+    return { status: 'allowed', bySign: { '+': sign('+'), '-': sign('-') }, unsafe };
+  };
+  const byKey = (key: number | string, gates: () => readonly string[]): GateSetOutcome => {
+    let o = cache.get(key);
+    if (o === undefined) {
+      const g = gates();
+      o = combine(parts.map((p) => p(g)));
+      cache.set(key, o);
+    }
+    return o;
+  };
+  const keyValue = base.keyValue;
+  const solve = (gates: readonly string[]): GateSetOutcome => {
+    if (keyValue === null) return byKey([...gates].sort().join('\u0000'), () => gates);
+    let key = 0;
+    for (const g of gates) key += keyValue.get(g) ?? 0;
+    return byKey(key, () => gates);
+  };
+  return Object.assign(solve, { keyValue, byKey: (key: number, gates: () => readonly string[]) => byKey(key, gates), solved: (key: number) => cache.has(key) });
 }
 
 /**

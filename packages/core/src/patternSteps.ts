@@ -1,6 +1,6 @@
 import { patternLevel } from './commutation.js';
 import { phaseMoves } from './diagramAtlas.js';
-import type { LegTable, PhasePolarity } from './legTable.js';
+import type { LegTable, PatternResult, PhasePolarity } from './legTable.js';
 import type { LimitRules } from './rules.js';
 
 /** The three polarity characters, in the order the runtime and the C header index them. */
@@ -58,10 +58,18 @@ export function patternSteps(table: LegTable, healthy: LegTable, rules: LimitRul
   const entries = {} as Record<PhasePolarity, (readonly [number, number])[]>;
   const near = (a: number, b: number) => Math.abs(dcLevels.indexOf(a) - dcLevels.indexOf(b)) <= 1;
   // every level a pattern may give, whatever the sign
-  const anyLevels = gates.map((g) => [patternLevel(table.solve, g, '+'), patternLevel(table.solve, g, '-')].filter((l): l is number => l !== null));
+  // the levels the table lists (the same as the solver's for a plain phase; under an ambiguous
+  // diagnosis or a bypass the table's, which are what every configuration agrees on)
+  const listed = (i: number, c: PhasePolarity): number | null => {
+    const p = table.patterns[i] as PatternResult;
+    if (p.status !== 'allowed') return null;
+    if (c !== '?') return p.bySign[c].level;
+    return p.bySign['+'].level !== null && p.bySign['+'].level === p.bySign['-'].level ? p.bySign['+'].level : null;
+  };
+  const anyLevels = gates.map((_, i) => [listed(i, '+'), listed(i, '-')].filter((l): l is number => l !== null));
   const preference = {} as Record<PhasePolarity, number[]>;
   for (const c of POLARITY_CHARS) {
-    const lv = gates.map((g) => patternLevel(table.solve, g, c));
+    const lv = gates.map((_, i) => listed(i, c));
     levels[c] = lv;
     const moveSet = new Set((moves?.[c] ?? []).map(([a, b]) => `${a}>${b}`));
     const list: (readonly [number, number])[] = [];

@@ -1,3 +1,6 @@
+import { faultTexts, type AnalyseLegOptions } from './analyseLeg.js';
+import { planLimits } from './planLimits.js';
+import { planRemedies, type Remedy } from './remedies.js';
 import type { LevelTriplet } from './clarke.js';
 import { legLevels } from './expandElements.js';
 import { CAUTIONS } from './cautions.js';
@@ -6,7 +9,6 @@ import type { DwellMatrix } from './dwell.js';
 import { HexsalvageInputError } from './errors.js';
 import { formatFault, PHASES, type Phase } from './faults.js';
 import type { LevelSets } from './legTable.js';
-import { balancedLimit, midpointProfile } from './midpointBalance.js';
 import { modulationLimit } from './modulationLimit.js';
 import { parsePolarity, POLARITY_STRINGS, type PolarityString } from './polarity.js';
 import type { ClassifiedVector, PolarityDiagram } from './polarityDiagram.js';
@@ -31,6 +33,8 @@ export interface PlanOptions extends LimitRuleOptions {
   readonly faults?: readonly string[];
   /** Load angle φ in degrees, −180…180, positive inductive. Default 0. */
   readonly loadAngleDeg?: number;
+  /** List the remedies (`remedies`; each is a further analysis). Default true. */
+  readonly remedies?: boolean;
   /** Polarity margin δ in degrees, 0 ≤ δ < 60. Default 0. */
   readonly polarityMarginDeg?: number;
   /** Total DC-link voltage in volts: adds `volts` to the plan. Default none (per unit only). */
@@ -114,6 +118,17 @@ export interface RemedialPlan {
   readonly volts?: PlanVolts;
   /** When `mMax` is 0: why the drive cannot run; `null` otherwise. */
   readonly stop: PlanStop | null;
+  /** The phase tied to the DC midpoint by a fitted bypass, or `null`. */
+  readonly bypass: Phase | null;
+  /**
+   * The configurations the plan holds in (one alternative per failure, as fault strings); one for
+   * faults without alternatives (contract, Version 3: ambiguous diagnoses).
+   */
+  readonly alternatives?: readonly (readonly string[])[];
+  /** The limit each configuration alone would give, in the order of `alternatives`. */
+  readonly mMaxByAlternative?: readonly number[];
+  /** What could be done about the fault, best first (`planRemedial`; contract, Version 3). */
+  readonly remedies?: readonly Remedy[];
   readonly cautions: readonly string[];
 }
 
@@ -150,10 +165,44 @@ export function planRemedial(options: PlanOptions): RemedialPlan {
   requireObject(options, 'planRemedial', 'an options object { topology, faults?, loadAngleDeg?, polarityMarginDeg?, ignoreRatings?, levelSteps? }');
   const loadAngleDeg = checkAngle(options.loadAngleDeg ?? 0, 'loadAngleDeg', -180, 180, true);
   const polarityMarginDeg = checkAngle(options.polarityMarginDeg ?? 0, 'polarityMarginDeg', 0, 60, false);
-  const { topology, faults, ignoreRatings, levelSteps } = options;
+  const { topology, faults, ignoreRatings, levelSteps, bypass } = options;
   const vdc = options.vdc === undefined ? undefined : requireVdc(options.vdc, 'options', 'vdc');
-  const plan = planFromAtlas(diagramAtlas({ topology, faults: faults ?? [], ignoreRatings, levelSteps }), loadAngleDeg, polarityMarginDeg);
+  const legOptions = { topology, faults: faults ?? [], ignoreRatings, levelSteps, ...(bypass === undefined ? {} : { bypass }) };
+  const atlas = diagramAtlas(legOptions);
+  const plan = withRemedies(planFromAtlas(atlas, loadAngleDeg, polarityMarginDeg), atlas, legOptions, options.remedies !== false);
   return vdc === undefined ? plan : withVolts(plan, vdc);
+}
+
+/**
+ * A plan with its alternatives (the limit of each configuration of an ambiguous diagnosis alone)
+ * and, optionally, its remedies.
+ *
+ * @param plan - from {@link planFromAtlas}
+ * @param atlas - the atlas it was made from
+ * @param options - the options the atlas was made with
+ * @param remedies - also list the remedies (default true)
+ * @returns the plan with `alternatives`, `mMaxByAlternative` and `remedies`
+ * @example
+ * ```ts
+ * withRemedies(planFromAtlas(atlas, 0, 0), atlas, { topology: 'npc', faults: ['a.outerUpper'] }).remedies;
+ * ```
+ */
+export function withRemedies(plan: RemedialPlan, atlas: DiagramAtlas, options: AnalyseLegOptions, remedies = true): RemedialPlan {
+  const configs = atlas.analysis.configurations;
+  const alternatives = configs.map((c) => c.map(formatFault));
+  const { bypass, ...rest } = options;
+  const mMaxByAlternative = configs.length === 1
+    ? [plan.mMax]
+    : alternatives.map((faults) => planLimits(diagramAtlas({ ...rest, faults, ...(bypass === undefined ? {} : { bypass }) }), plan.loadAngleDeg, plan.polarityMarginDeg).mMax);
+  const { cautions, volts, ...head } = plan;
+  return {
+    ...head,
+    alternatives,
+    mMaxByAlternative,
+    ...(remedies ? { remedies: planRemedies(atlas, options, plan.loadAngleDeg, plan.polarityMarginDeg) } : {}),
+    ...(volts ? { volts } : {}),
+    cautions,
+  };
 }
 
 /**
@@ -188,17 +237,14 @@ export function planFromAtlas(atlas: DiagramAtlas, loadAngleDeg: number, polarit
   requireAtlas(atlas, 'planFromAtlas');
   checkAngle(loadAngleDeg, 'loadAngleDeg', -180, 180, true);
   checkAngle(polarityMarginDeg, 'polarityMarginDeg', 0, 60, false);
-  const lim = modulationLimit(atlas.faulted, loadAngleDeg, polarityMarginDeg);
+  const { limit: lim, mMaxBalanced: balanced } = planLimits(atlas, loadAngleDeg, polarityMarginDeg);
   const healthy = modulationLimit(atlas.healthy, loadAngleDeg, polarityMarginDeg);
   const hull = modulationLimit(atlas.faulted, loadAngleDeg, polarityMarginDeg, 'hull');
   const leg = atlas.analysis.leg;
-  const dc = new Set(Object.values(leg.dcNodes));
-  const hasMidpoint = dc.has(0) && dc.size >= 3;
-  // a healthy leg draws no average midpoint current from a symmetric set (contract): no search
-  const balanced = atlas.analysis.faults.length === 0 || !hasMidpoint || lim.mMax <= 0 ? lim.mMax : balancedLimit(midpointProfile(atlas.faulted, lim.mMax, loadAngleDeg, polarityMarginDeg));
   const notes = [...new Set(lim.sectors.map((s) => s.polarity))]
     .filter((p) => !(atlas.faulted.get(p) as PolarityDiagram).exactTiling)
     .map((p) => `polarity ${p}: no non-overlapping set of admissible triangles reaches as far as their union in every direction; mMax uses the tiling (${(atlas.faulted.get(p) as PolarityDiagram).reach.toFixed(4)} is the union's reach)`);
+  notes.push(...bypassNotes(atlas));
   const polarities: Record<PolarityString, PlanPolarity> = {};
   for (const p of POLARITY_STRINGS) polarities[p] = polarityDocument(atlas.faulted.get(p) as PolarityDiagram);
   const limitDiagram = atlas.faulted.get(lim.limitingPolarity) as PolarityDiagram;
@@ -207,7 +253,7 @@ export function planFromAtlas(atlas: DiagramAtlas, loadAngleDeg: number, polarit
   return {
     schemaVersion: PLAN_SCHEMA_VERSION,
     topology: atlas.analysis.topology,
-    faults: atlas.analysis.faults.map(formatFault),
+    faults: faultTexts(atlas.analysis),
     loadAngleDeg,
     polarityMarginDeg,
     mMax: lim.mMax,
@@ -231,6 +277,7 @@ export function planFromAtlas(atlas: DiagramAtlas, loadAngleDeg: number, polarit
     }),
     polarities,
     stop: lim.mMax > 0 ? null : planStop(atlas, limitDiagram, lim.limitingPolarity),
+    bypass: atlas.analysis.bypass?.phase ?? null,
     cautions: CAUTIONS,
   };
 }
@@ -314,4 +361,15 @@ export function checkAngle(v: unknown, key: string, lo: number, hi: number, hiIn
   const ok = typeof v === 'number' && Number.isFinite(v) && v >= lo && (hiInclusive ? v <= hi : v < hi);
   if (!ok) throw new HexsalvageInputError('option', 'options', key, `a number of degrees in [${lo}, ${hi}${hiInclusive ? ']' : ')'}`, v);
   return v as number;
+}
+
+// What a bypass means for the plan: the tie, and the midpoint carrying the phase's current.
+function bypassNotes(atlas: DiagramAtlas): string[] {
+  const b = atlas.analysis.bypass;
+  if (!b) return [];
+  const out = [`phase ${b.phase} bypassed: its output tied to the DC node ${b.node} (potential 0) by a fitted device, every gate of phase ${b.phase} off; it stays at 0 and never changes level`];
+  if (!atlas.analysis.faults.some((f) => f.phase === b.phase)) out.push(`phase ${b.phase} has no fault: the bypass takes a healthy phase out of use`);
+  out.push(`the DC midpoint carries phase ${b.phase}'s whole current: its voltage swings at the fundamental frequency by about 2·Î/(ω·2C) peak to peak (Î the phase current peak, ω = 2π·f1, C each half of the link; see simulate --capacitance)`);
+  if (b.unavailable) out.push(`the bypassed state is not usable: ${b.unavailable}`);
+  return out;
 }

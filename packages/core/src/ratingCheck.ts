@@ -301,3 +301,19 @@ function shortest(n: number, arcs: readonly Arc[], src: number, eps: number): Fl
 function roundVoltage(v: number): number {
   return Number(v.toPrecision(6));
 }
+
+/**
+ * A rating check's reason in words with units: `outerUpper blocks 2 > rating 1` becomes
+ * `outerUpper would block 2 × Vdc/2 (rating 1 × Vdc/2)`; other reasons are returned as they are.
+ *
+ * @param reason - a reason from {@link ratingCheck}
+ * @returns the reason for a reader
+ * @example
+ * ```ts
+ * reasonInWords('outerUpper blocks 2 > rating 1'); // 'outerUpper would block 2 × Vdc/2 (rating 1 × Vdc/2)'
+ * ```
+ */
+export function reasonInWords(reason: string): string {
+  const m = /^(\S+) blocks (\S+) > rating (\S+)$/.exec(reason);
+  return m ? `${m[1]} would block ${m[2]} × Vdc/2 (rating ${m[3]} × Vdc/2)` : reason;
+}

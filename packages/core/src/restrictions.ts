@@ -3,8 +3,9 @@ import { legLevels } from './expandElements.js';
 import { commutates, patternLevel } from './commutation.js';
 import type { CurrentSign } from './conduction.js';
 import { PHASES } from './faults.js';
-import { gateSetSolver, usableLevel, type GateSetSolver } from './gateSetSolver.js';
+import { usableLevel, type GateSetSolver } from './gateSetSolver.js';
 import type { PhasePolarity } from './legTable.js';
+import { reasonInWords } from './ratingCheck.js';
 
 /**
  * A level as a reviewer reads it: `P`, `O`, `N` on a leg whose DC potentials are exactly +1, 0, −1
@@ -46,6 +47,10 @@ export function explainRestrictions(analysis: LegAnalysis): string[] {
   const faulted = new Set(analysis.faults.map((f) => f.phase));
   const gatesOf = Object.values(analysis.leg.patterns);
   for (const ph of PHASES) {
+    if (analysis.bypass?.phase === ph) {
+      out.push(`phase ${ph}: bypassed, its gates stay off and its output stays at 0`);
+      continue;
+    }
     if (!faulted.has(ph)) continue;
     const table = analysis.phases[ph];
     for (const p of table.patterns) {
@@ -67,7 +72,7 @@ export function explainRestrictions(analysis: LegAnalysis): string[] {
         if (moves.some(([x, y]) => x === a && y === b)) continue;
         // under `adjacent` a change over more than one step is excluded by the rule itself
         if (analysis.rules.levelSteps === 'adjacent' && Math.abs(dc.indexOf(a) - dc.indexOf(b)) > 1) continue;
-        named ??= gateSetSolver(analysis.leg, new Map(analysis.faults.filter((f) => f.phase === ph).map((f) => [f.element, f.mode])), analysis.rules.ratings, true);
+        named ??= table.explain;
         const obstacle = firstObstacle(named, gatesOf, s, a, b) ?? firstObstacle(named, gatesOf, s, b, a);
         const change = `${levelName(b, dc)}↔${levelName(a, dc)}`;
         out.push(`phase ${ph}: no safe ${change} change ${SIGN_WORDS[s]}${obstacle ? `: ${obstacle}` : ''}`);
@@ -99,18 +104,3 @@ function firstObstacle(solve: GateSetSolver, patterns: readonly (readonly string
   return null;
 }
 
-/**
- * A rating check's reason in words with units: `outerUpper blocks 2 > rating 1` becomes
- * `outerUpper would block 2 × Vdc/2 (rating 1 × Vdc/2)`; other reasons are returned as they are.
- *
- * @param reason - a reason from {@link ratingCheck}
- * @returns the reason for a reader
- * @example
- * ```ts
- * reasonInWords('outerUpper blocks 2 > rating 1'); // 'outerUpper would block 2 × Vdc/2 (rating 1 × Vdc/2)'
- * ```
- */
-export function reasonInWords(reason: string): string {
-  const m = /^(\S+) blocks (\S+) > rating (\S+)$/.exec(reason);
-  return m ? `${m[1]} would block ${m[2]} × Vdc/2 (rating ${m[3]} × Vdc/2)` : reason;
-}

@@ -23,6 +23,11 @@ export interface LimitRuleOptions {
   readonly ignoreRatings?: boolean;
   /** Default `commutable`. */
   readonly levelSteps?: LevelStepRule;
+  /**
+   * A phase tied to the DC node at 0 by a fitted bypass, every gate of it off (not a rule but a
+   * configuration of the leg; carried with the rules so that every entry point passes it on).
+   */
+  readonly bypass?: 'a' | 'b' | 'c';
 }
 
 /** The default rules: ratings applied, commutable level steps. */

@@ -157,7 +157,9 @@ export const MAX_SIMULATED_PERIODS = 2000;
 export function simulatePeriod(options: SimulateOptions): Simulation {
   const { run, plan, atlas } = prepare(options);
   const faulted = runPeriod(run, atlas);
-  const healthy = runPeriod({ ...run, faults: [] }, diagramAtlas({ topology: run.topology, faults: [], ...run.rules }));
+  // the healthy leg as it was: no fault and no bypass
+  const { bypass: _fitted, ...healthyRules } = run.rules;
+  const healthy = runPeriod({ ...run, faults: [] }, diagramAtlas({ topology: run.topology, faults: [], ...healthyRules }));
   return {
     topology: atlas.analysis.topology,
     faults: plan.faults,
@@ -219,7 +221,7 @@ function prepare(options: SimulateOptions): { run: RunInputs; plan: ReturnType<t
   const update = options.update ?? 'half';
   if (!(UPDATE_MODES as readonly unknown[]).includes(update)) throw new HexsalvageInputError('option', 'simulatePeriod', 'update', 'period or half', update);
   const params = options.devices ?? DEMO_DEVICES;
-  const rules = { ignoreRatings: options.ignoreRatings, levelSteps: options.levelSteps };
+  const rules = { ignoreRatings: options.ignoreRatings, levelSteps: options.levelSteps, ...(options.bypass === undefined ? {} : { bypass: options.bypass }) };
   const faults = options.faults ?? [];
   const atlas = diagramAtlas({ topology: options.topology, faults, ...rules });
   const plan = planFromAtlas(atlas, phi, delta);
@@ -285,7 +287,9 @@ function runPeriod(x: RunInputs, atlas: DiagramAtlas): RunOutput {
   const kindOf = new Map(leg.devices.map((d) => [d.id, d.kind] as const));
   const lineDevices = new Set(leg.devices.filter((d) => d.switching === 'line').map((d) => d.id));
   const hasMidpoint = Object.values(leg.dcNodes).includes(0);
-  const phaseFaults = PHASES.map((ph) => new Map(analysis.faults.filter((f) => f.phase === ph).map((f) => [f.element, f.mode] as const)) as PhaseFaults);
+  // the elements as they are in the configuration simulated (the first alternative of each failure,
+  // the bypass tie closed in its phase)
+  const phaseFaults = PHASES.map((ph) => analysis.simulated[ph]);
   const T = 1 / x.f1;
   const w = TWO_PI * x.f1;
   const half = x.vdc / 2;

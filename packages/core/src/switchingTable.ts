@@ -3,8 +3,8 @@ import { requireAtlas } from './validate.js';
 import { CAUTIONS } from './cautions.js';
 import { gatedDeviceIds, legLevels } from './expandElements.js';
 import { diagramAtlas, type DiagramAtlas } from './diagramAtlas.js';
-import { formatFault, type Phase } from './faults.js';
-import type { AnalyseLegOptions } from './analyseLeg.js';
+import type { Phase } from './faults.js';
+import { faultTexts, type AnalyseLegOptions } from './analyseLeg.js';
 import { POLARITY_STRINGS, type PolarityString } from './polarity.js';
 import { polarityDocument, type PlanPolarity } from './planRemedial.js';
 import type { PolarityDiagram } from './polarityDiagram.js';
@@ -114,7 +114,7 @@ export function switchingTableFromAtlas(atlas: DiagramAtlas): SwitchingTable {
     schemaVersion: TABLE_SCHEMA_VERSION,
     kind: 'hexsalvage-switching-table',
     topology: atlas.analysis.topology,
-    faults: atlas.analysis.faults.map(formatFault),
+    faults: faultTexts(atlas.analysis),
     levels: legLevels(leg),
     patterns: Object.keys(leg.patterns),
     devices: gatedDeviceIds(leg),

@@ -58,6 +58,7 @@ export function atlasText(a: FaultAtlas): string {
     ...(volts ? [fmt(e.volts?.lineRmsMin ?? 0, 0)] : []),
     fmt(e.worstLoadAngleDeg, 1),
     fmt(e.mMaxHullMin, 4),
+    e.bestRemedy ? `${e.bestRemedy.id} → ${fmt(e.bestRemedy.mMaxMin, 4)}` : '-',
     e.reason,
   ]);
   const count = (v: string) => a.entries.filter((e) => e.verdict === v).length;
@@ -67,10 +68,11 @@ export function atlasText(a: FaultAtlas): string {
     `Load angle ${fmt(lo, 1)}° to ${fmt(hi, 1)}°, polarity margin ${fmt(a.polarityMarginDeg, 1)}°. Rules: ${describeRules(a.rules)}.`,
     `Healthy leg over the range: mMax ${fmt(a.healthy.mMaxMin, 4)}${a.volts ? ` (${fmt(a.volts.lineRmsMaxHealthy, 0)} V line RMS at Vdc ${fmt(a.volts.vdc, 0)} V)` : ''}.`,
     '',
-    textTable(['faults', 'verdict', 'mMax min', 'ratio', ...(volts ? ['line V rms'] : []), 'worst at deg', 'hull min', 'why'], rows),
+    textTable(['faults', 'verdict', 'mMax min', 'ratio', ...(volts ? ['line V rms'] : []), 'worst at deg', 'hull min', 'best remedy', 'why'], rows),
     '',
     `${a.entries.length} fault sets: ${count('full')} keep full voltage, ${count('derated')} need derating, ${count('cannot-run')} cannot run (the drive must stop). ${a.classesComputed} computed, the rest follow by phase rotation.`,
     'mMax min: the safe limit (ratings and commutation respected), its minimum over the whole load-angle range, exact; hull min: the first version\'s convex-hull bound, for comparison only.',
+    'best remedy: what raises mMax min most (clear-shorts: each short cleared to an open by a fuse; bypass-<phase>: that phase tied to the DC midpoint, its gates off), with the mMax min it leaves; "-" where none does better (see plan for every remedy).',
     ...(a.unrated.length ? [`Unrated devices (voltage not checked): ${a.unrated.join(', ')}.`] : []),
     cautionBlock(a.cautions),
   ].join('\n');
@@ -89,7 +91,7 @@ export function atlasText(a: FaultAtlas): string {
 export function atlasCsv(a: FaultAtlas): string {
   const grid = a.healthy.mMaxAt.map(([phi]) => phi);
   const volts = a.volts !== undefined;
-  const head = ['faults', 'verdict', 'm_max_min', 'derating_ratio', 'worst_load_angle_deg', 'm_max_hull_min', ...(volts ? ['phase_peak_min_v', 'line_rms_min_v'] : []), 'reason', ...grid.map((g) => `m_max_at_${g}`)];
+  const head = ['faults', 'verdict', 'm_max_min', 'derating_ratio', 'worst_load_angle_deg', 'm_max_hull_min', ...(volts ? ['phase_peak_min_v', 'line_rms_min_v'] : []), 'best_remedy', 'best_remedy_m_max_min', 'reason', ...grid.map((g) => `m_max_at_${g}`)];
   const rows = a.entries.map((e) => [
     csvCell(csvText(e.faults.join(' + '))),
     e.verdict,
@@ -98,6 +100,8 @@ export function atlasCsv(a: FaultAtlas): string {
     String(e.worstLoadAngleDeg),
     e.mMaxHullMin.toFixed(9),
     ...(volts ? [(e.volts?.phasePeakMin ?? 0).toFixed(3), (e.volts?.lineRmsMin ?? 0).toFixed(3)] : []),
+    e.bestRemedy?.id ?? '',
+    e.bestRemedy ? e.bestRemedy.mMaxMin.toFixed(9) : '',
     csvCell(csvText(e.reason)),
     ...e.mMaxAt.map(([, m]) => m.toFixed(9)),
   ].join(','));

@@ -1,4 +1,4 @@
-import { analyseLeg, CAUTIONS, describeRules, exploreLeg, formatFault, legDocument, levelNotation, PHASES, type LegDocument, type LegTable, type PatternResult, type PhasePolarity } from '@hexsalvage/core';
+import { faultTexts, analyseLeg, CAUTIONS, describeRules, exploreLeg, legDocument, levelNotation, PHASES, type LegDocument, type LegTable, type PatternResult, type PhasePolarity } from '@hexsalvage/core';
 import { HELP_OPTION, JSON_OPTION, LEG_OPTIONS, type Command } from '../command.js';
 import { cautionBlock, levelText, textTable } from '../format.js';
 import { legInputs } from '../legInputs.js';
@@ -22,7 +22,7 @@ export const legCommand: Command = {
     }
     const doc = legDocument(analysis);
     const lines: string[] = [
-      `Leg: ${analysis.topology}   faults: ${analysis.faults.length === 0 ? 'none' : analysis.faults.map(formatFault).join(', ')}`,
+      `Leg: ${analysis.topology}   faults: ${faultTexts(analysis).join(', ') || 'none'}`,
       `Rules: ${describeRules(analysis.rules)}${analysis.unrated.length ? `; unrated (not checked): ${analysis.unrated.join(', ')}` : ''}`,
     ];
     const dc = Object.values(analysis.leg.dcNodes);

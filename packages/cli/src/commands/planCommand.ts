@@ -58,6 +58,8 @@ export function planText(plan: RemedialPlan): string {
     ...hullNote,
     ...(plan.restrictions.length ? ['', 'What the rules take away:', ...plan.restrictions.map((r) => `  - ${r}`)] : []),
     ...(plan.notes.length ? ['', 'Notes:', ...plan.notes.map((n) => `  - ${n}`)] : []),
+    ...alternativesText(plan),
+    ...remediesText(plan),
     '',
     'Polarity sectors of the fundamental cycle:',
     textTable(['from deg', 'to deg', 'polarity', 'vectors', 'lost', 'triangles', 'min extent', 'at deg'], rows),
@@ -66,4 +68,22 @@ export function planText(plan: RemedialPlan): string {
     `Vectors: ${levelNotation(plan.dcLevels).legend}.`,
     cautionBlock(plan.cautions),
   ].join('\n');
+}
+
+// An ambiguous diagnosis: the limit of each configuration alone beside the joint one.
+function alternativesText(plan: RemedialPlan): string[] {
+  const alts = plan.alternatives ?? [];
+  if (alts.length < 2) return [];
+  const rows = alts.map((a, i) => [a.join(', '), fmt(plan.mMaxByAlternative?.[i] ?? 0, 6)]);
+  return ['', `Ambiguous diagnosis: the plan holds whichever of ${alts.length} configurations is true (its mMax ${fmt(plan.mMax, 6)} is at most each one's):`, textTable(['configuration', 'mMax alone'], rows)];
+}
+
+// What could be done about the fault, best first; a plan that cannot run says which remedy would.
+function remediesText(plan: RemedialPlan): string[] {
+  const list = plan.remedies ?? [];
+  if (list.length === 0) return [];
+  const rows = list.map((r) => [r.id, fmt(r.mMax, 6), fmt(r.mMaxBalanced, 6), r.requires]);
+  const runs = list.filter((r) => r.id !== 'as-is' && r.mMax > 0);
+  const verdict = plan.mMax > 0 ? [] : [runs.length ? `A remedy that would run: ${runs[0]?.id} (mMax ${fmt(runs[0]?.mMax ?? 0, 6)}): ${runs[0]?.requires}.` : `No remedy considered here lets the drive run: it must stop until repaired.${plan.dcLevels.includes(0) ? '' : ' (A bypass to the DC midpoint needs a split DC link with a node at potential 0; this leg has none.)'}`];
+  return ['', 'Remedies (best first):', textTable(['remedy', 'mMax', 'mMax balanced', 'requires'], rows), ...verdict];
 }

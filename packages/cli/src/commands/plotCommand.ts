@@ -1,4 +1,4 @@
-import { parsePolarity, diagramAtlas, formatFault, simulatePeriod, simulationWaveform, deratingCurve, gatedDeviceIds, planFromAtlas, samplePeriod, switchingTableFromAtlas, type DiagramAtlas, type RemedialPlan, type SequenceMode } from '@hexsalvage/core';
+import { faultTexts, parsePolarity, diagramAtlas, simulatePeriod, simulationWaveform, deratingCurve, gatedDeviceIds, planFromAtlas, samplePeriod, switchingTableFromAtlas, type DiagramAtlas, type RemedialPlan, type SequenceMode } from '@hexsalvage/core';
 import { atlasHeatmapSvg, atlasPairMatrixSvg, deratingCurveSvg, legSchematicSvg, lossBarsSvg, spectrumSvg, waveformsSvg, sectorOverviewSvg, switchingPeriodSvg, vectorDiagramSvg } from '@hexsalvage/plot';
 import { degreeRange, usage } from '../args.js';
 import { SIM_OPTIONS, simulateInputs } from '../simulateInputs.js';
@@ -68,13 +68,13 @@ export const plotCommand: Command = {
     } else if (kind === 'sectors') {
       svg = sectorOverviewSvg(plan);
     } else if (kind === 'derating') {
-      const label = atlas.analysis.faults.map(formatFault).join(', ') || 'healthy';
+      const label = faultTexts(atlas.analysis).join(', ') || 'healthy';
       const series = [{ label, points: deratingCurve(atlas, { stepDeg: 1, polarityMarginDeg }) }];
       for (const c of args.lists.get('compare') ?? []) {
         const f = c.split(',').map((x) => x.trim()).filter(Boolean);
         const a = diagramAtlas({ topology, faults: f, ...rules });
         // the label as the CLI writes faults (with the mode), so that open and short read apart
-        series.push({ label: a.analysis.faults.map(formatFault).join(', ') || 'healthy', points: deratingCurve(a, { stepDeg: 1, polarityMarginDeg }) });
+        series.push({ label: faultTexts(a.analysis).join(', ') || 'healthy', points: deratingCurve(a, { stepDeg: 1, polarityMarginDeg }) });
       }
       const band = args.values.get('load-angle-range') as string | undefined;
       const b = band === undefined ? undefined : degreeRange(band, '--load-angle-range');

@@ -1,6 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { dirname, relative, resolve } from 'node:path';
-import { diagramAtlas, modulationOfLineRms, planFromAtlas, simulatePeriod, simulationWaveform, switchingTableFromAtlas, type ClaimVerdict, type LegNetlist, type LevelStepRule, type SequenceMode } from '@hexsalvage/core';
+import { diagramAtlas, modulationOfLineRms, planFromAtlas, planRemedies, simulatePeriod, switchover, simulationWaveform, switchingTableFromAtlas, type ClaimVerdict, type LegNetlist, type LevelStepRule, type SequenceMode } from '@hexsalvage/core';
 import { usage, type ParsedArgs } from '../args.js';
 import { buildDate, commandLine } from '../commandLine.js';
 import { fileSha256, readScenario, type Scenario } from '../readScenario.js';
@@ -61,10 +61,16 @@ export const reportCommand: Command = {
     const plan = planFromAtlas(atlas, inputs.loadAngleDeg, inputs.polarityMarginDeg);
     const runtime = runtimeInputs(args);
     const simulation = scenario ? scenarioSimulation(scenario, { ...inputs, runtime }, plan.mMax) : undefined;
+    const legOptions = { topology: inputs.topology, faults: inputs.faults, ...inputs.rules };
+    const remedies = planRemedies(atlas, legOptions, inputs.loadAngleDeg, inputs.polarityMarginDeg);
+    const bypassed = (inputs.rules as { bypass?: string }).bypass !== undefined;
+    const switchoverDoc = inputs.faults.length === 0 || bypassed ? undefined : switchover({ ...legOptions, ...scenarioPoint(scenario, inputs.loadAngleDeg, inputs.polarityMarginDeg) });
     const html = buildReport({
       atlas,
       plan,
       ...(simulation ? { simulation } : {}),
+      remedies,
+      ...(switchoverDoc ? { switchover: switchoverDoc } : {}),
       table: switchingTableFromAtlas(atlas),
       runtime,
       topologyText: inputs.topologyText,
@@ -82,6 +88,13 @@ export const reportCommand: Command = {
     return 0;
   },
 };
+
+// The operating point of the healthy runtime before the diagnosis acts: the scenario's rated
+// voltage (at most the healthy limit, 2/√3) at its frequencies; none without the drive's data.
+function scenarioPoint(sc: Scenario | undefined, loadAngleDeg: number, polarityMarginDeg: number): { m?: number; loadAngleDeg?: number; polarityMarginDeg?: number; f1?: number; fsw?: number } {
+  if (!sc || sc.ratedLineVoltageV === undefined || sc.fundamentalHz === undefined || sc.switchingHz === undefined || sc.switchingHz < 6 * sc.fundamentalHz) return {};
+  return { m: Math.min(2 / Math.sqrt(3), modulationOfLineRms(sc.ratedLineVoltageV, sc.vdc)), loadAngleDeg, polarityMarginDeg, f1: sc.fundamentalHz, fsw: sc.switchingHz };
+}
 
 // One simulated period at the scenario's operating point, when it gives the drive's data: m is the
 // rated voltage's, or the safe limit where that is lower; the current is the rated one,

@@ -1,4 +1,4 @@
-import { CAUTIONS, describeRules, diagramAtlas, deratingCurve, formatFault, lineRmsVolts, phasePeakVolts } from '@hexsalvage/core';
+import { faultTexts, CAUTIONS, describeRules, diagramAtlas, deratingCurve, lineRmsVolts, phasePeakVolts } from '@hexsalvage/core';
 import { usage } from '../args.js';
 import { HELP_OPTION, JSON_OPTION, LEG_OPTIONS, VDC_OPTION, type Command } from '../command.js';
 import { cautionBlock, fmt, textTable } from '../format.js';
@@ -35,7 +35,7 @@ export const sweepCommand: Command = {
     const curve = deratingCurve(atlas, { fromDeg, toDeg, stepDeg, polarityMarginDeg });
     const points = vdc === undefined ? curve : curve.map((p) => ({ ...p, volts: { phasePeakMax: phasePeakVolts(p.mMax, vdc), lineRmsMax: lineRmsVolts(p.mMax, vdc) } }));
     if (args.flags.has('json')) {
-      await io.stdout(`${JSON.stringify({ topology: atlas.analysis.topology, faults: atlas.analysis.faults.map(formatFault), polarityMarginDeg, rules: atlas.analysis.rules, ...(vdc === undefined ? {} : { vdc }), points })}\n`);
+      await io.stdout(`${JSON.stringify({ topology: atlas.analysis.topology, faults: faultTexts(atlas.analysis), polarityMarginDeg, rules: atlas.analysis.rules, ...(vdc === undefined ? {} : { vdc }), points })}\n`);
       return 0;
     }
     if (args.flags.has('csv')) {

@@ -1,4 +1,4 @@
-import { CAUTIONS, describeRules, diagramAtlas, formatFault, levelNotation, parsePolarity, polarityDocument, type PlanVector } from '@hexsalvage/core';
+import { faultTexts, CAUTIONS, describeRules, diagramAtlas, levelNotation, parsePolarity, polarityDocument, type PlanVector } from '@hexsalvage/core';
 import { usage } from '../args.js';
 import { HELP_OPTION, JSON_OPTION, LEG_OPTIONS, type Command } from '../command.js';
 import { cautionBlock, fmt, levelText, textTable, tripletText } from '../format.js';
@@ -26,7 +26,7 @@ export const vectorsCommand: Command = {
     const dc = Object.values(atlas.analysis.leg.dcNodes);
     const vec = (v: PlanVector) => [fmt(v.alpha), fmt(v.beta), fmt(Math.hypot(v.alpha, v.beta)), v.class, v.levels.map((t) => tripletText(t, dc)).join(' ')];
     const lines = [
-      `Leg: ${atlas.analysis.topology}   faults: ${atlas.analysis.faults.map(formatFault).join(', ') || 'none'}   polarity: ${pol}`,
+      `Leg: ${atlas.analysis.topology}   faults: ${faultTexts(atlas.analysis).join(', ') || 'none'}   polarity: ${pol}`,
       `Rules: ${describeRules(atlas.analysis.rules)}`,
       `Phase levels used: ${(['a', 'b', 'c'] as const).map((ph, k) => `${ph} ${(d.phaseLevels[k] as readonly number[]).map((l) => levelText(l, dc)).join(', ') || '(none)'}`).join(' | ')}`,
       '',

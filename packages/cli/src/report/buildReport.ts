@@ -1,6 +1,6 @@
 import {
   CAUTIONS, deratingCurve, describeRules, limitOverLoadAngles, lineRmsVolts, modulationOfLineRms, unsafeRules, phasePeakVolts, gatedDeviceIds, PHASES, samplePeriod, type SequenceMode, type ClaimVerdict, type DiagramAtlas, type FaultAtlas, type PatternResult, type Simulation, type WaveformSegment,
-  type PhasePolarity, type RemedialPlan, type SwitchingTable,
+  type PhasePolarity, type RemedialPlan, type Remedy, type Switchover, type SwitchingTable,
 } from '@hexsalvage/core';
 import { atlasHeatmapSvg, atlasPairMatrixSvg, deratingCurveSvg, esc, lossBarsSvg, spectrumSvg, waveformsSvg, legSchematicSvg, sectorOverviewSvg, switchingPeriodSvg, vectorDiagramSvg } from '@hexsalvage/plot';
 import { claimRulesText, fmt, levelText, tripletText } from '../format.js';
@@ -34,6 +34,10 @@ export interface ReportInputs {
   readonly inputs?: readonly { readonly path: string; readonly sha256: string }[];
   /** One simulated period at the operating point (the scenario's drive data), with its waveform. */
   readonly simulation?: { readonly sim: Simulation; readonly segments: readonly WaveformSegment[] };
+  /** What could be done about the fault, best first (`planRemedies`). */
+  readonly remedies?: readonly Remedy[];
+  /** From the fault to the degraded table (`switchover`). */
+  readonly switchover?: Switchover;
 }
 
 /** Scenario data shown in the report header (a scenario file, docs/schema/scenario.schema.json). */
@@ -83,6 +87,7 @@ export function buildReport(r: ReportInputs): string {
   if (rated) s.push(`<p class="rated">${esc(rated)}</p>`);
   if (plan.restrictions.length) s.push(`<p>What the rules take away:</p><ul>${plan.restrictions.map((x) => `<li>${esc(x)}</li>`).join('')}</ul>`);
   if (plan.notes.length) s.push(`<ul>${plan.notes.map((x) => `<li class="flag">${esc(x)}</li>`).join('')}</ul>`);
+  if (r.remedies?.length) s.push(remediesSection(r.remedies, plan, volts));
 
   s.push('<h2>3. What each phase leg can still do</h2>');
   for (const ph of PHASES) {
@@ -150,8 +155,9 @@ export function buildReport(r: ReportInputs): string {
     }
   }
 
+  if (r.switchover) s.push(switchoverSection(r.switchover));
   if (r.verdicts && r.verdicts.length) {
-    s.push('<h2>7. Derating claims</h2><table class="claims"><colgroup><col style="width:16%"><col style="width:13%"><col style="width:13%"><col style="width:9%"><col style="width:13%"><col style="width:9%"><col style="width:11%"><col style="width:7%"><col style="width:9%"></colgroup><thead><tr><th>claim</th><th>case</th><th>promised</th><th>load angles</th><th>rules</th><th>verdict</th><th>worst mMax</th><th>at</th><th>short by</th></tr></thead>');
+    s.push('<h2>8. Derating claims</h2><table class="claims"><colgroup><col style="width:16%"><col style="width:13%"><col style="width:13%"><col style="width:9%"><col style="width:13%"><col style="width:9%"><col style="width:11%"><col style="width:7%"><col style="width:9%"></colgroup><thead><tr><th>claim</th><th>case</th><th>promised</th><th>load angles</th><th>rules</th><th>verdict</th><th>worst mMax</th><th>at</th><th>short by</th></tr></thead>');
     for (const v of r.verdicts) {
       const other = v.topology !== plan.topology || [...v.faults].sort().join(',') !== [...plan.faults].sort().join(',');
       const rules = `${claimRulesText(v)}, margin ${fmt(v.polarityMarginDeg, 1)}°`;
@@ -183,7 +189,7 @@ ${s.join('\n')}
 
 // What running degraded costs at the operating point: spectrum, losses, derating, midpoint.
 function simulationSection(sim: Simulation, segments: readonly WaveformSegment[]): string {
-  const out: string[] = ['<h2>8. What degraded operation costs</h2>'];
+  const out: string[] = ['<h2>9. What degraded operation costs</h2>'];
   const mid = (x: Simulation['midpoint']) => (x.chargePkPkAs === null ? '—' : `${x.ripplePkPk === null ? `${fmt(x.chargePkPkAs, 3)} As` : `${fmt(x.ripplePkPk, 1)} V peak to peak`} (${fmt(x.averageCurrent ?? 0, 1)} A)`);
   const lv = sim.lineVoltage;
   const hv = sim.healthy.lineVoltage;
@@ -287,4 +293,42 @@ function ratedVoltageText(atlas: DiagramAtlas, plan: RemedialPlan, sc: ReportSce
     ? 'the rated voltage remains available over the whole load-angle range'
     : `the rated voltage is NOT available: at most ${fmt(100 * share, 0)} % of it over the load-angle range; under a constant V/f law (common practice) that is about ${fmt(100 * share, 0)} % of rated speed, so a pump or fan (load torque rising with the square of speed) would run at about that share of its flow and ${fmt(100 * share ** 3, 0)} % of its power — confirm with the load's own curve`;
   return `Rated line voltage ${fmt(rated, 0)} V RMS needs m = ${fmt(need, 4)} at Vdc = ${fmt(vdc, 0)} V. With the fault the leg gives at most m = ${fmt(plan.mMax, 4)} (${fmt(here, 1)} V) at the operating load angle ${fmt(plan.loadAngleDeg, 1)}°, and at least ${fmt(worstV, 1)} V over ${fmt(lo, 1)}° to ${fmt(hi, 1)}°: ${verdict}.`;
+}
+
+// What could be done about the fault: every remedy that applies, best first, in the drive's terms.
+function remediesSection(list: readonly Remedy[], plan: RemedialPlan, volts: (m: number) => string): string {
+  const rows = list.map((x) => `<tr><td><code>${esc(x.id)}</code></td><td>${esc(x.description)}</td><td><strong>${fmt(x.mMax, 4)}</strong>${esc(volts(x.mMax))}</td><td>${fmt(x.mMaxBalanced, 4)}</td><td>${esc(x.requires)}</td></tr>`).join('');
+  const runs = list.filter((x) => x.id !== 'as-is' && x.mMax > 0);
+  const verdict = plan.mMax > 0
+    ? ''
+    : runs.length
+      ? `<p class="flag">As it is the drive cannot run; with <code>${esc(runs[0]?.id ?? '')}</code> it could, up to m = ${fmt(runs[0]?.mMax ?? 0, 4)}. That needs ${esc(runs[0]?.requires ?? '')}.</p>`
+      : `<p class="verdict-fails">No remedy considered here lets the drive run: it must stop until repaired.${plan.dcLevels.includes(0) ? '' : ' A bypass to the DC midpoint needs a split DC link (a node at potential 0); this leg has none.'}</p>`;
+  return `<h3>Remedies</h3><p>What could be done about the fault, best first, at the same load angle and under the same rules (each a change to the hardware that a qualified person must design, fit and test).</p>`
+    + `<table><tr><th>remedy</th><th>what is done</th><th>mMax</th><th>midpoint held to</th><th>requires</th></tr>${rows}</table>${verdict}`;
+}
+
+// From the fault to the degraded table: what the healthy table does meanwhile, and the way out.
+function switchoverSection(sw: Switchover): string {
+  const out: string[] = ['<h2>7. From the fault to the degraded table</h2>'];
+  const rows: string[] = [];
+  for (const [ph, pats] of Object.entries(sw.details)) {
+    for (const [name, cells] of Object.entries(pats)) {
+      if (cells['+'].class === 'same' && cells['-'].class === 'same') continue;
+      const cell = (c: (typeof cells)['+']) => `<td class="${c.class === 'unsafe' ? 'verdict-fails' : ''}">${c.class}${c.class === 'deviates' ? ` (${fmt(c.healthyLevel ?? 0, 2)} → ${fmt(c.level ?? 0, 2)})` : ''}</td>`;
+      rows.push(`<tr><td>${ph}</td><td>${esc(name)}</td>${cell(cells['+'])}${cell(cells['-'])}<td>${esc([cells['+'].reason, cells['-'].reason].filter(Boolean).join('; '))}</td></tr>`);
+    }
+  }
+  out.push('<p>Until the diagnosis acts, the healthy table keeps running with the fault present. Each healthy pattern per current sign: <em>same</em> (its level), <em>deviates</em> (another level: distortion) or <em>unsafe</em> (a shoot-through, a broken current or a device over its rating). Patterns that stay the same for both signs are not listed.</p>');
+  out.push(rows.length ? `<table><tr><th>phase</th><th>pattern</th><th>i &gt; 0</th><th>i &lt; 0</th><th>why</th></tr>${rows.join('')}</table>` : '<p>Every healthy pattern still gives its level: the fault changes nothing the healthy table commands.</p>');
+  if (sw.run) {
+    const r = sw.run;
+    out.push(`<p>At the operating point (m = ${fmt(r.m, 4)}, φ = ${fmt(r.loadAngleDeg, 1)}°, f1 = ${fmt(r.f1, 1)} Hz, fsw = ${fmt(r.fsw, 0)} Hz) the healthy runtime applies ${r.states} states per fundamental period: ${r.unsafeStates} unsafe (${fmt(100 * r.unsafeShare, 1)} % of the time), ${r.deviatingStates} deviating.</p>`);
+    out.push(`<p class="${r.urgency === 'hardware' ? 'verdict-fails' : 'verdict-holds'}">${esc(r.verdict.charAt(0).toUpperCase() + r.verdict.slice(1))}.</p>`);
+  }
+  const exits = sw.exits.filter((e) => e.steps === null || e.steps.length > 0);
+  out.push(exits.length
+    ? `<p>After detection, the way from each healthy state of a faulted phase into the degraded table (single gate actions, every state on the way usable for the current's sign):</p><table><tr><th>phase</th><th>from</th><th>sign</th><th>gate actions → pattern</th></tr>${exits.map((e) => `<tr><td>${e.phase}</td><td>${esc(e.pattern)}</td><td>i ${e.sign === '+' ? '&gt;' : '&lt;'} 0</td><td${e.steps === null ? ' class="verdict-fails"' : ''}>${esc(e.steps === null ? e.blockAll ?? 'none' : `${e.steps.join(', ')} → ${e.to}`)}</td></tr>`).join('')}</table>`
+    : '<p>Every healthy state the runtime uses is already a state of the degraded table: the tables can be switched at the next switching period.</p>');
+  return out.join('\n');
 }
