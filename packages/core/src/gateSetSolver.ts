@@ -80,7 +80,6 @@ export function gateSetSolver(leg: LegNetlist, faults: PhaseFaults, ratings: boo
   const ids = gatedDeviceIds(leg);
   const wide = ids.length > 52;
   const keyValue = wide ? null : new Map(ids.map((g, i) => [g, 2 ** i]));
-  const cache = new Map<number | string, GateSetOutcome>();
   // without paths, a sign's outcome is its level alone: one shared object per level
   const levelOnly = new Map<number, SignOutcome>();
   const bare = (level: number | null): SignOutcome => {
@@ -110,6 +109,23 @@ export function gateSetSolver(leg: LegNetlist, faults: PhaseFaults, ratings: boo
     };
     return { status: 'allowed', bySign: { '+': sign('+'), '-': sign('-') }, unsafe };
   };
+  return memoSolver(keyValue, solveNew);
+}
+
+/**
+ * A {@link GateSetSolver} around a plain "solve this gate set" function: results cached by the
+ * numeric gate-set key (by the sorted names where `keyValue` is `null`).
+ *
+ * @param keyValue - each gated device's key value, or `null` for string keys
+ * @param solveNew - solves a gate set not seen before
+ * @returns the memoised solver
+ * @example
+ * ```ts
+ * memoSolver(solve.keyValue, (gates) => solve(gates));
+ * ```
+ */
+export function memoSolver(keyValue: ReadonlyMap<string, number> | null, solveNew: (gates: readonly string[]) => GateSetOutcome): GateSetSolver {
+  const cache = new Map<number | string, GateSetOutcome>();
   const byKey = (key: number | string, gates: () => readonly string[]): GateSetOutcome => {
     let o = cache.get(key);
     if (o === undefined) {

@@ -3,7 +3,7 @@ import { parseNetlist } from './parseNetlist.js';
 import { phaseCommutations, type PhaseCommutations } from './commutation.js';
 import type { CurrentSign, ShootThrough, SignOutcome } from './conduction.js';
 import type { PhaseFaults } from './faults.js';
-import { gateSetSolver, type GateSetOutcome, type GateSetSolver } from './gateSetSolver.js';
+import { gateSetSolver, memoSolver, type GateSetOutcome, type GateSetSolver } from './gateSetSolver.js';
 import type { LegNetlist } from './netlist.js';
 
 /** Polarity of one phase as used in level sets: a measured sign, or `?` (unknown: robust). */
@@ -174,7 +174,6 @@ const NO_LEVEL: SignOutcome = Object.freeze({ level: null, dcNodes: Object.freez
 // usable in each configuration (the level may differ).
 function jointSolver(parts: readonly GateSetSolver[], sameLevel: boolean): GateSetSolver {
   const base = parts[0] as GateSetSolver;
-  const cache = new Map<number | string, GateSetOutcome>();
   const combine = (outs: readonly GateSetOutcome[]): GateSetOutcome => {
     const bad = outs.find((o) => o.status === 'forbidden');
     if (bad) return bad;
@@ -193,23 +192,7 @@ function jointSolver(parts: readonly GateSetSolver[], sameLevel: boolean): GateS
     };
     return { status: 'allowed', bySign: { '+': sign('+'), '-': sign('-') }, unsafe };
   };
-  const byKey = (key: number | string, gates: () => readonly string[]): GateSetOutcome => {
-    let o = cache.get(key);
-    if (o === undefined) {
-      const g = gates();
-      o = combine(parts.map((p) => p(g)));
-      cache.set(key, o);
-    }
-    return o;
-  };
-  const keyValue = base.keyValue;
-  const solve = (gates: readonly string[]): GateSetOutcome => {
-    if (keyValue === null) return byKey([...gates].sort().join('\u0000'), () => gates);
-    let key = 0;
-    for (const g of gates) key += keyValue.get(g) ?? 0;
-    return byKey(key, () => gates);
-  };
-  return Object.assign(solve, { keyValue, byKey: (key: number, gates: () => readonly string[]) => byKey(key, gates), solved: (key: number) => cache.has(key) });
+  return memoSolver(base.keyValue, (gates) => combine(parts.map((p) => p(gates))));
 }
 
 /**
