@@ -16,7 +16,7 @@ describe('switching energy where a gate change commutates current against a volt
   // upper and lower zero states near its voltage's zero crossing; what they commutate then is the
   // current at that moment (about the peak times sin φ), so their share grows with the load angle
   // (docs/simulate.md): below 1 % near unity power factor, a few per cent at 25°
-  it.each([[1, 0], [0.9, 5], [0.45, 10]])('charges the line-frequency Si IGBTs of a healthy hybrid ANPC at most 1 %% of the leg\'s switching loss (m %d, %d°)', (m, phi) => {
+  it.each([[1, 0], [0.9, 5], [0.45, 10]])('charges the line-frequency Si IGBTs of a healthy hybrid ANPC at most one per cent of the leg\'s switching loss (m $0, φ $1°)', (m, phi) => {
     const s = simulatePeriod({ ...base, topology: 'anpc-hybrid', m, loadAngleDeg: phi, fsw: 8000 });
     const line = new Set(builtinLeg('anpc-hybrid').devices.filter((d) => d.switching === 'line').map((d) => d.id));
     const all = total(s, () => true);

@@ -1,8 +1,8 @@
-import { readFileSync } from 'node:fs';
 import { HexsalvageInputError, plainText } from '@hexsalvage/core/errors';
 import { parseArgs } from './args.js';
 import type { Command } from './command.js';
 import { OutputError, type CommandIO } from './output.js';
+import { TOOL_VERSION } from './toolVersion.js';
 
 // Commands are loaded only when they run (or when the full help lists them): `--version` and a
 // usage error then start without loading the solver, the plots or the PNG renderer.
@@ -20,6 +20,7 @@ const LOADERS: Readonly<Record<string, () => Promise<Command>>> = {
   atlas: async () => (await import('./commands/atlasCommand.js')).atlasCommand,
   simulate: async () => (await import('./commands/simulateCommand.js')).simulateCommand,
   switchover: async () => (await import('./commands/switchoverCommand.js')).switchoverCommand,
+  explore: async () => (await import('./commands/exploreCommand.js')).exploreCommand,
 };
 
 /** Every command name, in the order `--help` lists them. */
@@ -39,7 +40,6 @@ export async function loadCommand(name: string): Promise<Command | undefined> {
   return Object.prototype.hasOwnProperty.call(LOADERS, name) ? (LOADERS[name] as () => Promise<Command>)() : undefined;
 }
 
-const VERSION = (JSON.parse(readFileSync(new URL('../package.json', import.meta.url), 'utf8')) as { version: string }).version;
 
 /**
  * Runs the CLI.
@@ -59,7 +59,7 @@ export async function main(argv: readonly string[], io: CommandIO): Promise<numb
     return name === undefined ? 2 : 0;
   }
   if (name === '--version' || name === '-v') {
-    await io.stdout(`hexsalvage ${VERSION}\n`);
+    await io.stdout(`hexsalvage ${TOOL_VERSION}\n`);
     return 0;
   }
   const cmd = await loadCommand(name);
@@ -95,7 +95,7 @@ export async function main(argv: readonly string[], io: CommandIO): Promise<numb
 async function generalHelp(): Promise<string> {
   const commands = await Promise.all(COMMAND_NAMES.map(async (n) => (await loadCommand(n)) as Command));
   return [
-    `hexsalvage ${VERSION}: what a three-phase converter leg can still do after a device (a switch or its diode) fails open or short`,
+    `hexsalvage ${TOOL_VERSION}: what a three-phase converter leg can still do after a device (a switch or its diode) fails open or short`,
     '',
     'Usage: hexsalvage <command> [options]   (hexsalvage <command> --help for its options)',
     '',

@@ -4,6 +4,7 @@ export type { DeviceKind, DeviceSpec, LegElement, LegNetlist, SwitchingClass } f
 export { expandElements, gatedDeviceIds, legLevels, unratedDevices } from './expandElements.js';
 export { BUILTIN_TOPOLOGIES, builtinLeg, isBuiltinTopology, type BuiltinTopology } from './builtinLegs.js';
 export { NETLIST_LIMITS, parseNetlist } from './parseNetlist.js';
+export { MAX_INPUT_BYTES, MAX_INPUT_DEPTH, parseJsonText } from './parseJsonText.js';
 export { resolveTopology } from './resolveTopology.js';
 export { FAULT_MODES, PHASES, faultsByPhase, formatFault, parseFault, type Fault, type FaultMode, type Phase, type PhaseFaults } from './faults.js';
 export { conductionEdges, findShootThrough, outputForSign, type ConductionEdge, type CurrentSign, type ShootThrough, type SignOutcome } from './conduction.js';

@@ -25,6 +25,15 @@ export interface LegSchematicOptions {
   /** Why, for `unsafe` and `shoot-through` (e.g. `outerUpper would block 2 × Vdc/2 (rating 1 × Vdc/2)`). */
   readonly reason?: string;
   readonly title?: string;
+  /**
+   * Make every element a control for phase `phase` (the explorer page): each switch and each
+   * diode is its own group with `data-device="PHASE.ID"` (an antiparallel diode `PHASE.ID.diode`),
+   * a hit area, `role="button"`, a keyboard stop and a tooltip naming its state. Default none: a
+   * static drawing.
+   */
+  readonly phase?: string;
+  /** Draw the caption and the two legend lines under the leg. Default true. */
+  readonly legend?: boolean;
 }
 
 /**
@@ -97,19 +106,26 @@ export function legSchematicSvg(leg: LegNetlist, options: LegSchematicOptions = 
     const stroke = options.state === 'shoot-through' || options.state === 'unsafe' ? STYLE.vermillion : STYLE.green;
     if (path.has(d.id) || viaDiode) body.push(`<path class="conduction" d="M${n(x1)},${n(y1)} L${n(px)},${n(py)} L${n(x2)},${n(y2)}" stroke="${stroke}" stroke-width="7" stroke-linecap="round" fill="none" opacity="${stroke === STYLE.green ? 0.55 : 0.8}"/>`);
     body.push(`<path class="wire" d="M${n(x1)},${n(y1)} L${n(mx)},${n(my)} L${n(x2)},${n(y2)}" stroke="${STYLE.ink}" stroke-width="1.3" fill="none"/>`);
-    const g: string[] = [`<g class="device ${d.kind}" data-id="${esc(d.id)}" transform="translate(${n(mx)} ${n(my)}) rotate(${n(angle, 1)})">`];
-    if (d.kind === 'diode') g.push(diodeSymbol(0, path.has(d.id), stroke));
-    else {
+    const place = `translate(${n(mx)} ${n(my)}) rotate(${n(angle, 1)})`;
+    const g: string[] = [`<g class="device ${d.kind}" data-id="${esc(d.id)}"${control(options.phase, d.id, failed, shorted)} transform="${place}">${tooltip(options.phase, d.id, failed, shorted)}`];
+    if (d.kind === 'diode') {
+      g.push(diodeSymbol(0, path.has(d.id), stroke));
+      if (options.phase !== undefined) g.push(...[failed.has(d.id) ? crossMark(0, 0) : '', shorted.has(d.id) ? shortMark(0) : '', hitArea(0, 10)].filter(Boolean));
+    } else {
       const on = gates.has(d.id);
       g.push(`<rect x="-13" y="-8" width="26" height="16" rx="2" fill="${on ? STYLE.blue : '#ffffff'}" stroke="${STYLE.ink}" stroke-width="1.2"/>`);
       g.push(`<path d="M-6,0 L5,0 M1,-3.5 L5,0 L1,3.5" stroke="${on ? '#ffffff' : STYLE.ink}" stroke-width="1.3" fill="none"/>`);
       if (d.kind === 'mosfet') g.push(`<circle class="mosfet-mark" cx="0" cy="${-side * 11}" r="2" fill="${STYLE.ink}"/>`);
+      if (options.phase !== undefined) g.push(...[failed.has(d.id) ? crossMark(0, 0) : '', shorted.has(d.id) ? shortMark(0) : '', hitArea(0, 11)].filter(Boolean));
+      // a control is one group per element, so that a click on the diode never reaches its switch
+      if (d.antiparallelDiode && options.phase !== undefined) g.push(`</g><g class="device diode antiparallel" data-id="${esc(d.id)}.diode"${control(options.phase, `${d.id}.diode`, failed, shorted)} transform="${place}">${tooltip(options.phase, `${d.id}.diode`, failed, shorted)}`);
       if (d.antiparallelDiode) g.push(`<g transform="translate(0 ${side * 17}) rotate(180)">${diodeSymbol(0, path.has(`${d.id}.diode`), stroke)}</g>`);
     }
-    if (failed.has(d.id)) g.push(crossMark(0, 0));
+    if (failed.has(d.id) && options.phase === undefined) g.push(crossMark(0, 0));
     if (d.antiparallelDiode && failed.has(`${d.id}.diode`)) g.push(crossMark(0, side * 17));
-    if (shorted.has(d.id)) g.push(shortMark(0));
+    if (shorted.has(d.id) && options.phase === undefined) g.push(shortMark(0));
     if (d.antiparallelDiode && shorted.has(`${d.id}.diode`)) g.push(shortMark(side * 17));
+    if (d.antiparallelDiode && options.phase !== undefined) g.push(hitArea(side * 17, 8));
     g.push('</g>');
     body.push(g.join(''));
     const tag = [d.id, failed.has(d.id) ? 'OPEN' : '', shorted.has(d.id) ? 'SHORT' : '', failed.has(`${d.id}.diode`) ? 'diode OPEN' : '', shorted.has(`${d.id}.diode`) ? 'diode SHORT' : ''].filter(Boolean).join(' · ');
@@ -126,13 +142,15 @@ export function legSchematicSvg(leg: LegNetlist, options: LegSchematicOptions = 
   const warn = options.state === 'interrupted' || options.state === 'shoot-through' || options.state === 'unsafe' || (options.state === undefined && options.level === null);
   const cls = options.state && options.state !== 'path' ? ` ${options.state}` : options.level === null ? ' interrupted' : '';
   const spans = captionLines.map((line, i) => `<tspan x="12" dy="${i === 0 ? 0 : 15}">${esc(line)}</tspan>`).join('');
-  body.push(`<text class="caption${cls}" x="12" y="${H - 54 - extra}" fill="${warn ? STYLE.vermillion : STYLE.ink}"${warn ? ' font-weight="bold"' : ''}>${spans}</text>`);
-  body.push(`<text x="12" y="${H - 34}" font-size="${STYLE.smallFont}" fill="${STYLE.ink}">Arrow: forward direction. Filled box: switch gated on. Dot: MOSFET (conducts both ways when on).</text>`);
-  body.push(`<text x="12" y="${H - 20}" font-size="${STYLE.smallFont}" fill="${STYLE.ink}">Thick green: conducting path; thick orange-red: a path never used. × and OPEN: failed open; bar and SHORT: failed short.</text>`);
+  if (options.legend !== false) {
+    body.push(`<text class="caption${cls}" x="12" y="${H - 54 - extra}" fill="${warn ? STYLE.vermillion : STYLE.ink}"${warn ? ' font-weight="bold"' : ''}>${spans}</text>`);
+    body.push(`<text x="12" y="${H - 34}" font-size="${STYLE.smallFont}" fill="${STYLE.ink}">Arrow: forward direction. Filled box: switch gated on. Dot: MOSFET (conducts both ways when on).</text>`);
+    body.push(`<text x="12" y="${H - 20}" font-size="${STYLE.smallFont}" fill="${STYLE.ink}">Thick green: conducting path; thick orange-red: a path never used. × and OPEN: failed open; bar and SHORT: failed short.</text>`);
+  }
   const failedText = [failed.size ? ` Failed open: ${[...failed].join(', ')}.` : '', shorted.size ? ` Failed short: ${[...shorted].join(', ')}.` : ''].join('');
   return svgFrame({
     width: W,
-    height: H,
+    height: options.legend === false ? B + 40 : H,
     title: options.title ?? `Leg ${leg.name}`,
     desc: `Schematic of leg ${leg.name} with ${leg.devices.length} devices.${failedText} ${caption}`,
   }, body.join('\n'));
@@ -147,6 +165,27 @@ function captionText(o: LegSchematicOptions): string {
   if (o.state === 'unsafe') return `Pattern ${o.pattern.name}, ${s}: the current flows through ${through}, but ${o.reason ?? 'a device would block more than its rating'}: not used for this sign.`;
   if (o.state === 'interrupted' || o.level === null) return `Pattern ${o.pattern.name}, ${s}: current interrupted (no path), forbidden for this sign.`;
   return `Pattern ${o.pattern.name}, ${dir}: output at ${n(o.level ?? 0, 2)}·Vdc/2 through ${through}.`;
+}
+
+// The attributes that make an element a control of the explorer page: its address, its state in
+// words (tooltip and screen reader) and a keyboard stop.
+function tooltip(phase: string | undefined, id: string, failed: ReadonlySet<string>, shorted: ReadonlySet<string>): string {
+  if (phase === undefined) return '';
+  const state = failed.has(id) ? 'open' : shorted.has(id) ? 'short' : 'healthy';
+  return `<title>${esc(`${phase}.${id}: ${state}`)}</title>`;
+}
+
+function control(phase: string | undefined, id: string, failed: ReadonlySet<string>, shorted: ReadonlySet<string>): string {
+  if (phase === undefined) return '';
+  const state = failed.has(id) ? 'open' : shorted.has(id) ? 'short' : 'healthy';
+  const next = state === 'healthy' ? 'open' : state === 'open' ? 'short' : 'healthy';
+  const label = `${phase}.${id}: ${state} (activate: ${next})`;
+  return ` data-device="${esc(`${phase}.${id}`)}" data-state="${state}" role="button" tabindex="0" aria-label="${esc(label)}"`;
+}
+
+// An invisible target around an element, so that a click anywhere on its symbol reaches it.
+function hitArea(y: number, half: number): string {
+  return `<rect class="hit" x="${-half - 4}" y="${y - half}" width="${2 * half + 8}" height="${2 * half}" fill="#ffffff" fill-opacity="0" pointer-events="all"/>`;
 }
 
 // A failed-short element: a thick bar bridging it (it conducts both ways whatever its gate).

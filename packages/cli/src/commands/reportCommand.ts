@@ -1,4 +1,3 @@
-import { readFileSync } from 'node:fs';
 import { dirname, relative, resolve } from 'node:path';
 import { diagramAtlas, modulationOfLineRms, planFromAtlas, planRemedies, simulatePeriod, switchover, simulationWaveform, switchingTableFromAtlas, type ClaimVerdict, type LegNetlist, type LevelStepRule, type SequenceMode } from '@hexsalvage/core';
 import { usage, type ParsedArgs } from '../args.js';
@@ -10,8 +9,8 @@ import { angleInputs, legInputs, runtimeInputs, vdcInput } from '../legInputs.js
 import { writeFileAtomic } from '../output.js';
 import { judgeClaimList, judgeClaims } from '../readClaims.js';
 import { buildReport } from '../report/buildReport.js';
+import { TOOL_VERSION } from '../toolVersion.js';
 
-const VERSION = (JSON.parse(readFileSync(new URL('../../package.json', import.meta.url), 'utf8')) as { version: string }).version;
 
 /** `hexsalvage report`: one self-contained HTML file for a design review. */
 export const reportCommand: Command = {
@@ -78,7 +77,7 @@ export const reportCommand: Command = {
       ...(faultAtlas ? { faultAtlas } : {}),
       ...(scenario ? { scenario } : {}),
       ...(inputs.vdc !== undefined ? { vdc: inputs.vdc } : {}),
-      generatedBy: `hexsalvage ${VERSION}`,
+      generatedBy: `hexsalvage ${TOOL_VERSION}`,
       commandLine: commandLine('report', reportCommand.options, args),
       date: buildDate(),
       inputs: files.map((f) => ({ path: relative(process.cwd(), f.path) || f.path, sha256: f.sha256 })),
