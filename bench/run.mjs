@@ -139,4 +139,11 @@ for (const [label, faults] of [['healthy npc', []], ['npc a.outerUpper', ['a.out
     const r = spawnSync(process.execPath, [new URL('./rotating.mjs', import.meta.url).pathname, label], { encoding: 'utf8' });
     process.stdout.write(r.stdout);
   }
+  // every single fault of every built-in leg and of the five-level example, one process per leg
+  // (goal: modulateInto ≥ 1.0x the lean scan on each; ≥ 10x on the five-level leg, above)
+  console.log('modulateInto against the lean scan, every single fault (bench/modulatorSweep.mjs):');
+  for (const leg of [...BUILTIN_TOPOLOGIES, new URL('../examples/five-level-leg.json', import.meta.url).pathname]) {
+    const r = spawnSync(process.execPath, [new URL('./modulatorSweep.mjs', import.meta.url).pathname, leg], { encoding: 'utf8' });
+    process.stdout.write(r.stdout || r.stderr);
+  }
 }

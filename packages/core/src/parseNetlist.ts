@@ -74,7 +74,7 @@ export function parseNetlist(value: unknown, input: string): LegNetlist {
     dcNodes[node] = v;
   }
   if (Object.keys(dcNodes).length < 2) throw err('dcNodes', 'at least two DC nodes', Object.keys(dcNodes).length);
-  if (Object.keys(dcNodes).length > NETLIST_LIMITS.dcNodes) throw err('dcNodes', `at most ${NETLIST_LIMITS.dcNodes} DC nodes (levels; a documented limit)`, Object.keys(dcNodes).length);
+  if (Object.keys(dcNodes).length > NETLIST_LIMITS.dcNodes) throw err('dcNodes', `at most ${NETLIST_LIMITS.dcNodes} DC nodes (levels; a documented limit; it has ${Object.keys(dcNodes).length})`);
   const top = Math.max(...Object.values(dcNodes).map(Math.abs));
   if (!(top >= NETLIST_LIMITS.potentialMin && top <= NETLIST_LIMITS.potentialMax)) {
     throw err('dcNodes', `potentials whose largest magnitude lies between ${NETLIST_LIMITS.potentialMin} and ${NETLIST_LIMITS.potentialMax} (write them in units of Vdc/2, or in volts)`);
@@ -97,7 +97,7 @@ export function parseNetlist(value: unknown, input: string): LegNetlist {
   if (output in dcNodes) throw err('output', 'a node that is not a DC node', output);
 
   if (!Array.isArray(doc.devices) || doc.devices.length === 0) throw err('devices', 'a non-empty array of devices', doc.devices);
-  if (doc.devices.length > NETLIST_LIMITS.devices) throw err('devices', `at most ${NETLIST_LIMITS.devices} devices (a documented limit)`, doc.devices.length);
+  if (doc.devices.length > NETLIST_LIMITS.devices) throw err('devices', `at most ${NETLIST_LIMITS.devices} devices (a documented limit; it has ${doc.devices.length})`);
   const devices: DeviceSpec[] = [];
   const elementIds = new Set<string>();
   doc.devices.forEach((raw, i) => {
@@ -120,7 +120,7 @@ export function parseNetlist(value: unknown, input: string): LegNetlist {
   const patObj = asObject(doc.patterns, 'patterns', 'an object mapping pattern names to lists of gated switches', err);
   const gated = new Set(devices.filter((d) => d.kind !== 'diode').map((d) => d.id));
   const patterns: Record<string, string[]> = {};
-  if (Object.keys(patObj).length > NETLIST_LIMITS.patterns) throw err('patterns', `at most ${NETLIST_LIMITS.patterns} named patterns (a documented limit)`, Object.keys(patObj).length);
+  if (Object.keys(patObj).length > NETLIST_LIMITS.patterns) throw err('patterns', `at most ${NETLIST_LIMITS.patterns} named patterns (a documented limit; it has ${Object.keys(patObj).length})`);
   for (const [pname, list] of Object.entries(patObj)) {
     if (pname.trim() === '' || pname.length > 64 || hasInvisible(pname)) throw err('patterns', 'pattern names of 1 to 64 visible characters (no control, bidirectional or zero-width characters)', pname);
     if (!Array.isArray(list)) throw err(`patterns.${pname}`, 'an array of switch ids', list);

@@ -77,42 +77,110 @@ export function tilingOutline(points: readonly Point[], triangles: readonly Tria
  * ```
  */
 export function unionOutline(points: readonly Point[], triangles: readonly Triangle[], eps: number): Segment[] {
-  const edges: Segment[] = triangles.flatMap((t) => [0, 1, 2].map((k) => [points[t[k] as number] as Point, points[t[(k + 1) % 3] as number] as Point] as const));
+  // each directed edge once: a repeat (overlapping triangles on the same side of it) gives the
+  // same cuts and the same pieces, which the first one has already given
+  const directed = new Set<string>();
+  const edges: Segment[] = [];
+  for (const t of triangles) for (let k = 0; k < 3; k++) {
+    const a = t[k] as number;
+    const b = t[(k + 1) % 3] as number;
+    if (directed.has(`${a},${b}`)) continue;
+    directed.add(`${a},${b}`);
+    edges.push([points[a] as Point, points[b] as Point]);
+  }
+  // Boxes that skip the pairs and triangles which cannot matter: a cut of p→q by r→s lies within
+  // eps·(1 + |rs|) of both (cutParameters' tolerances), a covered point within the triangle grown
+  // by eps (coveredBy's); each box holds that region with room to spare, so the result is the same
+  // as testing everything.
+  const edgeBoxes = edges.map(([r, s]) => grow(boxOf(r, s), 2 * eps * (1 + Math.hypot(s[0] - r[0], s[1] - r[1]))));
+  const cover = triangles.map((t) => coverBox(points, t, eps));
+  const covered = (x: Point) => triangles.some((t, i) => inBox(cover[i] as Box, x) && coveredBy(points, [t], x, eps));
   const out: Segment[] = [];
   const seen = new Set<string>();
   const probe = 1e3 * eps;
-  for (const [p, q] of edges) {
+  edges.forEach(([p, q], i) => {
     const ex = q[0] - p[0];
     const ey = q[1] - p[1];
     const len = Math.hypot(ex, ey);
     const cuts = [0, 1];
-    for (const [r, s] of edges) {
-      const x = cutParameters(p, q, r, s, eps);
-      for (const c of x) cuts.push(c);
-    }
+    const own = edgeBoxes[i] as Box;
+    edges.forEach(([r, s], j) => {
+      if (!boxesMeet(own, edgeBoxes[j] as Box)) return;
+      for (const c of cutParameters(p, q, r, s, eps)) cuts.push(c);
+    });
     cuts.sort((x, y) => x - y);
-    for (let i = 0; i + 1 < cuts.length; i++) {
-      const s0 = cuts[i] as number;
-      const s1 = cuts[i + 1] as number;
+    for (let k = 0; k + 1 < cuts.length; k++) {
+      const s0 = cuts[k] as number;
+      const s1 = cuts[k + 1] as number;
       if ((s1 - s0) * len <= probe) continue;
       const sm = (s0 + s1) / 2;
       const mx = p[0] + sm * ex;
       const my = p[1] + sm * ey;
       const nx = -ey / len;
       const ny = ex / len;
-      const left = coveredBy(points, triangles, [mx + probe * nx, my + probe * ny], eps);
-      const right = coveredBy(points, triangles, [mx - probe * nx, my - probe * ny], eps);
+      const left = covered([mx + probe * nx, my + probe * ny]);
+      const right = covered([mx - probe * nx, my - probe * ny]);
       if (left === right) continue;
       const a: Point = [p[0] + s0 * ex, p[1] + s0 * ey];
       const b: Point = [p[0] + s1 * ex, p[1] + s1 * ey];
       const seg: Segment = left ? [a, b] : [b, a];
-      const k = seg.flat().map((v) => Math.round(v / (probe * 10))).join(',');
-      if (seen.has(k)) continue;
-      seen.add(k);
+      const key = seg.flat().map((v) => Math.round(v / (probe * 10))).join(',');
+      if (seen.has(key)) continue;
+      seen.add(key);
       out.push(seg);
     }
-  }
+  });
   return out;
+}
+
+/** An axis-aligned box `[xmin, ymin, xmax, ymax]`. */
+type Box = readonly [number, number, number, number];
+
+function boxOf(a: Point, b: Point): Box {
+  return [Math.min(a[0], b[0]), Math.min(a[1], b[1]), Math.max(a[0], b[0]), Math.max(a[1], b[1])];
+}
+
+function grow(b: Box, m: number): Box {
+  return [b[0] - m, b[1] - m, b[2] + m, b[3] + m];
+}
+
+function boxesMeet(a: Box, b: Box): boolean {
+  return a[0] <= b[2] && b[0] <= a[2] && a[1] <= b[3] && b[1] <= a[3];
+}
+
+function inBox(b: Box, x: Point): boolean {
+  return x[0] >= b[0] && x[0] <= b[2] && x[1] >= b[1] && x[1] <= b[3];
+}
+
+function triangleTurn(p: readonly Point[]): number {
+  const [a, b, c] = p as [Point, Point, Point];
+  return (b[0] - a[0]) * (c[1] - a[1]) - (b[1] - a[1]) * (c[0] - a[0]);
+}
+
+// The box of the points coveredBy accepts for one triangle: the triangle with every edge moved out
+// by eps, whose corners move by the miter eps·(n₁ + n₂)/(1 + n₁·n₂) (outward unit normals n of the
+// two edges); a sliver whose miter is unbounded gets an unbounded box.
+function coverBox(points: readonly Point[], t: Triangle, eps: number): Box {
+  const p = [0, 1, 2].map((k) => points[t[k] as number] as Point);
+  const normals = [0, 1, 2].map((k) => {
+    const a = p[k] as Point;
+    const b = p[(k + 1) % 3] as Point;
+    const l = Math.hypot(b[0] - a[0], b[1] - a[1]) || 1;
+    return [(b[1] - a[1]) / l, -(b[0] - a[0]) / l] as const;
+  });
+  let box: Box = [Infinity, Infinity, -Infinity, -Infinity];
+  for (let k = 0; k < 3; k++) {
+    const n1 = normals[(k + 2) % 3] as readonly [number, number];
+    const n2 = normals[k] as readonly [number, number];
+    const d = 1 + n1[0] * n2[0] + n1[1] * n2[1];
+    if (d < 1e-9 || triangleTurn(p) <= 0) return [-Infinity, -Infinity, Infinity, Infinity];
+    const c = p[k] as Point;
+    const m = (2 * eps) / d;
+    const x = c[0] + m * (n1[0] + n2[0]);
+    const y = c[1] + m * (n1[1] + n2[1]);
+    box = [Math.min(box[0], x, c[0]), Math.min(box[1], y, c[1]), Math.max(box[2], x, c[0]), Math.max(box[3], y, c[1])];
+  }
+  return grow(box, 2 * eps);
 }
 
 // Parameters along p→q where segment r→s crosses or touches it (its ends, where they lie on p→q).
