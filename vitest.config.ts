@@ -8,7 +8,7 @@ export default defineConfig({
     alias: [
       { find: /^@hexsalvage\/core$/, replacement: fileURLToPath(new URL('./packages/core/src/index.ts', import.meta.url)) },
       { find: /^@hexsalvage\/core\/node$/, replacement: fileURLToPath(new URL('./packages/core/src/node/index.ts', import.meta.url)) },
-      { find: /^@hexsalvage\/core\/errors$/, replacement: fileURLToPath(new URL('./packages/core/src/errors.ts', import.meta.url)) },
+      { find: /^@hexsalvage\/core\/errors$/, replacement: fileURLToPath(new URL('./packages/core/src/shared/errors.ts', import.meta.url)) },
       { find: /^@hexsalvage\/plot$/, replacement: fileURLToPath(new URL('./packages/plot/src/index.ts', import.meta.url)) },
     ],
   },

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { BoundedCache } from '../../packages/core/src/boundedCache.js';
+import { BoundedCache } from '../../packages/core/src/shared/boundedCache.js';
 
 describe('BoundedCache', () => {
   it('through makes a value once per key, stores it frozen and hands back the stored one', () => {

@@ -1,9 +1,9 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { BUILTIN_TOPOLOGIES, builtinLeg, expandElements, HexsalvageInputError, parseNetlist, type FaultMode, type LegNetlist } from '@hexsalvage/core';
-import { compiledLeg } from '../../packages/core/src/compiledLeg.js';
-import { conductionEdges, findShootThrough, outputForSign } from '../../packages/core/src/conduction.js';
-import { ratingChecker } from '../../packages/core/src/ratingCheck.js';
+import { compiledLeg } from '../../packages/core/src/leg/compiledLeg.js';
+import { conductionEdges, findShootThrough, outputForSign } from '../../packages/core/src/leg/conduction.js';
+import { ratingChecker } from '../../packages/core/src/leg/ratingCheck.js';
 import { fc, fcParams } from '../support/fc.js';
 
 // The compiled solver (used for every intermediate gate set of the commutation search) against the

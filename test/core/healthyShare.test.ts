@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import {
   BUILTIN_TOPOLOGIES, classifyVector, diagramAtlas, sharedSurvivingVectors, shellClassifier, survivingVectors, vectorShells, VECTOR_TOLERANCE, type VectorShell,
 } from '@hexsalvage/core';
-import { diagramScale, levelSetScale } from '../../packages/core/src/diagramScale.js';
+import { diagramScale, levelSetScale } from '../../packages/core/src/geometry/diagramScale.js';
 import { fc, fcParams } from '../support/fc.js';
 import { diodeClampedLeg } from '../support/legs.js';
 

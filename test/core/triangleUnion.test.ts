@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
-import { coveredBy, unionOutline, type Segment } from '../../packages/core/src/triangleUnion.js';
-import type { Point } from '../../packages/core/src/clarke.js';
-import type { Triangle } from '../../packages/core/src/triangulate.js';
+import { coveredBy, unionOutline, type Segment } from '../../packages/core/src/geometry/triangleUnion.js';
+import type { Point } from '../../packages/core/src/geometry/clarke.js';
+import type { Triangle } from '../../packages/core/src/geometry/triangulate.js';
 import { fc, fcParams } from '../support/fc.js';
 
 // The plain form of unionOutline: every edge (repeats included) against every edge, every probe

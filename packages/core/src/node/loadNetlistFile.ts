@@ -1,5 +1,5 @@
-import type { LegNetlist } from '../netlist.js';
-import { parseNetlist } from '../parseNetlist.js';
+import type { LegNetlist } from '../netlist/netlist.js';
+import { parseNetlist } from '../netlist/parseNetlist.js';
 import { readJsonFile } from './readJsonFile.js';
 
 /**

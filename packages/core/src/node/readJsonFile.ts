@@ -1,8 +1,8 @@
 import { closeSync, constants, fstatSync, openSync, readSync, statSync } from 'node:fs';
-import { HexsalvageInputError, type InputErrorCode } from '../errors.js';
-import { MAX_INPUT_BYTES, parseJsonText } from '../parseJsonText.js';
+import { HexsalvageInputError, type InputErrorCode } from '../shared/errors.js';
+import { MAX_INPUT_BYTES, parseJsonText } from '../shared/parseJsonText.js';
 
-export { MAX_INPUT_BYTES, MAX_INPUT_DEPTH } from '../parseJsonText.js';
+export { MAX_INPUT_BYTES, MAX_INPUT_DEPTH } from '../shared/parseJsonText.js';
 
 /**
  * Reads a JSON input file safely: a regular file only (no device, FIFO or folder: `/dev/zero` is
