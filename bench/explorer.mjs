@@ -53,7 +53,9 @@ try {
       result.push(r);
       pictures.push(p);
     }
-    console.log(`  explorer ${name.padEnd(12)} ${result.length} changes: result median ${med(result).toFixed(1)} ms, max ${Math.max(...result).toFixed(1)} ms (goal ≤ 50); pictures median ${med(pictures).toFixed(1)} ms, max ${Math.max(...pictures).toFixed(1)} ms (goal ≤ 100)`);
+    console.log(
+      `  explorer ${name.padEnd(12)} ${result.length} changes: result median ${med(result).toFixed(1)} ms, max ${Math.max(...result).toFixed(1)} ms (goal ≤ 50); pictures median ${med(pictures).toFixed(1)} ms, max ${Math.max(...pictures).toFixed(1)} ms (goal ≤ 100)`,
+    );
   }
   await browser.close();
 } finally {

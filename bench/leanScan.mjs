@@ -21,7 +21,9 @@ export function leanScan(plan, out) {
       const d2 = m[o + 6] * a + m[o + 7] * b + m[o + 8];
       if (d2 < -1e-9) continue;
       const s = Math.max(0, d0) + Math.max(0, d1) + Math.max(0, d2);
-      out[0] = Math.max(0, d0) / s; out[1] = Math.max(0, d1) / s; out[2] = Math.max(0, d2) / s;
+      out[0] = Math.max(0, d0) / s;
+      out[1] = Math.max(0, d1) / s;
+      out[2] = Math.max(0, d2) / s;
       return o / 9;
     }
     return -1;

@@ -17,7 +17,11 @@ function time(fn, minMs = 60) {
   let n = 0;
   const t0 = performance.now();
   let t = t0;
-  while (t - t0 < minMs) { fn(); n++; t = performance.now(); }
+  while (t - t0 < minMs) {
+    fn();
+    n++;
+    t = performance.now();
+  }
   return (t - t0) / n;
 }
 const med = (xs) => [...xs].sort((a, b) => a - b)[xs.length >> 1];
@@ -39,7 +43,7 @@ for (const e of expandElements(resolveTopology(topology)).map((x) => x.id)) {
     const scan = leanScan(plan, out);
     // and references anywhere inside the limit, in random order (every call searches)
     let seed = 7;
-    const rnd = () => ((seed = (seed * 1103515245 + 12345) >>> 0) / 2 ** 32);
+    const rnd = () => (seed = (seed * 1103515245 + 12345) >>> 0) / 2 ** 32;
     const jump = new Float64Array(2 * N);
     const jumpPol = new Int32Array(N);
     for (let i = 0; i < N; i++) {
@@ -54,10 +58,26 @@ for (const e of expandElements(resolveTopology(topology)).map((x) => x.id)) {
     const intoJ = [];
     const leanJ = [];
     for (let r = 0; r < 5; r++) {
-      into.push(time(() => { for (let i = 0; i < N; i++) mod.modulateInto(rot[2 * i], rot[2 * i + 1], pol[i], out); }));
-      lean.push(time(() => { for (let i = 0; i < N; i++) scan(rot[2 * i], rot[2 * i + 1], pol[i]); }));
-      intoJ.push(time(() => { for (let i = 0; i < N; i++) mod.modulateInto(jump[2 * i], jump[2 * i + 1], jumpPol[i], out); }));
-      leanJ.push(time(() => { for (let i = 0; i < N; i++) scan(jump[2 * i], jump[2 * i + 1], jumpPol[i]); }));
+      into.push(
+        time(() => {
+          for (let i = 0; i < N; i++) mod.modulateInto(rot[2 * i], rot[2 * i + 1], pol[i], out);
+        }),
+      );
+      lean.push(
+        time(() => {
+          for (let i = 0; i < N; i++) scan(rot[2 * i], rot[2 * i + 1], pol[i]);
+        }),
+      );
+      intoJ.push(
+        time(() => {
+          for (let i = 0; i < N; i++) mod.modulateInto(jump[2 * i], jump[2 * i + 1], jumpPol[i], out);
+        }),
+      );
+      leanJ.push(
+        time(() => {
+          for (let i = 0; i < N; i++) scan(jump[2 * i], jump[2 * i + 1], jumpPol[i]);
+        }),
+      );
     }
     const triangles = Math.max(...POLARITY_STRINGS.map((p) => plan.polarities[p].triangles.length));
     rows.push({ fault, triangles, ratio: med(lean) / med(into), into: (med(into) * 1e6) / N, lean: (med(lean) * 1e6) / N, jumpRatio: med(leanJ) / med(intoJ) });
@@ -70,5 +90,11 @@ if (rows.length === 0) {
 }
 const worst = rows.reduce((a, b) => (b.ratio < a.ratio ? b : a));
 const worstJ = rows.reduce((a, b) => (b.jumpRatio < a.jumpRatio ? b : a));
-console.log(`  ${name}: modulateInto / lean scan over ${rows.length} single faults (rotating, 90 % of mMax): worst ${worst.ratio.toFixed(2)}x (${worst.fault}, ${worst.triangles} triangles, ${worst.into.toFixed(1)} vs ${worst.lean.toFixed(1)} ns), median ${med(rows.map((r) => r.ratio)).toFixed(2)}x (goal ≥ 1.0); references in random order: worst ${worstJ.jumpRatio.toFixed(2)}x (${worstJ.fault}, ${worstJ.triangles} triangles)`);
-if (process.env.HS_BENCH_ROWS) for (const r of rows) console.log(`    ${r.fault.padEnd(28)} ${String(r.triangles).padStart(4)} triangles  ${r.into.toFixed(1).padStart(6)} ns  scan ${r.lean.toFixed(1).padStart(6)} ns  ${r.ratio.toFixed(2)}x  random order ${r.jumpRatio.toFixed(2)}x`);
+console.log(
+  `  ${name}: modulateInto / lean scan over ${rows.length} single faults (rotating, 90 % of mMax): worst ${worst.ratio.toFixed(2)}x (${worst.fault}, ${worst.triangles} triangles, ${worst.into.toFixed(1)} vs ${worst.lean.toFixed(1)} ns), median ${med(rows.map((r) => r.ratio)).toFixed(2)}x (goal ≥ 1.0); references in random order: worst ${worstJ.jumpRatio.toFixed(2)}x (${worstJ.fault}, ${worstJ.triangles} triangles)`,
+);
+if (process.env.HS_BENCH_ROWS)
+  for (const r of rows)
+    console.log(
+      `    ${r.fault.padEnd(28)} ${String(r.triangles).padStart(4)} triangles  ${r.into.toFixed(1).padStart(6)} ns  scan ${r.lean.toFixed(1).padStart(6)} ns  ${r.ratio.toFixed(2)}x  random order ${r.jumpRatio.toFixed(2)}x`,
+    );

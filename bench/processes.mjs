@@ -61,7 +61,9 @@ function paired(label, a, b, goal) {
     ratio.push(x / y);
   }
   const med = (xs) => [...xs].sort((p, q) => p - q)[Math.floor(xs.length / 2)];
-  console.log(`${label.padEnd(58)} ${med(ta).toFixed(0).padStart(6)} ms vs ${med(tb).toFixed(0).padStart(5)} ms, ratio ${med(ratio).toFixed(2)} (goal ≤ ${goal})`);
+  console.log(
+    `${label.padEnd(58)} ${med(ta).toFixed(0).padStart(6)} ms vs ${med(tb).toFixed(0).padStart(5)} ms, ratio ${med(ratio).toFixed(2)} (goal ≤ ${goal})`,
+  );
 }
 
 function alone(label, args, goalMs) {
@@ -84,12 +86,26 @@ try {
   const CORE = new URL('../packages/core/dist/index.js', import.meta.url).href;
   const allLegs = `const { BUILTIN_TOPOLOGIES, faultAtlas } = await import(${JSON.stringify(CORE)}); for (const t of BUILTIN_TOPOLOGIES) faultAtlas({ topology: t, stepDeg: 1 });`;
   alone('atlas, every single fault of the 5 built-in legs, 181 angles', ['--input-type=module', '-e', allLegs], 1000);
-  alone('atlas --pairs, ANPC open faults, 37 angles, --jobs 2', [BIN, 'atlas', '--topology', 'anpc', '--modes', 'open', '--pairs', '--step', '5', '--jobs', '2', '--json'], 10000);
+  alone(
+    'atlas --pairs, ANPC open faults, 37 angles, --jobs 2',
+    [BIN, 'atlas', '--topology', 'anpc', '--modes', 'open', '--pairs', '--step', '5', '--jobs', '2', '--json'],
+    10000,
+  );
   // the five-level example's double open faults on 2 threads against its single-fault atlas on one
   // (both modes), start-up included (issue "speed": goal ≤ 20)
   const FIVE = fileURLToPath(new URL('../examples/five-level-leg.json', import.meta.url));
-  paired('atlas --pairs five-level open --jobs 2 / single faults --jobs 1', [BIN, 'atlas', '--topology', FIVE, '--modes', 'open', '--pairs', '--jobs', '2', '--json'], [BIN, 'atlas', '--topology', FIVE, '--jobs', '1', '--json'], 20);
-  paired('report, 9-level diode-clamped leg against npc', [BIN, 'report', '--topology', leg9, '--out', out('r9.html')], [BIN, 'report', '--topology', 'npc', '--out', out('r3.html')], 4);
+  paired(
+    'atlas --pairs five-level open --jobs 2 / single faults --jobs 1',
+    [BIN, 'atlas', '--topology', FIVE, '--modes', 'open', '--pairs', '--jobs', '2', '--json'],
+    [BIN, 'atlas', '--topology', FIVE, '--jobs', '1', '--json'],
+    20,
+  );
+  paired(
+    'report, 9-level diode-clamped leg against npc',
+    [BIN, 'report', '--topology', leg9, '--out', out('r9.html')],
+    [BIN, 'report', '--topology', 'npc', '--out', out('r3.html')],
+    4,
+  );
   // peak memory of an 11-level report: the CLI's main run in a process that then prints its own
   // peak resident set (the operating system's figure, kilobytes), largest of three runs
   const leg11 = join(dir, 'leg11.json');
@@ -102,7 +118,11 @@ try {
     if (r.status !== 0) throw new Error(`report of an 11-level leg exited ${r.status}: ${r.stderr}`);
     return Number(r.stdout) / 1024;
   });
-  console.log(`${'report, 11-level diode-clamped leg, peak memory'.padEnd(58)} ${Math.max(...peaks).toFixed(0).padStart(6)} MB largest of 3 (goal < 200 MB)`);
+  console.log(
+    `${'report, 11-level diode-clamped leg, peak memory'.padEnd(58)} ${Math.max(...peaks)
+      .toFixed(0)
+      .padStart(6)} MB largest of 3 (goal < 200 MB)`,
+  );
 } finally {
   rmSync(dir, { recursive: true, force: true });
 }

@@ -7,9 +7,10 @@ import { createModulator, createRuntime, planRemedial, polarityAt, POLARITY_STRI
 import { leanScan } from './leanScan.mjs';
 
 const label = process.argv[2];
-const plan = label === 'five-level leg'
-  ? planRemedial({ topology: JSON.parse(readFileSync(new URL('../examples/five-level-leg.json', import.meta.url), 'utf8')) })
-  : planRemedial({ topology: 'npc', faults: label === 'healthy npc' ? [] : ['a.outerUpper'] });
+const plan =
+  label === 'five-level leg'
+    ? planRemedial({ topology: JSON.parse(readFileSync(new URL('../examples/five-level-leg.json', import.meta.url), 'utf8')) })
+    : planRemedial({ topology: 'npc', faults: label === 'healthy npc' ? [] : ['a.outerUpper'] });
 const N = 200000;
 const out = new Float64Array(4);
 const names = POLARITY_STRINGS;
@@ -31,7 +32,11 @@ function time(fn, minMs = 600) {
   let n = 0;
   const t0 = performance.now();
   let t = t0;
-  while (t - t0 < minMs) { fn(); n++; t = performance.now(); }
+  while (t - t0 < minMs) {
+    fn();
+    n++;
+    t = performance.now();
+  }
   return (t - t0) / n;
 }
 // interleaved, median of five rounds each
@@ -39,13 +44,27 @@ const into = [];
 const obj = [];
 const lean = [];
 for (let r = 0; r < 5; r++) {
-  into.push(time(() => { for (let i = 0; i < N; i++) mod.modulateInto(rot[2 * i], rot[2 * i + 1], rotPol[i], out); }));
-  obj.push(time(() => { for (let i = 0; i < N; i++) mod.modulate(rot[2 * i], rot[2 * i + 1], names[rotPol[i]]); }));
-  lean.push(time(() => { for (let i = 0; i < N; i++) scan(rot[2 * i], rot[2 * i + 1], rotPol[i]); }));
+  into.push(
+    time(() => {
+      for (let i = 0; i < N; i++) mod.modulateInto(rot[2 * i], rot[2 * i + 1], rotPol[i], out);
+    }),
+  );
+  obj.push(
+    time(() => {
+      for (let i = 0; i < N; i++) mod.modulate(rot[2 * i], rot[2 * i + 1], names[rotPol[i]]);
+    }),
+  );
+  lean.push(
+    time(() => {
+      for (let i = 0; i < N; i++) scan(rot[2 * i], rot[2 * i + 1], rotPol[i]);
+    }),
+  );
 }
 const med = (xs) => [...xs].sort((a, b) => a - b)[2];
 const ns = (ms) => ((ms * 1e6) / N).toFixed(1);
-console.log(`  ${label}, rotating: modulateInto ${ns(med(into))} ns, modulate ${ns(med(obj))} ns, lean scan ${ns(med(lean))} ns per call; modulateInto is ${(med(lean) / med(into)).toFixed(2)}x the lean linear scan; modulate costs ${(med(obj) / med(into)).toFixed(2)}x modulateInto`);
+console.log(
+  `  ${label}, rotating: modulateInto ${ns(med(into))} ns, modulate ${ns(med(obj))} ns, lean scan ${ns(med(lean))} ns per call; modulateInto is ${(med(lean) / med(into)).toFixed(2)}x the lean linear scan; modulate costs ${(med(obj) / med(into)).toFixed(2)}x modulateInto`,
+);
 
 // The runtime per switching period (goal: at most 3x modulateInto): one period per call, the same
 // rotating reference, measured currents, midpoint error 0; modulateInto on the table's modulator.
@@ -60,8 +79,18 @@ console.log(`  ${label}, rotating: modulateInto ${ns(med(into))} ns, modulate ${
   const tInto = [];
   const tRt = [];
   for (let r = 0; r < 5; r++) {
-    tInto.push(time(() => { for (let i = 0; i < N; i++) tmod.modulateInto(rot[2 * i], rot[2 * i + 1], rotPol[i], out); }));
-    tRt.push(time(() => { for (let i = 0; i < N; i++) rt.period(rot[2 * i], rot[2 * i + 1], rotPol[i], cur[3 * i], cur[3 * i + 1], cur[3 * i + 2], 0, buf); }));
+    tInto.push(
+      time(() => {
+        for (let i = 0; i < N; i++) tmod.modulateInto(rot[2 * i], rot[2 * i + 1], rotPol[i], out);
+      }),
+    );
+    tRt.push(
+      time(() => {
+        for (let i = 0; i < N; i++) rt.period(rot[2 * i], rot[2 * i + 1], rotPol[i], cur[3 * i], cur[3 * i + 1], cur[3 * i + 2], 0, buf);
+      }),
+    );
   }
-  console.log(`  ${label}, rotating: runtime ${ns(med(tRt))} ns per switching period, modulateInto ${ns(med(tInto))} ns; the runtime costs ${(med(tRt) / med(tInto)).toFixed(2)}x modulateInto (goal: at most 3x)`);
+  console.log(
+    `  ${label}, rotating: runtime ${ns(med(tRt))} ns per switching period, modulateInto ${ns(med(tInto))} ns; the runtime costs ${(med(tRt) / med(tInto)).toFixed(2)}x modulateInto (goal: at most 3x)`,
+  );
 }

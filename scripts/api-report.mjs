@@ -22,7 +22,15 @@ export const ENTRIES = [
  * @returns markdown text
  */
 export function apiReport(name, file) {
-  const program = ts.createProgram([`${root}${file}`], { target: ts.ScriptTarget.ES2022, module: ts.ModuleKind.NodeNext, moduleResolution: ts.ModuleResolutionKind.NodeNext, strict: true, noEmit: true, skipLibCheck: true, types: [] });
+  const program = ts.createProgram([`${root}${file}`], {
+    target: ts.ScriptTarget.ES2022,
+    module: ts.ModuleKind.NodeNext,
+    moduleResolution: ts.ModuleResolutionKind.NodeNext,
+    strict: true,
+    noEmit: true,
+    skipLibCheck: true,
+    types: [],
+  });
   const checker = program.getTypeChecker();
   const source = program.getSourceFile(`${root}${file}`);
   const moduleSymbol = checker.getSymbolAtLocation(source);
@@ -37,12 +45,23 @@ export function apiReport(name, file) {
     const kind = ts.SyntaxKind[decl.kind].replace(/Declaration$/, '').replace(/Statement$/, '');
     const isValue = (target.flags & ts.SymbolFlags.Value) !== 0;
     if (isValue) values++;
-    const doc = ts.displayPartsToString(target.getDocumentationComment(checker)).split(/\n\s*\n/)[0]?.replace(/\s+/g, ' ').trim() ?? '';
+    const doc =
+      ts
+        .displayPartsToString(target.getDocumentationComment(checker))
+        .split(/\n\s*\n/)[0]
+        ?.replace(/\s+/g, ' ')
+        .trim() ?? '';
     let text;
     if (ts.isFunctionDeclaration(decl)) text = `function ${sym.name}${checker.signatureToString(checker.getSignatureFromDeclaration(decl))}`;
-    else if (ts.isVariableDeclaration(decl)) text = `const ${sym.name}: ${checker.typeToString(checker.getTypeOfSymbolAtLocation(target, decl), undefined, ts.TypeFormatFlags.NoTruncation)}`;
+    else if (ts.isVariableDeclaration(decl))
+      text = `const ${sym.name}: ${checker.typeToString(checker.getTypeOfSymbolAtLocation(target, decl), undefined, ts.TypeFormatFlags.NoTruncation)}`;
     else if (ts.isClassDeclaration(decl)) text = `class ${sym.name}`;
-    else text = printer.printNode(ts.EmitHint.Unspecified, decl, decl.getSourceFile()).replace(/^export /, '').replace(/\n\s*/g, ' ').slice(0, 600);
+    else
+      text = printer
+        .printNode(ts.EmitHint.Unspecified, decl, decl.getSourceFile())
+        .replace(/^export /, '')
+        .replace(/\n\s*/g, ' ')
+        .slice(0, 600);
     rows.push(`### \`${sym.name}\` (${kind.toLowerCase()})\n\n${doc ? `${doc}\n\n` : ''}\`\`\`ts\n${text}\n\`\`\``);
   }
   return `# API: \`${name}\`\n\nGenerated from the TSDoc and declarations of \`${file}\` by \`scripts/api-report.mjs\` (\`pnpm api\`); do not edit. ${exports.length} exports, ${values} of them runtime values.\n\n${rows.join('\n\n')}\n`;

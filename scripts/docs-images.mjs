@@ -16,12 +16,13 @@ export const jobs = [
 ];
 // each picture as SVG (the source a test compares byte for byte with what the code draws now) and
 // as PNG (what the documentation shows; rendered by Chromium)
-if (process.argv[1] === fileURLToPath(import.meta.url)) for (const [kind, args, file] of jobs) {
-  for (const name of [file.replace(/\.png$/, '.svg'), file]) {
-    const out = execFileSync(process.execPath, [bin, 'plot', kind, ...args, '--out', `docs/images/${name}`], { cwd: root, encoding: 'utf8' });
-    process.stdout.write(out);
+if (process.argv[1] === fileURLToPath(import.meta.url))
+  for (const [kind, args, file] of jobs) {
+    for (const name of [file.replace(/\.png$/, '.svg'), file]) {
+      const out = execFileSync(process.execPath, [bin, 'plot', kind, ...args, '--out', `docs/images/${name}`], { cwd: root, encoding: 'utf8' });
+      process.stdout.write(out);
+    }
   }
-}
 
 // The explorer page at two screen sizes (review images; the browser test takes the same views):
 // the demo scenario's leg with the failed switch, at its load angle.
@@ -46,7 +47,10 @@ if (process.argv[1] === fileURLToPath(import.meta.url)) {
       await page.dispatchEvent('input[name="load-angle"]', 'change');
       await page.evaluate(() => document.activeElement?.blur());
       await page.waitForFunction(() => !document.body.dataset.pending);
-      for (const [w, h] of [[1280, 800], [1920, 1080]]) {
+      for (const [w, h] of [
+        [1280, 800],
+        [1920, 1080],
+      ]) {
         await page.setViewportSize({ width: w, height: h });
         await page.screenshot({ path: join(root, `docs/images/explorer-${w}x${h}.png`) });
         console.log(`wrote docs/images/explorer-${w}x${h}.png`);

@@ -20,7 +20,9 @@ function sources(dir: string): string[] {
 /** Relative imports and re-exports of a file (type-only included), as absolute .ts paths. */
 function importsOf(file: string): string[] {
   const text = readFileSync(file, 'utf8');
-  return [...text.matchAll(/^(?:import|export)\s[^'";]*?from\s+'(\.{1,2}\/[^']+)'|import\(\s*'(\.{1,2}\/[^']+)'\s*\)/gm)].map((m) => resolve(dirname(file), (m[1] ?? m[2] ?? '').replace(/\.js$/, '.ts')));
+  return [...text.matchAll(/^(?:import|export)\s[^'";]*?from\s+'(\.{1,2}\/[^']+)'|import\(\s*'(\.{1,2}\/[^']+)'\s*\)/gm)].map((m) =>
+    resolve(dirname(file), (m[1] ?? m[2] ?? '').replace(/\.js$/, '.ts')),
+  );
 }
 
 /** Strongly connected components with more than one file, or a file importing itself. */

@@ -50,7 +50,9 @@ describe('hexsalvage atlas', () => {
     expect(csv.code).toBe(0);
     expect(csv.stdout).toMatch(/^wrote .*atlas\.csv \(20 fault sets/);
     const lines = readFileSync(csvFile, 'utf8').trim().split('\n');
-    expect(lines[0]).toBe('faults,verdict,m_max_min,derating_ratio,worst_load_angle_deg,m_max_hull_min,best_remedy,best_remedy_m_max_min,reason,m_max_at_-90,m_max_at_-45,m_max_at_0,m_max_at_45,m_max_at_90');
+    expect(lines[0]).toBe(
+      'faults,verdict,m_max_min,derating_ratio,worst_load_angle_deg,m_max_hull_min,best_remedy,best_remedy_m_max_min,reason,m_max_at_-90,m_max_at_-45,m_max_at_0,m_max_at_45,m_max_at_90',
+    );
     expect(lines).toHaveLength(21);
     expect(readdirSync(dir).filter((f) => f.endsWith('.tmp'))).toEqual([]);
   });
@@ -109,17 +111,45 @@ describe('plot atlas and report --atlas', () => {
 describe('progressLine', () => {
   it('draws on a terminal only, in place, and erases itself at the end', () => {
     let tty = '';
-    const p = progressLine({ stdout: async () => {}, stderr: (t) => { tty += t; }, stderrIsTTY: true }, 'fault classes');
+    const p = progressLine(
+      {
+        stdout: async () => {},
+        stderr: (t) => {
+          tty += t;
+        },
+        stderrIsTTY: true,
+      },
+      'fault classes',
+    );
     p.update(3, 3);
     p.end();
-    expect(tty).toMatch(/^\r\x1b\[2K3\/3 fault classes, [\d.]+\/s(, about 0 s left)?\r\x1b\[2K$/);
+    // the terminal's escape character written as <ESC> so that the pattern reads as text
+    expect(tty.replaceAll('\u001b', '<ESC>')).toMatch(/^\r<ESC>\[2K3\/3 fault classes, [\d.]+\/s(, about 0 s left)?\r<ESC>\[2K$/);
     let pipe = '';
-    const q = progressLine({ stdout: async () => {}, stderr: (t) => { pipe += t; } }, 'fault classes');
+    const q = progressLine(
+      {
+        stdout: async () => {},
+        stderr: (t) => {
+          pipe += t;
+        },
+      },
+      'fault classes',
+    );
     q.update(1, 2);
     q.end();
     expect(pipe).toBe('');
     let json = '';
-    const j = progressLine({ stdout: async () => {}, stderr: (t) => { json += t; }, stderrIsTTY: true }, 'fault classes', false);
+    const j = progressLine(
+      {
+        stdout: async () => {},
+        stderr: (t) => {
+          json += t;
+        },
+        stderrIsTTY: true,
+      },
+      'fault classes',
+      false,
+    );
     j.update(1, 2);
     j.end();
     expect(json).toBe('');

@@ -17,7 +17,11 @@ if (!available && !process.env.CI) console.warn(`explorerBrowser: skipped, no br
 const ARTEFACTS = join(ROOT, 'test-artifacts', 'explorer');
 const FIVE = 'examples/five-level-leg.json';
 
-interface Reading { value: number; faults: string; loadAngle: string }
+interface Reading {
+  value: number;
+  faults: string;
+  loadAngle: string;
+}
 
 async function reading(page: Page): Promise<Reading> {
   await page.waitForFunction(() => !document.body.dataset.pending);
@@ -74,10 +78,23 @@ describe.skipIf(!available && !process.env.CI)('explorer page in a headless brow
     expect(r.stderr).toBe('');
     expect(r.code).toBe(0);
     const { chromium } = await import('playwright-core');
-    browser = await chromium.launch({ executablePath: CHROMIUM, args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'] });
+    browser = await chromium.launch({
+      executablePath: CHROMIUM,
+      args: [
+        '--no-sandbox',
+        '--disable-gpu',
+        '--disable-quic',
+        '--no-first-run',
+        '--disable-background-networking',
+        '--disable-component-update',
+        '--disable-sync',
+      ],
+    });
     const context = await browser.newContext({ viewport: { width: 1280, height: 800 }, acceptDownloads: true });
     page = await context.newPage();
-    page.on('console', (m) => { if (m.type() === 'error') errors.push(m.text()); });
+    page.on('console', (m) => {
+      if (m.type() === 'error') errors.push(m.text());
+    });
     page.on('pageerror', (e) => errors.push(String(e)));
     page.on('request', (q) => requests.push(q.url()));
     await page.goto(`file://${html}`, { waitUntil: 'load' });
@@ -173,7 +190,7 @@ describe.skipIf(!available && !process.env.CI)('explorer page in a headless brow
     expect(remedies).toEqual((plan.remedies ?? []).map((x) => x.id));
     // the command line on screen prints the same plan, byte for byte, as the downloaded JSON
     const line = (await page.textContent('#command-line')) ?? '';
-    expect(line).toBe("hexsalvage plan --topology npc --fault a.innerUpper:short --load-angle 20 --polarity-margin 0 --bypass a --vdc 750");
+    expect(line).toBe('hexsalvage plan --topology npc --fault a.innerUpper:short --load-angle 20 --polarity-margin 0 --bypass a --vdc 750');
     const download = page.waitForEvent('download');
     await page.click('button[name="download-plan"]');
     const file = await (await download).path();
@@ -214,7 +231,8 @@ describe.skipIf(!available && !process.env.CI)('explorer page in a headless brow
     expectSameLimit(before.value, planRemedial({ topology: netlist, faults: ['a.s1:open'], loadAngleDeg: 30 }).mMax, 'five-level a.s1');
     const dir = join(ARTEFACTS, 'bad');
     mkdirSync(dir, { recursive: true });
-    const bad = '{ "name": "x", "dcNodes": { "P": 1, "N": -1 }, "output": "out", "devices": [ { "id": "u", "kind": "igbt", "from": "P", "to": "out" } ], "patterns": { "P": ["u"] }, }';
+    const bad =
+      '{ "name": "x", "dcNodes": { "P": 1, "N": -1 }, "output": "out", "devices": [ { "id": "u", "kind": "igbt", "from": "P", "to": "out" } ], "patterns": { "P": ["u"] }, }';
     writeFileSync(join(dir, 'broken-leg.json'), bad);
     const cli = runBin(['plan', '--topology', 'broken-leg.json'], dir);
     expect(cli.code).toBe(2);
@@ -268,7 +286,10 @@ describe.skipIf(!available && !process.env.CI)('explorer page in a headless brow
     await page.click('[data-device="a.innerUpper"]');
     await setLoadAngle(page, 25);
     await reading(page);
-    for (const [w, h] of [[1280, 800], [1920, 1080]] as const) {
+    for (const [w, h] of [
+      [1280, 800],
+      [1920, 1080],
+    ] as const) {
       await page.setViewportSize({ width: w, height: h });
       const png = await page.screenshot({ path: join(ARTEFACTS, `explorer-${w}x${h}.png`) });
       expect(png.length).toBeGreaterThan(20000);

@@ -38,8 +38,12 @@ describe('explorer state', () => {
   it('writes the command line a terminal runs, quoting what the shell would split', () => {
     let s = cycleDevice(initialState('npc', undefined, 750), 'a.outerUpper');
     s = { ...s, ambiguous: new Set(['a.outerUpper']), loadAngleDeg: -12.5, levelSteps: 'adjacent', bypass: 'b' };
-    expect(commandLineOf('plan', s, npc)).toBe("hexsalvage plan --topology npc --fault 'a.outerUpper:open|a.outerUpper.diode:open' --load-angle -12.5 --polarity-margin 0 --level-steps adjacent --bypass b --vdc 750");
-    expect(commandLineOf('report', initialState('file:my leg.json', npc), npc, ['--out', 'r.html'])).toBe("hexsalvage report --topology 'my leg.json' --load-angle 0 --polarity-margin 0 --out r.html");
+    expect(commandLineOf('plan', s, npc)).toBe(
+      "hexsalvage plan --topology npc --fault 'a.outerUpper:open|a.outerUpper.diode:open' --load-angle -12.5 --polarity-margin 0 --level-steps adjacent --bypass b --vdc 750",
+    );
+    expect(commandLineOf('report', initialState('file:my leg.json', npc), npc, ['--out', 'r.html'])).toBe(
+      "hexsalvage report --topology 'my leg.json' --load-angle 0 --polarity-margin 0 --out r.html",
+    );
   });
 
   it('crosses to the worker and back unchanged', () => {
@@ -92,7 +96,12 @@ describe('explorer worker', () => {
 describe('explorer page file', () => {
   it('keeps any text of a netlist inert inside the page (no way out of its script element)', () => {
     const leg = { ...builtinLeg('two-level'), name: '</script><script>alert(1)</script>\u2028' };
-    const html = explorerPage('var x = "</script>"; // <!-- a comment', { version: '0', topology: 'two-level', netlist: leg, netlistFile: { name: 'x.json', text: '</script>' } });
+    const html = explorerPage('var x = "</script>"; // <!-- a comment', {
+      version: '0',
+      topology: 'two-level',
+      netlist: leg,
+      netlistFile: { name: 'x.json', text: '</script>' },
+    });
     expect(html.match(/<\/script>/g)).toHaveLength(2);
     expect(html).not.toContain('<!--');
     expect(html).toContain("default-src 'none'");

@@ -4,7 +4,17 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import {
-  builtinLeg, createModulator, csvCell, deratingCurve, exportC, exportCsv, HexsalvageInputError, legTable, NETLIST_LIMITS, planRemedial, switchingTable,
+  builtinLeg,
+  createModulator,
+  csvCell,
+  deratingCurve,
+  exportC,
+  exportCsv,
+  HexsalvageInputError,
+  legTable,
+  NETLIST_LIMITS,
+  planRemedial,
+  switchingTable,
 } from '@hexsalvage/core';
 import { BIN, ROOT, runBin, runInProcess } from '../support/cli.js';
 
@@ -21,8 +31,13 @@ const oneLine = (r: { code: number; stderr: string }, code = 2) => {
   expect(r.stderr.trim().split('\n')).toHaveLength(1);
 };
 const twoLevel = (over: Record<string, unknown> = {}) => ({
-  name: 'two', dcNodes: { P: 1, N: -1 }, output: 'out',
-  devices: [{ id: 'T1', kind: 'igbt', from: 'P', to: 'out', antiparallelDiode: true, rating: 2 }, { id: 'T2', kind: 'igbt', from: 'out', to: 'N', antiparallelDiode: true, rating: 2 }],
+  name: 'two',
+  dcNodes: { P: 1, N: -1 },
+  output: 'out',
+  devices: [
+    { id: 'T1', kind: 'igbt', from: 'P', to: 'out', antiparallelDiode: true, rating: 2 },
+    { id: 'T2', kind: 'igbt', from: 'out', to: 'N', antiparallelDiode: true, rating: 2 },
+  ],
   patterns: { P: ['T1'], N: ['T2'] },
   ...over,
 });
@@ -93,7 +108,12 @@ describe('4. a file names only files beside it, and messages never quote a file'
       expect(r.stderr).toContain('folder of the file that names it');
     }
     const base = { drive: 'd', vdc: 750, topology: 'npc' };
-    for (const [key, value] of [['claimsFile', outside], ['claimsFile', '../outside-leg.json'], ['topology', '../outside-leg.json'], ['topology', outside]] as [string, string][]) {
+    for (const [key, value] of [
+      ['claimsFile', outside],
+      ['claimsFile', '../outside-leg.json'],
+      ['topology', '../outside-leg.json'],
+      ['topology', outside],
+    ] as [string, string][]) {
       const sc = join(sub, 'sc.json');
       writeFileSync(sc, JSON.stringify({ ...base, [key]: value }));
       const r = runBin(['report', '--scenario', sc, '--out', join(dir, 'sc.html')]);
@@ -112,15 +132,43 @@ describe('4. a file names only files beside it, and messages never quote a file'
 
 describe('5 and 9. work is bounded before it starts', () => {
   const parallel = (n: number) => ({
-    name: 'par', dcNodes: { P: 1, N: -1 }, output: 'out',
-    devices: [...Array.from({ length: n }, (_, i) => ({ id: `u${i}`, kind: 'mosfet', from: 'P', to: 'out', antiparallelDiode: true })), { id: 'd', kind: 'mosfet', from: 'out', to: 'N', antiparallelDiode: true }],
+    name: 'par',
+    dcNodes: { P: 1, N: -1 },
+    output: 'out',
+    devices: [
+      ...Array.from({ length: n }, (_, i) => ({ id: `u${i}`, kind: 'mosfet', from: 'P', to: 'out', antiparallelDiode: true })),
+      { id: 'd', kind: 'mosfet', from: 'out', to: 'N', antiparallelDiode: true },
+    ],
     patterns: { P: Array.from({ length: n }, (_, i) => `u${i}`), N: ['d'] },
   });
   it.each([
     ['21 parallel MOSFETs', parallel(21), 'side by side'],
     ['32 parallel MOSFETs', parallel(32), 'side by side'],
-    ['a 32-level leg', { name: 'many', dcNodes: Object.fromEntries(Array.from({ length: 32 }, (_, i) => [`V${i}`, 1 - (2 * i) / 31])), output: 'out', devices: [{ id: 'a', kind: 'igbt', from: 'V0', to: 'out' }, { id: 'b', kind: 'igbt', from: 'out', to: 'V31' }], patterns: { P: ['a'] } }, 'at most 21 DC nodes'],
-    ['65 devices', { name: 'big', dcNodes: { P: 1, N: -1 }, output: 'out', devices: Array.from({ length: 65 }, (_, i) => ({ id: `d${i}`, kind: 'diode', from: i % 2 ? 'P' : 'out', to: i % 2 ? 'out' : 'N' })), patterns: { X: [] } }, 'at most 64 devices'],
+    [
+      'a 32-level leg',
+      {
+        name: 'many',
+        dcNodes: Object.fromEntries(Array.from({ length: 32 }, (_, i) => [`V${i}`, 1 - (2 * i) / 31])),
+        output: 'out',
+        devices: [
+          { id: 'a', kind: 'igbt', from: 'V0', to: 'out' },
+          { id: 'b', kind: 'igbt', from: 'out', to: 'V31' },
+        ],
+        patterns: { P: ['a'] },
+      },
+      'at most 21 DC nodes',
+    ],
+    [
+      '65 devices',
+      {
+        name: 'big',
+        dcNodes: { P: 1, N: -1 },
+        output: 'out',
+        devices: Array.from({ length: 65 }, (_, i) => ({ id: `d${i}`, kind: 'diode', from: i % 2 ? 'P' : 'out', to: i % 2 ? 'out' : 'N' })),
+        patterns: { X: [] },
+      },
+      'at most 64 devices',
+    ],
   ])('refuses %s in well under a second, naming the limit', (_n, leg, hint) => {
     const p = write(`limit-${Math.random().toString(36).slice(2)}.json`, JSON.stringify(leg));
     const t0 = Date.now();
@@ -135,11 +183,23 @@ describe('5 and 9. work is bounded before it starts', () => {
   });
   it('refuses --jobs beyond the processors unless forced, a 13-level table, and a scenario switching 20000 times the fundamental', () => {
     oneLine(runBin(['atlas', '--topology', 'npc', '--pairs', '--jobs', '256']));
-    const thirteen = { name: '13', dcNodes: Object.fromEntries(Array.from({ length: 13 }, (_, i) => [`V${i}`, 1 - i / 6])), output: 'out', devices: [{ id: 'a', kind: 'igbt', from: 'V0', to: 'out' }, { id: 'b', kind: 'igbt', from: 'out', to: 'V12' }], patterns: { P: ['a'], N: ['b'] } };
+    const thirteen = {
+      name: '13',
+      dcNodes: Object.fromEntries(Array.from({ length: 13 }, (_, i) => [`V${i}`, 1 - i / 6])),
+      output: 'out',
+      devices: [
+        { id: 'a', kind: 'igbt', from: 'V0', to: 'out' },
+        { id: 'b', kind: 'igbt', from: 'out', to: 'V12' },
+      ],
+      patterns: { P: ['a'], N: ['b'] },
+    };
     const r = runBin(['export', '--format', 'json', '--out', join(dir, 'x.json'), '--topology', write('thirteen.json', JSON.stringify(thirteen))]);
     oneLine(r);
     expect(r.stderr).toContain('at most 11 levels');
-    const sc = write('fast.json', JSON.stringify({ drive: 'd', vdc: 750, topology: 'npc', fundamentalHz: 50, switchingHz: 1e6, ratedPowerKw: 10, ratedLineVoltageV: 400 }));
+    const sc = write(
+      'fast.json',
+      JSON.stringify({ drive: 'd', vdc: 750, topology: 'npc', fundamentalHz: 50, switchingHz: 1e6, ratedPowerKw: 10, ratedLineVoltageV: 400 }),
+    );
     const s = runBin(['report', '--scenario', sc, '--out', join(dir, 'fast.html')]);
     oneLine(s);
     expect(s.stderr).toContain('switchingHz');
@@ -148,14 +208,25 @@ describe('5 and 9. work is bounded before it starts', () => {
 
 describe('6. C index types follow the data', () => {
   it('declares every integer table in a type that holds its values (five-level leg, faulted NPC)', () => {
-    const ranges: Record<string, [number, number]> = { uint8_t: [0, 255], int8_t: [-128, 127], uint16_t: [0, 65535], int16_t: [-32768, 32767], uint32_t: [0, 4294967295], int32_t: [-2147483648, 2147483647] };
+    const ranges: Record<string, [number, number]> = {
+      uint8_t: [0, 255],
+      int8_t: [-128, 127],
+      uint16_t: [0, 65535],
+      int16_t: [-32768, 32767],
+      uint32_t: [0, 4294967295],
+      int32_t: [-2147483648, 2147483647],
+    };
     for (const topology of ['npc', JSON.parse(readFileSync(join(ROOT, 'examples/five-level-leg.json'), 'utf8'))]) {
       const h = exportC(switchingTable({ topology, faults: topology === 'npc' ? ['a.outerUpper'] : [] }));
       let checked = 0;
       for (const m of h.matchAll(/static const (u?int\d+_t) (\w+)\[[^=]*= \{([\s\S]*?)\n?\};/g)) {
         const [lo, hi] = ranges[m[1] as string]!;
         if (/0x/.test(m[3] as string)) continue; // gate masks are written in hex, in types of their own
-        const values = (m[3] as string).replace(/[{}\s]/g, ' ').split(/[ ,]+/).filter(Boolean).map(Number);
+        const values = (m[3] as string)
+          .replace(/[{}\s]/g, ' ')
+          .split(/[ ,]+/)
+          .filter(Boolean)
+          .map(Number);
         for (const v of values) {
           expect(Number.isInteger(v), `${m[2]}`).toBe(true);
           expect(v >= lo && v <= hi, `${m[2]} holds ${v}`).toBe(true);
@@ -168,25 +239,35 @@ describe('6. C index types follow the data', () => {
 });
 
 describe('7. the scale of potentials', () => {
-  it('refuses potentials outside the documented range, and gives the unit leg\'s answers scaled inside it', () => {
-    for (const v of [1e-160, 1e160, 1e300, 1e308]) expect(() => planRemedial({ topology: twoLevel({ dcNodes: { P: v, N: -v } }) })).toThrow(/between 0.000001 and 1000000/);
+  it("refuses potentials outside the documented range, and gives the unit leg's answers scaled inside it", () => {
+    for (const v of [1e-160, 1e160, 1e300, 1e308])
+      expect(() => planRemedial({ topology: twoLevel({ dcNodes: { P: v, N: -v } }) })).toThrow(/between 0.000001 and 1000000/);
     const unit = planRemedial({ topology: twoLevel() }).mMax;
     for (const k of [1e-5, 1e3]) {
-      const scaled = twoLevel({ dcNodes: { P: k, N: -k }, devices: [{ id: 'T1', kind: 'igbt', from: 'P', to: 'out', antiparallelDiode: true, rating: 2 * k }, { id: 'T2', kind: 'igbt', from: 'out', to: 'N', antiparallelDiode: true, rating: 2 * k }] });
+      const scaled = twoLevel({
+        dcNodes: { P: k, N: -k },
+        devices: [
+          { id: 'T1', kind: 'igbt', from: 'P', to: 'out', antiparallelDiode: true, rating: 2 * k },
+          { id: 'T2', kind: 'igbt', from: 'out', to: 'N', antiparallelDiode: true, rating: 2 * k },
+        ],
+      });
       expect(planRemedial({ topology: scaled }).mMax / k).toBeCloseTo(unit, 12);
     }
   });
 });
 
 describe('8. a named pipe is refused, not waited on', () => {
-  it.each([['check'], ['leg --topology'], ['simulate --topology npc --m 0.5 --load-angle 0 --vdc 700 --current-peak 10 --f1 50 --fsw 3000 --devices']])('%s FIFO: one line at once', (cmd) => {
-    const fifo = join(dir, `fifo-${Math.random().toString(36).slice(2)}.json`);
-    if (spawnSync('mkfifo', [fifo]).status !== 0) return;
-    const r = spawnSync(process.execPath, [BIN, ...cmd.split(' '), fifo], { cwd: ROOT, encoding: 'utf8', timeout: 10000 });
-    expect(r.signal).toBeNull();
-    expect(r.status).toBe(2);
-    expect(r.stderr).toContain('regular file');
-  });
+  it.each([['check'], ['leg --topology'], ['simulate --topology npc --m 0.5 --load-angle 0 --vdc 700 --current-peak 10 --f1 50 --fsw 3000 --devices']])(
+    '%s FIFO: one line at once',
+    (cmd) => {
+      const fifo = join(dir, `fifo-${Math.random().toString(36).slice(2)}.json`);
+      if (spawnSync('mkfifo', [fifo]).status !== 0) return;
+      const r = spawnSync(process.execPath, [BIN, ...cmd.split(' '), fifo], { cwd: ROOT, encoding: 'utf8', timeout: 10000 });
+      expect(r.signal).toBeNull();
+      expect(r.status).toBe(2);
+      expect(r.stderr).toContain('regular file');
+    },
+  );
 });
 
 describe('10. a termination signal during a write', () => {
@@ -194,9 +275,14 @@ describe('10. a termination signal during a write', () => {
     const sub = mkdtempSync(join(dir, 'sig-'));
     const target = join(sub, 'out.json');
     writeFileSync(target, 'old\n');
-    const child = spawn(process.execPath, [BIN, 'export', '--format', 'json', '--topology', 'npc', '--out', target], { cwd: ROOT, env: { ...process.env, HEXSALVAGE_WRITE_CHUNK: '4096', HEXSALVAGE_WRITE_DELAY_MS: '20' } });
+    const child = spawn(process.execPath, [BIN, 'export', '--format', 'json', '--topology', 'npc', '--out', target], {
+      cwd: ROOT,
+      env: { ...process.env, HEXSALVAGE_WRITE_CHUNK: '4096', HEXSALVAGE_WRITE_DELAY_MS: '20' },
+    });
     let stderr = '';
-    child.stderr.on('data', (d) => { stderr += d; });
+    child.stderr.on('data', (d) => {
+      stderr += d;
+    });
     const done = new Promise<number | null>((res) => child.on('exit', (code) => res(code)));
     // signal once the temporary file exists (the write has begun)
     for (let i = 0; i < 500 && tmpLeft(sub).length === 0; i++) await new Promise((r) => setTimeout(r, 10));
@@ -217,8 +303,18 @@ describe('11 and 12. names that print as something else', () => {
     for (const c of ['\u202e', '\u009b', '\u2028', '\u0085']) expect(r.stderr).not.toContain(c);
     expect(r.stderr).toContain('\\u202e');
   });
-  it.each([['a zero-width space', 'T1\u200b'], ['a control character', 'T\u0007'], ['a right-to-left override', 'T\u202e1']])('refuses an id with %s at parse time', (_n, id) => {
-    const leg = twoLevel({ devices: [{ id: 'T1', kind: 'igbt', from: 'P', to: 'out' }, { id, kind: 'igbt', from: 'out', to: 'N' }], patterns: { P: ['T1'], N: [id] } });
+  it.each([
+    ['a zero-width space', 'T1\u200b'],
+    ['a control character', 'T\u0007'],
+    ['a right-to-left override', 'T\u202e1'],
+  ])('refuses an id with %s at parse time', (_n, id) => {
+    const leg = twoLevel({
+      devices: [
+        { id: 'T1', kind: 'igbt', from: 'P', to: 'out' },
+        { id, kind: 'igbt', from: 'out', to: 'N' },
+      ],
+      patterns: { P: ['T1'], N: [id] },
+    });
     const p = write(`id-${Math.random().toString(36).slice(2)}.json`, JSON.stringify(leg));
     const r = runBin(['plot', 'leg', '--topology', p, '--out', join(dir, 'leg.png')]);
     oneLine(r);
@@ -242,7 +338,10 @@ describe('13. input errors, not internal ones', () => {
     expect(closed.stderr).toContain('standard output is closed');
   });
   it('names the scenario key behind a simulation option', () => {
-    const sc = write('sw.json', JSON.stringify({ drive: 'd', vdc: 750, topology: 'npc', fundamentalHz: 50, switchingHz: 100, ratedPowerKw: 10, ratedLineVoltageV: 400 }));
+    const sc = write(
+      'sw.json',
+      JSON.stringify({ drive: 'd', vdc: 750, topology: 'npc', fundamentalHz: 50, switchingHz: 100, ratedPowerKw: 10, ratedLineVoltageV: 400 }),
+    );
     const r = runBin(['report', '--scenario', sc, '--out', join(dir, 'sw.html')]);
     oneLine(r);
     expect(r.stderr).toContain('switchingHz');
@@ -261,7 +360,7 @@ describe('13. input errors, not internal ones', () => {
     const mod = createModulator(planRemedial({ topology: 'npc' }));
     expect(mod.modulateInto(Number.NaN, 0, 0, new Float64Array(4))).toBe(-2);
   });
-  it('keeps a space between every option and its help in every command\'s --help', async () => {
+  it("keeps a space between every option and its help in every command's --help", async () => {
     for (const cmd of ['plot', 'atlas', 'simulate', 'report', 'cycle']) {
       const r = await runInProcess([cmd, '--help']);
       for (const line of r.stdout.split('\n').filter((l) => l.startsWith('  --'))) expect(line).toMatch(/^ {2}--\S+( \S+)? +\S/);

@@ -43,12 +43,13 @@ describe('one notation for levels and vectors', () => {
       return { x: m[3] ? Number(m[1]) - w : Number(m[1]), y: Number(m[2]), w };
     });
     expect(labels.length).toBeGreaterThan(10);
-    for (let i = 0; i < labels.length; i++) for (let j = i + 1; j < labels.length; j++) {
-      const a = labels[i]!;
-      const b = labels[j]!;
-      const overlap = a.x < b.x + b.w && b.x < a.x + a.w && a.y - 8 < b.y + 1 && b.y - 8 < a.y + 1;
-      expect(overlap, `labels ${i} and ${j}`).toBe(false);
-    }
+    for (let i = 0; i < labels.length; i++)
+      for (let j = i + 1; j < labels.length; j++) {
+        const a = labels[i]!;
+        const b = labels[j]!;
+        const overlap = a.x < b.x + b.w && b.x < a.x + a.w && a.y - 8 < b.y + 1 && b.y - 8 < a.y + 1;
+        expect(overlap, `labels ${i} and ${j}`).toBe(false);
+      }
     expect(svg).toContain('labels left out where they would overlap');
     expect(svg).toContain('separated by &quot;/&quot;');
   });

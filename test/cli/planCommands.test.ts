@@ -25,7 +25,9 @@ describe('hexsalvage plan', () => {
     const r = await runInProcess(['plan', '--topology', 'anpc-hybrid', '--fault', 'a.innerUpper', '--load-angle', '25', '--polarity-margin', '4', '--json']);
     expect(r.code).toBe(0);
     const doc = JSON.parse(r.stdout);
-    expect(doc).toEqual(JSON.parse(JSON.stringify(planRemedial({ topology: 'anpc-hybrid', faults: ['a.innerUpper'], loadAngleDeg: 25, polarityMarginDeg: 4 }))));
+    expect(doc).toEqual(
+      JSON.parse(JSON.stringify(planRemedial({ topology: 'anpc-hybrid', faults: ['a.innerUpper'], loadAngleDeg: 25, polarityMarginDeg: 4 }))),
+    );
     expect(Object.keys(doc.polarities).sort()).toEqual([...POLARITY_STRINGS].sort());
     expect(doc.deratingRatio).toBeCloseTo(doc.mMax / doc.mMaxHealthy, 12);
   });

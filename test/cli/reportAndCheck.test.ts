@@ -10,7 +10,10 @@ const dir = mkdtempSync(join(tmpdir(), 'hexsalvage-report-'));
 
 describe('hexsalvage plot', () => {
   it.each(['diagram', 'sectors', 'derating', 'leg', 'sequence'])('writes a %s SVG for a built-in leg and for a netlist file', async (kind) => {
-    for (const [topology, fault] of [['tnpc', 'b.neutralToOut'], [join(ROOT, 'examples/five-level-leg.json'), 'a.s2']] as const) {
+    for (const [topology, fault] of [
+      ['tnpc', 'b.neutralToOut'],
+      [join(ROOT, 'examples/five-level-leg.json'), 'a.s2'],
+    ] as const) {
       const out = join(dir, `${kind}-${fault}.svg`);
       const r = await runInProcess(['plot', kind, '--topology', topology, '--fault', fault, '--load-angle', '20', '--out', out]);
       expect(r.code).toBe(0);
@@ -84,7 +87,19 @@ describe('hexsalvage check', () => {
 describe('hexsalvage report', () => {
   it('writes one self-contained HTML file with the cautions, the limit, every plot and the claims', async () => {
     const out = join(dir, 'review.html');
-    const r = await runInProcess(['report', '--topology', 'anpc-hybrid', '--fault', 'a.innerUpper', '--load-angle', '25', '--claims', join(ROOT, 'examples/pump-claims.json'), '--out', out]);
+    const r = await runInProcess([
+      'report',
+      '--topology',
+      'anpc-hybrid',
+      '--fault',
+      'a.innerUpper',
+      '--load-angle',
+      '25',
+      '--claims',
+      join(ROOT, 'examples/pump-claims.json'),
+      '--out',
+      out,
+    ]);
     expect(r.code).toBe(0);
     const html = readFileSync(out, 'utf8');
     expect(html).toContain('Caution');

@@ -15,22 +15,51 @@ describe.skipIf(!available && !process.env.CI)('report in a headless browser', (
     const artefacts = join(ROOT, 'test-artifacts');
     mkdirSync(artefacts, { recursive: true });
     const html = join(artefacts, 'review.html');
-    const r = runBin(['report', '--topology', 'anpc-hybrid', '--fault', 'a.innerUpper', '--load-angle', '25', '--polarity-margin', '3', '--claims', 'examples/pump-claims.json', '--out', html]);
+    const r = runBin([
+      'report',
+      '--topology',
+      'anpc-hybrid',
+      '--fault',
+      'a.innerUpper',
+      '--load-angle',
+      '25',
+      '--polarity-margin',
+      '3',
+      '--claims',
+      'examples/pump-claims.json',
+      '--out',
+      html,
+    ]);
     expect(r.code).toBe(0);
     const { chromium } = await import('playwright-core');
     const browser = await chromium.launch({
       executablePath: CHROMIUM,
-      args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+      args: [
+        '--no-sandbox',
+        '--disable-gpu',
+        '--disable-quic',
+        '--no-first-run',
+        '--disable-background-networking',
+        '--disable-component-update',
+        '--disable-sync',
+      ],
     });
     try {
       const page = await browser.newPage({ viewport: { width: 1000, height: 1400 } });
       const errors: string[] = [];
       const requests: string[] = [];
-      page.on('console', (m) => { if (m.type() === 'error') errors.push(m.text()); });
+      page.on('console', (m) => {
+        if (m.type() === 'error') errors.push(m.text());
+      });
       page.on('pageerror', (e) => errors.push(String(e)));
       page.on('request', (q) => requests.push(q.url()));
       await page.goto(`file://${html}`, { waitUntil: 'load' });
-      const boxes = await page.$$eval('svg', (svgs) => svgs.map((s) => { const b = s.getBoundingClientRect(); return [b.width, b.height]; }));
+      const boxes = await page.$$eval('svg', (svgs) =>
+        svgs.map((s) => {
+          const b = s.getBoundingClientRect();
+          return [b.width, b.height];
+        }),
+      );
       expect(boxes.length).toBeGreaterThanOrEqual(5);
       for (const [w, h] of boxes) {
         expect(w).toBeGreaterThan(50);

@@ -4,8 +4,21 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import {
-  analyseLeg, BUILTIN_TOPOLOGIES, builtinLeg, deratingCurve, diagramAtlas, evaluateClaim, faultAtlas, formatFault, limitOverLoadAngles, planFromAtlas, planRemedial,
-  simulatePeriod, simulationWaveform, switchingTable, type FaultMode,
+  analyseLeg,
+  BUILTIN_TOPOLOGIES,
+  builtinLeg,
+  deratingCurve,
+  diagramAtlas,
+  evaluateClaim,
+  faultAtlas,
+  formatFault,
+  limitOverLoadAngles,
+  planFromAtlas,
+  planRemedial,
+  simulatePeriod,
+  simulationWaveform,
+  switchingTable,
+  type FaultMode,
 } from '@hexsalvage/core';
 import { loadNetlistFile } from '@hexsalvage/core/node';
 import { deratingCurveSvg, legSchematicSvg, sectorOverviewSvg, vectorDiagramSvg, waveformsSvg } from '@hexsalvage/plot';
@@ -24,7 +37,8 @@ describe('1. the pair atlas names the phases of the pair', () => {
     expect(a.entries.length).toBeGreaterThan(1000);
     for (const e of a.entries) {
       const phases = new Set(e.faults.map((f) => f[0]));
-      for (const text of [e.reason, ...e.details]) for (const m of text.matchAll(/phase ([abc])/g)) expect(phases.has(m[1] as string), `${e.faults.join(' + ')}: ${text}`).toBe(true);
+      for (const text of [e.reason, ...e.details])
+        for (const m of text.matchAll(/phase ([abc])/g)) expect(phases.has(m[1] as string), `${e.faults.join(' + ')}: ${text}`).toBe(true);
     }
   });
   it('the case of the review: b.outerUpper + c.innerLower open', () => {
@@ -99,7 +113,13 @@ describe('4. unsafe rules never say "safe"', () => {
   });
   it('the report says NOT safe under relaxed rules', () => {
     const atlas = diagramAtlas({ topology: 'npc', faults: ['a.outerUpper'], ignoreRatings: true });
-    const html = buildReport({ atlas, plan: planFromAtlas(atlas, 0, 0), table: switchingTable({ topology: 'npc', faults: ['a.outerUpper'], ignoreRatings: true }), topologyText: 'npc', generatedBy: 'test' });
+    const html = buildReport({
+      atlas,
+      plan: planFromAtlas(atlas, 0, 0),
+      table: switchingTable({ topology: 'npc', faults: ['a.outerUpper'], ignoreRatings: true }),
+      topologyText: 'npc',
+      generatedBy: 'test',
+    });
     expect(html).toContain('faulted (NOT safe)');
     expect(html).toContain('These figures are NOT a safe operating limit');
   });
@@ -110,7 +130,9 @@ describe('5. claims on unrated legs say the ratings were not checked', () => {
     const t = await runInProcess(['check', join(ROOT, 'examples/pump-claims.json')]);
     expect(t.stdout).toContain('ratings NOT checked (no device rated)');
     expect(t.stdout).toMatch(/NOTE: five-level test leg, s1 open, light load: devices without a voltage rating were not checked/);
-    const j = JSON.parse((await runInProcess(['check', join(ROOT, 'examples/pump-claims.json'), '--json'])).stdout) as { claims: { name: string; unrated: string[]; deviceCount: number }[] };
+    const j = JSON.parse((await runInProcess(['check', join(ROOT, 'examples/pump-claims.json'), '--json'])).stdout) as {
+      claims: { name: string; unrated: string[]; deviceCount: number }[];
+    };
     const c = j.claims.find((x) => x.name.startsWith('five-level'));
     expect(c?.unrated).toHaveLength(14);
     expect(c?.deviceCount).toBe(14);
@@ -129,14 +151,22 @@ describe('6. "worst at" on a flat curve is the lowest angle of the range, rounde
     }
   });
   it('a claim on a flat range: worst at LO exactly (not −59.999999999999986)', () => {
-    for (const [lo, hi] of [[-60, 60], [-20, 20], [10, 40]] as const) {
+    for (const [lo, hi] of [
+      [-60, 60],
+      [-20, 20],
+      [10, 40],
+    ] as const) {
       const v = evaluateClaim({ name: 'flat', topology: 'anpc', faults: ['a.outerUpper'], m: 0.5, loadAngleDeg: [lo, hi] });
       expect(v.worstLoadAngleDeg).toBe(lo);
     }
   });
   it('the lowest angle is still a worst one where the curve is not flat (sampled check, 0.25° grid)', () => {
     const atlas = diagramAtlas({ topology: 'npc', faults: ['a.outerUpper.diode'] });
-    for (const [lo, hi] of [[-90, 90], [-10, 50], [5, 80]] as const) {
+    for (const [lo, hi] of [
+      [-90, 90],
+      [-10, 50],
+      [5, 80],
+    ] as const) {
       const r = limitOverLoadAngles(atlas.faulted, lo, hi, 0);
       let best = Infinity;
       let at = lo;
@@ -151,7 +181,7 @@ describe('6. "worst at" on a flat curve is the lowest angle of the range, rounde
   });
 });
 
-describe('7. the demo claims are stated in the drive\'s terms', () => {
+describe("7. the demo claims are stated in the drive's terms", () => {
   it('examples/pump-claims.json: 60 % speed holds, 80 % speed (320 V under V/f) fails, exit 1', async () => {
     const r = await runInProcess(['check', join(ROOT, 'examples/pump-claims.json'), '--json']);
     expect(r.code).toBe(1);
@@ -192,7 +222,7 @@ describe('9. the sector plot', () => {
     expect((svg.match(/<g class="sector/g) ?? []).length).toBe(6);
     expect(svg).toContain('θ 355.0°–55.0°');
   });
-  it('the minimum extent is an arc over the sector\'s range with the point where it is reached, never a full circle, and it is explained', () => {
+  it("the minimum extent is an arc over the sector's range with the point where it is reached, never a full circle, and it is explained", () => {
     expect((svg.match(/class="min-extent"/g) ?? []).length).toBe(6);
     expect(svg).not.toMatch(/<circle cx="[\d.]+" cy="[\d.]+" r="[\d.]+" fill="none" stroke="#009E73"/);
     expect(svg).toContain('min r, the shortest reach of those triangles within the sector');
@@ -203,16 +233,25 @@ describe('10. a cannot-run verdict reads as a stop, with its reason', () => {
   it('plan tnpc a.neutralToOut adjacent: CANNOT RUN at any load angle, and why', async () => {
     const r = await runInProcess(['plan', '--topology', 'tnpc', '--fault', 'a.neutralToOut', '--level-steps', 'adjacent']);
     expect(r.stdout).toContain('CANNOT RUN in this state at any load angle');
-    expect(r.stdout).toMatch(/Why: with currents ia > 0, ib < 0, ic < 0 \(polarity \+--\), no admissible triangle covers the directions 60° to 120° and 240° to 300° next to the origin/);
+    expect(r.stdout).toMatch(
+      /Why: with currents ia > 0, ib < 0, ic < 0 \(polarity \+--\), no admissible triangle covers the directions 60° to 120° and 240° to 300° next to the origin/,
+    );
     expect(r.stdout).toContain('phase a loses O for i > 0');
   });
   it('the plan carries the reason as data; stop is null where the leg runs', () => {
     const p = planRemedial({ topology: 'tnpc', faults: ['a.neutralToOut'], levelSteps: 'adjacent' });
-    expect(p.stop?.gapsDeg).toEqual([[60, 120], [240, 300]]);
+    expect(p.stop?.gapsDeg).toEqual([
+      [60, 120],
+      [240, 300],
+    ]);
     expect(planRemedial({ topology: 'npc', faults: ['a.outerUpper'] }).stop).toBeNull();
   });
   it('cannot run at one load angle ⇒ at every load angle (every polarity occurs at every angle): sampled', () => {
-    for (const [topology, f] of [['tnpc', 'a.neutralToOut'], ['npc', 'a.clampUpper'], ['tnpc', 'a.upper:short']] as const) {
+    for (const [topology, f] of [
+      ['tnpc', 'a.neutralToOut'],
+      ['npc', 'a.clampUpper'],
+      ['tnpc', 'a.upper:short'],
+    ] as const) {
       const atlas = diagramAtlas({ topology, faults: [f], levelSteps: 'adjacent' });
       for (let phi = -180; phi <= 180; phi += 7.5) expect(planFromAtlas(atlas, phi, 0).mMax).toBe(0);
     }
@@ -263,7 +302,11 @@ describe('12. the README tour runs as written on a fresh clone', () => {
     mkdirSync(join(clone, 'review'));
     for (const line of lines) {
       const command = line.replace(/\s+#.*$/, '');
-      const r = spawnSync('bash', ['-c', `hs() { node ${JSON.stringify(BIN)} "$@"; }; ${command}`], { cwd: clone, encoding: 'utf8', maxBuffer: 64 * 1024 * 1024 });
+      const r = spawnSync('bash', ['-c', `hs() { node ${JSON.stringify(BIN)} "$@"; }; ${command}`], {
+        cwd: clone,
+        encoding: 'utf8',
+        maxBuffer: 64 * 1024 * 1024,
+      });
       expect(r.status, `${command}\n${r.stderr}`).toBe(/exit 1/.test(line) ? 1 : 0);
     }
   });
@@ -299,7 +342,11 @@ describe('13. vector diagram labels on the five-level leg', () => {
     for (let i = 0; i < boxes.length; i++) {
       for (let j = 0; j < i; j++) {
         const [a, b] = [boxes[i] as number[], boxes[j] as number[]];
-        const hit = (a[0] as number) < (b[2] as number) - 0.01 && (b[0] as number) < (a[2] as number) - 0.01 && (a[1] as number) < (b[3] as number) - 0.01 && (b[1] as number) < (a[3] as number) - 0.01;
+        const hit =
+          (a[0] as number) < (b[2] as number) - 0.01 &&
+          (b[0] as number) < (a[2] as number) - 0.01 &&
+          (a[1] as number) < (b[3] as number) - 0.01 &&
+          (b[1] as number) < (a[3] as number) - 0.01;
         expect(hit).toBe(false);
       }
     }
@@ -334,7 +381,9 @@ describe('15. the library and a netlist file', () => {
   });
   it('loadNetlistFile gives the same plan as the CLI with the file', async () => {
     const lib = planRemedial({ topology: five, faults: ['a.s1'] });
-    const cli = JSON.parse((await runInProcess(['plan', '--topology', join(ROOT, 'examples/five-level-leg.json'), '--fault', 'a.s1', '--json'])).stdout) as { mMax: number };
+    const cli = JSON.parse((await runInProcess(['plan', '--topology', join(ROOT, 'examples/five-level-leg.json'), '--fault', 'a.s1', '--json'])).stdout) as {
+      mMax: number;
+    };
     expect(cli.mMax).toBe(lib.mMax);
   });
   it('loadNetlistFile refuses a bad file with a typed error naming it', () => {
@@ -343,14 +392,17 @@ describe('15. the library and a netlist file', () => {
 });
 
 describe('16. small glitches', () => {
-  it('vectors: phase levels in the leg\'s notation', async () => {
+  it("vectors: phase levels in the leg's notation", async () => {
     const r = await runInProcess(['vectors', '--topology', 'npc', '--fault', 'a.outerUpper', '--polarity', '+--']);
     expect(r.stdout).toContain('Phase levels used: a N, O | b N, O, P | c N, O, P');
   });
   it('waveform plot: the current axis ticks are round numbers', () => {
     for (const peak of [171, 300, 42, 1234]) {
       const sim = simulatePeriod({ topology: 'npc', faults: ['a.outerUpper'], m: 0.4, loadAngleDeg: 20, vdc: 700, currentPeak: peak, f1: 50, fsw: 2000 });
-      const svg = waveformsSvg(sim, simulationWaveform({ topology: 'npc', faults: ['a.outerUpper'], m: 0.4, loadAngleDeg: 20, vdc: 700, currentPeak: peak, f1: 50, fsw: 2000 }));
+      const svg = waveformsSvg(
+        sim,
+        simulationWaveform({ topology: 'npc', faults: ['a.outerUpper'], m: 0.4, loadAngleDeg: 20, vdc: 700, currentPeak: peak, f1: 50, fsw: 2000 }),
+      );
       const ticks = [...svg.matchAll(/<text x="596" y="[\d.]+" font-size="9">(-?\d+)<\/text>/g)].map((m) => Math.abs(Number(m[1]))).filter((t) => t > 0);
       expect(ticks.length).toBe(4);
       for (const t of ticks) {

@@ -52,10 +52,29 @@ describe('the safe limit through the command line (contract, Version 2)', () => 
     const d = JSON.parse(r.stdout);
     expect(d.phases.a.patterns.O).toEqual({ '+': null, '-': 0, unsafe: { '+': 'outerUpper blocks 2 > rating 1' } });
     expect(d.phases.a.moves['+']).toEqual([]);
-    expect(d.phases.a.moves['-']).toEqual([[-1, 0], [-1, 1], [0, -1], [0, 1], [1, -1], [1, 0]]);
-    expect(d.phases.b.moves['?']).toEqual([[-1, 0], [-1, 1], [0, -1], [0, 1], [1, -1], [1, 0]]);
+    expect(d.phases.a.moves['-']).toEqual([
+      [-1, 0],
+      [-1, 1],
+      [0, -1],
+      [0, 1],
+      [1, -1],
+      [1, 0],
+    ]);
+    expect(d.phases.b.moves['?']).toEqual([
+      [-1, 0],
+      [-1, 1],
+      [0, -1],
+      [0, 1],
+      [1, -1],
+      [1, 0],
+    ]);
     const adj = JSON.parse((await runInProcess(['leg', '--topology', 'npc', '--level-steps', 'adjacent', '--json'])).stdout);
-    expect(adj.phases.a.moves['+']).toEqual([[-1, 0], [0, -1], [0, 1], [1, 0]]);
+    expect(adj.phases.a.moves['+']).toEqual([
+      [-1, 0],
+      [0, -1],
+      [0, 1],
+      [1, 0],
+    ]);
   });
 
   it('vectors --json reports the admissible tiling and its reach beside the hull radius', async () => {
@@ -66,15 +85,18 @@ describe('the safe limit through the command line (contract, Version 2)', () => 
     expect(d.outline.length).toBeGreaterThan(0);
   });
 
-  it('check fails a claim that only the hull would grant, and honours a claim\'s levelSteps', () => {
+  it("check fails a claim that only the hull would grant, and honours a claim's levelSteps", () => {
     const claims = join(dir, 'claims.json');
-    writeFileSync(claims, JSON.stringify({
-      claims: [
-        { name: 'clamp diode, first-version promise', topology: 'npc', faults: ['a.clampUpper'], m: 1.1, loadAngleDeg: [0, 30] },
-        { name: 'T-type neutral switch, commutable', topology: 'tnpc', faults: ['a.neutralToOut'], m: 1.1, loadAngleDeg: [0, 30] },
-        { name: 'T-type neutral switch, adjacent', topology: 'tnpc', faults: ['a.neutralToOut'], m: 1.1, loadAngleDeg: [0, 30], levelSteps: 'adjacent' },
-      ],
-    }));
+    writeFileSync(
+      claims,
+      JSON.stringify({
+        claims: [
+          { name: 'clamp diode, first-version promise', topology: 'npc', faults: ['a.clampUpper'], m: 1.1, loadAngleDeg: [0, 30] },
+          { name: 'T-type neutral switch, commutable', topology: 'tnpc', faults: ['a.neutralToOut'], m: 1.1, loadAngleDeg: [0, 30] },
+          { name: 'T-type neutral switch, adjacent', topology: 'tnpc', faults: ['a.neutralToOut'], m: 1.1, loadAngleDeg: [0, 30], levelSteps: 'adjacent' },
+        ],
+      }),
+    );
     const r = runBin(['check', claims, '--json']);
     expect(r.code).toBe(1);
     expect(JSON.parse(r.stdout).claims.map((c: { holds: boolean }) => c.holds)).toEqual([false, true, false]);
@@ -90,7 +112,10 @@ describe('the safe limit through the command line (contract, Version 2)', () => 
   it('table never uses pattern P in phase a while its current is positive with innerUpper open', async () => {
     const r = await runInProcess(['table', '--topology', 'npc', '--fault', 'a.innerUpper', '--json']);
     const t = JSON.parse(r.stdout);
-    for (const [pol, p] of Object.entries(t.polarities) as [string, { tableTriangles: { vertices: { realisations: { phases: { pattern: string }[] }[] }[] }[] }][]) {
+    for (const [pol, p] of Object.entries(t.polarities) as [
+      string,
+      { tableTriangles: { vertices: { realisations: { phases: { pattern: string }[] }[] }[] }[] },
+    ][]) {
       if (pol[0] !== '+') continue;
       for (const tri of p.tableTriangles) for (const v of tri.vertices) for (const rz of v.realisations) expect(rz.phases[0]!.pattern).not.toBe('P');
     }
@@ -108,10 +133,30 @@ describe('the safe limit through the command line (contract, Version 2)', () => 
   });
 
   it('cycle agrees with mMaxBalanced on both sides of it', async () => {
-    const plan = JSON.parse((await runInProcess(['plan', '--topology', 'npc', '--fault', 'a.clampUpper', '--load-angle', '25', '--level-steps', 'any', '--json'])).stdout);
+    const plan = JSON.parse(
+      (await runInProcess(['plan', '--topology', 'npc', '--fault', 'a.clampUpper', '--load-angle', '25', '--level-steps', 'any', '--json'])).stdout,
+    );
     expect(plan.mMaxBalanced).toBeGreaterThan(0.5);
     expect(plan.mMaxBalanced).toBeLessThan(1.1);
-    const run = async (m: number) => JSON.parse((await runInProcess(['cycle', '--topology', 'npc', '--fault', 'a.clampUpper', '--load-angle', '25', '--level-steps', 'any', '--m', String(m), '--json'])).stdout);
+    const run = async (m: number) =>
+      JSON.parse(
+        (
+          await runInProcess([
+            'cycle',
+            '--topology',
+            'npc',
+            '--fault',
+            'a.clampUpper',
+            '--load-angle',
+            '25',
+            '--level-steps',
+            'any',
+            '--m',
+            String(m),
+            '--json',
+          ])
+        ).stdout,
+      );
     expect((await run(1.1)).midpointDrift).toBe(true);
     expect((await run(plan.mMaxBalanced - 1e-3)).midpointDrift).toBe(false);
     expect((await run(plan.mMaxBalanced + 1e-3)).midpointDrift).toBe(true);

@@ -7,7 +7,27 @@ import { DEMO_DEVICES } from '@hexsalvage/core';
 import { ROOT, runBin, runInProcess } from '../support/cli.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'hexsalvage-sim-'));
-const base = ['simulate', '--topology', 'npc', '--fault', 'a.outerUpper', '--m', '0.5', '--load-angle', '20', '--polarity-margin', '5', '--vdc', '750', '--current-peak', '150', '--f1', '50', '--fsw', '3000'];
+const base = [
+  'simulate',
+  '--topology',
+  'npc',
+  '--fault',
+  'a.outerUpper',
+  '--m',
+  '0.5',
+  '--load-angle',
+  '20',
+  '--polarity-margin',
+  '5',
+  '--vdc',
+  '750',
+  '--current-peak',
+  '150',
+  '--f1',
+  '50',
+  '--fsw',
+  '3000',
+];
 
 describe('hexsalvage simulate', () => {
   it('prints the contract JSON: volts, amperes, watts, healthy beside', async () => {

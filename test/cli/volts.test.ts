@@ -40,13 +40,17 @@ describe('physical units (--vdc)', () => {
   });
 
   it('sweep, table and cycle show volts', async () => {
-    const csv = (await runInProcess(['sweep', '--topology', 'npc', '--fault', 'a.outerUpper', '--step', '90', '--vdc', '800', '--csv'])).stdout.trim().split('\n');
+    const csv = (await runInProcess(['sweep', '--topology', 'npc', '--fault', 'a.outerUpper', '--step', '90', '--vdc', '800', '--csv'])).stdout
+      .trim()
+      .split('\n');
     expect(csv[0]).toMatch(/,phase_peak_max_v,line_rms_max_v$/);
     const [, mMax, , , , , , , pk, rms] = csv[1]!.split(',');
     expect(Number(pk)).toBeCloseTo(Number(mMax) * 400, 2);
     expect(Number(rms)).toBeCloseTo(Number(mMax) * 400 * Math.sqrt(1.5), 2);
     expect((await runInProcess(['table', '--topology', 'npc', '--polarity', '+--', '--vdc', '800'])).stdout).toContain('P = 400.0 V');
-    expect((await runInProcess(['cycle', '--topology', 'npc', '--m', '0.5', '--vdc', '800'])).stdout).toContain('At Vdc = 800.0 V: m = 244.9 V line-to-line RMS');
+    expect((await runInProcess(['cycle', '--topology', 'npc', '--m', '0.5', '--vdc', '800'])).stdout).toContain(
+      'At Vdc = 800.0 V: m = 244.9 V line-to-line RMS',
+    );
   });
 
   it('claims may promise line-to-line RMS volts instead of m', () => {
@@ -55,7 +59,10 @@ describe('physical units (--vdc)', () => {
     expect(byVolts.holds).toBe(true);
     expect(byVolts.volts?.lineRmsPromised).toBeCloseTo(250, 9);
     const file = join(dir, 'claims.json');
-    writeFileSync(file, JSON.stringify({ claims: [{ name: 'too much', topology: 'npc', faults: ['a.outerUpper'], vdc: 750, lineRmsV: 300, loadAngleDeg: [0, 30] }] }));
+    writeFileSync(
+      file,
+      JSON.stringify({ claims: [{ name: 'too much', topology: 'npc', faults: ['a.outerUpper'], vdc: 750, lineRmsV: 300, loadAngleDeg: [0, 30] }] }),
+    );
     const r = runBin(['check', file]);
     expect(r.code).toBe(1);
     expect(r.stdout).toContain('300.0 / 265.2 V (Vdc 750 V)');
@@ -71,7 +78,9 @@ describe('scenario file and the review report', () => {
     const schema = JSON.parse(readFileSync(join(ROOT, 'docs', 'schema', 'scenario.schema.json'), 'utf8'));
     const validate = new Ajv({ allErrors: true, strict: false }).compile(schema);
     expect(validate(JSON.parse(readFileSync(S, 'utf8'))), JSON.stringify(validate.errors)).toBe(true);
-    expect(validate({ drive: 'x', vdc: 700, topology: 'npc', claims: [{ name: 'a', topology: 'npc', faults: [], m: 1, lineRmsV: 2, loadAngleDeg: [0, 1] }] })).toBe(false);
+    expect(
+      validate({ drive: 'x', vdc: 700, topology: 'npc', claims: [{ name: 'a', topology: 'npc', faults: [], m: 1, lineRmsV: 2, loadAngleDeg: [0, 1] }] }),
+    ).toBe(false);
     const sc = readScenario(S);
     expect(sc.vdc).toBe(750);
     expect(sc.loadAngleDeg).toBe(25);
@@ -101,12 +110,20 @@ describe('scenario file and the review report', () => {
   it('report --scenario: header with the drive data, command line, version, date and input hashes; claims with their case; a sign-off block; byte-reproducible', () => {
     const out = join(dir, 'pump.html');
     const env = { ...process.env, SOURCE_DATE_EPOCH: '1796169600' };
-    const run = () => spawnSync(process.execPath, [join(ROOT, 'packages/cli/bin/hexsalvage.mjs'), 'report', '--scenario', 'examples/pump-scenario.json', '--out', out], { cwd: ROOT, env, encoding: 'utf8' });
+    const run = () =>
+      spawnSync(process.execPath, [join(ROOT, 'packages/cli/bin/hexsalvage.mjs'), 'report', '--scenario', 'examples/pump-scenario.json', '--out', out], {
+        cwd: ROOT,
+        env,
+        encoding: 'utf8',
+      });
     expect(run().status).toBe(0);
     const html = readFileSync(out, 'utf8');
     expect(run().status).toBe(0);
     expect(readFileSync(out, 'utf8')).toBe(html);
-    const sha = (p: string) => createHash('sha256').update(readFileSync(join(ROOT, p))).digest('hex');
+    const sha = (p: string) =>
+      createHash('sha256')
+        .update(readFileSync(join(ROOT, p)))
+        .digest('hex');
     expect(html).toContain('Circulation pump CP-2');
     expect(html).toContain('90.0 kW');
     expect(html).toContain('750.0 V (Vdc/2 = 375.0 V)');
@@ -124,8 +141,21 @@ describe('scenario file and the review report', () => {
   });
 
   it('commandLine quotes what a shell would split, and buildDate follows SOURCE_DATE_EPOCH', () => {
-    const args = { positionals: [], flags: new Set(['atlas']), values: new Map<string, string | number>([['out', 'my report.html'], ['load-angle', 25]]), lists: new Map([['fault', ["a.x:open"]]]) };
-    const specs = [{ name: 'fault', type: 'list' as const, help: '' }, { name: 'load-angle', type: 'number' as const, help: '' }, { name: 'atlas', type: 'flag' as const, help: '' }, { name: 'out', type: 'string' as const, help: '' }];
+    const args = {
+      positionals: [],
+      flags: new Set(['atlas']),
+      values: new Map<string, string | number>([
+        ['out', 'my report.html'],
+        ['load-angle', 25],
+      ]),
+      lists: new Map([['fault', ['a.x:open']]]),
+    };
+    const specs = [
+      { name: 'fault', type: 'list' as const, help: '' },
+      { name: 'load-angle', type: 'number' as const, help: '' },
+      { name: 'atlas', type: 'flag' as const, help: '' },
+      { name: 'out', type: 'string' as const, help: '' },
+    ];
     expect(commandLine('report', specs, args)).toBe("hexsalvage report --fault a.x:open --load-angle 25 --atlas --out 'my report.html'");
     expect(buildDate({ SOURCE_DATE_EPOCH: '0' })).toBe('1970-01-01T00:00:00Z');
     expect(buildDate({})).toMatch(/^\d{4}-\d\d-\d\dT\d\d:\d\d:\d\dZ$/);

@@ -3,7 +3,8 @@ import { chooseSequence, type PhaseState } from '@hexsalvage/core';
 
 // A three-level phase with one pattern per level (invented names): P, O, N.
 const NAMES: Record<number, string> = { 1: 'P', 0: 'O', [-1]: 'N' };
-const candidates = (_phase: number, level: number): PhaseState[] => (level in NAMES ? [{ level, pattern: NAMES[level] as string, gates: [NAMES[level] as string] }] : []);
+const candidates = (_phase: number, level: number): PhaseState[] =>
+  level in NAMES ? [{ level, pattern: NAMES[level] as string, gates: [NAMES[level] as string] }] : [];
 // each step may change one phase by one pattern pair (the sequence rule)
 const step = (_k: number, a: PhaseState, b: PhaseState) => Math.abs(a.level - b.level) <= 1;
 

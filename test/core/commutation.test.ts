@@ -1,8 +1,18 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import {
-  BUILTIN_TOPOLOGIES, builtinLeg, commutates, expandElements, gateSetSolver, legLevels, parseNetlist, patternLevel, phaseCommutations,
-  type LegNetlist, type LevelMove, type PhasePolarity,
+  BUILTIN_TOPOLOGIES,
+  builtinLeg,
+  commutates,
+  expandElements,
+  gateSetSolver,
+  legLevels,
+  parseNetlist,
+  patternLevel,
+  phaseCommutations,
+  type LegNetlist,
+  type LevelMove,
+  type PhasePolarity,
 } from '@hexsalvage/core';
 
 // phaseCommutations takes two shortcuts: it stops at the first commutating pattern pair of each
@@ -15,12 +25,17 @@ function plainMoves(leg: LegNetlist, faults: ReadonlyMap<string, 'open' | 'short
   const patterns = Object.values(leg.patterns);
   const level = patterns.map((g) => patternLevel(solve, g, pol));
   const forward = new Set<string>();
-  patterns.forEach((a, i) => patterns.forEach((b, j) => {
-    const li = level[i];
-    const lj = level[j];
-    if (i !== j && li !== null && lj !== null && li !== lj && commutates(solve, a, b, pol)) forward.add(`${li}>${lj}`);
-  }));
-  return [...forward].map((f) => f.split('>').map(Number) as [number, number]).filter(([a, b]) => forward.has(`${b}>${a}`)).sort((x, y) => x[0] - y[0] || x[1] - y[1]);
+  patterns.forEach((a, i) =>
+    patterns.forEach((b, j) => {
+      const li = level[i];
+      const lj = level[j];
+      if (i !== j && li !== null && lj !== null && li !== lj && commutates(solve, a, b, pol)) forward.add(`${li}>${lj}`);
+    }),
+  );
+  return [...forward]
+    .map((f) => f.split('>').map(Number) as [number, number])
+    .filter(([a, b]) => forward.has(`${b}>${a}`))
+    .sort((x, y) => x[0] - y[0] || x[1] - y[1]);
 }
 
 function check(leg: LegNetlist, faults: ReadonlyMap<string, 'open' | 'short'>): void {
@@ -29,9 +44,11 @@ function check(leg: LegNetlist, faults: ReadonlyMap<string, 'open' | 'short'>): 
   const c = phaseCommutations(solve, patterns);
   for (const pol of ['+', '-', '?'] as const) {
     expect(c.moves[pol], `${leg.name} ${[...faults].join()} ${pol}`).toEqual(plainMoves(leg, faults, pol));
-    patterns.forEach((a, i) => patterns.forEach((b, j) => {
-      if (i !== j) expect(c.patternsCommute(pol, i, j)).toBe(commutates(solve, a, b, pol));
-    }));
+    patterns.forEach((a, i) =>
+      patterns.forEach((b, j) => {
+        if (i !== j) expect(c.patternsCommute(pol, i, j)).toBe(commutates(solve, a, b, pol));
+      }),
+    );
   }
   // the neighbour moves, asked of a fresh search (signs first, so that the reuse of '?' is taken
   // before the '?' moves are asked for), are the plain moves between neighbouring levels

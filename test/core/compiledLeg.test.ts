@@ -44,7 +44,13 @@ describe('compiledLeg', () => {
   it('agrees with the plain conduction rules on every gate set of every built-in leg, healthy and with each single fault', () => {
     for (const t of BUILTIN_TOPOLOGIES) {
       const leg = builtinLeg(t);
-      const gated = [...new Set(expandElements(leg).filter((e) => e.gated).map((e) => e.id))];
+      const gated = [
+        ...new Set(
+          expandElements(leg)
+            .filter((e) => e.gated)
+            .map((e) => e.id),
+        ),
+      ];
       const all = subsets(gated);
       agrees(leg, new Map(), all);
       for (const e of expandElements(leg)) for (const mode of ['open', 'short'] as const) agrees(leg, new Map([[e.id, mode]]), all);
@@ -53,41 +59,73 @@ describe('compiledLeg', () => {
 
   it('agrees on the five-level example leg, where several DC nodes can shoot through to several lower ones', () => {
     const leg = parseNetlist(JSON.parse(readFileSync(new URL('../../examples/five-level-leg.json', import.meta.url), 'utf8')), 'five-level-leg.json');
-    const gated = [...new Set(expandElements(leg).filter((e) => e.gated).map((e) => e.id))];
-    fc.assert(fc.property(fc.array(fc.subarray(gated), { minLength: 1, maxLength: 40 }), fc.subarray(expandElements(leg).map((e) => e.id), { maxLength: 3 }), fc.boolean(), (sets, faulted, short) => {
-      agrees(leg, new Map(faulted.map((id) => [id, short ? 'short' : 'open'] as const)), sets);
-    }), fcParams(60));
+    const gated = [
+      ...new Set(
+        expandElements(leg)
+          .filter((e) => e.gated)
+          .map((e) => e.id),
+      ),
+    ];
+    fc.assert(
+      fc.property(
+        fc.array(fc.subarray(gated), { minLength: 1, maxLength: 40 }),
+        fc.subarray(
+          expandElements(leg).map((e) => e.id),
+          { maxLength: 3 },
+        ),
+        fc.boolean(),
+        (sets, faulted, short) => {
+          agrees(leg, new Map(faulted.map((id) => [id, short ? 'short' : 'open'] as const)), sets);
+        },
+      ),
+      fcParams(60),
+    );
   });
 
   it('agrees on random netlists with up to five DC nodes, random faults and random gate sets', () => {
     const device = fc.record({ kind: fc.constantFrom('igbt', 'mosfet', 'diode'), from: fc.nat(40), to: fc.nat(40), antiparallelDiode: fc.boolean() });
     const potentials = fc.uniqueArray(fc.integer({ min: -4, max: 4 }), { minLength: 2, maxLength: 5 });
     const before = { ...seen };
-    fc.assert(fc.property(fc.array(device, { minLength: 2, maxLength: 12 }), potentials, fc.array(fc.nat(2), { maxLength: 12 }), fc.array(fc.array(fc.nat(11)), { minLength: 1, maxLength: 20 }), (devs, pots, modes, picks) => {
-      // nodes: the DC nodes, the output and two internal ones; the two ends of a device differ and
-      // the first device touches the output, so that most netlists pass the parser
-      const dcNodes = Object.fromEntries(pots.map((p, k) => [`V${k}`, p]));
-      const nodes = [...Object.keys(dcNodes), 'out', 'X', 'Y'];
-      const devices = devs.map((d, i) => {
-        const from = i === 0 ? 'out' : (nodes[d.from % nodes.length] as string);
-        const rest = nodes.filter((n) => n !== from);
-        return { id: `e${i}`, kind: d.kind, from, to: rest[d.to % rest.length] as string, antiparallelDiode: d.kind !== 'diode' && d.antiparallelDiode };
-      });
-      const gated = devices.filter((d) => d.kind !== 'diode').map((d) => d.id);
-      let leg: LegNetlist;
-      try {
-        leg = parseNetlist({ name: 'random', dcNodes, output: 'out', devices, patterns: { p0: gated.slice(0, 1) } }, 'random.json');
-      } catch (e) {
-        // a netlist the parser refuses (an internal node with one device, say) is not the point
-        // here, but it must be refused with a typed error
-        expect(e).toBeInstanceOf(HexsalvageInputError);
-        return;
-      }
-      const ids = expandElements(leg).map((e) => e.id);
-      const faults = new Map<string, FaultMode>();
-      modes.forEach((m, i) => { if (m > 0 && ids[i] !== undefined) faults.set(ids[i] as string, m === 1 ? 'open' : 'short'); });
-      agrees(leg, faults, picks.map((p) => [...new Set(p.filter((i) => i < gated.length).map((i) => gated[i] as string))]));
-    }), fcParams(300));
+    fc.assert(
+      fc.property(
+        fc.array(device, { minLength: 2, maxLength: 12 }),
+        potentials,
+        fc.array(fc.nat(2), { maxLength: 12 }),
+        fc.array(fc.array(fc.nat(11)), { minLength: 1, maxLength: 20 }),
+        (devs, pots, modes, picks) => {
+          // nodes: the DC nodes, the output and two internal ones; the two ends of a device differ and
+          // the first device touches the output, so that most netlists pass the parser
+          const dcNodes = Object.fromEntries(pots.map((p, k) => [`V${k}`, p]));
+          const nodes = [...Object.keys(dcNodes), 'out', 'X', 'Y'];
+          const devices = devs.map((d, i) => {
+            const from = i === 0 ? 'out' : (nodes[d.from % nodes.length] as string);
+            const rest = nodes.filter((n) => n !== from);
+            return { id: `e${i}`, kind: d.kind, from, to: rest[d.to % rest.length] as string, antiparallelDiode: d.kind !== 'diode' && d.antiparallelDiode };
+          });
+          const gated = devices.filter((d) => d.kind !== 'diode').map((d) => d.id);
+          let leg: LegNetlist;
+          try {
+            leg = parseNetlist({ name: 'random', dcNodes, output: 'out', devices, patterns: { p0: gated.slice(0, 1) } }, 'random.json');
+          } catch (e) {
+            // a netlist the parser refuses (an internal node with one device, say) is not the point
+            // here, but it must be refused with a typed error
+            expect(e).toBeInstanceOf(HexsalvageInputError);
+            return;
+          }
+          const ids = expandElements(leg).map((e) => e.id);
+          const faults = new Map<string, FaultMode>();
+          modes.forEach((m, i) => {
+            if (m > 0 && ids[i] !== undefined) faults.set(ids[i] as string, m === 1 ? 'open' : 'short');
+          });
+          agrees(
+            leg,
+            faults,
+            picks.map((p) => [...new Set(p.filter((i) => i < gated.length).map((i) => gated[i] as string))]),
+          );
+        },
+      ),
+      fcParams(300),
+    );
     // the generator must reach the solver and produce both outcomes, or the property proves nothing
     expect(seen.sets - before.sets).toBeGreaterThan(300);
     expect(seen.shootThrough - before.shootThrough).toBeGreaterThan(30);

@@ -30,7 +30,10 @@ describe('exploreLeg', () => {
   it('finds the zero level a sparse pattern list misses once a clamp path fails', () => {
     // A user lists only O-upper for the zero level. With clampUpper open, O-upper loses O for
     // i<0, but the hardware can still reach O through clampLower: exploration must say so.
-    const leg = { ...builtinLeg('anpc'), patterns: { P: ['outerUpper', 'innerUpper', 'clampLower'], 'O-upper': ['clampUpper', 'innerUpper'], N: ['innerLower', 'outerLower', 'clampUpper'] } };
+    const leg = {
+      ...builtinLeg('anpc'),
+      patterns: { P: ['outerUpper', 'innerUpper', 'clampLower'], 'O-upper': ['clampUpper', 'innerUpper'], N: ['innerLower', 'outerLower', 'clampUpper'] },
+    };
     const a = analyseLeg({ topology: leg, faults: ['a.clampUpper'] });
     expect(a.phases.a.levels['-']).toEqual([-1, 1]);
     const x = exploreLeg(a);
@@ -40,8 +43,19 @@ describe('exploreLeg', () => {
   });
 
   it('reports too many switches as data', () => {
-    const devices = Array.from({ length: 17 }, (_, i) => ({ id: `s${i}`, kind: 'igbt' as const, from: i === 0 ? 'P' : `n${i}`, to: i === 16 ? 'out' : `n${i + 1}` }));
-    const leg = { name: 'long', dcNodes: { P: 1, N: -1 }, output: 'out', devices: [...devices, { id: 'd', kind: 'diode' as const, from: 'N', to: 'out' }], patterns: { on: devices.map((d) => d.id) } };
+    const devices = Array.from({ length: 17 }, (_, i) => ({
+      id: `s${i}`,
+      kind: 'igbt' as const,
+      from: i === 0 ? 'P' : `n${i}`,
+      to: i === 16 ? 'out' : `n${i + 1}`,
+    }));
+    const leg = {
+      name: 'long',
+      dcNodes: { P: 1, N: -1 },
+      output: 'out',
+      devices: [...devices, { id: 'd', kind: 'diode' as const, from: 'N', to: 'out' }],
+      patterns: { on: devices.map((d) => d.id) },
+    };
     const x = exploreLeg(analyseLeg({ topology: leg }));
     expect(x).toMatchObject({ ok: false });
   });

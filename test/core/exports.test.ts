@@ -4,7 +4,17 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { Ajv } from 'ajv';
 import { describe, expect, it } from 'vitest';
-import { createModulator, CSV_COLUMNS, exportC, exportCsv, exportDocument, HexsalvageInputError, planRemedial, POLARITY_STRINGS, switchingTable } from '@hexsalvage/core';
+import {
+  createModulator,
+  CSV_COLUMNS,
+  exportC,
+  exportCsv,
+  exportDocument,
+  HexsalvageInputError,
+  planRemedial,
+  POLARITY_STRINGS,
+  switchingTable,
+} from '@hexsalvage/core';
 import { fc, FC_SEED } from '../support/fc.js';
 
 const SCHEMA = JSON.parse(readFileSync(new URL('../../docs/schema/export.schema.json', import.meta.url), 'utf8'));
@@ -12,8 +22,14 @@ const SCHEMA = JSON.parse(readFileSync(new URL('../../docs/schema/export.schema.
 describe('exportDocument', () => {
   // ajv (npm): a general-purpose JSON Schema validator checks real output against docs/schema.
   const validate = new Ajv({ allErrors: true, strict: false }).compile(SCHEMA);
-  it.each([['npc', ['a.outerUpper']], ['anpc-hybrid', ['a.innerUpper', 'b.clampLower.diode']], ['tnpc', []]] as const)('validates against the JSON Schema (%s %j)', (topology, faults) => {
-    const doc = JSON.parse(JSON.stringify(exportDocument(planRemedial({ topology, faults: [...faults], loadAngleDeg: 20 }), switchingTable({ topology, faults: [...faults] }))));
+  it.each([
+    ['npc', ['a.outerUpper']],
+    ['anpc-hybrid', ['a.innerUpper', 'b.clampLower.diode']],
+    ['tnpc', []],
+  ] as const)('validates against the JSON Schema (%s %j)', (topology, faults) => {
+    const doc = JSON.parse(
+      JSON.stringify(exportDocument(planRemedial({ topology, faults: [...faults], loadAngleDeg: 20 }), switchingTable({ topology, faults: [...faults] }))),
+    );
     const ok = validate(doc);
     expect(validate.errors ?? []).toEqual([]);
     expect(ok).toBe(true);
@@ -83,8 +99,13 @@ describe('exportC', () => {
 
   it.skipIf(!cc)('escapes awkward leg and pattern names so the header still compiles', () => {
     const leg = {
-      name: 'odd */ names??', dcNodes: { 'DC+': 1, 'DC-': -1 }, output: 'phase out',
-      devices: [{ id: 'T1', kind: 'igbt', from: 'DC+', to: 'phase out', antiparallelDiode: true }, { id: 'T2', kind: 'igbt', from: 'phase out', to: 'DC-', antiparallelDiode: true }],
+      name: 'odd */ names??',
+      dcNodes: { 'DC+': 1, 'DC-': -1 },
+      output: 'phase out',
+      devices: [
+        { id: 'T1', kind: 'igbt', from: 'DC+', to: 'phase out', antiparallelDiode: true },
+        { id: 'T2', kind: 'igbt', from: 'phase out', to: 'DC-', antiparallelDiode: true },
+      ],
       patterns: { 'hi "q" ü?': ['T1'], lo: ['T2'] },
     };
     const header = exportC(switchingTable({ topology: leg }));
@@ -102,12 +123,24 @@ describe('exportC', () => {
     expect(header).toContain('typedef float pump_real;');
     writeFileSync(join(dir, 'pump_table.h'), header);
     writeFileSync(join(dir, 'driver.c'), DRIVER_C);
-    execFileSync(cc as string, ['-std=c99', '-O2', '-Wall', '-Wextra', '-Werror', '-Wno-unused-function', '-o', join(dir, 'driver'), join(dir, 'driver.c'), '-lm']);
+    execFileSync(cc as string, [
+      '-std=c99',
+      '-O2',
+      '-Wall',
+      '-Wextra',
+      '-Werror',
+      '-Wno-unused-function',
+      '-o',
+      join(dir, 'driver'),
+      join(dir, 'driver.c'),
+      '-lm',
+    ]);
     const mod = createModulator(table);
     const buf = new Float64Array(4);
     // references inside each polarity's reach, in every direction
     // (integers, not fc.double, whose bias to tiny values would put most points at the origin vertex)
-    const cases = fc.sample(fc.tuple(fc.nat(24), fc.integer({ min: 1, max: 970 }), fc.integer({ min: 0, max: 359999 })), { seed: FC_SEED, numRuns: 3000 })
+    const cases = fc
+      .sample(fc.tuple(fc.nat(24), fc.integer({ min: 1, max: 970 }), fc.integer({ min: 0, max: 359999 })), { seed: FC_SEED, numRuns: 3000 })
       .map(([p, f, deg]) => {
         const r = (f / 1000) * table.polarities[POLARITY_STRINGS[p]!]!.reach;
         const th = (deg / 1000) * (Math.PI / 180);
@@ -115,7 +148,10 @@ describe('exportC', () => {
       })
       .filter(([p, a, b]) => mod.modulateInto(a, b, p, buf) >= 0 && buf[3] === 0 && Math.min(buf[0]!, buf[1]!, buf[2]!) > 1e-4);
     expect(cases.length).toBeGreaterThan(1000);
-    const out = execFileSync(join(dir, 'driver'), { input: cases.map(([p, a, b]) => `${p} ${a.toPrecision(17)} ${b.toPrecision(17)}`).join('\n') }).toString().trim().split('\n');
+    const out = execFileSync(join(dir, 'driver'), { input: cases.map(([p, a, b]) => `${p} ${a.toPrecision(17)} ${b.toPrecision(17)}`).join('\n') })
+      .toString()
+      .trim()
+      .split('\n');
     cases.forEach(([p, a, b], i) => {
       const t = mod.modulateInto(a, b, p, buf);
       const line = (out[i] as string).split(' ');
@@ -138,10 +174,16 @@ describe('exportC', () => {
     expect(h).toContain('#define DRV_POLARITY_MARGIN_DEG 2.0');
     expect(h).toContain('#define DRV_RULE_LEVEL_STEPS "commutable"');
     expect(h).toContain('#define DRV_VDC 750.0');
-    const total = Object.values(table.polarities).reduce((n, p) => n + p.tableTriangles.reduce((k, t) => k + t.vertices.reduce((j, v) => j + v.realisations.length, 0), 0), 0);
+    const total = Object.values(table.polarities).reduce(
+      (n, p) => n + p.tableTriangles.reduce((k, t) => k + t.vertices.reduce((j, v) => j + v.realisations.length, 0), 0),
+      0,
+    );
     expect(h).toContain(`#define DRV_REALISATION_COUNT ${total}`);
     // a small vector of the healthy polarities has a P-type and an N-type realisation with opposite midpoint signs
-    const signs = h.match(/drv_real_midpoint_sign\[\d+\] = \{([^}]*)\}/)![1]!.split(', ').map(Number);
+    const signs = h
+      .match(/drv_real_midpoint_sign\[\d+\] = \{([^}]*)\}/)![1]!
+      .split(', ')
+      .map(Number);
     expect(signs).toContain(1);
     expect(signs).toContain(-1);
     expect(() => exportC(table, { cType: 'half' as never })).toThrow(HexsalvageInputError);
@@ -159,11 +201,28 @@ describe('exportC', () => {
     const dir = mkdtempSync(join(tmpdir(), 'hexsalvage-c-'));
     writeFileSync(join(dir, 'pump_table.h'), exportC(table, { prefix: 'pump' }));
     writeFileSync(join(dir, 'driver.c'), DRIVER_C);
-    execFileSync(cc as string, ['-std=c99', '-O2', '-ffp-contract=off', '-Wall', '-Werror', '-Wno-unused-function', '-o', join(dir, 'driver'), join(dir, 'driver.c'), '-lm']);
+    execFileSync(cc as string, [
+      '-std=c99',
+      '-O2',
+      '-ffp-contract=off',
+      '-Wall',
+      '-Werror',
+      '-Wno-unused-function',
+      '-o',
+      join(dir, 'driver'),
+      join(dir, 'driver.c'),
+      '-lm',
+    ]);
     const mod = createModulator(table);
-    const rnd = fc.sample(fc.tuple(fc.nat(24), fc.double({ min: -1.6, max: 1.6, noNaN: true }), fc.double({ min: -1.6, max: 1.6, noNaN: true })), { seed: FC_SEED, numRuns: 3000 });
+    const rnd = fc.sample(fc.tuple(fc.nat(24), fc.double({ min: -1.6, max: 1.6, noNaN: true }), fc.double({ min: -1.6, max: 1.6, noNaN: true })), {
+      seed: FC_SEED,
+      numRuns: 3000,
+    });
     const cases = [...POLARITY_STRINGS.map((_, p) => [p, 0.1, 0.05] as [number, number, number]), ...rnd];
-    const out = execFileSync(join(dir, 'driver'), { input: cases.map(([p, a, b]) => `${p} ${a.toPrecision(17)} ${b.toPrecision(17)}`).join('\n') }).toString().trim().split('\n');
+    const out = execFileSync(join(dir, 'driver'), { input: cases.map(([p, a, b]) => `${p} ${a.toPrecision(17)} ${b.toPrecision(17)}`).join('\n') })
+      .toString()
+      .trim()
+      .split('\n');
     const buf = new Float64Array(4);
     cases.forEach(([p, a, b], i) => {
       const t = mod.modulateInto(a, b, p, buf);

@@ -26,50 +26,58 @@ function marched(d: { dwell: readonly (readonly (readonly number[])[])[] }, thet
 describe('extent of the admissible tiling', () => {
   it('agrees with a march along the ray through the triangles (property, step 1e-4)', () => {
     let compared = 0;
-    fc.assert(fc.property(caseArb, ({ topology, faults, polarity, levelSteps, theta }) => {
-      const d = diagramAtlas({ topology, faults, levelSteps }).faulted.get(polarity)!;
-      const e = radialExtent(d.geometry, theta).value;
-      if (!d.geometry.containsOrigin) {
-        expect(e).toBe(0);
-        return;
-      }
-      const step = 1e-4;
-      const m = marched(d, theta, step);
-      // never above what the triangles cover (the safe side) …
-      expect(e).toBeLessThanOrEqual(m + step + 1e-9);
-      // … and equal to it, except along a direction where the extent jumps (a ray grazing an outline
-      // edge): there e(θ) is the lower one-sided value, the infimum the limit must use
-      const ends = d.geometry.edges.flatMap((g) => (g.span ? [g.span[0], g.span[1]] : []));
-      const nearEnd = ends.some((x) => Math.abs(Math.atan2(Math.sin(theta - x), Math.cos(theta - x))) < 1e-6);
-      if (!nearEnd) expect(Math.abs(e - m)).toBeLessThanOrEqual(step + 1e-9);
-      compared++;
-    }), fcParams(250));
+    fc.assert(
+      fc.property(caseArb, ({ topology, faults, polarity, levelSteps, theta }) => {
+        const d = diagramAtlas({ topology, faults, levelSteps }).faulted.get(polarity)!;
+        const e = radialExtent(d.geometry, theta).value;
+        if (!d.geometry.containsOrigin) {
+          expect(e).toBe(0);
+          return;
+        }
+        const step = 1e-4;
+        const m = marched(d, theta, step);
+        // never above what the triangles cover (the safe side) …
+        expect(e).toBeLessThanOrEqual(m + step + 1e-9);
+        // … and equal to it, except along a direction where the extent jumps (a ray grazing an outline
+        // edge): there e(θ) is the lower one-sided value, the infimum the limit must use
+        const ends = d.geometry.edges.flatMap((g) => (g.span ? [g.span[0], g.span[1]] : []));
+        const nearEnd = ends.some((x) => Math.abs(Math.atan2(Math.sin(theta - x), Math.cos(theta - x))) < 1e-6);
+        if (!nearEnd) expect(Math.abs(e - m)).toBeLessThanOrEqual(step + 1e-9);
+        compared++;
+      }),
+      fcParams(250),
+    );
     expect(compared).toBeGreaterThan(50);
   });
 
   it('takes the exact minimum over an interval: never above a dense sampling, and reached by it', () => {
-    fc.assert(fc.property(caseArb, fc.double({ min: 0, max: 2 * Math.PI, noNaN: true }), ({ topology, faults, polarity, levelSteps, theta }, width) => {
-      const d = diagramAtlas({ topology, faults, levelSteps }).faulted.get(polarity)!;
-      const lo = theta;
-      const hi = theta + width;
-      const exact = minRadialExtent(d.geometry, lo, hi);
-      let sampled = Infinity;
-      for (let k = 0; k <= 400; k++) sampled = Math.min(sampled, radialExtent(d.geometry, lo + ((hi - lo) * k) / 400).value);
-      expect(exact.value).toBeLessThanOrEqual(sampled + 1e-12);
-      expect(radialExtent(d.geometry, exact.theta).value).toBeCloseTo(exact.value, 9);
-    }), fcParams(150));
+    fc.assert(
+      fc.property(caseArb, fc.double({ min: 0, max: 2 * Math.PI, noNaN: true }), ({ topology, faults, polarity, levelSteps, theta }, width) => {
+        const d = diagramAtlas({ topology, faults, levelSteps }).faulted.get(polarity)!;
+        const lo = theta;
+        const hi = theta + width;
+        const exact = minRadialExtent(d.geometry, lo, hi);
+        let sampled = Infinity;
+        for (let k = 0; k <= 400; k++) sampled = Math.min(sampled, radialExtent(d.geometry, lo + ((hi - lo) * k) / 400).value);
+        expect(exact.value).toBeLessThanOrEqual(sampled + 1e-12);
+        expect(radialExtent(d.geometry, exact.theta).value).toBeCloseTo(exact.value, 9);
+      }),
+      fcParams(150),
+    );
   });
 
   it('reaches as far as the union of admissible triangles on every built-in single fault (no tiling falls short)', () => {
-    for (const t of BUILTIN_TOPOLOGIES) for (const e of expandElements(builtinLeg(t))) for (const mode of ['open', 'short']) {
-      for (const levelSteps of ['commutable', 'adjacent'] as const) {
-        const atlas = diagramAtlas({ topology: t, faults: [`a.${e.id}:${mode}`], levelSteps });
-        for (const d of atlas.faulted.values()) {
-          expect(d.exactTiling).toBe(true);
-          expect(minRadialExtent(d.geometry, 0, 2 * Math.PI).value).toBeCloseTo(d.reach, 12);
+    for (const t of BUILTIN_TOPOLOGIES)
+      for (const e of expandElements(builtinLeg(t)))
+        for (const mode of ['open', 'short']) {
+          for (const levelSteps of ['commutable', 'adjacent'] as const) {
+            const atlas = diagramAtlas({ topology: t, faults: [`a.${e.id}:${mode}`], levelSteps });
+            for (const d of atlas.faulted.values()) {
+              expect(d.exactTiling).toBe(true);
+              expect(minRadialExtent(d.geometry, 0, 2 * Math.PI).value).toBeCloseTo(d.reach, 12);
+            }
+          }
         }
-      }
-    }
   });
 
   it('handles the degenerate diagrams: no triangle, a single level, the origin on the boundary', () => {

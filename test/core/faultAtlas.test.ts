@@ -1,6 +1,14 @@
 import { describe, expect, it } from 'vitest';
 import {
-  atlasWork, BUILTIN_TOPOLOGIES, builtinLeg, canonicalRotation, evaluateClaim, expandElements, faultAtlas, HexsalvageInputError, planRemedial,
+  atlasWork,
+  BUILTIN_TOPOLOGIES,
+  builtinLeg,
+  canonicalRotation,
+  evaluateClaim,
+  expandElements,
+  faultAtlas,
+  HexsalvageInputError,
+  planRemedial,
   type LegNetlist,
 } from '@hexsalvage/core';
 import { fc, fcParams } from '../support/fc.js';

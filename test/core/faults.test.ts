@@ -26,7 +26,10 @@ describe('parseFault', () => {
 describe('faultsByPhase', () => {
   it('groups several faults in several phases', () => {
     const g = faultsByPhase(['a.outerUpper', 'a.innerLower.diode', 'c.clampUpper'], builtinLeg('npc'));
-    expect([...g.a]).toEqual([['outerUpper', 'open'], ['innerLower.diode', 'open']]);
+    expect([...g.a]).toEqual([
+      ['outerUpper', 'open'],
+      ['innerLower.diode', 'open'],
+    ]);
     expect(g.b.size).toBe(0);
     expect([...g.c]).toEqual([['clampUpper', 'open']]);
   });

@@ -1,7 +1,19 @@
 import { describe, expect, it } from 'vitest';
 import {
-  clampToHull, clarke, convexHull, dwellMatrix, dwellTimes, hullGeometry, locateReference, minRadialExtent,
-  polygonArea, radialExtent, survivingVectors, triangleArea, triangulate, type Point,
+  clampToHull,
+  clarke,
+  convexHull,
+  dwellMatrix,
+  dwellTimes,
+  hullGeometry,
+  locateReference,
+  minRadialExtent,
+  polygonArea,
+  radialExtent,
+  survivingVectors,
+  triangleArea,
+  triangulate,
+  type Point,
 } from '@hexsalvage/core';
 
 const S3 = Math.sqrt(3);
@@ -20,10 +32,17 @@ describe('clarke', () => {
 
 describe('survivingVectors', () => {
   it('merges redundant triplets and orders vectors by length, then angle', () => {
-    const v = survivingVectors([[-1, 0, 1], [-1, 0, 1], [-1, 0, 1]]);
+    const v = survivingVectors([
+      [-1, 0, 1],
+      [-1, 0, 1],
+      [-1, 0, 1],
+    ]);
     expect(v).toHaveLength(19);
     expect(v[0]?.levels).toHaveLength(3); // zero vector: PPP, OOO, NNN
-    expect(v[1]?.levels).toEqual([[1, 0, 0], [0, -1, -1]]); // small vector at 0°, lexicographically descending
+    expect(v[1]?.levels).toEqual([
+      [1, 0, 0],
+      [0, -1, -1],
+    ]); // small vector at 0°, lexicographically descending
     expect(v[1]?.alpha).toBeCloseTo(2 / 3, 12);
   });
   it('returns nothing when a phase has no level', () => {
@@ -33,7 +52,14 @@ describe('survivingVectors', () => {
 
 describe('convexHull', () => {
   it('drops points in the middle of an edge and runs counter-clockwise', () => {
-    const pts: Point[] = [[0, 0], [1, 0], [0.5, 0], [1, 1], [0, 1], [0.5, 0.5]];
+    const pts: Point[] = [
+      [0, 0],
+      [1, 0],
+      [0.5, 0],
+      [1, 1],
+      [0, 1],
+      [0.5, 0.5],
+    ];
     const h = convexHull(pts);
     expect(h).toEqual([0, 1, 3, 4]);
     expect(polygonArea(h.map((i) => pts[i] as Point))).toBeCloseTo(1, 12);
@@ -41,11 +67,28 @@ describe('convexHull', () => {
   it('handles the degenerate cases as data', () => {
     expect(convexHull([])).toEqual([]);
     expect(convexHull([[1, 1]])).toEqual([0]);
-    expect(convexHull([[1, 1], [1, 1], [1, 1]])).toHaveLength(1);
-    expect(convexHull([[0, 0], [1, 1], [2, 2], [3, 3]])).toEqual([0, 3]); // collinear: no area
+    expect(
+      convexHull([
+        [1, 1],
+        [1, 1],
+        [1, 1],
+      ]),
+    ).toHaveLength(1);
+    expect(
+      convexHull([
+        [0, 0],
+        [1, 1],
+        [2, 2],
+        [3, 3],
+      ]),
+    ).toEqual([0, 3]); // collinear: no area
   });
   it('drops the medium vectors from the healthy three-level hexagon', () => {
-    const v = survivingVectors([[-1, 0, 1], [-1, 0, 1], [-1, 0, 1]]);
+    const v = survivingVectors([
+      [-1, 0, 1],
+      [-1, 0, 1],
+      [-1, 0, 1],
+    ]);
     const h = convexHull(v.map((x) => [x.alpha, x.beta]));
     expect(h).toHaveLength(6);
     for (const i of h) expect(Math.hypot(v[i]!.alpha, v[i]!.beta)).toBeCloseTo(4 / 3, 12);
@@ -56,7 +99,11 @@ describe('triangulate', () => {
   const areaOf = (pts: Point[]) => triangulate(pts).reduce((s, t) => s + triangleArea(pts, t), 0);
 
   it('tiles the hull of the healthy three-level diagram with 24 equal triangles', () => {
-    const v = survivingVectors([[-1, 0, 1], [-1, 0, 1], [-1, 0, 1]]);
+    const v = survivingVectors([
+      [-1, 0, 1],
+      [-1, 0, 1],
+      [-1, 0, 1],
+    ]);
     const pts: Point[] = v.map((x) => [x.alpha, x.beta]);
     const tris = triangulate(pts);
     expect(tris).toHaveLength(24);
@@ -64,25 +111,53 @@ describe('triangulate', () => {
     expect(areaOf(pts)).toBeCloseTo(polygonArea(convexHull(pts).map((i) => pts[i] as Point)), 12);
   });
   it('returns no triangle for fewer than three points or collinear points', () => {
-    expect(triangulate([[0, 0], [1, 0]])).toEqual([]);
-    expect(triangulate([[0, 0], [1, 0], [2, 0], [3, 0]])).toEqual([]);
+    expect(
+      triangulate([
+        [0, 0],
+        [1, 0],
+      ]),
+    ).toEqual([]);
+    expect(
+      triangulate([
+        [0, 0],
+        [1, 0],
+        [2, 0],
+        [3, 0],
+      ]),
+    ).toEqual([]);
   });
   it('leaves no zero-area sliver along a hull edge carrying collinear points', () => {
-    const pts: Point[] = [[0, 0], [1, 0], [2, 0], [3, 0], [1.5, 1]];
+    const pts: Point[] = [
+      [0, 0],
+      [1, 0],
+      [2, 0],
+      [3, 0],
+      [1.5, 1],
+    ];
     const tris = triangulate(pts);
     for (const t of tris) expect(Math.abs(triangleArea(pts, t))).toBeGreaterThan(1e-9);
     expect(areaOf(pts)).toBeCloseTo(1.5, 12);
   });
   it('resolves a cocircular tie deterministically', () => {
     // four corners of a square lie on one circle: either diagonal is Delaunay
-    const pts: Point[] = [[0, 0], [1, 0], [1, 1], [0, 1]];
+    const pts: Point[] = [
+      [0, 0],
+      [1, 0],
+      [1, 1],
+      [0, 1],
+    ];
     const a = triangulate(pts);
     expect(a).toHaveLength(2);
     expect(triangulate(pts.map((p) => [p[0], p[1]]))).toEqual(a);
     expect(areaOf(pts)).toBeCloseTo(1, 12);
   });
   it('orients every triangle counter-clockwise, starting at its smallest index', () => {
-    const pts: Point[] = [[0, 0], [2, 0], [1, 2], [1, 0.5]];
+    const pts: Point[] = [
+      [0, 0],
+      [2, 0],
+      [1, 2],
+      [1, 0.5],
+    ];
     for (const t of triangulate(pts)) {
       expect(triangleArea(pts, t)).toBeGreaterThan(0);
       expect(t[0]).toBe(Math.min(...t));
@@ -92,7 +167,11 @@ describe('triangulate', () => {
 
 describe('dwellMatrix', () => {
   it('inverts [[α],[β],[1]] so that the vertices rebuild the reference', () => {
-    const pts: Point[] = [[0, 0], [2 / 3, 0], [1 / 3, 1 / S3]];
+    const pts: Point[] = [
+      [0, 0],
+      [2 / 3, 0],
+      [1 / 3, 1 / S3],
+    ];
     const m = dwellMatrix(pts, [0, 1, 2]);
     const d = dwellTimes(m, 0.3, 0.1);
     expect(d[0] + d[1] + d[2]).toBeCloseTo(1, 12);
@@ -102,7 +181,12 @@ describe('dwellMatrix', () => {
 });
 
 describe('radialExtent and minRadialExtent', () => {
-  const square: Point[] = [[1, 1], [-1, 1], [-1, -1], [1, -1]];
+  const square: Point[] = [
+    [1, 1],
+    [-1, 1],
+    [-1, -1],
+    [1, -1],
+  ];
   const g = hullGeometry(square, convexHull(square));
   it('gives the distance to the boundary along a direction', () => {
     expect(radialExtent(g, 0).value).toBeCloseTo(1, 12);
@@ -119,16 +203,28 @@ describe('radialExtent and minRadialExtent', () => {
     expect(m.theta).toBe(0.2);
   });
   it('is zero when the origin is on the hull boundary or outside, or the hull has no area', () => {
-    const shifted: Point[] = [[0, 0], [1, 0], [1, 1], [0, 1]];
+    const shifted: Point[] = [
+      [0, 0],
+      [1, 0],
+      [1, 1],
+      [0, 1],
+    ];
     expect(hullGeometry(shifted, convexHull(shifted)).containsOrigin).toBe(false);
     expect(minRadialExtent(hullGeometry(shifted, convexHull(shifted)), 0, 1).value).toBe(0);
-    const line: Point[] = [[-1, 0], [1, 0]];
+    const line: Point[] = [
+      [-1, 0],
+      [1, 0],
+    ];
     expect(radialExtent(hullGeometry(line, convexHull(line)), 0).value).toBe(0);
   });
 });
 
 describe('locateReference', () => {
-  const v = survivingVectors([[-1, 1], [-1, 1], [-1, 1]]);
+  const v = survivingVectors([
+    [-1, 1],
+    [-1, 1],
+    [-1, 1],
+  ]);
   const pts: Point[] = v.map((x) => [x.alpha, x.beta]);
   const triangles = triangulate(pts);
   const d = { vectors: v, hull: convexHull(pts).map((i) => pts[i] as Point), triangles, dwell: triangles.map((t) => dwellMatrix(pts, t)) };
@@ -153,7 +249,12 @@ describe('locateReference', () => {
     expect(locateReference({ vectors: [], hull: [], triangles: [], dwell: [] }, 0, 0)).toEqual({ ok: false, reason: 'no-triangles' });
   });
   it('uses the nearest hull point where the ray misses the hull', () => {
-    const hull: Point[] = [[1, -0.5], [2, -0.5], [2, 0.5], [1, 0.5]];
+    const hull: Point[] = [
+      [1, -0.5],
+      [2, -0.5],
+      [2, 0.5],
+      [1, 0.5],
+    ];
     expect(clampToHull(hull, [0, 3])).toEqual([1, 0.5]);
     expect(clampToHull(hull, [0.5, 0])).toEqual([1, 0]); // ray enters the hull beyond the point
   });

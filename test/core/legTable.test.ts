@@ -104,7 +104,11 @@ describe('legTable', () => {
   });
 
   it.each(BUILTIN_TOPOLOGIES)('covers every element of %s in the hand-worked fault list', (topology) => {
-    expect(Object.keys(FAULTED[topology]).sort()).toEqual(expandElements(builtinLeg(topology)).map((e) => e.id).sort());
+    expect(Object.keys(FAULTED[topology]).sort()).toEqual(
+      expandElements(builtinLeg(topology))
+        .map((e) => e.id)
+        .sort(),
+    );
   });
 
   const cases = BUILTIN_TOPOLOGIES.flatMap((t) => Object.entries(FAULTED[t]).map(([el, row]) => [t, el, row] as const));

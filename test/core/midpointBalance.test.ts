@@ -1,5 +1,18 @@
 import { describe, expect, it } from 'vitest';
-import { BUILTIN_TOPOLOGIES, builtinLeg, diagramAtlas, expandElements, MIDPOINT_SAMPLES, MIDPOINT_TOLERANCE, balancedLimit, midpointProfile, midpointRangeAt, modulationLimit, polarityAt, type PolarityDiagram } from '@hexsalvage/core';
+import {
+  BUILTIN_TOPOLOGIES,
+  builtinLeg,
+  diagramAtlas,
+  expandElements,
+  MIDPOINT_SAMPLES,
+  MIDPOINT_TOLERANCE,
+  balancedLimit,
+  midpointProfile,
+  midpointRangeAt,
+  modulationLimit,
+  polarityAt,
+  type PolarityDiagram,
+} from '@hexsalvage/core';
 import { fc, fcParams } from '../support/fc.js';
 
 // An independent evaluation of the reachable range at one m: for every sample direction, find the
@@ -27,48 +40,55 @@ function direct(diagrams: ReadonlyMap<string, PolarityDiagram>, m: number, phiDe
   return [lo / MIDPOINT_SAMPLES, hi / MIDPOINT_SAMPLES];
 }
 
-const caseArb = fc.constantFrom('npc' as const, 'anpc' as const, 'anpc-hybrid' as const, 'tnpc' as const).chain((t) => fc.record({
-  topology: fc.constant(t),
-  fault: fc.constantFrom(...expandElements(builtinLeg(t)).map((e) => `a.${e.id}`)),
-  levelSteps: fc.constantFrom('commutable' as const, 'any' as const),
-  phi: fc.double({ min: -90, max: 90, noNaN: true }),
-  u: fc.double({ min: 0, max: 0.999, noNaN: true }),
-}));
+const caseArb = fc.constantFrom('npc' as const, 'anpc' as const, 'anpc-hybrid' as const, 'tnpc' as const).chain((t) =>
+  fc.record({
+    topology: fc.constant(t),
+    fault: fc.constantFrom(...expandElements(builtinLeg(t)).map((e) => `a.${e.id}`)),
+    levelSteps: fc.constantFrom('commutable' as const, 'any' as const),
+    phi: fc.double({ min: -90, max: 90, noNaN: true }),
+    u: fc.double({ min: 0, max: 0.999, noNaN: true }),
+  }),
+);
 
 describe('mMaxBalanced and the midpoint sweep', () => {
   it('gives the same reachable range as a direct evaluation, direction by direction (property, 1e-9)', () => {
-    fc.assert(fc.property(caseArb, ({ topology, fault, levelSteps, phi, u }) => {
-      const atlas = diagramAtlas({ topology, faults: [fault], levelSteps });
-      const mMax = modulationLimit(atlas.faulted, phi, 0).mMax;
-      if (mMax === 0) return;
-      const m = u * mMax;
-      const a = midpointRangeAt(midpointProfile(atlas.faulted, mMax, phi, 0), m);
-      const b = direct(atlas.faulted, m, phi, 0);
-      expect(a).not.toBeNull();
-      expect(b).not.toBeNull();
-      expect(a![0]).toBeCloseTo(b![0], 9);
-      expect(a![1]).toBeCloseTo(b![1], 9);
-    }), fcParams(120));
+    fc.assert(
+      fc.property(caseArb, ({ topology, fault, levelSteps, phi, u }) => {
+        const atlas = diagramAtlas({ topology, faults: [fault], levelSteps });
+        const mMax = modulationLimit(atlas.faulted, phi, 0).mMax;
+        if (mMax === 0) return;
+        const m = u * mMax;
+        const a = midpointRangeAt(midpointProfile(atlas.faulted, mMax, phi, 0), m);
+        const b = direct(atlas.faulted, m, phi, 0);
+        expect(a).not.toBeNull();
+        expect(b).not.toBeNull();
+        expect(a![0]).toBeCloseTo(b![0], 9);
+        expect(a![1]).toBeCloseTo(b![1], 9);
+      }),
+      fcParams(120),
+    );
   });
 
   it('is where zero leaves the reachable range: balanced just below, not just above', () => {
     let seen = 0;
-    for (const t of BUILTIN_TOPOLOGIES) for (const e of expandElements(builtinLeg(t))) for (const phi of [0, 25, 80]) {
-      const atlas = diagramAtlas({ topology: t, faults: [`a.${e.id}`], levelSteps: 'any' });
-      const mMax = modulationLimit(atlas.faulted, phi, 0).mMax;
-      if (mMax === 0) continue;
-      const p = midpointProfile(atlas.faulted, mMax, phi, 0);
-      const mb = balancedLimit(p);
-      const ok = (m: number) => {
-        const r = direct(atlas.faulted, m, phi, 0);
-        return r !== null && r[0] <= MIDPOINT_TOLERANCE && r[1] >= -MIDPOINT_TOLERANCE;
-      };
-      for (const f of [0.25, 0.5, 0.9, 0.999]) expect(ok(f * mb)).toBe(true);
-      if (mb < mMax - 1e-6) {
-        expect(ok(Math.min(mb + 1e-4, mMax * (1 - 1e-9)))).toBe(false);
-        seen++;
-      }
-    }
+    for (const t of BUILTIN_TOPOLOGIES)
+      for (const e of expandElements(builtinLeg(t)))
+        for (const phi of [0, 25, 80]) {
+          const atlas = diagramAtlas({ topology: t, faults: [`a.${e.id}`], levelSteps: 'any' });
+          const mMax = modulationLimit(atlas.faulted, phi, 0).mMax;
+          if (mMax === 0) continue;
+          const p = midpointProfile(atlas.faulted, mMax, phi, 0);
+          const mb = balancedLimit(p);
+          const ok = (m: number) => {
+            const r = direct(atlas.faulted, m, phi, 0);
+            return r !== null && r[0] <= MIDPOINT_TOLERANCE && r[1] >= -MIDPOINT_TOLERANCE;
+          };
+          for (const f of [0.25, 0.5, 0.9, 0.999]) expect(ok(f * mb)).toBe(true);
+          if (mb < mMax - 1e-6) {
+            expect(ok(Math.min(mb + 1e-4, mMax * (1 - 1e-9)))).toBe(false);
+            seen++;
+          }
+        }
     expect(seen).toBeGreaterThan(3);
   });
 });

@@ -14,7 +14,10 @@ function errorOf(doc: unknown): HexsalvageInputError {
   throw new Error('expected a HexsalvageInputError');
 }
 
-const base = () => JSON.parse(JSON.stringify(builtinLeg('npc'))) as Record<string, any>;
+// a copy of the NPC netlist as plain JSON data, to be broken in one place per case
+type NetlistJson = { [key: string]: unknown; devices: Record<string, unknown>[] };
+const base = () => JSON.parse(JSON.stringify(builtinLeg('npc'))) as NetlistJson;
+const dev = (d: NetlistJson, i: number): Record<string, unknown> => d.devices[i] as Record<string, unknown>;
 
 describe('parseNetlist', () => {
   it('accepts every built-in leg written out as a file', () => {
@@ -31,19 +34,83 @@ describe('parseNetlist', () => {
     ['a single DC node', () => ({ ...base(), dcNodes: { P: 1 } }), 'dcNodes'],
     ['an output equal to a DC node', () => ({ ...base(), output: 'O' }), 'output'],
     ['an output no device touches', () => ({ ...base(), output: 'load' }), 'output'],
-    ['an unknown node', () => { const d = base(); d.devices[1].to = 'oot'; return d; }, 'devices[1].to'],
-    ['a device id used twice', () => { const d = base(); d.devices[1].id = 'outerUpper'; return d; }, 'devices[1].id'],
-    ['a diode id clashing with a generated antiparallel diode', () => { const d = base(); d.devices[4].id = 'outerUpper.diode'; return d; }, 'devices[4].id'],
-    ['a wrong kind', () => { const d = base(); d.devices[0].kind = 'thyristor'; return d; }, 'devices[0].kind'],
-    ['a wrong type for from', () => { const d = base(); d.devices[0].from = 3; return d; }, 'devices[0].from'],
-    ['an antiparallel diode on a diode', () => { const d = base(); d.devices[4].antiparallelDiode = true; return d; }, 'devices[4].antiparallelDiode'],
-    ['a bad switching class', () => { const d = base(); d.devices[0].switching = 'fast'; return d; }, 'devices[0].switching'],
+    [
+      'an unknown node',
+      () => {
+        const d = base();
+        dev(d, 1).to = 'oot';
+        return d;
+      },
+      'devices[1].to',
+    ],
+    [
+      'a device id used twice',
+      () => {
+        const d = base();
+        dev(d, 1).id = 'outerUpper';
+        return d;
+      },
+      'devices[1].id',
+    ],
+    [
+      'a diode id clashing with a generated antiparallel diode',
+      () => {
+        const d = base();
+        dev(d, 4).id = 'outerUpper.diode';
+        return d;
+      },
+      'devices[4].id',
+    ],
+    [
+      'a wrong kind',
+      () => {
+        const d = base();
+        dev(d, 0).kind = 'thyristor';
+        return d;
+      },
+      'devices[0].kind',
+    ],
+    [
+      'a wrong type for from',
+      () => {
+        const d = base();
+        dev(d, 0).from = 3;
+        return d;
+      },
+      'devices[0].from',
+    ],
+    [
+      'an antiparallel diode on a diode',
+      () => {
+        const d = base();
+        dev(d, 4).antiparallelDiode = true;
+        return d;
+      },
+      'devices[4].antiparallelDiode',
+    ],
+    [
+      'a bad switching class',
+      () => {
+        const d = base();
+        dev(d, 0).switching = 'fast';
+        return d;
+      },
+      'devices[0].switching',
+    ],
     ['a pattern naming an unknown switch', () => ({ ...base(), patterns: { P: ['outerUper'] } }), 'patterns.P[0]'],
     ['a pattern naming a diode', () => ({ ...base(), patterns: { P: ['clampUpper'] } }), 'patterns.P[0]'],
     ['a pattern naming a switch twice', () => ({ ...base(), patterns: { P: ['outerUpper', 'outerUpper'] } }), 'patterns.P[1]'],
     ['no patterns', () => ({ ...base(), patterns: {} }), 'patterns'],
     ['a __proto__ key', () => JSON.parse('{"name":"x","__proto__":{"polluted":1}}'), '__proto__'],
-    ['a nested constructor key', () => { const d = base(); d.devices[0].constructor = 1; return d; }, 'devices[0].constructor'],
+    [
+      'a nested constructor key',
+      () => {
+        const d = base();
+        (dev(d, 0) as { constructor: unknown }).constructor = 1;
+        return d;
+      },
+      'devices[0].constructor',
+    ],
   ])('rejects %s, naming the key', (_what, make, key) => {
     const e = errorOf(make());
     expect(e.code).toBe('netlist');

@@ -1,12 +1,27 @@
 import { describe, expect, it } from 'vitest';
-import { deratingCurve, diagramAtlas, HexsalvageInputError, limitOverLoadAngles, modulationLimit, planRemedial, polaritySectors, POLARITY_STRINGS } from '@hexsalvage/core';
+import {
+  deratingCurve,
+  diagramAtlas,
+  HexsalvageInputError,
+  limitOverLoadAngles,
+  modulationLimit,
+  planRemedial,
+  polaritySectors,
+  POLARITY_STRINGS,
+} from '@hexsalvage/core';
 
 describe('polaritySectors', () => {
   it('splits the cycle at the six current zero crossings (plus 0°) without a margin', () => {
     const s = polaritySectors(0, 0);
     expect(s.map((x) => [x.fromDeg, x.toDeg, x.polarity])).toEqual([
       // i_a ∝ cos θ, i_b ∝ cos(θ − 120°), i_c ∝ cos(θ − 240°): crossings at 30°, 90°, …, 330°
-      [0, 30, '+--'], [30, 90, '++-'], [90, 150, '-+-'], [150, 210, '-++'], [210, 270, '--+'], [270, 330, '+-+'], [330, 360, '+--'],
+      [0, 30, '+--'],
+      [30, 90, '++-'],
+      [90, 150, '-+-'],
+      [150, 210, '-++'],
+      [210, 270, '--+'],
+      [270, 330, '+-+'],
+      [330, 360, '+--'],
     ]);
   });
   it('inserts a ? window of ±δ around each zero crossing', () => {
@@ -59,7 +74,12 @@ describe('planRemedial', () => {
     expect(planRemedial({ topology: 'npc', faults: ['a.outerUpper'] }).polarities['+--']!.lostTriplets).toBe(9);
     const key = (t: readonly number[]) => t.join(',');
     const healthy = planRemedial({ topology: 'npc' }).polarities['+--']!.vectors.flatMap((v) => v.levels.map(key));
-    for (const [topology, fault] of [['npc', 'b.innerLower'], ['npc', 'a.clampUpper:short'], ['tnpc', 'c.neutralToOut'], ['anpc-hybrid', 'a.innerUpper']] as const) {
+    for (const [topology, fault] of [
+      ['npc', 'b.innerLower'],
+      ['npc', 'a.clampUpper:short'],
+      ['tnpc', 'c.neutralToOut'],
+      ['anpc-hybrid', 'a.innerUpper'],
+    ] as const) {
       const plan = planRemedial({ topology, faults: [fault] });
       const all = planRemedial({ topology }).polarities['+--']!.vectors.flatMap((v) => v.levels.map(key));
       for (const p of POLARITY_STRINGS) {

@@ -1,8 +1,19 @@
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import {
-  analyseLeg, BUILTIN_TOPOLOGIES, builtinLeg, expandElements, HexsalvageInputError, legDocument, legTable, planRemedial, simulatePeriod, switchover, usableLevel,
-  type CurrentSign, type PatternResult,
+  analyseLeg,
+  BUILTIN_TOPOLOGIES,
+  builtinLeg,
+  expandElements,
+  HexsalvageInputError,
+  legDocument,
+  legTable,
+  planRemedial,
+  simulatePeriod,
+  switchover,
+  usableLevel,
+  type CurrentSign,
+  type PatternResult,
 } from '@hexsalvage/core';
 import { loadNetlistFile } from '@hexsalvage/core/node';
 import { ROOT, runInProcess } from '../support/cli.js';
@@ -25,7 +36,10 @@ describe('ambiguous diagnoses: one plan that holds whichever alternative is true
     expect(d.patterns.O).toEqual({ '+': 0, '-': 0 });
     expect(d.patterns.N).toEqual({ '+': -1, '-': -1 });
     expect(d.levels).toEqual({ '+': [-1, 0], '-': [-1, 0], '?': [-1, 0] });
-    expect(d.moves['+']).toEqual([[-1, 0], [0, -1]]);
+    expect(d.moves['+']).toEqual([
+      [-1, 0],
+      [0, -1],
+    ]);
   });
   it('plan lists the configurations and the limit of each alone', () => {
     const p = planRemedial({ topology: 'npc', faults: ['a.outerUpper|a.outerUpper.diode'], loadAngleDeg: 30 });
@@ -84,10 +98,17 @@ describe('the bypass to the DC midpoint', () => {
     const hull = planRemedial({ topology: SPLIT, faults: ['a.upper'], bypass: 'a', remedies: false }).polarities['+--']?.hull ?? [];
     // rhombus (±2/3, 0), (0, ±2/√3): the reachable line-to-line voltages of two legs against the midpoint
     expect(hull).toHaveLength(4);
-    for (const [x, y] of hull) expect(Math.abs(x) < 1e-12 ? Math.abs(Math.abs(y) - 2 / Math.sqrt(3)) : Math.abs(Math.abs(x) - 2 / 3) + Math.abs(y)).toBeLessThan(1e-12);
+    for (const [x, y] of hull)
+      expect(Math.abs(x) < 1e-12 ? Math.abs(Math.abs(y) - 2 / Math.sqrt(3)) : Math.abs(Math.abs(x) - 2 / 3) + Math.abs(y)).toBeLessThan(1e-12);
   });
-  it.each([['npc', 'a.innerUpper'], ['anpc', 'a.innerUpper'], ['anpc-hybrid', 'a.outerLower:short'], ['tnpc', 'a.neutralToOut']])('a bypassed %s phase (%s) gives the same rhombus', (topology, fault) => {
-    for (const phi of [-45, 0, 60]) expect(planRemedial({ topology, faults: [fault], bypass: 'a', loadAngleDeg: phi, remedies: false }).mMax).toBeCloseTo(INV_SQRT3, 12);
+  it.each([
+    ['npc', 'a.innerUpper'],
+    ['anpc', 'a.innerUpper'],
+    ['anpc-hybrid', 'a.outerLower:short'],
+    ['tnpc', 'a.neutralToOut'],
+  ])('a bypassed %s phase (%s) gives the same rhombus', (topology, fault) => {
+    for (const phi of [-45, 0, 60])
+      expect(planRemedial({ topology, faults: [fault], bypass: 'a', loadAngleDeg: phi, remedies: false }).mMax).toBeCloseTo(INV_SQRT3, 12);
   });
   it('the bypassed phase: level 0 for both signs through the tie, no moves, its own patterns unused', () => {
     const a = analyseLeg({ topology: 'npc', faults: ['a.innerUpper'], bypass: 'a' });
@@ -100,7 +121,18 @@ describe('the bypass to the DC midpoint', () => {
     expect(a.phases.b.levels).toEqual(analyseLeg({ topology: 'npc' }).healthy.levels);
   });
   it('the midpoint carries the phase current: ripple 2·Î/(ω·2C) peak to peak (charge of a half sine, textbook integral)', () => {
-    const s = simulatePeriod({ topology: SPLIT, faults: ['a.upper'], bypass: 'a', m: 0.5, loadAngleDeg: 20, vdc: 700, currentPeak: 100, f1: 50, fsw: 5000, capacitance: 0.002 });
+    const s = simulatePeriod({
+      topology: SPLIT,
+      faults: ['a.upper'],
+      bypass: 'a',
+      m: 0.5,
+      loadAngleDeg: 20,
+      vdc: 700,
+      currentPeak: 100,
+      f1: 50,
+      fsw: 5000,
+      capacitance: 0.002,
+    });
     const expected = (2 * 100) / (2 * Math.PI * 50 * 2 * 0.002);
     expect(Math.abs((s.midpoint.ripplePkPk as number) - expected) / expected).toBeLessThan(0.01);
   });
@@ -153,14 +185,20 @@ describe('remedies in every plan', () => {
     expect(t.stdout).toContain('needs a split DC link');
   });
   it('the atlas gives each fault its best remedy, rotated with its phase, in text and CSV', async () => {
-    const j = JSON.parse((await runInProcess(['atlas', '--topology', 'npc', '--json'])).stdout) as { entries: { faults: string[]; verdict: string; bestRemedy: { id: string; mMaxMin: number } | null }[] };
+    const j = JSON.parse((await runInProcess(['atlas', '--topology', 'npc', '--json'])).stdout) as {
+      entries: { faults: string[]; verdict: string; bestRemedy: { id: string; mMaxMin: number } | null }[];
+    };
     const inner = j.entries.find((e) => e.faults.join() === 'a.innerUpper:open');
     expect(inner?.bestRemedy?.id).toBe('bypass-a');
     expect(j.entries.filter((e) => e.verdict === 'full').every((e) => e.bestRemedy === null)).toBe(true);
     const pairs = JSON.parse((await runInProcess(['atlas', '--topology', 'npc', '--modes', 'open', '--pairs', '--json'])).stdout) as typeof j;
     for (const e of pairs.entries) {
       const m = /bypass-([abc])$/.exec(e.bestRemedy?.id ?? '');
-      if (m) expect(e.faults.some((f) => f.startsWith(`${m[1]}.`)), e.faults.join()).toBe(true);
+      if (m)
+        expect(
+          e.faults.some((f) => f.startsWith(`${m[1]}.`)),
+          e.faults.join(),
+        ).toBe(true);
     }
     const csv = (await runInProcess(['atlas', '--topology', 'npc', '--csv'])).stdout.split('\n');
     expect(csv[0]).toContain('best_remedy,best_remedy_m_max_min');
@@ -233,7 +271,9 @@ describe('switchover: from the fault to the degraded table', () => {
     const t = await runInProcess(['switchover', '--topology', 'npc', '--fault', 'a.clampUpper', '--m', '0.8', '--f1', '50', '--fsw', '5000']);
     expect(t.code).toBe(0);
     expect(t.stdout).toContain('turn innerUpper off, turn outerLower on → N');
-    const j = JSON.parse((await runInProcess(['switchover', '--topology', 'npc', '--fault', 'a.clampUpper', '--json'])).stdout) as { patterns: Record<string, Record<string, Record<string, string>>> };
+    const j = JSON.parse((await runInProcess(['switchover', '--topology', 'npc', '--fault', 'a.clampUpper', '--json'])).stdout) as {
+      patterns: Record<string, Record<string, Record<string, string>>>;
+    };
     expect(j.patterns.a?.O).toEqual({ '+': 'unsafe', '-': 'same' });
     const bad = await runInProcess(['switchover', '--topology', 'npc', '--fault', 'a.clampUpper', '--m', '0.8']);
     expect(bad.code).toBe(2);

@@ -4,16 +4,39 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import {
-  analyseLeg, BUILTIN_TOPOLOGIES, builtinLeg, commutates, createRuntime, deratingCurve, deratingSteps, diagramAtlas, expandElements, exportC,
-  HexsalvageInputError, legLevels, parsePolarity, patternLevel, planFromAtlas, POLARITY_STRINGS, runtimeStream, switchingTableFromAtlas,
-  type LegNetlist, type LevelStepRule, type PhasePolarity, type RuntimeOptions, type StreamSegment, type SwitchingTable,
+  analyseLeg,
+  BUILTIN_TOPOLOGIES,
+  builtinLeg,
+  commutates,
+  createRuntime,
+  deratingCurve,
+  deratingSteps,
+  diagramAtlas,
+  expandElements,
+  exportC,
+  HexsalvageInputError,
+  legLevels,
+  parsePolarity,
+  patternLevel,
+  planFromAtlas,
+  POLARITY_STRINGS,
+  runtimeStream,
+  switchingTableFromAtlas,
+  type LegNetlist,
+  type LevelStepRule,
+  type PhasePolarity,
+  type RuntimeOptions,
+  type StreamSegment,
+  type SwitchingTable,
 } from '@hexsalvage/core';
 import { fc, FC_SEED } from '../support/fc.js';
 
 const FIVE = JSON.parse(readFileSync(new URL('../../examples/five-level-leg.json', import.meta.url), 'utf8')) as LegNetlist;
 const LEGS: [string, string | LegNetlist][] = [...BUILTIN_TOPOLOGIES.map((t) => [t, t] as [string, string]), ['five-level', FIVE]];
 const dirs: string[] = [];
-afterAll(() => { for (const d of dirs) rmSync(d, { recursive: true, force: true }); });
+afterAll(() => {
+  for (const d of dirs) rmSync(d, { recursive: true, force: true });
+});
 
 // Every leg healthy and with every single fault of phase a (open and short), under both sequence rules.
 const CASES = LEGS.flatMap(([name, topology]) => {
@@ -63,7 +86,8 @@ function walk(stream: readonly StreamSegment[], topology: unknown, faults: reado
         const c = ct[k] as PhasePolarity;
         const l1 = patternLevel(table.solve, gj, c);
         const from = ['+', '-'].map((sg) => patternLevel(table.solve, gi, sg as PhasePolarity)).filter((l): l is number => l !== null);
-        const ok = l1 !== null && commutates(table.solve, gi, gj, c) && (levelSteps !== 'adjacent' || from.every((l) => Math.abs(dc.indexOf(l) - dc.indexOf(l1)) <= 1));
+        const ok =
+          l1 !== null && commutates(table.solve, gi, gj, c) && (levelSteps !== 'adjacent' || from.every((l) => Math.abs(dc.indexOf(l) - dc.indexOf(l1)) <= 1));
         if (!ok) bad.push(`${i}: phase ${'abc'[k]} ${s.patterns[k]}>${t.patterns[k]} entering ${c}`);
       }
     }
@@ -96,7 +120,10 @@ function lineFundamental(stream: readonly StreamSegment[]): number {
 describe('the runtime stream (contract, Version 3)', () => {
   // one seeded operating point per leg, fault and rule: m up to just below mMax, any load angle,
   // margin 0 or a few degrees, odd and even period counts
-  const points = fc.sample(fc.tuple(fc.integer({ min: 20, max: 99 }), fc.integer({ min: -90, max: 90 }), fc.constantFrom(0, 4), fc.integer({ min: 9, max: 48 })), { seed: FC_SEED, numRuns: CASES.length });
+  const points = fc.sample(
+    fc.tuple(fc.integer({ min: 20, max: 99 }), fc.integer({ min: -90, max: 90 }), fc.constantFrom(0, 4), fc.integer({ min: 9, max: 48 })),
+    { seed: FC_SEED, numRuns: CASES.length },
+  );
   it('moves one phase per step by allowed moves, chains periods, and keeps the fundamental (every leg, every single fault, both rules)', () => {
     let checked = 0;
     const held: string[] = [];
@@ -117,7 +144,8 @@ describe('the runtime stream (contract, Version 3)', () => {
       expect(s.segments.reduce((t, x) => t + x.dt, 0)).toBeCloseTo(1, 12);
       // the fundamental of a–b is √3·m; sampling the reference once per period costs a little
       // (about 1 − sinc(π/N) of it, from memory: the zero-order hold of regular sampling)
-      if (s.clampedUpdates === 0 && s.chainSteps === 0 && s.heldUpdates === 0) expect(Math.abs(lineFundamental(s.segments) / (Math.sqrt(3) * m) - 1), label).toBeLessThan(3 / (N * N) + 2e-3);
+      if (s.clampedUpdates === 0 && s.chainSteps === 0 && s.heldUpdates === 0)
+        expect(Math.abs(lineFundamental(s.segments) / (Math.sqrt(3) * m) - 1), label).toBeLessThan(3 / (N * N) + 2e-3);
       checked++;
     });
     expect(checked).toBeGreaterThan(200);
@@ -126,15 +154,23 @@ describe('the runtime stream (contract, Version 3)', () => {
   });
 
   it('never lets a healthy leg change two phases at once, in either sequence mode and either update (every built-in leg)', () => {
-    for (const [name, topology] of LEGS) for (const sequence of ['continuous', 'discontinuous'] as const) for (const update of ['period', 'half'] as const) {
-      const atlas = diagramAtlas({ topology, levelSteps: 'adjacent' });
-      const s = runtimeStream(switchingTableFromAtlas(atlas), { m: 0.9 * planFromAtlas(atlas, 20, 0).mMax, loadAngleDeg: 20, frequencyRatio: 61, sequence, update });
-      const w = walk(s.segments, topology, [], 'adjacent', true);
-      expect(w.bad, `${name} ${sequence} ${update}`).toEqual([]);
-      expect(w.multi, `${name} ${sequence} ${update}`).toBe(0);
-      expect(s.multiPhaseSteps).toBe(0);
-      expect(s.periodic).toBe(true);
-    }
+    for (const [name, topology] of LEGS)
+      for (const sequence of ['continuous', 'discontinuous'] as const)
+        for (const update of ['period', 'half'] as const) {
+          const atlas = diagramAtlas({ topology, levelSteps: 'adjacent' });
+          const s = runtimeStream(switchingTableFromAtlas(atlas), {
+            m: 0.9 * planFromAtlas(atlas, 20, 0).mMax,
+            loadAngleDeg: 20,
+            frequencyRatio: 61,
+            sequence,
+            update,
+          });
+          const w = walk(s.segments, topology, [], 'adjacent', true);
+          expect(w.bad, `${name} ${sequence} ${update}`).toEqual([]);
+          expect(w.multi, `${name} ${sequence} ${update}`).toBe(0);
+          expect(s.multiPhaseSteps).toBe(0);
+          expect(s.periodic).toBe(true);
+        }
   });
 
   it('a step count check that can fail: a stream with a two-phase step is counted', () => {
@@ -154,9 +190,16 @@ describe('midpoint balance built into the runtime', () => {
   // ≤ 0.2 % of the current peak up to mMaxBalanced, from the stream's own levels and sinusoidal
   // currents (the runtime in closed loop with its own midpoint charge, steady state)
   const cases: [string, string[], number, number, string | LegNetlist][] = [
-    ['npc', [], 0, 0, 'npc'], ['npc', [], 30, 0, 'npc'], ['npc', [], 75, 5, 'npc'], ['anpc', [], 40, 0, 'anpc'], ['tnpc', [], 60, 3, 'tnpc'],
+    ['npc', [], 0, 0, 'npc'],
+    ['npc', [], 30, 0, 'npc'],
+    ['npc', [], 75, 5, 'npc'],
+    ['anpc', [], 40, 0, 'anpc'],
+    ['tnpc', [], 60, 3, 'tnpc'],
     ['npc', ['a.outerUpper'], 25, 0, 'npc'],
-    ['anpc-hybrid', ['a.innerUpper'], 25, 3, 'anpc-hybrid'], ['tnpc', ['a.upper'], 10, 0, 'tnpc'], ['five-level', ['a.dB2:short'], 0, 5, FIVE], ['five-level', [], 45, 0, FIVE],
+    ['anpc-hybrid', ['a.innerUpper'], 25, 3, 'anpc-hybrid'],
+    ['tnpc', ['a.upper'], 10, 0, 'tnpc'],
+    ['five-level', ['a.dB2:short'], 0, 5, FIVE],
+    ['five-level', [], 45, 0, FIVE],
   ];
   it.each(cases)('%s %j at %d° (margin %d°): about zero at 50 %, 90 % and 99.5 % of mMaxBalanced', (_n, faults, phi, delta, topology) => {
     const atlas = diagramAtlas({ topology, faults });
@@ -186,7 +229,12 @@ describe('midpoint balance built into the runtime', () => {
 
 describe('runtime input checks', () => {
   const table = switchingTableFromAtlas(diagramAtlas({ topology: 'npc' }));
-  it.each([[{ sequence: 'zigzag' }, 'sequence'], [{ balance: 'yes' }, 'balance'], [{ chainDwell: 0 }, 'chainDwell'], [{ midpointGain: -1 }, 'midpointGain']] as const)('refuses %j', (opt, key) => {
+  it.each([
+    [{ sequence: 'zigzag' }, 'sequence'],
+    [{ balance: 'yes' }, 'balance'],
+    [{ chainDwell: 0 }, 'chainDwell'],
+    [{ midpointGain: -1 }, 'midpointGain'],
+  ] as const)('refuses %j', (opt, key) => {
     expect(() => createRuntime(table, opt as unknown as RuntimeOptions)).toThrow(HexsalvageInputError);
     expect(() => createRuntime(table, opt as unknown as RuntimeOptions)).toThrow(key);
   });
@@ -227,69 +275,83 @@ describe('the C header runtime', () => {
     ['five-level a.dB2:short', FIVE, ['a.dB2:short'], 'commutable', { balance: 'off' }, 'h', 0.5, 0],
     ['tnpc a.neutralToOut', 'tnpc', ['a.neutralToOut'], 'adjacent', { midpointGain: 10, chainDwell: 0.05 }, 'p', 0.4, 60],
   ];
-  it.skipIf(!cc).each(cases)('compiles with -std=c99 -Wall -Wextra -Werror and gives the same stream as TypeScript (%s)', (_n, topology, faults, levelSteps, options, mode, m, phi) => {
-    const atlas = diagramAtlas({ topology, faults, levelSteps });
-    const table: SwitchingTable = switchingTableFromAtlas(atlas);
-    const derating = deratingSteps(atlas);
-    const dir = mkdtempSync(join(tmpdir(), 'hexsalvage-rt-'));
-    dirs.push(dir);
-    writeFileSync(join(dir, 'rt_table.h'), exportC(table, { prefix: 'rt', derating, runtime: options }));
-    writeFileSync(join(dir, 'driver.c'), DRIVER);
-    execFileSync(cc as string, ['-std=c99', '-O2', '-Wall', '-Wextra', '-Werror', '-o', join(dir, 'driver'), join(dir, 'driver.c'), '-lm']);
-    // a rotating reference with measured currents and a midpoint error, two fundamental periods
-    const N = 40;
-    const lines: string[] = [];
-    const calls: [number, number, number, number, number, number, number, number][] = [];
-    const rnd = fc.sample(fc.double({ min: -0.02, max: 0.02, noNaN: true }), { seed: FC_SEED, numRuns: 4 * N });
-    for (let u = 0; u < 4 * N; u++) {
-      const deg = ((u + 0.5) * 360) / (mode === 'h' ? 2 * N : N);
-      const th = (deg * Math.PI) / 180;
-      const q = POLARITY_STRINGS.indexOf(polarityOf(deg, phi));
-      const nq = POLARITY_STRINGS.indexOf(polarityOf(deg + 360 / (mode === 'h' ? 2 * N : N), phi));
-      const i = [0, 1, 2].map((k) => 100 * Math.cos(th - (phi * Math.PI) / 180 - (k * 2 * Math.PI) / 3));
-      calls.push([q, nq, m * Math.cos(th), m * Math.sin(th), i[0]!, i[1]!, i[2]!, rnd[u]!]);
-    }
-    const rt = createRuntime(table, options);
-    const o = rt.options;
-    lines.push(`${o.sequence === 'continuous' ? 1 : 0} ${o.balance === 'on' ? 1 : 0} ${o.midpointGain.toPrecision(17)} ${o.chainDwell.toPrecision(17)}`);
-    for (const c of calls) lines.push(`${mode} ${c[0]} ${c[1]} ${c.slice(2).map((x) => x.toPrecision(17)).join(' ')}`);
-    const out = execFileSync(join(dir, 'driver'), { input: `${lines.join('\n')}\n` }).toString().trim().split('\n');
-    const buf = rt.output();
-    calls.forEach((c, k) => {
-      const t = mode === 'h' ? rt.half(c[2], c[3], c[0], c[4], c[5], c[6], c[7], buf, c[1]) : rt.period(c[2], c[3], c[0], c[4], c[5], c[6], c[7], buf, c[1]);
-      const parts = (out[k] as string).split(' ');
-      expect(Number(parts[0])).toBe(t);
-      expect(Number(parts[1])).toBe(buf.count);
-      expect(Number(parts[2])).toBe(buf.chainSteps);
-      expect(Number(parts[3])).toBe(buf.held ? 1 : 0);
-      if (Number.isNaN(buf.split)) expect(parts[4]).toMatch(/nan/i);
-      else expect(Math.abs(Number(parts[4]) - buf.split)).toBeLessThan(1e-12);
-      for (let s = 0; s < buf.count; s++) {
-        const [pat, dur] = (parts[5 + s] as string).split(':');
-        expect(pat).toBe(`${buf.patterns[3 * s]}/${buf.patterns[3 * s + 1]}/${buf.patterns[3 * s + 2]}`);
-        expect(Math.abs(Number(dur) - (buf.duration[s] as number))).toBeLessThan(1e-12);
+  it.skipIf(!cc).each(cases)(
+    'compiles with -std=c99 -Wall -Wextra -Werror and gives the same stream as TypeScript (%s)',
+    (_n, topology, faults, levelSteps, options, mode, m, phi) => {
+      const atlas = diagramAtlas({ topology, faults, levelSteps });
+      const table: SwitchingTable = switchingTableFromAtlas(atlas);
+      const derating = deratingSteps(atlas);
+      const dir = mkdtempSync(join(tmpdir(), 'hexsalvage-rt-'));
+      dirs.push(dir);
+      writeFileSync(join(dir, 'rt_table.h'), exportC(table, { prefix: 'rt', derating, runtime: options }));
+      writeFileSync(join(dir, 'driver.c'), DRIVER);
+      execFileSync(cc as string, ['-std=c99', '-O2', '-Wall', '-Wextra', '-Werror', '-o', join(dir, 'driver'), join(dir, 'driver.c'), '-lm']);
+      // a rotating reference with measured currents and a midpoint error, two fundamental periods
+      const N = 40;
+      const lines: string[] = [];
+      const calls: [number, number, number, number, number, number, number, number][] = [];
+      const rnd = fc.sample(fc.double({ min: -0.02, max: 0.02, noNaN: true }), { seed: FC_SEED, numRuns: 4 * N });
+      for (let u = 0; u < 4 * N; u++) {
+        const deg = ((u + 0.5) * 360) / (mode === 'h' ? 2 * N : N);
+        const th = (deg * Math.PI) / 180;
+        const q = POLARITY_STRINGS.indexOf(polarityOf(deg, phi));
+        const nq = POLARITY_STRINGS.indexOf(polarityOf(deg + 360 / (mode === 'h' ? 2 * N : N), phi));
+        const i = [0, 1, 2].map((k) => 100 * Math.cos(th - (phi * Math.PI) / 180 - (k * 2 * Math.PI) / 3));
+        calls.push([q, nq, m * Math.cos(th), m * Math.sin(th), i[0]!, i[1]!, i[2]!, rnd[u]!]);
       }
-    });
-    // the derating function: never above the exact limit at 0.25° steps, and close to it on average
-    const last = (out[out.length - 1] as string).split(' ').slice(1).map(Number);
-    expect(last).toHaveLength(721);
-    const curve = deratingCurve(atlas, { fromDeg: -180, toDeg: 180, stepDeg: 0.25 });
-    const inC = (deg: number) => derating.minima[Math.min(derating.minima.length - 1, Math.floor((deg + 180) / derating.stepDeg))] as number;
-    let sumC = 0;
-    let sumExact = 0;
-    for (const p of curve) {
-      expect(inC(p.loadAngleDeg)).toBeLessThanOrEqual(p.mMax + 1e-12);
-      sumC += inC(p.loadAngleDeg);
-      sumExact += p.mMax;
-    }
-    if (sumExact > 0) expect(sumC / sumExact).toBeGreaterThanOrEqual(0.99);
-    last.forEach((v, j) => expect(v).toBe(inC(-180 + j * 0.5)));
-  });
+      const rt = createRuntime(table, options);
+      const o = rt.options;
+      lines.push(`${o.sequence === 'continuous' ? 1 : 0} ${o.balance === 'on' ? 1 : 0} ${o.midpointGain.toPrecision(17)} ${o.chainDwell.toPrecision(17)}`);
+      for (const c of calls)
+        lines.push(
+          `${mode} ${c[0]} ${c[1]} ${c
+            .slice(2)
+            .map((x) => x.toPrecision(17))
+            .join(' ')}`,
+        );
+      const out = execFileSync(join(dir, 'driver'), { input: `${lines.join('\n')}\n` })
+        .toString()
+        .trim()
+        .split('\n');
+      const buf = rt.output();
+      calls.forEach((c, k) => {
+        const t = mode === 'h' ? rt.half(c[2], c[3], c[0], c[4], c[5], c[6], c[7], buf, c[1]) : rt.period(c[2], c[3], c[0], c[4], c[5], c[6], c[7], buf, c[1]);
+        const parts = (out[k] as string).split(' ');
+        expect(Number(parts[0])).toBe(t);
+        expect(Number(parts[1])).toBe(buf.count);
+        expect(Number(parts[2])).toBe(buf.chainSteps);
+        expect(Number(parts[3])).toBe(buf.held ? 1 : 0);
+        if (Number.isNaN(buf.split)) expect(parts[4]).toMatch(/nan/i);
+        else expect(Math.abs(Number(parts[4]) - buf.split)).toBeLessThan(1e-12);
+        for (let s = 0; s < buf.count; s++) {
+          const [pat, dur] = (parts[5 + s] as string).split(':');
+          expect(pat).toBe(`${buf.patterns[3 * s]}/${buf.patterns[3 * s + 1]}/${buf.patterns[3 * s + 2]}`);
+          expect(Math.abs(Number(dur) - (buf.duration[s] as number))).toBeLessThan(1e-12);
+        }
+      });
+      // the derating function: never above the exact limit at 0.25° steps, and close to it on average
+      const last = (out[out.length - 1] as string).split(' ').slice(1).map(Number);
+      expect(last).toHaveLength(721);
+      const curve = deratingCurve(atlas, { fromDeg: -180, toDeg: 180, stepDeg: 0.25 });
+      const inC = (deg: number) => derating.minima[Math.min(derating.minima.length - 1, Math.floor((deg + 180) / derating.stepDeg))] as number;
+      let sumC = 0;
+      let sumExact = 0;
+      for (const p of curve) {
+        expect(inC(p.loadAngleDeg)).toBeLessThanOrEqual(p.mMax + 1e-12);
+        sumC += inC(p.loadAngleDeg);
+        sumExact += p.mMax;
+      }
+      if (sumExact > 0) expect(sumC / sumExact).toBeGreaterThanOrEqual(0.99);
+      last.forEach((v, j) => expect(v).toBe(inC(-180 + j * 0.5)));
+    },
+  );
 });
 
 function polarityOf(deg: number, phi: number): string {
-  return [0, 120, 240].map((s) => {
-    const x = (((deg - phi - s) % 360) + 360) % 360;
-    return x === 90 || x === 270 ? '?' : x < 90 || x > 270 ? '+' : '-';
-  }).join('');
+  return [0, 120, 240]
+    .map((s) => {
+      const x = (((deg - phi - s) % 360) + 360) % 360;
+      return x === 90 || x === 270 ? '?' : x < 90 || x > 270 ? '+' : '-';
+    })
+    .join('');
 }

@@ -1,8 +1,18 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import {
-  BUILTIN_TOPOLOGIES, builtinLeg, diagramAtlas, evaluateClaim, expandElements, LEVEL_STEP_RULES, limitOverLoadAngles, modulationLimit,
-  planRemedial, switchingTable, type BuiltinTopology, type LevelStepRule,
+  BUILTIN_TOPOLOGIES,
+  builtinLeg,
+  diagramAtlas,
+  evaluateClaim,
+  expandElements,
+  LEVEL_STEP_RULES,
+  limitOverLoadAngles,
+  modulationLimit,
+  planRemedial,
+  switchingTable,
+  type BuiltinTopology,
+  type LevelStepRule,
 } from '@hexsalvage/core';
 import { fc, fcParams } from '../support/fc.js';
 
@@ -31,20 +41,29 @@ const faultArb = (t: BuiltinTopology, modes: readonly string[]) => {
 // state — unless it breaks the shoot-through path of a shorted element, which is why shorts appear
 // only in `faults` and the monotonicity is asserted for open-only fault sets (a short of
 // c.neutralToOut.diode plus an open c.outToNeutral.diode on the T-type leg is such a case)
-const caseArb = fc.constantFrom(...BUILTIN_TOPOLOGIES).chain((t) => fc.record({
-  topology: fc.constant(t),
-  faults: fc.uniqueArray(faultArb(t, ['open', 'short']), { maxLength: 2, selector: (f) => f.split(':')[0] }),
-  extra: faultArb(t, ['open']),
-  phi: fc.double({ min: -180, max: 180, noNaN: true }),
-  delta: fc.constantFrom(0, 2, 10),
-  levelSteps: fc.constantFrom<LevelStepRule>('commutable', 'adjacent'),
-}));
+const caseArb = fc.constantFrom(...BUILTIN_TOPOLOGIES).chain((t) =>
+  fc.record({
+    topology: fc.constant(t),
+    faults: fc.uniqueArray(faultArb(t, ['open', 'short']), { maxLength: 2, selector: (f) => f.split(':')[0] }),
+    extra: faultArb(t, ['open']),
+    phi: fc.double({ min: -180, max: 180, noNaN: true }),
+    delta: fc.constantFrom(0, 2, 10),
+    levelSteps: fc.constantFrom<LevelStepRule>('commutable', 'adjacent'),
+  }),
+);
 
 describe('the safe limit (contract, Version 2)', () => {
   it('reproduces the first version exactly with --ignore-ratings --level-steps any', () => {
     expect(FIRST.cases.length).toBeGreaterThan(800);
     for (const c of FIRST.cases) {
-      const p = planRemedial({ topology: c.topology, faults: c.faults, loadAngleDeg: c.loadAngleDeg, polarityMarginDeg: c.polarityMarginDeg, ignoreRatings: true, levelSteps: 'any' });
+      const p = planRemedial({
+        topology: c.topology,
+        faults: c.faults,
+        loadAngleDeg: c.loadAngleDeg,
+        polarityMarginDeg: c.polarityMarginDeg,
+        ignoreRatings: true,
+        levelSteps: 'any',
+      });
       expect(p.mMax).toBe(c.mMax);
       expect(p.mMaxHull).toBe(c.mMax);
       expect(p.mMaxHealthy).toBe(c.mMaxHealthy);
@@ -62,29 +81,35 @@ describe('the safe limit (contract, Version 2)', () => {
     }
   });
 
-  it.each(BUILTIN_TOPOLOGIES.flatMap((t) => LEVEL_STEP_RULES.map((r) => [t, r] as const)))('keeps a healthy %s leg at 2/√3 under %s', (topology, levelSteps) => {
-    for (const phi of [-90, -30, 0, 45, 90]) {
-      const p = planRemedial({ topology, loadAngleDeg: phi, polarityMarginDeg: 5, levelSteps });
-      expect(p.mMax).toBeCloseTo(HEALTHY, 12);
-      expect(p.mMaxBalanced).toBe(p.mMax);
-    }
-  });
+  it.each(BUILTIN_TOPOLOGIES.flatMap((t) => LEVEL_STEP_RULES.map((r) => [t, r] as const)))(
+    'keeps a healthy %s leg at 2/√3 under %s',
+    (topology, levelSteps) => {
+      for (const phi of [-90, -30, 0, 45, 90]) {
+        const p = planRemedial({ topology, loadAngleDeg: phi, polarityMarginDeg: 5, levelSteps });
+        expect(p.mMax).toBeCloseTo(HEALTHY, 12);
+        expect(p.mMaxBalanced).toBe(p.mMax);
+      }
+    },
+  );
 
   it('never raises mMax by adding a fault, never exceeds the hull limit, adjacent never above commutable (property)', () => {
-    fc.assert(fc.property(caseArb, ({ topology, faults, extra, phi, delta, levelSteps }) => {
-      const base = planRemedial({ topology, faults, loadAngleDeg: phi, polarityMarginDeg: delta, levelSteps });
-      expect(base.mMax).toBeLessThanOrEqual(base.mMaxHull + 1e-12);
-      expect(base.mMaxBalanced).toBeLessThanOrEqual(base.mMax + 1e-12);
-      expect(base.mMax).toBeLessThanOrEqual(base.mMaxHealthy + 1e-12);
-      if (levelSteps === 'commutable') {
-        const adj = planRemedial({ topology, faults, loadAngleDeg: phi, polarityMarginDeg: delta, levelSteps: 'adjacent' });
-        expect(adj.mMax).toBeLessThanOrEqual(base.mMax + 1e-12);
-      }
-      if (faults.every((f) => f.endsWith(':open')) && !faults.some((f) => f.split(':')[0] === extra.split(':')[0])) {
-        const more = planRemedial({ topology, faults: [...faults, extra], loadAngleDeg: phi, polarityMarginDeg: delta, levelSteps });
-        expect(more.mMax).toBeLessThanOrEqual(base.mMax + 1e-12);
-      }
-    }), fcParams(120));
+    fc.assert(
+      fc.property(caseArb, ({ topology, faults, extra, phi, delta, levelSteps }) => {
+        const base = planRemedial({ topology, faults, loadAngleDeg: phi, polarityMarginDeg: delta, levelSteps });
+        expect(base.mMax).toBeLessThanOrEqual(base.mMaxHull + 1e-12);
+        expect(base.mMaxBalanced).toBeLessThanOrEqual(base.mMax + 1e-12);
+        expect(base.mMax).toBeLessThanOrEqual(base.mMaxHealthy + 1e-12);
+        if (levelSteps === 'commutable') {
+          const adj = planRemedial({ topology, faults, loadAngleDeg: phi, polarityMarginDeg: delta, levelSteps: 'adjacent' });
+          expect(adj.mMax).toBeLessThanOrEqual(base.mMax + 1e-12);
+        }
+        if (faults.every((f) => f.endsWith(':open')) && !faults.some((f) => f.split(':')[0] === extra.split(':')[0])) {
+          const more = planRemedial({ topology, faults: [...faults, extra], loadAngleDeg: phi, polarityMarginDeg: delta, levelSteps });
+          expect(more.mMax).toBeLessThanOrEqual(base.mMax + 1e-12);
+        }
+      }),
+      fcParams(120),
+    );
   });
 
   it('can rise when an open fault breaks the shoot-through path of a shorted one (why the property above is for open faults)', () => {
@@ -112,10 +137,12 @@ describe('the safe limit (contract, Version 2)', () => {
     let checked = 0;
     for (const [pol, p] of Object.entries(inner.polarities)) {
       if (pol[0] !== '+') continue;
-      for (const t of p.tableTriangles) for (const v of t.vertices) for (const r of v.realisations) {
-        expect(r.phases[0].pattern).not.toBe('P');
-        checked++;
-      }
+      for (const t of p.tableTriangles)
+        for (const v of t.vertices)
+          for (const r of v.realisations) {
+            expect(r.phases[0].pattern).not.toBe('P');
+            checked++;
+          }
     }
     expect(checked).toBeGreaterThan(0);
   });

@@ -1,7 +1,15 @@
 import { describe, expect, it } from 'vitest';
 import {
-  BUILTIN_TOPOLOGIES, builtinLeg, diagramAtlas, expandElements, HexsalvageInputError, planFromAtlas, simulatePeriod, simulationWaveform,
-  type BuiltinTopology, type SimulateOptions,
+  BUILTIN_TOPOLOGIES,
+  builtinLeg,
+  diagramAtlas,
+  expandElements,
+  HexsalvageInputError,
+  planFromAtlas,
+  simulatePeriod,
+  simulationWaveform,
+  type BuiltinTopology,
+  type SimulateOptions,
 } from '@hexsalvage/core';
 
 // What degraded operation costs: energy booked where a gate change commutates current against a
@@ -9,16 +17,26 @@ import {
 // number of switching periods, full-spectrum THD, dead time.
 const base = { vdc: 750, currentPeak: 300, f1: 50 } as const;
 const total = (s: ReturnType<typeof simulatePeriod>, pick: (id: string) => boolean) =>
-  Object.entries(s.devices).filter(([id]) => pick(id)).reduce((n, [, d]) => n + d.switchingLoss, 0);
+  Object.entries(s.devices)
+    .filter(([id]) => pick(id))
+    .reduce((n, [, d]) => n + d.switchingLoss, 0);
 
 describe('switching energy where a gate change commutates current against a voltage', () => {
   // the Si devices change state twice per fundamental period, where the phase swaps between the
   // upper and lower zero states near its voltage's zero crossing; what they commutate then is the
   // current at that moment (about the peak times sin φ), so their share grows with the load angle
   // (docs/simulate.md): below 1 % near unity power factor, a few per cent at 25°
-  it.each([[1, 0], [0.9, 5], [0.45, 10]])('charges the line-frequency Si IGBTs of a healthy hybrid ANPC at most one per cent of the leg\'s switching loss (m $0, φ $1°)', (m, phi) => {
+  it.each([
+    [1, 0],
+    [0.9, 5],
+    [0.45, 10],
+  ])("charges the line-frequency Si IGBTs of a healthy hybrid ANPC at most one per cent of the leg's switching loss (m $0, φ $1°)", (m, phi) => {
     const s = simulatePeriod({ ...base, topology: 'anpc-hybrid', m, loadAngleDeg: phi, fsw: 8000 });
-    const line = new Set(builtinLeg('anpc-hybrid').devices.filter((d) => d.switching === 'line').map((d) => d.id));
+    const line = new Set(
+      builtinLeg('anpc-hybrid')
+        .devices.filter((d) => d.switching === 'line')
+        .map((d) => d.id),
+    );
     const all = total(s, () => true);
     const si = total(s, (id) => line.has(id.slice(2).replace(/\.diode$/, '')));
     expect(all).toBeGreaterThan(10);
@@ -27,7 +45,11 @@ describe('switching energy where a gate change commutates current against a volt
   });
   it('charges them about two commutations of the current at the voltage zero crossing per period at 25° (not PWM rate)', () => {
     const s = simulatePeriod({ ...base, topology: 'anpc-hybrid', m: 0.8, loadAngleDeg: 25, fsw: 8000 });
-    const line = new Set(builtinLeg('anpc-hybrid').devices.filter((d) => d.switching === 'line').map((d) => d.id));
+    const line = new Set(
+      builtinLeg('anpc-hybrid')
+        .devices.filter((d) => d.switching === 'line')
+        .map((d) => d.id),
+    );
     const si = total(s, (id) => line.has(id.slice(2).replace(/\.diode$/, '')));
     // demo IGBT: E_on + E_off = 42 mJ at 600 V, 300 A; per phase per period at most two swaps each
     // commutating about 300·sin 25° A at 375 V, for the outer and the clamp pair: an upper bound
@@ -36,7 +58,7 @@ describe('switching energy where a gate change commutates current against a volt
     expect(si).toBeLessThan(bound);
   });
 
-  it('gives the healthy NPC\'s outer diodes recovery loss and its inner diodes none (their switch stays on: they never block)', () => {
+  it("gives the healthy NPC's outer diodes recovery loss and its inner diodes none (their switch stays on: they never block)", () => {
     // common practice: in an NPC leg the outer diodes commutate against the clamp diodes, the inner
     // ones only carry current past their own gated switch
     const s = simulatePeriod({ ...base, topology: 'npc', m: 1, loadAngleDeg: 25, fsw: 8000 });
@@ -84,9 +106,18 @@ describe('failed elements', () => {
 // Kirchhoff's current law at every node: each piece's path carries the phase current from a DC
 // node to the output (or back); summed over elements with their directions, every inner node
 // balances and the output node passes the phase current to the load.
-const ALL = BUILTIN_TOPOLOGIES.flatMap((t) => [[t, []] as [BuiltinTopology, string[]], ...expandElements(builtinLeg(t)).flatMap((e) => [[t, [`a.${e.id}:open`]], [t, [`a.${e.id}:short`]]] as [BuiltinTopology, string[]][])]);
+const ALL = BUILTIN_TOPOLOGIES.flatMap((t) => [
+  [t, []] as [BuiltinTopology, string[]],
+  ...expandElements(builtinLeg(t)).flatMap(
+    (e) =>
+      [
+        [t, [`a.${e.id}:open`]],
+        [t, [`a.${e.id}:short`]],
+      ] as [BuiltinTopology, string[]][],
+  ),
+]);
 
-describe('Kirchhoff\'s current law (every built-in leg, healthy and every single fault, a whole period)', () => {
+describe("Kirchhoff's current law (every built-in leg, healthy and every single fault, a whole period)", () => {
   it('balances every node of every phase in every piece, with one branch per current', () => {
     let pieces = 0;
     for (const [topology, faults] of ALL) {
@@ -181,7 +212,11 @@ function centredSvmWthd(m: number, N: number, H: number): number {
 }
 
 describe('the healthy baseline is conventional centred SVM', () => {
-  it.each([[0.5, 60], [0.9, 81], [1.1, 40]])('two-level WTHD at m = %d, fsw/f1 = %d within 3 % of an independent centred SVM', (m, N) => {
+  it.each([
+    [0.5, 60],
+    [0.9, 81],
+    [1.1, 40],
+  ])('two-level WTHD at m = %d, fsw/f1 = %d within 3 % of an independent centred SVM', (m, N) => {
     const s = simulatePeriod({ vdc: 2, currentPeak: 1, f1: 1, topology: 'two-level', m, loadAngleDeg: 20, fsw: N, update: 'period' });
     const ref = centredSvmWthd(m, N, 4 * N + 2);
     expect(Math.abs(s.lineVoltage.wthd / ref - 1)).toBeLessThan(0.03);
@@ -207,10 +242,23 @@ describe('dead time', () => {
     expect(Math.abs((v0 - v1) / expected - 1)).toBeLessThan(0.03);
   });
   it('with a fault, the dead-time state is what the faulted leg gives', () => {
-    const s = simulationWaveform({ ...base, topology: 'npc', faults: ['a.outerUpper.diode'], m: 0.5, loadAngleDeg: 20, polarityMarginDeg: 3, fsw: 4000, deadTime: 2e-6 });
+    const s = simulationWaveform({
+      ...base,
+      topology: 'npc',
+      faults: ['a.outerUpper.diode'],
+      m: 0.5,
+      loadAngleDeg: 20,
+      polarityMarginDeg: 3,
+      fsw: 4000,
+      deadTime: 2e-6,
+    });
     expect(s.some((g) => g.dead[0])).toBe(true);
   });
-  it.each([[-1e-6, 'deadTime'], [1e-5, 'deadTime'], [Number.NaN, 'deadTime']])('refuses a dead time of %s s at 20 kHz', (td, key) => {
+  it.each([
+    [-1e-6, 'deadTime'],
+    [1e-5, 'deadTime'],
+    [Number.NaN, 'deadTime'],
+  ])('refuses a dead time of %s s at 20 kHz', (td, key) => {
     expect(() => simulatePeriod({ ...base, topology: 'npc', m: 0.5, loadAngleDeg: 0, fsw: 20000, deadTime: td })).toThrow(HexsalvageInputError);
     expect(() => simulatePeriod({ ...base, topology: 'npc', m: 0.5, loadAngleDeg: 0, fsw: 20000, deadTime: td })).toThrow(key);
   });

@@ -1,6 +1,16 @@
 import { describe, expect, it } from 'vitest';
 import {
-  BUILTIN_TOPOLOGIES, builtinLeg, conductionLoss, expandElements, planRemedial, DEMO_DEVICES, eventEnergy, HexsalvageInputError, parseDeviceParameters, simulatePeriod, simulationWaveform,
+  BUILTIN_TOPOLOGIES,
+  builtinLeg,
+  conductionLoss,
+  expandElements,
+  planRemedial,
+  DEMO_DEVICES,
+  eventEnergy,
+  HexsalvageInputError,
+  parseDeviceParameters,
+  simulatePeriod,
+  simulationWaveform,
   type DeviceParameterSet,
 } from '@hexsalvage/core';
 import { fc, fcParams } from '../support/fc.js';
@@ -9,9 +19,22 @@ const op = { vdc: 750, currentPeak: 150, f1: 50, fsw: 3000 } as const;
 
 describe('simulatePeriod: currents', () => {
   it('Kirchhoff: in every piece each phase current flows along one chain of elements from a DC node at the phase level to the output', () => {
-    for (const [topology, faults, m] of [['npc', [], 0.9], ['npc', ['a.outerUpper'], 0.5], ['anpc-hybrid', ['a.innerUpper'], 0.4], ['tnpc', ['b.neutralToOut'], 0.5]] as const) {
+    for (const [topology, faults, m] of [
+      ['npc', [], 0.9],
+      ['npc', ['a.outerUpper'], 0.5],
+      ['anpc-hybrid', ['a.innerUpper'], 0.4],
+      ['tnpc', ['b.neutralToOut'], 0.5],
+    ] as const) {
       const leg = builtinLeg(topology);
-      const dev = new Map(leg.devices.flatMap((d) => [[d.id, [d.from, d.to]], [`${d.id}.diode`, [d.to, d.from]]] as [string, string[]][]));
+      const dev = new Map(
+        leg.devices.flatMap(
+          (d) =>
+            [
+              [d.id, [d.from, d.to]],
+              [`${d.id}.diode`, [d.to, d.from]],
+            ] as [string, string[]][],
+        ),
+      );
       const seg = simulationWaveform({ ...op, topology, faults: [...faults], m, loadAngleDeg: 20, polarityMarginDeg: 5 });
       expect(seg.length).toBeGreaterThan(5 * 60);
       for (const g of seg) {
@@ -20,7 +43,10 @@ describe('simulatePeriod: currents', () => {
           // the chain's end nodes: one DC node at the phase's level, and the output
           const count = new Map<string, number>();
           for (const id of path) for (const nd of dev.get(id) as string[]) count.set(nd, (count.get(nd) ?? 0) + 1);
-          const ends = [...count].filter(([, c]) => c === 1).map(([nd]) => nd).sort();
+          const ends = [...count]
+            .filter(([, c]) => c === 1)
+            .map(([nd]) => nd)
+            .sort();
           expect(ends).toHaveLength(2);
           expect(ends).toContain(leg.output);
           const dcEnd = ends.find((nd) => nd !== leg.output) as string;
@@ -44,11 +70,17 @@ describe('simulatePeriod: currents', () => {
     expect(three.midpoint.chargePkPkAs).toBeGreaterThan(0);
     expect(three.midpoint.ripplePkPk).toBeCloseTo((three.midpoint.chargePkPkAs as number) / (2 * 0.002), 9);
     expect(simulatePeriod({ ...op, topology: 'npc', m: 0.6, loadAngleDeg: 30 }).midpoint.ripplePkPk).toBeNull();
-    expect(simulatePeriod({ ...op, topology: 'two-level', m: 0.6, loadAngleDeg: 30, capacitance: 0.002 }).midpoint).toEqual({ ripplePkPk: null, chargePkPkAs: null, averageCurrent: null });
+    expect(simulatePeriod({ ...op, topology: 'two-level', m: 0.6, loadAngleDeg: 30, capacitance: 0.002 }).midpoint).toEqual({
+      ripplePkPk: null,
+      chargePkPkAs: null,
+      averageCurrent: null,
+    });
   });
 
   it('halves the midpoint ripple when the capacitance doubles (the swing is charge / (2C))', () => {
-    const at = (capacitance: number) => simulatePeriod({ ...op, topology: 'tnpc', faults: ['a.neutralToOut'], m: 0.5, loadAngleDeg: 40, capacitance, polarityMarginDeg: 5 }).midpoint.ripplePkPk as number;
+    const at = (capacitance: number) =>
+      simulatePeriod({ ...op, topology: 'tnpc', faults: ['a.neutralToOut'], m: 0.5, loadAngleDeg: 40, capacitance, polarityMarginDeg: 5 }).midpoint
+        .ripplePkPk as number;
     expect(at(0.002)).toBeGreaterThan(0);
     expect(at(0.004)).toBeCloseTo(at(0.002) / 2, 9);
   });
@@ -89,16 +121,30 @@ describe('loss model', () => {
   });
 
   it('scales switching energy linearly with voltage and current (property)', () => {
-    fc.assert(fc.property(fc.double({ min: 1, max: 1500, noNaN: true }), fc.double({ min: 1, max: 1000, noNaN: true }), fc.double({ min: 0.1, max: 10, noNaN: true }), (v, i, k) => {
-      const e = eventEnergy(0.02, 600, 300, v, i);
-      expect(eventEnergy(0.02, 600, 300, k * v, i)).toBeCloseTo(k * e, 9);
-      expect(eventEnergy(0.02, 600, 300, v, k * i)).toBeCloseTo(k * e, 9);
-    }), fcParams(200));
+    fc.assert(
+      fc.property(
+        fc.double({ min: 1, max: 1500, noNaN: true }),
+        fc.double({ min: 1, max: 1000, noNaN: true }),
+        fc.double({ min: 0.1, max: 10, noNaN: true }),
+        (v, i, k) => {
+          const e = eventEnergy(0.02, 600, 300, v, i);
+          expect(eventEnergy(0.02, 600, 300, k * v, i)).toBeCloseTo(k * e, 9);
+          expect(eventEnergy(0.02, 600, 300, v, k * i)).toBeCloseTo(k * e, 9);
+        },
+      ),
+      fcParams(200),
+    );
   });
 
   it('in a simulation, losses scale with the current as the model says: switching and v0 terms linearly, resistive terms with its square', () => {
-    const resistive: DeviceParameterSet = { name: 'resistive only', devices: { '*': { switch: { v0: 0, r: 0.01, eOn: 0.01, eOff: 0.01, vRef: 600, iRef: 300 }, diode: { v0: 0, r: 0.01, eRec: 0.01, vRef: 600, iRef: 300 } } } };
-    const at = (currentPeak: number) => simulatePeriod({ ...op, currentPeak, topology: 'npc', faults: ['a.outerUpper'], m: 0.5, loadAngleDeg: 25, devices: resistive, polarityMarginDeg: 5 });
+    const resistive: DeviceParameterSet = {
+      name: 'resistive only',
+      devices: {
+        '*': { switch: { v0: 0, r: 0.01, eOn: 0.01, eOff: 0.01, vRef: 600, iRef: 300 }, diode: { v0: 0, r: 0.01, eRec: 0.01, vRef: 600, iRef: 300 } },
+      },
+    };
+    const at = (currentPeak: number) =>
+      simulatePeriod({ ...op, currentPeak, topology: 'npc', faults: ['a.outerUpper'], m: 0.5, loadAngleDeg: 25, devices: resistive, polarityMarginDeg: 5 });
     const one = at(100);
     const two = at(200);
     for (const [id, d] of Object.entries(one.devices)) {
@@ -112,7 +158,15 @@ describe('loss model', () => {
     expect(s.currentDerating.factor).toBeGreaterThan(0);
     expect(s.currentDerating.factor).toBeLessThan(1);
     // at the derated current the limiting element sits exactly at the healthy maximum, none above
-    const d = simulatePeriod({ ...op, topology: 'anpc-hybrid', faults: ['a.innerUpper'], m: 0.45, loadAngleDeg: 25, polarityMarginDeg: 3, currentPeak: 180 * s.currentDerating.factor });
+    const d = simulatePeriod({
+      ...op,
+      topology: 'anpc-hybrid',
+      faults: ['a.innerUpper'],
+      m: 0.45,
+      loadAngleDeg: 25,
+      polarityMarginDeg: 3,
+      currentPeak: 180 * s.currentDerating.factor,
+    });
     const worst = Math.max(...Object.values(d.devices).map((x) => x.conductionLoss + x.switchingLoss));
     expect(worst).toBeCloseTo(s.healthy.hottest.loss, 6);
   });
@@ -120,7 +174,9 @@ describe('loss model', () => {
   it('reads a device-parameter file and refuses a bad one naming the key', () => {
     const set = parseDeviceParameters({ name: 'x', devices: { igbt: { switch: { v0: 1, r: 0.01, eOn: 0.01, eOff: 0.01, vRef: 600, iRef: 300 } } } }, 'x.json');
     expect(set.devices.igbt?.switch?.v0).toBe(1);
-    expect(() => parseDeviceParameters({ name: 'x', devices: { igbt: { switch: { v0: -1, eOn: 0, eOff: 0, vRef: 1, iRef: 1 } } } }, 'x.json')).toThrow('devices.igbt.switch.v0');
+    expect(() => parseDeviceParameters({ name: 'x', devices: { igbt: { switch: { v0: -1, eOn: 0, eOff: 0, vRef: 1, iRef: 1 } } } }, 'x.json')).toThrow(
+      'devices.igbt.switch.v0',
+    );
     expect(() => parseDeviceParameters({ name: 'x', devices: { igbt: { cooler: 1 } } }, 'x.json')).toThrow('devices.igbt.cooler');
     expect(DEMO_DEVICES.name).toMatch(/invented/);
   });

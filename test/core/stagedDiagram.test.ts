@@ -2,8 +2,19 @@ import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { diodeClampedLeg } from '../support/legs.js';
 import {
-  admissibleChecker, admissibleStands, BUILTIN_TOPOLOGIES, builtinLeg, diagramAtlas, expandElements, legLevels, phaseMoves, polarityDiagram, POLARITY_STRINGS,
-  triangulate, type LegTable, type PhaseOffer,
+  admissibleChecker,
+  admissibleStands,
+  BUILTIN_TOPOLOGIES,
+  builtinLeg,
+  diagramAtlas,
+  expandElements,
+  legLevels,
+  phaseMoves,
+  polarityDiagram,
+  POLARITY_STRINGS,
+  triangulate,
+  type LegTable,
+  type PhaseOffer,
 } from '@hexsalvage/core';
 
 // On a leg with many named patterns diagramAtlas first tries each diagram with the level moves
@@ -14,7 +25,13 @@ function plain(atlas: ReturnType<typeof diagramAtlas>, p: (typeof POLARITY_STRIN
   const { analysis } = atlas;
   const dc = legLevels(analysis.leg);
   const offer = (t: LegTable): PhaseOffer => ({ levels: t.levels, moves: phaseMoves(t, analysis.rules, dc) });
-  return polarityDiagram({ a: offer(analysis.phases.a), b: offer(analysis.phases.b), c: offer(analysis.phases.c) }, p, atlas.healthyVectors, atlas.shells, analysis.rules);
+  return polarityDiagram(
+    { a: offer(analysis.phases.a), b: offer(analysis.phases.b), c: offer(analysis.phases.c) },
+    p,
+    atlas.healthyVectors,
+    atlas.shells,
+    analysis.rules,
+  );
 }
 
 describe('diagrams built from neighbour moves first equal the plain ones', () => {
@@ -22,19 +39,20 @@ describe('diagrams built from neighbour moves first equal the plain ones', () =>
     let staged = 0;
     for (const t of BUILTIN_TOPOLOGIES) {
       const faults = [[], ...expandElements(builtinLeg(t)).flatMap((e) => [[`a.${e.id}`], [`a.${e.id}:short`]])];
-      for (const f of faults) for (const levelSteps of ['commutable', 'adjacent'] as const) {
-        const atlas = diagramAtlas({ topology: t, faults: f, levelSteps });
-        for (const p of POLARITY_STRINGS) {
-          const got = atlas.faulted.get(p)!;
-          const want = plain(atlas, p);
-          expect(got.vectors.map((v) => [v.alpha, v.beta])).toEqual(want.vectors.map((v) => [v.alpha, v.beta]));
-          expect(got.triangles).toEqual(want.triangles);
-          expect(got.reach).toBe(want.reach);
-          expect(got.outline === null).toBe(want.outline === null);
-          expect(got.exactTiling).toBe(want.exactTiling);
-          if (got.outline === null) staged++;
+      for (const f of faults)
+        for (const levelSteps of ['commutable', 'adjacent'] as const) {
+          const atlas = diagramAtlas({ topology: t, faults: f, levelSteps });
+          for (const p of POLARITY_STRINGS) {
+            const got = atlas.faulted.get(p)!;
+            const want = plain(atlas, p);
+            expect(got.vectors.map((v) => [v.alpha, v.beta])).toEqual(want.vectors.map((v) => [v.alpha, v.beta]));
+            expect(got.triangles).toEqual(want.triangles);
+            expect(got.reach).toBe(want.reach);
+            expect(got.outline === null).toBe(want.outline === null);
+            expect(got.exactTiling).toBe(want.exactTiling);
+            if (got.outline === null) staged++;
+          }
         }
-      }
     }
     expect(staged).toBeGreaterThan(1000);
   });
@@ -75,7 +93,11 @@ describe('diagrams built from neighbour moves first equal the plain ones', () =>
 
 describe('admissibleStands', () => {
   it('answers as admissibleChecker does on every Delaunay triangle of every built-in diagram, the five-level example and a nine-level leg', () => {
-    const legs: unknown[] = [...BUILTIN_TOPOLOGIES, JSON.parse(readFileSync(new URL('../../examples/five-level-leg.json', import.meta.url), 'utf8')), diodeClampedLeg(9)];
+    const legs: unknown[] = [
+      ...BUILTIN_TOPOLOGIES,
+      JSON.parse(readFileSync(new URL('../../examples/five-level-leg.json', import.meta.url), 'utf8')),
+      diodeClampedLeg(9),
+    ];
     let yes = 0;
     let no = 0;
     for (const topology of legs) {

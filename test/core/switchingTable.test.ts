@@ -1,7 +1,20 @@
 import { describe, expect, it } from 'vitest';
 import {
-  analyseLeg, midpointSign, BUILTIN_TOPOLOGIES, builtinLeg, conductionEdges, cycleCheck, diagramAtlas, expandElements, outputForSign,
-  parsePolarity, planFromAtlas, switchingTable, switchingTableFromAtlas, type BuiltinTopology, type PhaseFaults,
+  analyseLeg,
+  midpointSign,
+  BUILTIN_TOPOLOGIES,
+  builtinLeg,
+  conductionEdges,
+  cycleCheck,
+  diagramAtlas,
+  expandElements,
+  outputForSign,
+  parsePolarity,
+  planFromAtlas,
+  switchingTable,
+  switchingTableFromAtlas,
+  type BuiltinTopology,
+  type PhaseFaults,
 } from '@hexsalvage/core';
 
 // Re-solves one phase state with the leg solver: the level the pattern really gives for the sign.
@@ -65,15 +78,16 @@ describe('switchingTable', () => {
     // Common practice (e.g. B. Wu 2006, ch. 8, from memory): nearest-three-vector sequences of the
     // NPC change one phase by one level at each step, so no device switches across the full link.
     const t = switchingTable({ topology: 'npc' });
-    for (const pol of t.polarityOrder) for (const tri of t.polarities[pol]!.tableTriangles) {
-      const st = tri.sequence!.states;
-      expect(tri.sequence!.levelJumps).toEqual([]);
-      for (let s = 0; s < 2; s++) {
-        const moved = [0, 1, 2].filter((k) => st[s]![k]!.level !== st[s + 1]![k]!.level);
-        expect(moved).toHaveLength(1);
-        expect(Math.abs(st[s]![moved[0]!]!.level - st[s + 1]![moved[0]!]!.level)).toBe(1);
+    for (const pol of t.polarityOrder)
+      for (const tri of t.polarities[pol]!.tableTriangles) {
+        const st = tri.sequence!.states;
+        expect(tri.sequence!.levelJumps).toEqual([]);
+        for (let s = 0; s < 2; s++) {
+          const moved = [0, 1, 2].filter((k) => st[s]![k]!.level !== st[s + 1]![k]!.level);
+          expect(moved).toHaveLength(1);
+          expect(Math.abs(st[s]![moved[0]!]!.level - st[s + 1]![moved[0]!]!.level)).toBe(1);
+        }
       }
-    }
   });
 
   it('keeps the line-frequency IGBTs of a healthy hybrid ANPC at line rate and flags them after a SiC fault', () => {
@@ -120,7 +134,11 @@ describe('cycleCheck', () => {
     expect(r.clampedPeriods).toBeGreaterThan(0);
   });
 
-  it.each([[{ m: -1 }, 'm'], [{ m: 0.5, frequencyRatio: 3 }, 'frequencyRatio'], [{ m: 0.5, currentAmplitude: 0 }, 'currentAmplitude']])('rejects %j', (opt, key) => {
+  it.each([
+    [{ m: -1 }, 'm'],
+    [{ m: 0.5, frequencyRatio: 3 }, 'frequencyRatio'],
+    [{ m: 0.5, currentAmplitude: 0 }, 'currentAmplitude'],
+  ])('rejects %j', (opt, key) => {
     expect(() => cycleCheck(switchingTable({ topology: 'npc' }), opt)).toThrow(key);
   });
 });

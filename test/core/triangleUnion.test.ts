@@ -9,7 +9,9 @@ import { fc, fcParams } from '../support/fc.js';
 // triangles that cannot change a cut or a coverage answer; the outline must be the same, segment
 // for segment and in the same order.
 function plainUnionOutline(points: readonly Point[], triangles: readonly Triangle[], eps: number): Segment[] {
-  const edges: Segment[] = triangles.flatMap((t) => [0, 1, 2].map((k) => [points[t[k] as number] as Point, points[t[(k + 1) % 3] as number] as Point] as const));
+  const edges: Segment[] = triangles.flatMap((t) =>
+    [0, 1, 2].map((k) => [points[t[k] as number] as Point, points[t[(k + 1) % 3] as number] as Point] as const),
+  );
   const out: Segment[] = [];
   const seen = new Set<string>();
   const probe = 1e3 * eps;
@@ -48,7 +50,10 @@ function plainUnionOutline(points: readonly Point[], triangles: readonly Triangl
       const a: Point = [p[0] + s0 * ex, p[1] + s0 * ey];
       const b: Point = [p[0] + s1 * ex, p[1] + s1 * ey];
       const seg: Segment = left ? [a, b] : [b, a];
-      const k = seg.flat().map((v) => Math.round(v / (probe * 10))).join(',');
+      const k = seg
+        .flat()
+        .map((v) => Math.round(v / (probe * 10)))
+        .join(',');
       if (seen.has(k)) continue;
       seen.add(k);
       out.push(seg);
@@ -61,24 +66,40 @@ describe('unionOutline', () => {
   // points on a small lattice (shared corners, collinear edges, T-junctions, repeats, slivers),
   // triangles among them made counter-clockwise; seeded property test
   const lattice = Array.from({ length: 25 }, (_, i) => [(i % 5) / 4 - 0.5, Math.floor(i / 5) / 4 - 0.5] as Point);
-  const triangle = fc.tuple(fc.nat(24), fc.nat(24), fc.nat(24)).filter(([a, b, c]) => a !== b && b !== c && a !== c).map(([a, b, c]) => {
-    const [p, q, r] = [lattice[a] as Point, lattice[b] as Point, lattice[c] as Point];
-    const turn = (q[0] - p[0]) * (r[1] - p[1]) - (q[1] - p[1]) * (r[0] - p[0]);
-    return (turn >= 0 ? [a, b, c] : [a, c, b]) as Triangle;
-  }).filter((t) => {
-    const [p, q, r] = t.map((i) => lattice[i] as Point) as [Point, Point, Point];
-    return (q[0] - p[0]) * (r[1] - p[1]) - (q[1] - p[1]) * (r[0] - p[0]) > 1e-12;
-  });
+  const triangle = fc
+    .tuple(fc.nat(24), fc.nat(24), fc.nat(24))
+    .filter(([a, b, c]) => a !== b && b !== c && a !== c)
+    .map(([a, b, c]) => {
+      const [p, q, r] = [lattice[a] as Point, lattice[b] as Point, lattice[c] as Point];
+      const turn = (q[0] - p[0]) * (r[1] - p[1]) - (q[1] - p[1]) * (r[0] - p[0]);
+      return (turn >= 0 ? [a, b, c] : [a, c, b]) as Triangle;
+    })
+    .filter((t) => {
+      const [p, q, r] = t.map((i) => lattice[i] as Point) as [Point, Point, Point];
+      return (q[0] - p[0]) * (r[1] - p[1]) - (q[1] - p[1]) * (r[0] - p[0]) > 1e-12;
+    });
 
   it('gives the plain form’s outline, segment for segment (lattice triangles, overlapping)', () => {
-    fc.assert(fc.property(fc.array(triangle, { minLength: 1, maxLength: 14 }), (tris) => {
-      expect(unionOutline(lattice, tris, 1e-9)).toEqual(plainUnionOutline(lattice, tris, 1e-9));
-    }), fcParams(150));
+    fc.assert(
+      fc.property(fc.array(triangle, { minLength: 1, maxLength: 14 }), (tris) => {
+        expect(unionOutline(lattice, tris, 1e-9)).toEqual(plainUnionOutline(lattice, tris, 1e-9));
+      }),
+      fcParams(150),
+    );
   });
 
   it('outlines one triangle by its three edges, and a repeated triangle the same way', () => {
     const one = unionOutline(lattice, [[0, 4, 24]], 1e-9);
     expect(one).toHaveLength(3);
-    expect(unionOutline(lattice, [[0, 4, 24], [0, 4, 24]], 1e-9)).toEqual(one);
+    expect(
+      unionOutline(
+        lattice,
+        [
+          [0, 4, 24],
+          [0, 4, 24],
+        ],
+        1e-9,
+      ),
+    ).toEqual(one);
   });
 });

@@ -2,9 +2,32 @@ import { existsSync, readFileSync, writeFileSync } from 'node:fs';
 import { XMLParser, XMLValidator } from 'fast-xml-parser';
 import { describe, expect, it } from 'vitest';
 import {
-  builtinLeg, deratingCurve, diagramAtlas, faultAtlas, gatedDeviceIds, samplePeriod, simulatePeriod, simulationWaveform, parseNetlist, planFromAtlas, planRemedial, switchingTableFromAtlas,
+  builtinLeg,
+  deratingCurve,
+  diagramAtlas,
+  faultAtlas,
+  gatedDeviceIds,
+  samplePeriod,
+  simulatePeriod,
+  simulationWaveform,
+  parseNetlist,
+  planFromAtlas,
+  planRemedial,
+  switchingTableFromAtlas,
 } from '@hexsalvage/core';
-import { atlasHeatmapSvg, atlasPairMatrixSvg, deratingCurveSvg, legSchematicSvg, lossBarsSvg, ratioColour, spectrumSvg, waveformsSvg, sectorOverviewSvg, switchingPeriodSvg, vectorDiagramSvg } from '@hexsalvage/plot';
+import {
+  atlasHeatmapSvg,
+  atlasPairMatrixSvg,
+  deratingCurveSvg,
+  legSchematicSvg,
+  lossBarsSvg,
+  ratioColour,
+  spectrumSvg,
+  waveformsSvg,
+  sectorOverviewSvg,
+  switchingPeriodSvg,
+  vectorDiagramSvg,
+} from '@hexsalvage/plot';
 
 // Golden files: regenerate with UPDATE_GOLDEN=1 pnpm test (then review the diff like code).
 function golden(name: string, svg: string): void {
@@ -14,7 +37,11 @@ function golden(name: string, svg: string): void {
   expect(svg).toBe(readFileSync(url, 'utf8'));
 }
 
-const parser = new XMLParser({ ignoreAttributes: false, attributeNamePrefix: '@', isArray: (_name: string, _path: unknown, _leaf: boolean, isAttribute: boolean) => !isAttribute });
+const parser = new XMLParser({
+  ignoreAttributes: false,
+  attributeNamePrefix: '@',
+  isArray: (_name: string, _path: unknown, _leaf: boolean, isAttribute: boolean) => !isAttribute,
+});
 // every element with a given class, anywhere in the tree
 function byClass(svg: string, cls: string): unknown[] {
   const found: unknown[] = [];
@@ -73,7 +100,10 @@ describe('deratingCurveSvg', () => {
   const a = deratingCurve(atlas, { stepDeg: 5 });
   const b = deratingCurve(diagramAtlas({ topology: 'npc', faults: ['a.outerUpper'] }), { stepDeg: 5 });
   it('draws one path per fault case and a marker per breakpoint', () => {
-    const svg = deratingCurveSvg([{ label: 'a.outerUpper.diode', points: a }, { label: 'a.outerUpper', points: b }]);
+    const svg = deratingCurveSvg([
+      { label: 'a.outerUpper.diode', points: a },
+      { label: 'a.outerUpper', points: b },
+    ]);
     wellFormed(svg);
     expect(byClass(svg, 'series')).toHaveLength(2);
     expect(byClass(svg, 'breakpoint')).toHaveLength([...a, ...b].filter((p) => p.breakpoint).length);
@@ -98,11 +128,27 @@ describe('legSchematicSvg', () => {
     const leg = builtinLeg('npc');
     const lit = legSchematicSvg(leg, { pattern: { name: 'P', gates: ['outerUpper', 'innerUpper'] }, sign: '+', path: ['outerUpper', 'innerUpper'], level: 1 });
     expect(byClass(lit, 'conduction')).toHaveLength(2);
-    const cut = legSchematicSvg(leg, { failed: ['outerUpper.diode'], pattern: { name: 'P', gates: ['outerUpper', 'innerUpper'] }, sign: '-', path: [], level: null });
+    const cut = legSchematicSvg(leg, {
+      failed: ['outerUpper.diode'],
+      pattern: { name: 'P', gates: ['outerUpper', 'innerUpper'] },
+      sign: '-',
+      path: [],
+      level: null,
+    });
     expect(byClass(cut, 'interrupted')).toHaveLength(1);
     expect(cut).toContain('current interrupted');
   });
-  it('matches its golden file', () => golden('leg-anpc-clampUpper', legSchematicSvg(builtinLeg('anpc'), { failed: ['clampUpper'], pattern: { name: 'O-upper', gates: ['clampUpper', 'innerUpper'] }, sign: '-', path: ['outerUpper.diode', 'innerUpper.diode'], level: 1 })));
+  it('matches its golden file', () =>
+    golden(
+      'leg-anpc-clampUpper',
+      legSchematicSvg(builtinLeg('anpc'), {
+        failed: ['clampUpper'],
+        pattern: { name: 'O-upper', gates: ['clampUpper', 'innerUpper'] },
+        sign: '-',
+        path: ['outerUpper.diode', 'innerUpper.diode'],
+        level: 1,
+      }),
+    ));
 });
 
 describe('switchingPeriodSvg', () => {
@@ -110,11 +156,14 @@ describe('switchingPeriodSvg', () => {
   const switches = gatedDeviceIds(builtinLeg('anpc-hybrid'));
   // the runtime's period at the centroid of triangle 7 of +--, with the currents of a 25° load angle there
   const tri = table.polarities['+--']!.tableTriangles[7]!;
-  const [alpha, beta] = [(tri.vertices[0].alpha + tri.vertices[1].alpha + tri.vertices[2].alpha) / 3, (tri.vertices[0].beta + tri.vertices[1].beta + tri.vertices[2].beta) / 3];
+  const [alpha, beta] = [
+    (tri.vertices[0].alpha + tri.vertices[1].alpha + tri.vertices[2].alpha) / 3,
+    (tri.vertices[0].beta + tri.vertices[1].beta + tri.vertices[2].beta) / 3,
+  ];
   const th = Math.atan2(beta, alpha);
   const currents = [0, 1, 2].map((k) => Math.cos(th - (25 * Math.PI) / 180 - (k * 2 * Math.PI) / 3)) as [number, number, number];
   const period = samplePeriod(table, { alpha, beta, polarity: '+--', currents });
-  it('draws a level trace per phase and gate rows whose changes add up to the period\'s gate changes', () => {
+  it("draws a level trace per phase and gate rows whose changes add up to the period's gate changes", () => {
     const svg = switchingPeriodSvg(period, { switches, levels: table.levels, lineDevices: table.lineDevices });
     wellFormed(svg);
     expect(byClass(svg, 'level-trace')).toHaveLength(3);
@@ -122,17 +171,19 @@ describe('switchingPeriodSvg', () => {
     expect(counts).toHaveLength(3 * switches.length);
     // every gate change between consecutive states, counted independently here
     let expected = 0;
-    for (let i = 0; i + 1 < period.states.length; i++) for (let k = 0; k < 3; k++) {
-      const a = period.states[i]!.gates[k]!;
-      const b = period.states[i + 1]!.gates[k]!;
-      expected += a.filter((g) => !b.includes(g)).length + b.filter((g) => !a.includes(g)).length;
-    }
+    for (let i = 0; i + 1 < period.states.length; i++)
+      for (let k = 0; k < 3; k++) {
+        const a = period.states[i]!.gates[k]!;
+        const b = period.states[i + 1]!.gates[k]!;
+        expected += a.filter((g) => !b.includes(g)).length + b.filter((g) => !a.includes(g)).length;
+      }
     expect(counts.reduce((x, y) => x + y, 0)).toBe(expected);
     expect(expected).toBeGreaterThan(0);
     // a period begins and ends in the same state
     expect(period.states[0]!.patterns).toEqual(period.states[period.states.length - 1]!.patterns);
   });
-  it('matches its golden file', () => golden('sequence-anpcHybrid-innerUpper', switchingPeriodSvg(period, { switches, levels: table.levels, lineDevices: table.lineDevices })));
+  it('matches its golden file', () =>
+    golden('sequence-anpcHybrid-innerUpper', switchingPeriodSvg(period, { switches, levels: table.levels, lineDevices: table.lineDevices })));
 });
 
 describe('plots are byte-stable', () => {
@@ -183,7 +234,11 @@ describe('simulation plots', () => {
   it('draws paired loss bars for every element with a loss, healthy and faulted', () => {
     const svg = lossBarsSvg(sim);
     wellFormed(svg);
-    const lossy = Object.keys(sim.devices).filter((id) => sim.devices[id]!.conductionLoss + sim.devices[id]!.switchingLoss > 1e-6 || sim.healthy.devices[id]!.conductionLoss + sim.healthy.devices[id]!.switchingLoss > 1e-6);
+    const lossy = Object.keys(sim.devices).filter(
+      (id) =>
+        sim.devices[id]!.conductionLoss + sim.devices[id]!.switchingLoss > 1e-6 ||
+        sim.healthy.devices[id]!.conductionLoss + sim.healthy.devices[id]!.switchingLoss > 1e-6,
+    );
     expect(byClass(svg, 'faulted')).toHaveLength(2 * lossy.length);
     expect(byClass(svg, 'healthy')).toHaveLength(2 * lossy.length);
     expect(svg).toContain('loss over one fundamental period (W)');

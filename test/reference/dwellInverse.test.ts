@@ -10,7 +10,9 @@ import { fc, fcParams } from '../support/fc.js';
 // every bit, not merely within a tolerance, since golden files and exports print full precision.
 function libraryInverse(p: readonly Point[]): number[][] {
   const a = new Matrix([p.map((q) => q[0]), p.map((q) => q[1]), [1, 1, 1]]);
-  return inverse(a).to2DArray().map((row) => row.map((x) => (Object.is(x, -0) ? 0 : x)));
+  return inverse(a)
+    .to2DArray()
+    .map((row) => row.map((x) => (Object.is(x, -0) ? 0 : x)));
 }
 
 const bits = (m: readonly (readonly number[])[]) => m.flat().map((x) => (Object.is(x, -0) ? '-0' : x.toString(16)));
@@ -55,7 +57,11 @@ describe('dwellMatrix against ml-matrix inverse (reference library)', () => {
   });
 
   it('refuses a degenerate (collinear) triangle as the library does', () => {
-    const pts: Point[] = [[0, 0], [1, 1], [2, 2]];
+    const pts: Point[] = [
+      [0, 0],
+      [1, 1],
+      [2, 2],
+    ];
     expect(() => libraryInverse(pts)).toThrow(/singular/);
     expect(() => dwellMatrix(pts, [0, 1, 2])).toThrow(/singular/);
   });

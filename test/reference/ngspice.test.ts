@@ -1,6 +1,15 @@
 import { describe, expect, it } from 'vitest';
 import {
-  BUILTIN_TOPOLOGIES, builtinLeg, expandElements, gateSetSolver, planFromAtlas, diagramAtlas, simulationWaveform, type FaultMode, type LegNetlist, type PhaseFaults,
+  BUILTIN_TOPOLOGIES,
+  builtinLeg,
+  expandElements,
+  gateSetSolver,
+  planFromAtlas,
+  diagramAtlas,
+  simulationWaveform,
+  type FaultMode,
+  type LegNetlist,
+  type PhaseFaults,
 } from '@hexsalvage/core';
 import { HAS_NGSPICE, solveWithNgspice, VOLTS_PER_UNIT, type SpiceCase } from '../support/spice.js';
 
@@ -10,66 +19,78 @@ import { HAS_NGSPICE, solveWithNgspice, VOLTS_PER_UNIT, type SpiceCase } from '.
 const run = HAS_NGSPICE || Boolean(process.env.CI);
 if (!run) console.log('ngspice cross-check skipped: ngspice is not installed (apt-get install ngspice)');
 
-interface Point { topology: string; leg: LegNetlist; faults: PhaseFaults; pattern: string; sign: '+' | '-' }
+interface Point {
+  topology: string;
+  leg: LegNetlist;
+  faults: PhaseFaults;
+  pattern: string;
+  sign: '+' | '-';
+}
 
 function points(): Point[] {
   const out: Point[] = [];
   for (const topology of BUILTIN_TOPOLOGIES) {
     const leg = builtinLeg(topology);
     const sets: PhaseFaults[] = [new Map(), ...expandElements(leg).flatMap((e) => (['open', 'short'] as FaultMode[]).map((m) => new Map([[e.id, m]])))];
-    for (const faults of sets) for (const pattern of Object.keys(leg.patterns)) for (const sign of ['+', '-'] as const) out.push({ topology, leg, faults, pattern, sign });
+    for (const faults of sets)
+      for (const pattern of Object.keys(leg.patterns)) for (const sign of ['+', '-'] as const) out.push({ topology, leg, faults, pattern, sign });
   }
   return out;
 }
 
-describe.runIf(run)('ngspice operating points agree with the leg solver (every built-in leg, healthy and every single open and short fault, every named pattern, both signs)', () => {
-  it('gives the solver\'s level, runs away where it says interrupted, shoots through where it says so, and overstresses a rated element exactly where it says unsafe', async () => {
-    const pts = points();
-    const results = await solveWithNgspice(pts.map((p): SpiceCase => ({ leg: p.leg, faults: p.faults, gates: p.leg.patterns[p.pattern]!, current: p.sign === '+' ? 1 : -1 })));
-    const solvers = new Map<string, { rated: ReturnType<typeof gateSetSolver>; raw: ReturnType<typeof gateSetSolver> }>();
-    let checked = 0;
-    pts.forEach((p, i) => {
-      const key = `${p.topology}|${[...p.faults].join()}`;
-      let s = solvers.get(key);
-      if (!s) solvers.set(key, (s = { rated: gateSetSolver(p.leg, p.faults, true, true), raw: gateSetSolver(p.leg, p.faults, false) }));
-      const r = results[i]!;
-      const label = `${p.topology} ${[...p.faults].map(([e, m]) => `${e}:${m}`).join()} ${p.pattern} ${p.sign}`;
-      const o = s.rated(p.leg.patterns[p.pattern]!);
-      const top = Math.max(...Object.values(p.leg.dcNodes).map(Math.abs)) * VOLTS_PER_UNIT;
-      if (o.status === 'forbidden') {
-        // a shoot-through: the DC sources drive far more than the 1 A load current through the leg
-        expect(r.sourceMax, label).toBeGreaterThan(50);
-        checked++;
-        return;
-      }
-      expect(r.sourceMax, label).toBeLessThan(5);
-      const raw = s.raw(p.leg.patterns[p.pattern]!);
-      const level = raw.status === 'allowed' ? raw.bySign[p.sign].level : null;
-      if (level === null) {
-        // interrupted: the current source pushes the output far beyond the rails (100 kΩ beside it)
-        expect(Math.abs(r.out), label).toBeGreaterThan(top + 1000);
-      } else {
-        // a level within a few junction drops (a tenth of a level step)
-        expect(Math.abs(r.out - level * VOLTS_PER_UNIT), label).toBeLessThan(10);
-        // ratings: the worst rated, unfailed element's voltage against its rating
-        let over = -Infinity;
-        for (const e of expandElements(p.leg)) {
-          if (e.rating === undefined || p.faults.has(e.id)) continue;
-          const v = Math.abs((r.nodes.get(e.from) as number) - (r.nodes.get(e.to) as number));
-          over = Math.max(over, v - e.rating * VOLTS_PER_UNIT);
+describe.runIf(run)(
+  'ngspice operating points agree with the leg solver (every built-in leg, healthy and every single open and short fault, every named pattern, both signs)',
+  () => {
+    it("gives the solver's level, runs away where it says interrupted, shoots through where it says so, and overstresses a rated element exactly where it says unsafe", async () => {
+      const pts = points();
+      const results = await solveWithNgspice(
+        pts.map((p): SpiceCase => ({ leg: p.leg, faults: p.faults, gates: p.leg.patterns[p.pattern]!, current: p.sign === '+' ? 1 : -1 })),
+      );
+      const solvers = new Map<string, { rated: ReturnType<typeof gateSetSolver>; raw: ReturnType<typeof gateSetSolver> }>();
+      let checked = 0;
+      pts.forEach((p, i) => {
+        const key = `${p.topology}|${[...p.faults].join()}`;
+        let s = solvers.get(key);
+        if (!s) solvers.set(key, (s = { rated: gateSetSolver(p.leg, p.faults, true, true), raw: gateSetSolver(p.leg, p.faults, false) }));
+        const r = results[i]!;
+        const label = `${p.topology} ${[...p.faults].map(([e, m]) => `${e}:${m}`).join()} ${p.pattern} ${p.sign}`;
+        const o = s.rated(p.leg.patterns[p.pattern]!);
+        const top = Math.max(...Object.values(p.leg.dcNodes).map(Math.abs)) * VOLTS_PER_UNIT;
+        if (o.status === 'forbidden') {
+          // a shoot-through: the DC sources drive far more than the 1 A load current through the leg
+          expect(r.sourceMax, label).toBeGreaterThan(50);
+          checked++;
+          return;
         }
-        const unsafe = o.status === 'allowed' && o.unsafe[p.sign] !== undefined;
-        if (unsafe) expect(over, label).toBeGreaterThan(10);
-        else expect(over, label).toBeLessThan(10);
-      }
-      checked++;
+        expect(r.sourceMax, label).toBeLessThan(5);
+        const raw = s.raw(p.leg.patterns[p.pattern]!);
+        const level = raw.status === 'allowed' ? raw.bySign[p.sign].level : null;
+        if (level === null) {
+          // interrupted: the current source pushes the output far beyond the rails (100 kΩ beside it)
+          expect(Math.abs(r.out), label).toBeGreaterThan(top + 1000);
+        } else {
+          // a level within a few junction drops (a tenth of a level step)
+          expect(Math.abs(r.out - level * VOLTS_PER_UNIT), label).toBeLessThan(10);
+          // ratings: the worst rated, unfailed element's voltage against its rating
+          let over = -Infinity;
+          for (const e of expandElements(p.leg)) {
+            if (e.rating === undefined || p.faults.has(e.id)) continue;
+            const v = Math.abs((r.nodes.get(e.from) as number) - (r.nodes.get(e.to) as number));
+            over = Math.max(over, v - e.rating * VOLTS_PER_UNIT);
+          }
+          const unsafe = o.status === 'allowed' && o.unsafe[p.sign] !== undefined;
+          if (unsafe) expect(over, label).toBeGreaterThan(10);
+          else expect(over, label).toBeLessThan(10);
+        }
+        checked++;
+      });
+      expect(checked).toBe(pts.length);
+      expect(checked).toBeGreaterThan(700);
     });
-    expect(checked).toBe(pts.length);
-    expect(checked).toBeGreaterThan(700);
-  });
-});
+  },
+);
 
-describe.runIf(run)('ngspice element currents agree with the simulation\'s conducting paths over one switching period', () => {
+describe.runIf(run)("ngspice element currents agree with the simulation's conducting paths over one switching period", () => {
   it.each([
     ['npc', [] as string[], 0.9],
     ['npc', ['a.outerUpper:open'], 0.5],
@@ -81,9 +102,28 @@ describe.runIf(run)('ngspice element currents agree with the simulation\'s condu
     const f1 = 50;
     const fsw = 2000;
     const ipk = 100;
-    const segs = simulationWaveform({ topology, faults, m: frac * mMax, loadAngleDeg: 20, polarityMarginDeg: 3, vdc: 2 * VOLTS_PER_UNIT, currentPeak: ipk, f1, fsw, deadTime: 2e-6 });
+    const segs = simulationWaveform({
+      topology,
+      faults,
+      m: frac * mMax,
+      loadAngleDeg: 20,
+      polarityMarginDeg: 3,
+      vdc: 2 * VOLTS_PER_UNIT,
+      currentPeak: ipk,
+      f1,
+      fsw,
+      deadTime: 2e-6,
+    });
     const leg = builtinLeg(topology as never);
-    const faultsOf = (k: number) => new Map(faults.filter((f) => f.startsWith('abc'[k]!)).map((f) => { const [el, m] = f.slice(2).split(':'); return [el!, m as FaultMode] as const; })) as PhaseFaults;
+    const faultsOf = (k: number) =>
+      new Map(
+        faults
+          .filter((f) => f.startsWith('abc'[k]!))
+          .map((f) => {
+            const [el, m] = f.slice(2).split(':');
+            return [el!, m as FaultMode] as const;
+          }),
+      ) as PhaseFaults;
     // one switching period around a quarter of the fundamental, every phase of every piece
     const t0 = 0.25 / f1;
     const cases: { seg: (typeof segs)[number]; k: number; i: number }[] = [];

@@ -19,7 +19,7 @@ describe('line voltage of one simulated period', () => {
     }
   });
 
-  it('satisfies Parseval: the harmonics never add up to more than the mean square, and the rest shrinks as more are counted (Parseval\'s theorem, common practice)', () => {
+  it("satisfies Parseval: the harmonics never add up to more than the mean square, and the rest shrinks as more are counted (Parseval's theorem, common practice)", () => {
     const deficit = (maxHarmonic: number) => {
       const s = simulatePeriod({ ...base, topology: 'npc', m: 0.9, loadAngleDeg: 30, fsw: 3000, maxHarmonic });
       const sum = s.lineVoltage.harmonics.reduce((k, [, v]) => k + (v * v) / 2, 0);
@@ -33,7 +33,7 @@ describe('line voltage of one simulated period', () => {
     expect(d3 / d2).toBeLessThan(0.2);
   });
 
-  it('puts a two-level leg\'s line-voltage harmonics in sideband groups around multiples of the carrier, the largest at twice the carrier for centred space-vector modulation, and cancels every triplen harmonic, the carrier harmonics included (D. G. Holmes, T. A. Lipo, Pulse Width Modulation for Power Converters, 2003, ch. 3 and 6, from memory)', () => {
+  it("puts a two-level leg's line-voltage harmonics in sideband groups around multiples of the carrier, the largest at twice the carrier for centred space-vector modulation, and cancels every triplen harmonic, the carrier harmonics included (D. G. Holmes, T. A. Lipo, Pulse Width Modulation for Power Converters, 2003, ch. 3 and 6, from memory)", () => {
     // mf = 51 is a multiple of 3, so the carrier harmonics 51, 102, 153 are zero-sequence: equal in
     // the three phases, they cancel between two of them. Centred SVM (equal zero-vector split)
     // moves most of the first carrier group into the second: the two largest sit at 2·mf ± 1.
@@ -41,7 +41,11 @@ describe('line voltage of one simulated period', () => {
     const mf = s.periods;
     expect(mf).toBe(51);
     const v1 = s.lineVoltage.fundamentalPeak;
-    const top = [...s.lineVoltage.harmonics].filter(([n]) => n > 10).sort((a, b) => b[1] - a[1]).slice(0, 8).map(([n]) => n);
+    const top = [...s.lineVoltage.harmonics]
+      .filter(([n]) => n > 10)
+      .sort((a, b) => b[1] - a[1])
+      .slice(0, 8)
+      .map(([n]) => n);
     for (const n of top) expect(Math.abs(n - mf * Math.round(n / mf))).toBeLessThanOrEqual(4);
     expect(top.slice(0, 2).sort()).toEqual([2 * mf - 1, 2 * mf + 1]);
     for (const [n, v] of s.lineVoltage.harmonics) if (n % 3 === 0) expect(v).toBeLessThan(1e-9 * v1);
@@ -58,10 +62,16 @@ describe('device currents', () => {
       let nearZero = 0;
       let zeroTime = 0;
       for (const g of seg) {
-        const th = (((w * (g.t0 + g.t1)) / 2) * 180) / Math.PI % 180;
+        const th = ((((w * (g.t0 + g.t1)) / 2) * 180) / Math.PI) % 180;
         const clamped = g.paths[0].some((id) => id.startsWith('clamp')) ? g.t1 - g.t0 : 0;
-        if (th < 20 || th > 160) { nearPeak += clamped; peakTime += g.t1 - g.t0; }
-        if (th > 70 && th < 110) { nearZero += clamped; zeroTime += g.t1 - g.t0; }
+        if (th < 20 || th > 160) {
+          nearPeak += clamped;
+          peakTime += g.t1 - g.t0;
+        }
+        if (th > 70 && th < 110) {
+          nearZero += clamped;
+          zeroTime += g.t1 - g.t0;
+        }
       }
       expect(nearZero / zeroTime).toBeGreaterThan(2 * (nearPeak / peakTime));
     }

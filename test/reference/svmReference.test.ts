@@ -1,6 +1,14 @@
 import { describe, expect, it } from 'vitest';
 import {
-  convexHull, dwellMatrix, hullGeometry, locateReference, minRadialExtent, planRemedial, survivingVectors, triangulate, type Point,
+  convexHull,
+  dwellMatrix,
+  hullGeometry,
+  locateReference,
+  minRadialExtent,
+  planRemedial,
+  survivingVectors,
+  triangulate,
+  type Point,
 } from '@hexsalvage/core';
 
 const S3 = Math.sqrt(3);
@@ -38,10 +46,19 @@ describe('planRemedial against space-vector modulation theory', () => {
     // Source: B. Wu, "High-Power Converters and AC Drives", Wiley-IEEE Press 2006, ch. 6 (two-level
     // SVM, from memory): Ta = √3·Ts·Vref/Vd·sin(π/3 − θ), Tb = √3·Ts·Vref/Vd·sin θ, T0 = Ts − Ta − Tb.
     // With m = Vref/(Vd/2): Ta/Ts = (√3/2)·m·sin(60° − θ).
-    const d = diagramOf([[-1, 1], [-1, 1], [-1, 1]]);
+    const d = diagramOf([
+      [-1, 1],
+      [-1, 1],
+      [-1, 1],
+    ]);
     const v1: Point = [4 / 3, 0];
     const v2: Point = [2 / 3, 2 / S3];
-    for (const [m, th] of [[0.3, 10], [0.8, 25], [1.1, 44], [0.5, 59]] as const) {
+    for (const [m, th] of [
+      [0.3, 10],
+      [0.8, 25],
+      [1.1, 44],
+      [0.5, 59],
+    ] as const) {
       const ta = (S3 / 2) * m * Math.sin((60 - th) * DEG);
       const tb = (S3 / 2) * m * Math.sin(th * DEG);
       expect(dwellAt(d, m, th, v1)).toBeCloseTo(ta, 10);
@@ -54,7 +71,11 @@ describe('planRemedial against space-vector modulation theory', () => {
     // Source: B. Wu, "High-Power Converters and AC Drives", Wiley-IEEE Press 2006, ch. 8 (NPC
     // space-vector modulation, dwell-time table for sector I, from memory), with m_a = √3·Vref/Vd
     // = (√3/2)·m. Vectors: V0 zero, V1/V2 small at 0°/60°, V7 medium at 30°, V13/V14 large at 0°/60°.
-    const d = diagramOf([[-1, 0, 1], [-1, 0, 1], [-1, 0, 1]]);
+    const d = diagramOf([
+      [-1, 0, 1],
+      [-1, 0, 1],
+      [-1, 0, 1],
+    ]);
     const V0: Point = [0, 0];
     const V1: Point = [2 / 3, 0];
     const V2: Point = [1 / 3, 1 / S3];
@@ -63,10 +84,46 @@ describe('planRemedial against space-vector modulation theory', () => {
     const V14: Point = [2 / 3, 2 / S3];
     const s = (x: number) => Math.sin(x * DEG);
     const regions: { name: string; m: number; th: number; expect: (ma: number, th: number) => [Point, number][] }[] = [
-      { name: 'region 1', m: 0.3, th: 20, expect: (ma, th) => [[V1, 2 * ma * s(60 - th)], [V0, 1 - 2 * ma * s(60 + th)], [V2, 2 * ma * s(th)]] },
-      { name: 'region 2', m: 0.7, th: 30, expect: (ma, th) => [[V1, 1 - 2 * ma * s(th)], [V7, 2 * ma * s(60 + th) - 1], [V2, 1 - 2 * ma * s(60 - th)]] },
-      { name: 'region 3', m: 0.95, th: 8, expect: (ma, th) => [[V1, 2 - 2 * ma * s(60 + th)], [V7, 2 * ma * s(th)], [V13, 2 * ma * s(60 - th) - 1]] },
-      { name: 'region 4', m: 0.95, th: 52, expect: (ma, th) => [[V2, 2 - 2 * ma * s(60 + th)], [V7, 2 * ma * s(60 - th)], [V14, 2 * ma * s(th) - 1]] },
+      {
+        name: 'region 1',
+        m: 0.3,
+        th: 20,
+        expect: (ma, th) => [
+          [V1, 2 * ma * s(60 - th)],
+          [V0, 1 - 2 * ma * s(60 + th)],
+          [V2, 2 * ma * s(th)],
+        ],
+      },
+      {
+        name: 'region 2',
+        m: 0.7,
+        th: 30,
+        expect: (ma, th) => [
+          [V1, 1 - 2 * ma * s(th)],
+          [V7, 2 * ma * s(60 + th) - 1],
+          [V2, 1 - 2 * ma * s(60 - th)],
+        ],
+      },
+      {
+        name: 'region 3',
+        m: 0.95,
+        th: 8,
+        expect: (ma, th) => [
+          [V1, 2 - 2 * ma * s(60 + th)],
+          [V7, 2 * ma * s(th)],
+          [V13, 2 * ma * s(60 - th) - 1],
+        ],
+      },
+      {
+        name: 'region 4',
+        m: 0.95,
+        th: 52,
+        expect: (ma, th) => [
+          [V2, 2 - 2 * ma * s(60 + th)],
+          [V7, 2 * ma * s(60 - th)],
+          [V14, 2 * ma * s(th) - 1],
+        ],
+      },
     ];
     for (const r of regions) {
       const ma = (S3 / 2) * r.m;
@@ -80,7 +137,11 @@ describe('planRemedial against space-vector modulation theory', () => {
   it('halves the achievable voltage when only the small vectors of a three-level inverter remain', () => {
     // Common practice: the small vectors (with zero) form a two-level hexagon of half the size,
     // whose inscribed circle is (1/2)·(2/√3).
-    const small = diagramOf([[0, 1], [0, 1], [0, 1]]);
+    const small = diagramOf([
+      [0, 1],
+      [0, 1],
+      [0, 1],
+    ]);
     for (const v of small.vectors) expect(Math.hypot(v.alpha, v.beta)).toBeLessThanOrEqual(2 / 3 + 1e-12);
     const g = hullGeometry(small.pts, convexHull(small.pts));
     expect(minRadialExtent(g, 0, 2 * Math.PI).value).toBeCloseTo(1 / S3, 12);

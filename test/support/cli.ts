@@ -9,7 +9,14 @@ export const BIN = fileURLToPath(new URL('../../packages/cli/bin/hexsalvage.mjs'
 export async function runInProcess(argv: string[]): Promise<{ code: number; stdout: string; stderr: string }> {
   let stdout = '';
   let stderr = '';
-  const code = await main(argv, { stdout: async (t) => { stdout += t; }, stderr: (t) => { stderr += t; } });
+  const code = await main(argv, {
+    stdout: async (t) => {
+      stdout += t;
+    },
+    stderr: (t) => {
+      stderr += t;
+    },
+  });
   return { code, stdout, stderr };
 }
 

@@ -16,7 +16,8 @@ export function diodeClampedLeg(n: number): LegNetlist {
   const lower = ['out', ...Array.from({ length: m - 1 }, (_, i) => `B${i + 1}`), names[n - 1]];
   const devices: LegNetlist['devices'][number][] = [];
   for (let i = 0; i < m; i++) devices.push({ id: `s${i + 1}`, kind: 'igbt', from: upper[i] as string, to: upper[i + 1] as string, antiparallelDiode: true });
-  for (let i = 0; i < m; i++) devices.push({ id: `s${m + i + 1}`, kind: 'igbt', from: lower[i] as string, to: lower[i + 1] as string, antiparallelDiode: true });
+  for (let i = 0; i < m; i++)
+    devices.push({ id: `s${m + i + 1}`, kind: 'igbt', from: lower[i] as string, to: lower[i + 1] as string, antiparallelDiode: true });
   for (let i = 1; i < m; i++) {
     devices.push({ id: `dA${i}`, kind: 'diode', from: names[i] as string, to: `A${i}` });
     devices.push({ id: `dB${i}`, kind: 'diode', from: `B${i}`, to: names[i] as string });

@@ -59,11 +59,16 @@ export async function solveWithNgspice(cases: readonly SpiceCase[]): Promise<Spi
     try {
       // ngspice -b exits 1 when the analysis runs from a .control block ("no simulations run"):
       // what counts is what it printed
-      const stdout = await run('ngspice', ['-b', f], { encoding: 'utf8', maxBuffer: 64 * 1024 * 1024 }).then((r) => r.stdout, (e: { stdout?: string }) => e.stdout ?? '');
+      const stdout = await run('ngspice', ['-b', f], { encoding: 'utf8', maxBuffer: 64 * 1024 * 1024 }).then(
+        (r) => r.stdout,
+        (e: { stdout?: string }) => e.stdout ?? '',
+      );
       const values = new Map<string, number>();
       for (const m of stdout.matchAll(/^(\S+) = (\S+)$/gm)) values.set((m[1] as string).toLowerCase(), Number(m[2]));
       if (values.size === 0) return false;
-      ids.forEach((id, ci) => { out[id] = read(values, meta[ci] as Meta, ci, cases[id] as SpiceCase); });
+      ids.forEach((id, ci) => {
+        out[id] = read(values, meta[ci] as Meta, ci, cases[id] as SpiceCase);
+      });
       return true;
     } catch {
       return false;
@@ -132,7 +137,15 @@ function netlist(cases: readonly SpiceCase[]): { text: string; meta: Meta[] } {
   });
   // looser tolerances and a shunt across every node: interrupted currents leave kilovolt nodes
   // behind reverse-biased junctions, where the default Newton settings do not converge
-  lines.push('.options abstol=1e-9 vntol=1e-3 reltol=1e-3 itl1=1000 rshunt=1e12', '.model DI D(IS=1e-14 N=1 RS=1e-3)', '.control', 'op', 'print all', '.endc', '.end');
+  lines.push(
+    '.options abstol=1e-9 vntol=1e-3 reltol=1e-3 itl1=1000 rshunt=1e12',
+    '.model DI D(IS=1e-14 N=1 RS=1e-3)',
+    '.control',
+    'op',
+    'print all',
+    '.endc',
+    '.end',
+  );
   return { text: `${lines.join('\n')}\n`, meta };
 }
 

@@ -23,7 +23,12 @@ if (argv.length === 1 && (argv[0] === '--version' || argv[0] === '-v')) {
   };
   // exitCode, not process.exit(): the process ends only after stdout has drained, even on a pipe.
   main(argv, io).then(
-    (code) => { process.exitCode = code; },
-    (err) => { process.stderr.write(`hexsalvage: internal error: ${String(err?.message ?? err).split('\n')[0]}\n`); process.exitCode = 70; },
+    (code) => {
+      process.exitCode = code;
+    },
+    (err) => {
+      process.stderr.write(`hexsalvage: internal error: ${String(err?.message ?? err).split('\n')[0]}\n`);
+      process.exitCode = 70;
+    },
   );
 }

@@ -59,7 +59,11 @@ export function parseArgs(argv: readonly string[], specs: readonly OptionSpec[],
     }
     if (!arg.startsWith('--') || arg === '--') {
       if (positionals.length >= maxPositionals) {
-        throw usage('arguments', maxPositionals === 0 ? 'options only (no stray words)' : `at most ${maxPositionals} argument${maxPositionals > 1 ? 's' : ''} besides the options`, arg);
+        throw usage(
+          'arguments',
+          maxPositionals === 0 ? 'options only (no stray words)' : `at most ${maxPositionals} argument${maxPositionals > 1 ? 's' : ''} besides the options`,
+          arg,
+        );
       }
       positionals.push(arg);
       continue;
@@ -128,6 +132,7 @@ export function degreeRange(text: string, key: string): [number, number] {
   const parts = text.split(',').map((x) => x.trim());
   const r = parts.map((x) => (DECIMAL.test(x) ? Number(x) : NaN));
   const [lo, hi] = r as [number, number];
-  if (r.length !== 2 || !r.every(Number.isFinite) || lo < -180 || hi > 180 || lo > hi) throw usage(key, 'LO,HI in degrees with -180 <= LO <= HI <= 180, e.g. -90,90', text);
+  if (r.length !== 2 || !r.every(Number.isFinite) || lo < -180 || hi > 180 || lo > hi)
+    throw usage(key, 'LO,HI in degrees with -180 <= LO <= HI <= 180, e.g. -90,90', text);
   return [lo, hi];
 }

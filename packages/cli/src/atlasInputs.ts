@@ -13,7 +13,15 @@ export const ATLAS_OPTIONS: readonly OptionSpec[] = [
   { name: 'load-angle-range', type: 'string', value: 'LO,HI', help: 'atlas: load-angle range in degrees, -180 <= LO <= HI <= 180 (default -90,90)' },
   { name: 'step', type: 'number', min: 0, openMin: true, max: 360, value: 'DEG', help: 'atlas: step of the mMax curve over the range (default 5)' },
   { name: 'pairs', type: 'flag', help: 'atlas: every unordered pair of faults in any phases instead of every single fault of phase a' },
-  { name: 'jobs', type: 'number', min: 1, max: 256, integer: true, value: 'N', help: 'atlas: worker threads, at most the number of CPUs (default: that number, one for fewer than 400 fault classes); the result does not depend on it' },
+  {
+    name: 'jobs',
+    type: 'number',
+    min: 1,
+    max: 256,
+    integer: true,
+    value: 'N',
+    help: 'atlas: worker threads, at most the number of CPUs (default: that number, one for fewer than 400 fault classes); the result does not depend on it',
+  },
   { name: 'force-jobs', type: 'flag', help: 'atlas: allow --jobs above the number of CPUs (each thread holds its own diagrams: memory grows with N)' },
 ];
 
@@ -41,7 +49,8 @@ export async function atlasFromArgs(args: ParsedArgs, io: CommandIO, quiet: bool
   if (!withFaults && (args.lists.get('fault') ?? []).length > 0) throw usage('--fault', 'no --fault with an atlas (it tries every fault itself)');
   const modesText = (args.values.get('modes') as string | undefined) ?? FAULT_MODES.join(',');
   const modes = modesText.split(',').map((m) => m.trim());
-  if (modes.some((m) => !(FAULT_MODES as readonly string[]).includes(m)) || new Set(modes).size !== modes.length) throw usage('--modes', `a comma-separated list of distinct modes from ${FAULT_MODES.join(', ')}`, modesText);
+  if (modes.some((m) => !(FAULT_MODES as readonly string[]).includes(m)) || new Set(modes).size !== modes.length)
+    throw usage('--modes', `a comma-separated list of distinct modes from ${FAULT_MODES.join(', ')}`, modesText);
   const range = degreeRange((args.values.get('load-angle-range') as string | undefined) ?? '-90,90', '--load-angle-range');
   const work = atlasWork({
     topology: loadTopology(t),

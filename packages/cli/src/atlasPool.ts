@@ -50,7 +50,9 @@ export async function computeClasses(work: AtlasWork, jobs: number, onProgress?:
             reject(new Error(reply.error));
             return;
           }
-          reply.indices.forEach((i, k) => { results[i] = reply.results[k]; });
+          reply.indices.forEach((i, k) => {
+            results[i] = reply.results[k];
+          });
           done += reply.indices.length;
           onProgress?.(done, total);
           busy--;
@@ -58,7 +60,9 @@ export async function computeClasses(work: AtlasWork, jobs: number, onProgress?:
           else if (busy === 0) resolve();
         });
         w.on('error', reject);
-        w.on('exit', (code) => { if (done < total) reject(new Error(`an atlas worker stopped (exit code ${code})`)); });
+        w.on('exit', (code) => {
+          if (done < total) reject(new Error(`an atlas worker stopped (exit code ${code})`));
+        });
         if (send(w)) busy++;
       }
     });

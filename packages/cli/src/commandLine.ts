@@ -40,6 +40,7 @@ export function buildDate(env: NodeJS.ProcessEnv = process.env): string {
   const e = env.SOURCE_DATE_EPOCH;
   if (e === undefined || e === '') return `${new Date().toISOString().slice(0, 19)}Z`;
   // whole seconds that a date can hold (up to the year 275760)
-  if (!/^\d{1,15}$/.test(e) || Number(e) > 8.64e12) throw new HexsalvageInputError('usage', 'environment', 'SOURCE_DATE_EPOCH', 'whole seconds since 1970 (at most 8640000000000), or unset', e);
+  if (!/^\d{1,15}$/.test(e) || Number(e) > 8.64e12)
+    throw new HexsalvageInputError('usage', 'environment', 'SOURCE_DATE_EPOCH', 'whole seconds since 1970 (at most 8640000000000), or unset', e);
   return `${new Date(Number(e) * 1000).toISOString().slice(0, 19)}Z`;
 }

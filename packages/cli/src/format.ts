@@ -13,7 +13,11 @@ import { levelNotation, lineRmsVolts, phasePeakVolts, type ClaimVerdict } from '
  */
 export function textTable(header: readonly string[], rows: readonly (readonly string[])[]): string {
   const widths = header.map((h, i) => Math.max(h.length, ...rows.map((r) => (r[i] ?? '').length)));
-  const line = (cells: readonly string[]) => cells.map((c, i) => c.padEnd(widths[i] as number)).join('  ').trimEnd();
+  const line = (cells: readonly string[]) =>
+    cells
+      .map((c, i) => c.padEnd(widths[i] as number))
+      .join('  ')
+      .trimEnd();
   return [line(header), widths.map((w) => '-'.repeat(w)).join('  '), ...rows.map(line)].join('\n');
 }
 

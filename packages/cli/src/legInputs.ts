@@ -1,4 +1,14 @@
-import { LEVEL_STEP_RULES, PHASES, SEQUENCE_MODES, UPDATE_MODES, type LegNetlist, type LevelStepRule, type Phase, type SequenceMode, type UpdateMode } from '@hexsalvage/core';
+import {
+  LEVEL_STEP_RULES,
+  PHASES,
+  SEQUENCE_MODES,
+  UPDATE_MODES,
+  type LegNetlist,
+  type LevelStepRule,
+  type Phase,
+  type SequenceMode,
+  type UpdateMode,
+} from '@hexsalvage/core';
 import { usage, type ParsedArgs } from './args.js';
 import { loadTopology } from './loadTopology.js';
 
@@ -49,7 +59,7 @@ export function angleInputs(args: ParsedArgs): { loadAngleDeg: number; polarityM
 }
 
 /**
- * Reads `--ignore-ratings` and `--level-steps` (contract, Version 2).
+ * Reads `--ignore-ratings` and `--level-steps`.
  *
  * @param args - parsed command line
  * @returns rule options for the core (absent keys keep the safe defaults)
@@ -63,7 +73,12 @@ export function ruleInputs(args: ParsedArgs): { ignoreRatings: boolean; levelSte
   const steps = args.values.get('level-steps') ?? 'commutable';
   if (!(LEVEL_STEP_RULES as readonly unknown[]).includes(steps)) throw usage('--level-steps', `one of ${LEVEL_STEP_RULES.join(', ')}`, steps);
   const bypass = args.lists.get('bypass') ?? [];
-  if (bypass.length > 1) throw usage('--bypass', 'one phase at most (with two tied to the midpoint only one phase is left to modulate: no line-to-line voltage can be controlled)', bypass.join(', '));
+  if (bypass.length > 1)
+    throw usage(
+      '--bypass',
+      'one phase at most (with two tied to the midpoint only one phase is left to modulate: no line-to-line voltage can be controlled)',
+      bypass.join(', '),
+    );
   const phase = bypass[0];
   if (phase !== undefined && !(PHASES as readonly string[]).includes(phase)) throw usage('--bypass', `a phase, one of ${PHASES.join(', ')}`, phase);
   return { ignoreRatings: args.flags.has('ignore-ratings'), levelSteps: steps as LevelStepRule, ...(phase === undefined ? {} : { bypass: phase as Phase }) };
@@ -84,7 +99,7 @@ export function vdcInput(args: ParsedArgs): number | undefined {
 }
 
 /**
- * Reads `--sequence` and `--balance` (contract, Version 3) with their defaults.
+ * Reads `--sequence` and `--balance` with their defaults.
  *
  * @param args - parsed command line
  * @returns the runtime settings

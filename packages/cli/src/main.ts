@@ -40,7 +40,6 @@ export async function loadCommand(name: string): Promise<Command | undefined> {
   return Object.prototype.hasOwnProperty.call(LOADERS, name) ? (LOADERS[name] as () => Promise<Command>)() : undefined;
 }
 
-
 /**
  * Runs the CLI.
  *

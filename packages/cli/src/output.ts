@@ -119,7 +119,10 @@ export async function writeFileAtomic(path: string, data: string | Uint8Array): 
       process.exit(128 + (osConstants.signals[e.signal] ?? 15));
     }
     const code = (e as NodeJS.ErrnoException).code ?? 'write failed';
-    throw new OutputError(code, `cannot write ${plainText(path, 200)} (${code}${REASONS[code] ? `: ${REASONS[code]}` : ''}); nothing was written there (the old file, if any, is unchanged)`);
+    throw new OutputError(
+      code,
+      `cannot write ${plainText(path, 200)} (${code}${REASONS[code] ? `: ${REASONS[code]}` : ''}); nothing was written there (the old file, if any, is unchanged)`,
+    );
   } finally {
     pending.delete(tmp);
     if (pending.size === 0) {
@@ -134,7 +137,12 @@ export async function writeFileAtomic(path: string, data: string | Uint8Array): 
   }
 }
 
-const REASONS: Readonly<Record<string, string>> = { ENOSPC: 'no space left on device', EFBIG: 'file too large for this file system or limit', EDQUOT: 'disk quota exceeded', EIO: 'input/output error' };
+const REASONS: Readonly<Record<string, string>> = {
+  ENOSPC: 'no space left on device',
+  EFBIG: 'file too large for this file system or limit',
+  EDQUOT: 'disk quota exceeded',
+  EIO: 'input/output error',
+};
 
 /** A termination signal arrived during a write. */
 class Interrupted extends Error {
@@ -159,19 +167,20 @@ export function stdoutSink(stream: NodeJS.WriteStream): (text: string) => Promis
   let closed = false;
   // without a listener a late EPIPE would surface as an unhandled 'error' event with a stack trace
   stream.on('error', () => {});
-  return (text) => new Promise((res, rej) => {
-    if (closed) {
-      res();
-      return;
-    }
-    stream.write(text, (err) => {
-      if (!err) res();
-      else if ((err as NodeJS.ErrnoException).code === 'EPIPE') {
-        closed = true;
+  return (text) =>
+    new Promise((res, rej) => {
+      if (closed) {
         res();
-      } else rej(new OutputError((err as NodeJS.ErrnoException).code ?? err.message));
+        return;
+      }
+      stream.write(text, (err) => {
+        if (!err) res();
+        else if ((err as NodeJS.ErrnoException).code === 'EPIPE') {
+          closed = true;
+          res();
+        } else rej(new OutputError((err as NodeJS.ErrnoException).code ?? err.message));
+      });
     });
-  });
 }
 
 /** An output could not be written: standard output (other than a closed pipe) or a file. */
@@ -180,7 +189,10 @@ export class OutputError extends Error {
    * @param code - the system error code, e.g. `ENOSPC`
    * @param message - the one-line message (default: about standard output)
    */
-  constructor(readonly code: string, message?: string) {
+  constructor(
+    readonly code: string,
+    message?: string,
+  ) {
     super(message ?? `cannot write to standard output (${code}${REASONS[code] ? `: ${REASONS[code]}` : ''})`);
     this.name = 'OutputError';
   }

@@ -18,7 +18,8 @@ import { readJsonFile } from '@hexsalvage/core/node';
  * ```
  */
 export function readClaims(path: string): DeratingClaim[] {
-  const err = (key: string, expected: string, got?: unknown) => new HexsalvageInputError('claims', path, key, expected, got === undefined ? undefined : fileValue(got));
+  const err = (key: string, expected: string, got?: unknown) =>
+    new HexsalvageInputError('claims', path, key, expected, got === undefined ? undefined : fileValue(got));
   if (!existsSync(path)) throw err('(file)', 'an existing claims file');
   return claimsFromDocument(readJsonFile(path, path, 'claims'), path);
 }
@@ -35,7 +36,8 @@ export function readClaims(path: string): DeratingClaim[] {
  * ```
  */
 export function claimsFromDocument(doc: unknown, path: string): DeratingClaim[] {
-  const err = (key: string, expected: string, got?: unknown) => new HexsalvageInputError('claims', path, key, expected, got === undefined ? undefined : fileValue(got));
+  const err = (key: string, expected: string, got?: unknown) =>
+    new HexsalvageInputError('claims', path, key, expected, got === undefined ? undefined : fileValue(got));
   if (typeof doc !== 'object' || doc === null || Array.isArray(doc)) throw err('(document)', 'an object { "claims": [...] }', doc);
   for (const k of Object.keys(doc)) if (k !== 'claims') throw err(k, 'only the key "claims" at the top level', k);
   return parseClaimList((doc as Record<string, unknown>).claims, path, 'claims');
@@ -57,7 +59,8 @@ export function claimsFromDocument(doc: unknown, path: string): DeratingClaim[] 
  * ```
  */
 export function parseClaimList(list: unknown, path: string, listKey: string, code: 'claims' | 'scenario' = 'claims', defaultVdc?: number): DeratingClaim[] {
-  const err = (key: string, expected: string, got?: unknown) => new HexsalvageInputError(code, path, key, expected, got === undefined ? undefined : fileValue(got));
+  const err = (key: string, expected: string, got?: unknown) =>
+    new HexsalvageInputError(code, path, key, expected, got === undefined ? undefined : fileValue(got));
   if (!Array.isArray(list) || list.length === 0) throw err(listKey, 'a non-empty array of claims', list);
   const names = new Set<string>();
   return list.map((c, i) => {
@@ -71,22 +74,34 @@ export function parseClaimList(list: unknown, path: string, listKey: string, cod
     if (names.has(o.name)) throw err(`${at}.name`, 'a name not used by another claim', o.name);
     names.add(o.name);
     if (typeof o.topology !== 'string') throw err(`${at}.topology`, 'a built-in leg id or a netlist path relative to the claims file', o.topology);
-    if (!Array.isArray(o.faults) || o.faults.some((f) => typeof f !== 'string')) throw err(`${at}.faults`, 'an array of fault strings PHASE.DEVICE[:MODE]', o.faults);
-    if (o.vdc !== undefined && (typeof o.vdc !== 'number' || !Number.isFinite(o.vdc) || o.vdc <= 0 || o.vdc > 1e7)) throw err(`${at}.vdc`, 'the DC-link voltage in volts, above 0', o.vdc);
+    if (!Array.isArray(o.faults) || o.faults.some((f) => typeof f !== 'string'))
+      throw err(`${at}.faults`, 'an array of fault strings PHASE.DEVICE[:MODE]', o.faults);
+    if (o.vdc !== undefined && (typeof o.vdc !== 'number' || !Number.isFinite(o.vdc) || o.vdc <= 0 || o.vdc > 1e7))
+      throw err(`${at}.vdc`, 'the DC-link voltage in volts, above 0', o.vdc);
     if (o.lineRmsV !== undefined) {
       if (o.m !== undefined) throw err(`${at}.lineRmsV`, 'either "m" or "lineRmsV", not both', o.lineRmsV);
       if (o.vdc === undefined) throw err(`${at}.vdc`, 'the DC-link voltage in volts (needed with "lineRmsV")');
-      if (typeof o.lineRmsV !== 'number' || !Number.isFinite(o.lineRmsV) || o.lineRmsV < 0) throw err(`${at}.lineRmsV`, 'a line-to-line RMS voltage ≥ 0 in volts', o.lineRmsV);
-    } else if (typeof o.m !== 'number' || !Number.isFinite(o.m) || o.m < 0) throw err(`${at}.m`, 'a modulation index ≥ 0 (units of Vdc/2), or "lineRmsV" with "vdc"', o.m);
+      if (typeof o.lineRmsV !== 'number' || !Number.isFinite(o.lineRmsV) || o.lineRmsV < 0)
+        throw err(`${at}.lineRmsV`, 'a line-to-line RMS voltage ≥ 0 in volts', o.lineRmsV);
+    } else if (typeof o.m !== 'number' || !Number.isFinite(o.m) || o.m < 0)
+      throw err(`${at}.m`, 'a modulation index ≥ 0 (units of Vdc/2), or "lineRmsV" with "vdc"', o.m);
     const r = o.loadAngleDeg;
-    if (!Array.isArray(r) || r.length !== 2 || r.some((x) => typeof x !== 'number' || !Number.isFinite(x)) || (r[0] as number) > (r[1] as number) || (r[0] as number) < -180 || (r[1] as number) > 180) {
+    if (
+      !Array.isArray(r) ||
+      r.length !== 2 ||
+      r.some((x) => typeof x !== 'number' || !Number.isFinite(x)) ||
+      (r[0] as number) > (r[1] as number) ||
+      (r[0] as number) < -180 ||
+      (r[1] as number) > 180
+    ) {
       throw err(`${at}.loadAngleDeg`, '[LO, HI] in degrees with -180 ≤ LO ≤ HI ≤ 180', r);
     }
     const d = o.polarityMarginDeg;
     if (d !== undefined && (typeof d !== 'number' || !(d >= 0 && d < 60))) throw err(`${at}.polarityMarginDeg`, 'degrees in [0, 60)', d);
     const steps = o.levelSteps;
     if (o.bypass !== undefined && !['a', 'b', 'c'].includes(o.bypass as string)) throw err(`${at}.bypass`, 'a phase, one of a, b, c', o.bypass);
-    if (steps !== undefined && !(LEVEL_STEP_RULES as readonly unknown[]).includes(steps)) throw err(`${at}.levelSteps`, `one of ${LEVEL_STEP_RULES.join(', ')}`, steps);
+    if (steps !== undefined && !(LEVEL_STEP_RULES as readonly unknown[]).includes(steps))
+      throw err(`${at}.levelSteps`, `one of ${LEVEL_STEP_RULES.join(', ')}`, steps);
     let topology: unknown;
     try {
       topology = loadTopology(o.topology, dirname(path), true);
@@ -99,7 +114,10 @@ export function parseClaimList(list: unknown, path: string, listKey: string, cod
       throw e;
     }
     return {
-      name: o.name, topology, faults: o.faults as string[], loadAngleDeg: [r[0], r[1]] as [number, number],
+      name: o.name,
+      topology,
+      faults: o.faults as string[],
+      loadAngleDeg: [r[0], r[1]] as [number, number],
       ...(o.lineRmsV !== undefined ? { lineRmsV: o.lineRmsV as number } : { m: o.m as number }),
       ...(o.vdc !== undefined ? { vdc: o.vdc as number } : {}),
       ...(d !== undefined ? { polarityMarginDeg: d as number } : {}),
@@ -139,7 +157,13 @@ export function judgeClaims(path: string, ignoreRatings: boolean): ClaimVerdict[
  * judgeClaimList(claims, 'scenario.json', false, 'claims', 'scenario');
  * ```
  */
-export function judgeClaimList(claims: readonly DeratingClaim[], path: string, ignoreRatings: boolean, listKey = 'claims', code: 'claims' | 'scenario' = 'claims'): ClaimVerdict[] {
+export function judgeClaimList(
+  claims: readonly DeratingClaim[],
+  path: string,
+  ignoreRatings: boolean,
+  listKey = 'claims',
+  code: 'claims' | 'scenario' = 'claims',
+): ClaimVerdict[] {
   return claims.map((c, i) => {
     try {
       return evaluateClaim(ignoreRatings ? { ...c, ignoreRatings: true } : c);

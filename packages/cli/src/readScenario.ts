@@ -1,7 +1,16 @@
 import { createHash } from 'node:crypto';
 import { existsSync, readFileSync, statSync } from 'node:fs';
 import { dirname, resolve } from 'node:path';
-import { fileValue, HexsalvageInputError, isBuiltinTopology, MAX_SIMULATED_PERIODS, LEVEL_STEP_RULES, type DeratingClaim, type LegNetlist, type LevelStepRule } from '@hexsalvage/core';
+import {
+  fileValue,
+  HexsalvageInputError,
+  isBuiltinTopology,
+  MAX_SIMULATED_PERIODS,
+  LEVEL_STEP_RULES,
+  type DeratingClaim,
+  type LegNetlist,
+  type LevelStepRule,
+} from '@hexsalvage/core';
 import { confined, loadTopology } from './loadTopology.js';
 import { claimsFromDocument, parseClaimList } from './readClaims.js';
 import { readJsonFile } from '@hexsalvage/core/node';
@@ -36,7 +45,25 @@ export interface Scenario {
   readonly inputs: readonly { readonly path: string; readonly sha256: string }[];
 }
 
-const KEYS = ['$schema', 'drive', 'ratedPowerKw', 'ratedLineVoltageV', 'vdc', 'fundamentalHz', 'switchingHz', 'dcLinkCapacitanceF', 'deadTimeS', 'loadAngleRangeDeg', 'loadAngleDeg', 'polarityMarginDeg', 'topology', 'faults', 'levelSteps', 'claims', 'claimsFile'];
+const KEYS = [
+  '$schema',
+  'drive',
+  'ratedPowerKw',
+  'ratedLineVoltageV',
+  'vdc',
+  'fundamentalHz',
+  'switchingHz',
+  'dcLinkCapacitanceF',
+  'deadTimeS',
+  'loadAngleRangeDeg',
+  'loadAngleDeg',
+  'polarityMarginDeg',
+  'topology',
+  'faults',
+  'levelSteps',
+  'claims',
+  'claimsFile',
+];
 
 /**
  * SHA-256 of a file's bytes, hex.
@@ -66,7 +93,8 @@ export function fileSha256(path: string): string {
  */
 export function readScenario(path: string): Scenario {
   // messages name the key and what was expected; a value from the file only by its kind
-  const err = (key: string, expected: string, got?: unknown) => new HexsalvageInputError('scenario', path, key, expected, got === undefined ? undefined : fileValue(got));
+  const err = (key: string, expected: string, got?: unknown) =>
+    new HexsalvageInputError('scenario', path, key, expected, got === undefined ? undefined : fileValue(got));
   if (!existsSync(path)) throw err('(file)', 'an existing scenario file');
   const doc = readJsonFile(path, path, 'scenario');
   if (typeof doc !== 'object' || doc === null || Array.isArray(doc)) throw err('(document)', 'an object (see docs/schema/scenario.schema.json)', doc);
@@ -75,13 +103,22 @@ export function readScenario(path: string): Scenario {
   const num = (k: string, lo: number, hi: number, required = false): number | undefined => {
     const v = o[k];
     if (v === undefined && !required) return undefined;
-    if (typeof v !== 'number' || !Number.isFinite(v) || v < lo || v > hi || (lo === 0 && v === 0)) throw err(k, `a number ${lo === 0 ? 'above 0' : `from ${lo}`} up to ${hi}`, v);
+    if (typeof v !== 'number' || !Number.isFinite(v) || v < lo || v > hi || (lo === 0 && v === 0))
+      throw err(k, `a number ${lo === 0 ? 'above 0' : `from ${lo}`} up to ${hi}`, v);
     return v;
   };
   if (typeof o.drive !== 'string' || o.drive.trim() === '') throw err('drive', 'the drive or plant name (text)', o.drive);
   const vdc = num('vdc', 0, 1e7, true) as number;
   const range = o.loadAngleRangeDeg;
-  if (range !== undefined && (!Array.isArray(range) || range.length !== 2 || range.some((x) => typeof x !== 'number' || !Number.isFinite(x)) || (range[0] as number) > (range[1] as number) || (range[0] as number) < -180 || (range[1] as number) > 180)) {
+  if (
+    range !== undefined &&
+    (!Array.isArray(range) ||
+      range.length !== 2 ||
+      range.some((x) => typeof x !== 'number' || !Number.isFinite(x)) ||
+      (range[0] as number) > (range[1] as number) ||
+      (range[0] as number) < -180 ||
+      (range[1] as number) > 180)
+  ) {
     throw err('loadAngleRangeDeg', '[LO, HI] in degrees with -180 ≤ LO ≤ HI ≤ 180', range);
   }
   const r = range as [number, number] | undefined;
@@ -89,9 +126,12 @@ export function readScenario(path: string): Scenario {
   if (r && (loadAngleDeg < r[0] || loadAngleDeg > r[1])) throw err('loadAngleDeg', `a load angle inside loadAngleRangeDeg [${r[0]}, ${r[1]}]`, loadAngleDeg);
   const margin = o.polarityMarginDeg ?? 0;
   if (typeof margin !== 'number' || !(margin >= 0 && margin < 60)) throw err('polarityMarginDeg', 'degrees in [0, 60)', margin);
-  if (typeof o.topology !== 'string' || o.topology === '') throw err('topology', 'a built-in leg id or a netlist path relative to the scenario file', o.topology);
-  if (o.faults !== undefined && (!Array.isArray(o.faults) || o.faults.some((f) => typeof f !== 'string'))) throw err('faults', 'an array of fault strings PHASE.DEVICE[:MODE]', o.faults);
-  if (o.levelSteps !== undefined && !(LEVEL_STEP_RULES as readonly unknown[]).includes(o.levelSteps)) throw err('levelSteps', `one of ${LEVEL_STEP_RULES.join(', ')}`, o.levelSteps);
+  if (typeof o.topology !== 'string' || o.topology === '')
+    throw err('topology', 'a built-in leg id or a netlist path relative to the scenario file', o.topology);
+  if (o.faults !== undefined && (!Array.isArray(o.faults) || o.faults.some((f) => typeof f !== 'string')))
+    throw err('faults', 'an array of fault strings PHASE.DEVICE[:MODE]', o.faults);
+  if (o.levelSteps !== undefined && !(LEVEL_STEP_RULES as readonly unknown[]).includes(o.levelSteps))
+    throw err('levelSteps', `one of ${LEVEL_STEP_RULES.join(', ')}`, o.levelSteps);
   const base = dirname(path);
   const inputs = [{ path, sha256: fileSha256(path) }];
   let topology: string | LegNetlist;
@@ -112,7 +152,7 @@ export function readScenario(path: string): Scenario {
     const cf = resolve(base, o.claimsFile);
     if (!existsSync(cf)) throw err('claimsFile', 'an existing claims file (relative to the scenario file)', o.claimsFile);
     try {
-      confined(o.claimsFile, base, 'claimsFile', 'a claims file in the scenario file\'s folder or below');
+      confined(o.claimsFile, base, 'claimsFile', "a claims file in the scenario file's folder or below");
     } catch (e) {
       if (e instanceof HexsalvageInputError) throw err('claimsFile', e.expected, o.claimsFile);
       throw e;
@@ -133,7 +173,11 @@ export function readScenario(path: string): Scenario {
   const f1 = num('fundamentalHz', 0, 1e5);
   const fsw = num('switchingHz', 0, 1e8);
   if (f1 !== undefined && fsw !== undefined && !(fsw / f1 >= 6 && Math.round(fsw / f1) <= MAX_SIMULATED_PERIODS)) {
-    throw err('switchingHz', `a switching frequency of 6 to ${MAX_SIMULATED_PERIODS} times fundamentalHz (${f1} Hz; a documented limit of the simulated period)`, fsw);
+    throw err(
+      'switchingHz',
+      `a switching frequency of 6 to ${MAX_SIMULATED_PERIODS} times fundamentalHz (${f1} Hz; a documented limit of the simulated period)`,
+      fsw,
+    );
   }
   return {
     drive: o.drive,
@@ -160,6 +204,13 @@ export function readScenario(path: string): Scenario {
 function deadTime(td: number | undefined, fsw: number | undefined): number | undefined {
   if (td === undefined) return undefined;
   const most = fsw === undefined ? 1e-3 : 0.1 / fsw;
-  if (!(td >= 0 && td <= most)) throw new HexsalvageInputError('scenario', 'scenario', 'deadTimeS', `a dead time in seconds from 0 to a tenth of the switching period (${most.toExponential(3)} s)`, td);
+  if (!(td >= 0 && td <= most))
+    throw new HexsalvageInputError(
+      'scenario',
+      'scenario',
+      'deadTimeS',
+      `a dead time in seconds from 0 to a tenth of the switching period (${most.toExponential(3)} s)`,
+      td,
+    );
   return td;
 }

@@ -36,7 +36,13 @@ export function schematicFocus(analysis: LegAnalysis, phaseArg?: string, pattern
   const title = `Leg ${analysis.topology}, phase ${phase}${mine.length ? `, failed: ${mine.map((f) => `${f.element} ${f.mode}`).join(', ')}` : ''}`;
   const common = { failed, shorted, pattern: { name: p.name, gates: p.gates }, sign, title };
   if (p.status === 'forbidden') {
-    return { ...common, state: 'shoot-through', path: p.shootThrough.path, level: null, reason: `${p.shootThrough.from}→${p.shootThrough.to} via ${p.shootThrough.path.join(', ')}` };
+    return {
+      ...common,
+      state: 'shoot-through',
+      path: p.shootThrough.path,
+      level: null,
+      reason: `${p.shootThrough.from}→${p.shootThrough.to} via ${p.shootThrough.path.join(', ')}`,
+    };
   }
   const outcome = p.bySign[sign];
   const unsafe = p.unsafe[sign];

@@ -12,9 +12,25 @@ export const SIM_OPTIONS: readonly OptionSpec[] = [
   { name: 'vdc', type: 'number', min: 0, openMin: true, max: 1e7, value: 'V', help: 'total DC-link voltage, volts' },
   { name: 'current-peak', type: 'number', min: 0, openMin: true, max: 1e7, value: 'A', help: 'peak of the sinusoidal phase currents, amperes' },
   { name: 'f1', type: 'number', min: 0, openMin: true, max: 1e5, value: 'HZ', help: 'fundamental frequency, Hz' },
-  { name: 'fsw', type: 'number', min: 0, openMin: true, max: 1e8, value: 'HZ', help: 'switching frequency, Hz (fsw/f1, rounded, periods per fundamental; at least 6)' },
+  {
+    name: 'fsw',
+    type: 'number',
+    min: 0,
+    openMin: true,
+    max: 1e8,
+    value: 'HZ',
+    help: 'switching frequency, Hz (fsw/f1, rounded, periods per fundamental; at least 6)',
+  },
   { name: 'devices', type: 'string', value: 'FILE', help: 'device loss parameters (docs/schema/devices.schema.json); default: invented demo values' },
-  { name: 'capacitance', type: 'number', min: 0, openMin: true, max: 1e3, value: 'F', help: 'capacitance of each half of the DC link, farads (midpoint ripple in volts)' },
+  {
+    name: 'capacitance',
+    type: 'number',
+    min: 0,
+    openMin: true,
+    max: 1e3,
+    value: 'F',
+    help: 'capacitance of each half of the DC link, farads (midpoint ripple in volts)',
+  },
   { name: 'dead-time', type: 'number', min: 0, max: 1, value: 'S', help: 'dead time in seconds (default 0; at most a tenth of the switching period)' },
   { name: 'sequence', type: 'string', value: 'S', help: 'runtime sequence: continuous (default) or discontinuous' },
   { name: 'balance', type: 'string', value: 'on|off', help: 'runtime midpoint balance: on (default) or off' },
@@ -34,7 +50,12 @@ export const SIM_OPTIONS: readonly OptionSpec[] = [
  * simulatePeriod(simulateInputs(args, topology, faults, rules));
  * ```
  */
-export function simulateInputs(args: ParsedArgs, topology: string | LegNetlist, faults: readonly string[], rules: { ignoreRatings: boolean; levelSteps: LevelStepRule }): SimulateOptions {
+export function simulateInputs(
+  args: ParsedArgs,
+  topology: string | LegNetlist,
+  faults: readonly string[],
+  rules: { ignoreRatings: boolean; levelSteps: LevelStepRule },
+): SimulateOptions {
   const need = (k: string, what: string) => {
     const v = args.values.get(k);
     if (typeof v !== 'number') throw usage(`--${k}`, what);
@@ -69,6 +90,7 @@ export function simulateInputs(args: ParsedArgs, topology: string | LegNetlist, 
 function deadTimeInput(args: ParsedArgs): number {
   const td = args.values.get('dead-time') as number;
   const fsw = args.values.get('fsw');
-  if (typeof fsw === 'number' && fsw > 0 && td > 0.1 / fsw) throw usage('--dead-time', `at most a tenth of the switching period (${(0.1 / fsw).toExponential(3)} s at ${fsw} Hz)`, td);
+  if (typeof fsw === 'number' && fsw > 0 && td > 0.1 / fsw)
+    throw usage('--dead-time', `at most a tenth of the switching period (${(0.1 / fsw).toExponential(3)} s at ${fsw} Hz)`, td);
   return td;
 }

@@ -22,7 +22,13 @@ export function ratioColour(ratio: number): string {
   const t = x - i;
   const a = hex(VIRIDIS[i] as string);
   const b = hex(VIRIDIS[i + 1] as string);
-  return `#${a.map((v, k) => Math.round(v + (((b[k] as number) - v) * t)).toString(16).padStart(2, '0')).join('')}`;
+  return `#${a
+    .map((v, k) =>
+      Math.round(v + ((b[k] as number) - v) * t)
+        .toString(16)
+        .padStart(2, '0'),
+    )
+    .join('')}`;
 }
 
 function hex(c: string): number[] {
@@ -63,10 +69,17 @@ export function atlasHeatmapSvg(atlas: FaultAtlas): string {
       const h = (atlas.healthy.mMaxAt[c] as readonly [number, number])[1];
       const ratio = h > 0 ? m / h : 0;
       const x = L + c * cellW;
-      body.push(`<rect class="cell" x="${n(x)}" y="${y}" width="${n(cellW)}" height="${cellH}" fill="${ratioColour(ratio)}"><title>${esc(`${e.faults.join(' + ')} at ${n(grid[c] as number, 1)}°: mMax ${n(m, 4)} (${n(ratio * 100, 0)} % of healthy)`)}</title></rect>`);
-      if (m <= CANNOT) body.push(`<text class="cannot-run" x="${n(x + cellW / 2)}" y="${n(y + cellH - 3.5)}" text-anchor="middle" font-size="${STYLE.smallFont}" fill="#ffffff">×</text>`);
+      body.push(
+        `<rect class="cell" x="${n(x)}" y="${y}" width="${n(cellW)}" height="${cellH}" fill="${ratioColour(ratio)}"><title>${esc(`${e.faults.join(' + ')} at ${n(grid[c] as number, 1)}°: mMax ${n(m, 4)} (${n(ratio * 100, 0)} % of healthy)`)}</title></rect>`,
+      );
+      if (m <= CANNOT)
+        body.push(
+          `<text class="cannot-run" x="${n(x + cellW / 2)}" y="${n(y + cellH - 3.5)}" text-anchor="middle" font-size="${STYLE.smallFont}" fill="#ffffff">×</text>`,
+        );
     });
-    body.push(`<text x="${n(L + plotW + 6)}" y="${n(y + cellH - 3)}" font-size="${STYLE.smallFont}">${e.verdict === 'cannot-run' ? 'cannot run' : `${n(e.deratingRatio * 100, 0)} %`}</text>`);
+    body.push(
+      `<text x="${n(L + plotW + 6)}" y="${n(y + cellH - 3)}" font-size="${STYLE.smallFont}">${e.verdict === 'cannot-run' ? 'cannot run' : `${n(e.deratingRatio * 100, 0)} %`}</text>`,
+    );
   });
   body.push(`<rect x="${L}" y="${T}" width="${n(plotW)}" height="${B - T}" fill="none" stroke="${STYLE.ink}"/>`);
   body.push(`<text x="${n(L + plotW + 6)}" y="${T - 6}" font-size="${STYLE.smallFont}">worst</text>`);
@@ -75,17 +88,22 @@ export function atlasHeatmapSvg(atlas: FaultAtlas): string {
   grid.forEach((phi, c) => {
     if (c % every !== 0 && c !== grid.length - 1) return;
     const x = L + (c + 0.5) * cellW;
-    body.push(`<line x1="${n(x)}" y1="${B}" x2="${n(x)}" y2="${B + 4}" stroke="${STYLE.ink}"/><text x="${n(x)}" y="${B + 15}" text-anchor="middle" font-size="${STYLE.smallFont}">${n(phi, 0)}</text>`);
+    body.push(
+      `<line x1="${n(x)}" y1="${B}" x2="${n(x)}" y2="${B + 4}" stroke="${STYLE.ink}"/><text x="${n(x)}" y="${B + 15}" text-anchor="middle" font-size="${STYLE.smallFont}">${n(phi, 0)}</text>`,
+    );
   });
   body.push(`<text x="${n(L + plotW / 2)}" y="${B + 32}" text-anchor="middle">load angle φ (degrees, positive = current lagging)</text>`);
   body.push(`<text x="${L}" y="${T - 8}" font-size="${STYLE.smallFont}">colour: mMax / healthy mMax at each load angle; × = cannot run (mMax = 0)</text>`);
   body.push(colourBar(L, B + 44, Math.min(plotW, 300)));
-  return svgFrame({
-    width: W,
-    height: H,
-    title: `Fault atlas: ${atlas.topology}, mMax over load angle for every ${atlas.pairs ? 'fault pair' : 'single fault'}`,
-    desc: `${rows.length} fault sets over load angles ${n(grid[0] ?? 0, 1)}° to ${n(grid[grid.length - 1] ?? 0, 1)}°: ${count(atlas, 'full')} keep full voltage, ${count(atlas, 'derated')} need derating, ${count(atlas, 'cannot-run')} cannot run.`,
-  }, `<g font-size="${STYLE.fontSize}" fill="${STYLE.ink}" shape-rendering="crispEdges">${body.join('\n')}</g>`);
+  return svgFrame(
+    {
+      width: W,
+      height: H,
+      title: `Fault atlas: ${atlas.topology}, mMax over load angle for every ${atlas.pairs ? 'fault pair' : 'single fault'}`,
+      desc: `${rows.length} fault sets over load angles ${n(grid[0] ?? 0, 1)}° to ${n(grid[grid.length - 1] ?? 0, 1)}°: ${count(atlas, 'full')} keep full voltage, ${count(atlas, 'derated')} need derating, ${count(atlas, 'cannot-run')} cannot run.`,
+    },
+    `<g font-size="${STYLE.fontSize}" fill="${STYLE.ink}" shape-rendering="crispEdges">${body.join('\n')}</g>`,
+  );
 }
 
 /**
@@ -105,7 +123,11 @@ export function atlasPairMatrixSvg(atlas: FaultAtlas): string {
   const seen = new Set<string>();
   const ratio = new Map<string, number>();
   for (const e of atlas.entries) {
-    for (const f of e.faults) if (!seen.has(f)) { seen.add(f); faults.push(f); }
+    for (const f of e.faults)
+      if (!seen.has(f)) {
+        seen.add(f);
+        faults.push(f);
+      }
     ratio.set([...e.faults].sort().join('|'), e.verdict === 'cannot-run' ? 0 : e.deratingRatio);
   }
   // by phase, then device, then mode: the text order of `a.device:mode`
@@ -122,27 +144,39 @@ export function atlasPairMatrixSvg(atlas: FaultAtlas): string {
     body.push(`<text x="${L - 4}" y="${n(T + i * cell + cell - 2)}" text-anchor="end" font-size="${STYLE.smallFont}">${esc(f)}</text>`);
     body.push(`<text transform="translate(${n(L + i * cell + cell - 3)} ${T - 4}) rotate(-90)" font-size="${STYLE.smallFont}">${esc(f)}</text>`);
   });
-  faults.forEach((fi, i) => faults.forEach((fj, j) => {
-    const x = L + j * cell;
-    const y = T + i * cell;
-    const r = ratio.get([fi, fj].sort().join('|'));
-    if (r === undefined) {
-      body.push(`<rect class="not-a-pair" x="${n(x)}" y="${n(y)}" width="${n(cell)}" height="${n(cell)}" fill="${STYLE.grid}"/>`);
-      return;
-    }
-    body.push(`<rect class="cell" x="${n(x)}" y="${n(y)}" width="${n(cell)}" height="${n(cell)}" fill="${ratioColour(r)}"><title>${esc(`${fi} + ${fj}: ${r === 0 ? 'cannot run' : `${n(r * 100, 0)} % of healthy`}`)}</title></rect>`);
-    if (r === 0 && cell >= 8) body.push(`<text class="cannot-run" x="${n(x + cell / 2)}" y="${n(y + cell - 2.5)}" text-anchor="middle" font-size="${n(Math.min(STYLE.smallFont, cell - 2), 0)}" fill="#ffffff">×</text>`);
-  }));
+  faults.forEach((fi, i) =>
+    faults.forEach((fj, j) => {
+      const x = L + j * cell;
+      const y = T + i * cell;
+      const r = ratio.get([fi, fj].sort().join('|'));
+      if (r === undefined) {
+        body.push(`<rect class="not-a-pair" x="${n(x)}" y="${n(y)}" width="${n(cell)}" height="${n(cell)}" fill="${STYLE.grid}"/>`);
+        return;
+      }
+      body.push(
+        `<rect class="cell" x="${n(x)}" y="${n(y)}" width="${n(cell)}" height="${n(cell)}" fill="${ratioColour(r)}"><title>${esc(`${fi} + ${fj}: ${r === 0 ? 'cannot run' : `${n(r * 100, 0)} % of healthy`}`)}</title></rect>`,
+      );
+      if (r === 0 && cell >= 8)
+        body.push(
+          `<text class="cannot-run" x="${n(x + cell / 2)}" y="${n(y + cell - 2.5)}" text-anchor="middle" font-size="${n(Math.min(STYLE.smallFont, cell - 2), 0)}" fill="#ffffff">×</text>`,
+        );
+    }),
+  );
   body.push(`<rect x="${L}" y="${T}" width="${n(size)}" height="${n(size)}" fill="none" stroke="${STYLE.ink}"/>`);
   const by = T + size + 14;
-  body.push(`<text x="${L}" y="${by}" font-size="${STYLE.smallFont}">colour: worst-case mMax / healthy over the load-angle range; × = cannot run; grey = same device (not a pair)</text>`);
+  body.push(
+    `<text x="${L}" y="${by}" font-size="${STYLE.smallFont}">colour: worst-case mMax / healthy over the load-angle range; × = cannot run; grey = same device (not a pair)</text>`,
+  );
   body.push(colourBar(L, by + 10, Math.min(size, 300)));
-  return svgFrame({
-    width: W,
-    height: H,
-    title: `Fault pairs: ${atlas.topology}, worst-case derating ratio`,
-    desc: `${atlas.entries.length} fault pairs of ${faults.length} single faults: ${count(atlas, 'full')} keep full voltage, ${count(atlas, 'derated')} need derating, ${count(atlas, 'cannot-run')} cannot run.`,
-  }, `<g font-size="${STYLE.fontSize}" fill="${STYLE.ink}" shape-rendering="crispEdges">${body.join('\n')}</g>`);
+  return svgFrame(
+    {
+      width: W,
+      height: H,
+      title: `Fault pairs: ${atlas.topology}, worst-case derating ratio`,
+      desc: `${atlas.entries.length} fault pairs of ${faults.length} single faults: ${count(atlas, 'full')} keep full voltage, ${count(atlas, 'derated')} need derating, ${count(atlas, 'cannot-run')} cannot run.`,
+    },
+    `<g font-size="${STYLE.fontSize}" fill="${STYLE.ink}" shape-rendering="crispEdges">${body.join('\n')}</g>`,
+  );
 }
 
 function count(atlas: FaultAtlas, verdict: string): number {
@@ -153,9 +187,11 @@ function count(atlas: FaultAtlas, verdict: string): number {
 function colourBar(x: number, y: number, w: number): string {
   const steps = 40;
   const parts: string[] = [];
-  for (let k = 0; k < steps; k++) parts.push(`<rect x="${n(x + (k * w) / steps)}" y="${y}" width="${n(w / steps + 0.5)}" height="10" fill="${ratioColour((k + 0.5) / steps)}"/>`);
+  for (let k = 0; k < steps; k++)
+    parts.push(`<rect x="${n(x + (k * w) / steps)}" y="${y}" width="${n(w / steps + 0.5)}" height="10" fill="${ratioColour((k + 0.5) / steps)}"/>`);
   parts.push(`<rect x="${x}" y="${y}" width="${n(w)}" height="10" fill="none" stroke="${STYLE.ink}" stroke-width="0.5"/>`);
-  for (const q of [0, 0.25, 0.5, 0.75, 1]) parts.push(`<text x="${n(x + q * w)}" y="${y + 22}" text-anchor="middle" font-size="${STYLE.smallFont}">${n(q * 100, 0)} %</text>`);
+  for (const q of [0, 0.25, 0.5, 0.75, 1])
+    parts.push(`<text x="${n(x + q * w)}" y="${y + 22}" text-anchor="middle" font-size="${STYLE.smallFont}">${n(q * 100, 0)} %</text>`);
   parts.push(`<text x="${n(x + w + 8)}" y="${y + 9}" font-size="${STYLE.smallFont}">mMax / healthy</text>`);
   return `<g class="colour-bar">${parts.join('')}</g>`;
 }

@@ -34,10 +34,11 @@ export function legLayout(leg: LegNetlist): LegLayout {
     const queue = [...sources];
     while (queue.length) {
       const v = queue.shift() as string;
-      for (const w of adj.get(v) ?? []) if (!out.has(w)) {
-        out.set(w, (out.get(v) as number) + 1);
-        queue.push(w);
-      }
+      for (const w of adj.get(v) ?? [])
+        if (!out.has(w)) {
+          out.set(w, (out.get(v) as number) + 1);
+          queue.push(w);
+        }
     }
     return out;
   };

@@ -76,7 +76,9 @@ export function legSchematicSvg(leg: LegNetlist, options: LegSchematicOptions = 
   // DC rail labels
   for (const [node, v] of Object.entries(leg.dcNodes)) {
     const [x, y] = P(node);
-    body.push(`<g class="dc-node"><rect x="${n(x - 46)}" y="${n(y - 10)}" width="40" height="20" fill="#f2f2f2" stroke="${STYLE.ink}"/><text x="${n(x - 26)}" y="${n(y + 4)}" text-anchor="middle" font-weight="bold">${esc(node)}</text><text x="${n(x - 26)}" y="${n(y + 22)}" text-anchor="middle" font-size="${STYLE.smallFont}">${n(v, 2)}·Vdc/2</text></g>`);
+    body.push(
+      `<g class="dc-node"><rect x="${n(x - 46)}" y="${n(y - 10)}" width="40" height="20" fill="#f2f2f2" stroke="${STYLE.ink}"/><text x="${n(x - 26)}" y="${n(y + 4)}" text-anchor="middle" font-weight="bold">${esc(node)}</text><text x="${n(x - 26)}" y="${n(y + 22)}" text-anchor="middle" font-size="${STYLE.smallFont}">${n(v, 2)}·Vdc/2</text></g>`,
+    );
   }
   // devices: sort pairs so that two devices on the same node pair get distinct offsets
   const pairCount = new Map<string, number>();
@@ -104,21 +106,31 @@ export function legSchematicSvg(leg: LegNetlist, options: LegSchematicOptions = 
     const viaDiode = path.has(`${d.id}.diode`) && !path.has(d.id);
     const [px, py] = viaDiode ? [mx - uy * side * 17, my + ux * side * 17] : [mx, my];
     const stroke = options.state === 'shoot-through' || options.state === 'unsafe' ? STYLE.vermillion : STYLE.green;
-    if (path.has(d.id) || viaDiode) body.push(`<path class="conduction" d="M${n(x1)},${n(y1)} L${n(px)},${n(py)} L${n(x2)},${n(y2)}" stroke="${stroke}" stroke-width="7" stroke-linecap="round" fill="none" opacity="${stroke === STYLE.green ? 0.55 : 0.8}"/>`);
+    if (path.has(d.id) || viaDiode)
+      body.push(
+        `<path class="conduction" d="M${n(x1)},${n(y1)} L${n(px)},${n(py)} L${n(x2)},${n(y2)}" stroke="${stroke}" stroke-width="7" stroke-linecap="round" fill="none" opacity="${stroke === STYLE.green ? 0.55 : 0.8}"/>`,
+      );
     body.push(`<path class="wire" d="M${n(x1)},${n(y1)} L${n(mx)},${n(my)} L${n(x2)},${n(y2)}" stroke="${STYLE.ink}" stroke-width="1.3" fill="none"/>`);
     const place = `translate(${n(mx)} ${n(my)}) rotate(${n(angle, 1)})`;
-    const g: string[] = [`<g class="device ${d.kind}" data-id="${esc(d.id)}"${control(options.phase, d.id, failed, shorted)} transform="${place}">${tooltip(options.phase, d.id, failed, shorted)}`];
+    const g: string[] = [
+      `<g class="device ${d.kind}" data-id="${esc(d.id)}"${control(options.phase, d.id, failed, shorted)} transform="${place}">${tooltip(options.phase, d.id, failed, shorted)}`,
+    ];
     if (d.kind === 'diode') {
       g.push(diodeSymbol(0, path.has(d.id), stroke));
-      if (options.phase !== undefined) g.push(...[failed.has(d.id) ? crossMark(0, 0) : '', shorted.has(d.id) ? shortMark(0) : '', hitArea(0, 10)].filter(Boolean));
+      if (options.phase !== undefined)
+        g.push(...[failed.has(d.id) ? crossMark(0, 0) : '', shorted.has(d.id) ? shortMark(0) : '', hitArea(0, 10)].filter(Boolean));
     } else {
       const on = gates.has(d.id);
       g.push(`<rect x="-13" y="-8" width="26" height="16" rx="2" fill="${on ? STYLE.blue : '#ffffff'}" stroke="${STYLE.ink}" stroke-width="1.2"/>`);
       g.push(`<path d="M-6,0 L5,0 M1,-3.5 L5,0 L1,3.5" stroke="${on ? '#ffffff' : STYLE.ink}" stroke-width="1.3" fill="none"/>`);
       if (d.kind === 'mosfet') g.push(`<circle class="mosfet-mark" cx="0" cy="${-side * 11}" r="2" fill="${STYLE.ink}"/>`);
-      if (options.phase !== undefined) g.push(...[failed.has(d.id) ? crossMark(0, 0) : '', shorted.has(d.id) ? shortMark(0) : '', hitArea(0, 11)].filter(Boolean));
+      if (options.phase !== undefined)
+        g.push(...[failed.has(d.id) ? crossMark(0, 0) : '', shorted.has(d.id) ? shortMark(0) : '', hitArea(0, 11)].filter(Boolean));
       // a control is one group per element, so that a click on the diode never reaches its switch
-      if (d.antiparallelDiode && options.phase !== undefined) g.push(`</g><g class="device diode antiparallel" data-id="${esc(d.id)}.diode"${control(options.phase, `${d.id}.diode`, failed, shorted)} transform="${place}">${tooltip(options.phase, `${d.id}.diode`, failed, shorted)}`);
+      if (d.antiparallelDiode && options.phase !== undefined)
+        g.push(
+          `</g><g class="device diode antiparallel" data-id="${esc(d.id)}.diode"${control(options.phase, `${d.id}.diode`, failed, shorted)} transform="${place}">${tooltip(options.phase, `${d.id}.diode`, failed, shorted)}`,
+        );
       if (d.antiparallelDiode) g.push(`<g transform="translate(0 ${side * 17}) rotate(180)">${diodeSymbol(0, path.has(`${d.id}.diode`), stroke)}</g>`);
     }
     if (failed.has(d.id) && options.phase === undefined) g.push(crossMark(0, 0));
@@ -128,32 +140,59 @@ export function legSchematicSvg(leg: LegNetlist, options: LegSchematicOptions = 
     if (d.antiparallelDiode && options.phase !== undefined) g.push(hitArea(side * 17, 8));
     g.push('</g>');
     body.push(g.join(''));
-    const tag = [d.id, failed.has(d.id) ? 'OPEN' : '', shorted.has(d.id) ? 'SHORT' : '', failed.has(`${d.id}.diode`) ? 'diode OPEN' : '', shorted.has(`${d.id}.diode`) ? 'diode SHORT' : ''].filter(Boolean).join(' · ');
+    const tag = [
+      d.id,
+      failed.has(d.id) ? 'OPEN' : '',
+      shorted.has(d.id) ? 'SHORT' : '',
+      failed.has(`${d.id}.diode`) ? 'diode OPEN' : '',
+      shorted.has(`${d.id}.diode`) ? 'diode SHORT' : '',
+    ]
+      .filter(Boolean)
+      .join(' · ');
     const bad = /OPEN|SHORT/.test(tag);
-    body.push(`<text class="device-label${bad ? ' failed' : ''}" x="${n(mx - uy * (d.antiparallelDiode ? 36 : 22) * side)}" y="${n(my + ux * (d.antiparallelDiode ? 36 : 22) * side + 4)}" text-anchor="middle" font-size="${STYLE.smallFont}" fill="${bad ? STYLE.vermillion : STYLE.ink}"${bad ? ' font-weight="bold"' : ''}>${esc(tag)}</text>`);
+    body.push(
+      `<text class="device-label${bad ? ' failed' : ''}" x="${n(mx - uy * (d.antiparallelDiode ? 36 : 22) * side)}" y="${n(my + ux * (d.antiparallelDiode ? 36 : 22) * side + 4)}" text-anchor="middle" font-size="${STYLE.smallFont}" fill="${bad ? STYLE.vermillion : STYLE.ink}"${bad ? ' font-weight="bold"' : ''}>${esc(tag)}</text>`,
+    );
   }
   const [ox, oy] = P(leg.output);
-  body.push(`<g class="output"><circle cx="${n(ox)}" cy="${n(oy)}" r="5" fill="${STYLE.ink}"/><line x1="${n(ox)}" y1="${n(oy)}" x2="${n(ox + 40)}" y2="${n(oy)}" stroke="${STYLE.ink}" stroke-width="1.3"/><text x="${n(ox + 44)}" y="${n(oy + 4)}" font-weight="bold">${esc(leg.output)}</text></g>`);
+  body.push(
+    `<g class="output"><circle cx="${n(ox)}" cy="${n(oy)}" r="5" fill="${STYLE.ink}"/><line x1="${n(ox)}" y1="${n(oy)}" x2="${n(ox + 40)}" y2="${n(oy)}" stroke="${STYLE.ink}" stroke-width="1.3"/><text x="${n(ox + 44)}" y="${n(oy + 4)}" font-weight="bold">${esc(leg.output)}</text></g>`,
+  );
   for (const [node, [x, y]] of [...layout].map(([k]) => [k, P(k)] as const)) {
     if (node in leg.dcNodes || node === leg.output) continue;
-    body.push(`<circle class="node" cx="${n(x)}" cy="${n(y)}" r="3" fill="${STYLE.ink}"/><text x="${n(x + 5)}" y="${n(y - 6)}" font-size="${STYLE.smallFont}" fill="#666666">${esc(node)}</text>`);
+    body.push(
+      `<circle class="node" cx="${n(x)}" cy="${n(y)}" r="3" fill="${STYLE.ink}"/><text x="${n(x + 5)}" y="${n(y - 6)}" font-size="${STYLE.smallFont}" fill="#666666">${esc(node)}</text>`,
+    );
   }
   const caption = captionText(options);
-  const warn = options.state === 'interrupted' || options.state === 'shoot-through' || options.state === 'unsafe' || (options.state === undefined && options.level === null);
+  const warn =
+    options.state === 'interrupted' ||
+    options.state === 'shoot-through' ||
+    options.state === 'unsafe' ||
+    (options.state === undefined && options.level === null);
   const cls = options.state && options.state !== 'path' ? ` ${options.state}` : options.level === null ? ' interrupted' : '';
   const spans = captionLines.map((line, i) => `<tspan x="12" dy="${i === 0 ? 0 : 15}">${esc(line)}</tspan>`).join('');
   if (options.legend !== false) {
-    body.push(`<text class="caption${cls}" x="12" y="${H - 54 - extra}" fill="${warn ? STYLE.vermillion : STYLE.ink}"${warn ? ' font-weight="bold"' : ''}>${spans}</text>`);
-    body.push(`<text x="12" y="${H - 34}" font-size="${STYLE.smallFont}" fill="${STYLE.ink}">Arrow: forward direction. Filled box: switch gated on. Dot: MOSFET (conducts both ways when on).</text>`);
-    body.push(`<text x="12" y="${H - 20}" font-size="${STYLE.smallFont}" fill="${STYLE.ink}">Thick green: conducting path; thick orange-red: a path never used. × and OPEN: failed open; bar and SHORT: failed short.</text>`);
+    body.push(
+      `<text class="caption${cls}" x="12" y="${H - 54 - extra}" fill="${warn ? STYLE.vermillion : STYLE.ink}"${warn ? ' font-weight="bold"' : ''}>${spans}</text>`,
+    );
+    body.push(
+      `<text x="12" y="${H - 34}" font-size="${STYLE.smallFont}" fill="${STYLE.ink}">Arrow: forward direction. Filled box: switch gated on. Dot: MOSFET (conducts both ways when on).</text>`,
+    );
+    body.push(
+      `<text x="12" y="${H - 20}" font-size="${STYLE.smallFont}" fill="${STYLE.ink}">Thick green: conducting path; thick orange-red: a path never used. × and OPEN: failed open; bar and SHORT: failed short.</text>`,
+    );
   }
   const failedText = [failed.size ? ` Failed open: ${[...failed].join(', ')}.` : '', shorted.size ? ` Failed short: ${[...shorted].join(', ')}.` : ''].join('');
-  return svgFrame({
-    width: W,
-    height: options.legend === false ? B + 40 : H,
-    title: options.title ?? `Leg ${leg.name}`,
-    desc: `Schematic of leg ${leg.name} with ${leg.devices.length} devices.${failedText} ${caption}`,
-  }, body.join('\n'));
+  return svgFrame(
+    {
+      width: W,
+      height: options.legend === false ? B + 40 : H,
+      title: options.title ?? `Leg ${leg.name}`,
+      desc: `Schematic of leg ${leg.name} with ${leg.devices.length} devices.${failedText} ${caption}`,
+    },
+    body.join('\n'),
+  );
 }
 
 function captionText(o: LegSchematicOptions): string {
@@ -162,7 +201,8 @@ function captionText(o: LegSchematicOptions): string {
   const dir = o.sign === '+' ? 'i > 0 (out of the leg)' : 'i < 0 (into the leg)';
   const through = (o.path ?? []).join(', ') || '(none)';
   if (o.state === 'shoot-through') return `Pattern ${o.pattern.name}: shoot-through${o.reason ? ` ${o.reason}` : ''}: never used.`;
-  if (o.state === 'unsafe') return `Pattern ${o.pattern.name}, ${s}: the current flows through ${through}, but ${o.reason ?? 'a device would block more than its rating'}: not used for this sign.`;
+  if (o.state === 'unsafe')
+    return `Pattern ${o.pattern.name}, ${s}: the current flows through ${through}, but ${o.reason ?? 'a device would block more than its rating'}: not used for this sign.`;
   if (o.state === 'interrupted' || o.level === null) return `Pattern ${o.pattern.name}, ${s}: current interrupted (no path), forbidden for this sign.`;
   return `Pattern ${o.pattern.name}, ${dir}: output at ${n(o.level ?? 0, 2)}·Vdc/2 through ${through}.`;
 }

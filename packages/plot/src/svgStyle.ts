@@ -41,7 +41,7 @@ export function n(x: number, digits = 2): string {
  * A phase level as drawn: P, O, N for +1, 0, −1 (units of Vdc/2), else the number.
  *
  * @deprecated mixes letters and numbers on legs with more levels; the plots use `levelNotation`
- * from `@hexsalvage/core` (one notation per leg). Kept for callers of the first release.
+ * from `@hexsalvage/core` (one notation per leg).
  *
  * @param level - potential in units of Vdc/2
  * @param digits - decimals for levels other than ±1 and 0

@@ -42,11 +42,17 @@ export function vectorDiagramSvg(plan: RemedialPlan, polarity: string, options: 
   const body: string[] = [];
   const note = levelNotation(plan.dcLevels);
   const named = (v: PlanVector) => v.levels.map((t) => note.triplet(t)).join(', ');
-  body.push(`<g stroke="${STYLE.grid}" stroke-width="1"><line x1="${X(-extent)}" y1="${Y(0)}" x2="${X(extent)}" y2="${Y(0)}"/><line x1="${X(0)}" y1="${Y(-extent)}" x2="${X(0)}" y2="${Y(extent)}"/></g>`);
+  body.push(
+    `<g stroke="${STYLE.grid}" stroke-width="1"><line x1="${X(-extent)}" y1="${Y(0)}" x2="${X(extent)}" y2="${Y(0)}"/><line x1="${X(0)}" y1="${Y(-extent)}" x2="${X(0)}" y2="${Y(extent)}"/></g>`,
+  );
   const axisName = `α (Vdc/2${options.vdc !== undefined ? ` = ${n(options.vdc / 2, 0)} V` : ''})`;
-  body.push(`<text x="${X(extent)}" y="${n(cy + 14)}" text-anchor="end" fill="${STYLE.ink}">${esc(axisName)}</text><text x="${n(cx + 4)}" y="${Y(extent)}" dominant-baseline="hanging" fill="${STYLE.ink}">${esc(`β${axisName.slice(1)}`)}</text>`);
+  body.push(
+    `<text x="${X(extent)}" y="${n(cy + 14)}" text-anchor="end" fill="${STYLE.ink}">${esc(axisName)}</text><text x="${n(cx + 4)}" y="${Y(extent)}" dominant-baseline="hanging" fill="${STYLE.ink}">${esc(`β${axisName.slice(1)}`)}</text>`,
+  );
   // healthy limit circle, faint
-  body.push(`<circle class="healthy-limit" cx="${X(0)}" cy="${Y(0)}" r="${n(k * plan.mMaxHealthy)}" fill="none" stroke="${STYLE.faint}" stroke-dasharray="2 3"/>`);
+  body.push(
+    `<circle class="healthy-limit" cx="${X(0)}" cy="${Y(0)}" r="${n(k * plan.mMaxHealthy)}" fill="none" stroke="${STYLE.faint}" stroke-dasharray="2 3"/>`,
+  );
   // triangles
   body.push('<g class="triangles" fill="none" stroke="#9aa7b5" stroke-width="0.8">');
   for (const t of d.triangles) {
@@ -58,29 +64,49 @@ export function vectorDiagramSvg(plan: RemedialPlan, polarity: string, options: 
   // outline of the admissible tiling is the boundary that counts
   if (d.hull.length >= 2) {
     const faint = d.outline ? ` stroke-dasharray="5 4" stroke-opacity="0.55"` : '';
-    body.push(`<polygon class="hull" points="${d.hull.map(([a, b]) => `${X(a)},${Y(b)}`).join(' ')}" fill="none" stroke="${STYLE.blue}" stroke-width="1.6"${faint}/>`);
+    body.push(
+      `<polygon class="hull" points="${d.hull.map(([a, b]) => `${X(a)},${Y(b)}`).join(' ')}" fill="none" stroke="${STYLE.blue}" stroke-width="1.6"${faint}/>`,
+    );
   }
-  if (d.outline) body.push(`<path class="outline" d="${d.outline.map(([a, b]) => `M${X(a[0])},${Y(a[1])} L${X(b[0])},${Y(b[1])}`).join(' ')}" fill="none" stroke="${STYLE.blue}" stroke-width="2.2"/>`);
+  if (d.outline)
+    body.push(
+      `<path class="outline" d="${d.outline.map(([a, b]) => `M${X(a[0])},${Y(a[1])} L${X(b[0])},${Y(b[1])}`).join(' ')}" fill="none" stroke="${STYLE.blue}" stroke-width="2.2"/>`,
+    );
   // achievable circle: the plan's mMax over the whole cycle at its load angle
   body.push(`<circle class="mmax" cx="${X(0)}" cy="${Y(0)}" r="${n(k * plan.mMax)}" fill="none" stroke="${STYLE.green}" stroke-width="1.6"/>`);
-  if (options.referenceM !== undefined) body.push(`<circle class="reference" cx="${X(0)}" cy="${Y(0)}" r="${n(k * options.referenceM)}" fill="none" stroke="${STYLE.orange}" stroke-width="1.4" stroke-dasharray="6 3"/>`);
+  if (options.referenceM !== undefined)
+    body.push(
+      `<circle class="reference" cx="${X(0)}" cy="${Y(0)}" r="${n(k * options.referenceM)}" fill="none" stroke="${STYLE.orange}" stroke-width="1.4" stroke-dasharray="6 3"/>`,
+    );
   // binding edge: the plan's, where this polarity is the limiting one; else the nearest edge of the
   // tiling's boundary (its outline, or the hull where the tiling fills it)
-  const bind = plan.limitingPolarity === polarity && plan.bindingEdge
-    ? ([[plan.bindingEdge[0].alpha, plan.bindingEdge[0].beta], [plan.bindingEdge[1].alpha, plan.bindingEdge[1].beta]] as [readonly [number, number], readonly [number, number]])
-    : bindingEdge(d);
-  if (bind) body.push(`<line class="binding-edge" x1="${X(bind[0][0])}" y1="${Y(bind[0][1])}" x2="${X(bind[1][0])}" y2="${Y(bind[1][1])}" stroke="${STYLE.vermillion}" stroke-width="3.2" stroke-linecap="round"/>`);
+  const bind =
+    plan.limitingPolarity === polarity && plan.bindingEdge
+      ? ([
+          [plan.bindingEdge[0].alpha, plan.bindingEdge[0].beta],
+          [plan.bindingEdge[1].alpha, plan.bindingEdge[1].beta],
+        ] as [readonly [number, number], readonly [number, number]])
+      : bindingEdge(d);
+  if (bind)
+    body.push(
+      `<line class="binding-edge" x1="${X(bind[0][0])}" y1="${Y(bind[0][1])}" x2="${X(bind[1][0])}" y2="${Y(bind[1][1])}" stroke="${STYLE.vermillion}" stroke-width="3.2" stroke-linecap="round"/>`,
+    );
   // vectors first (dots), then their labels in order of importance: the binding edge's ends, the
   // lost vectors, the hull's corners, the rest. A label tries four places around its dot and is
   // left out where all four would overlap a label already placed or a dot (a many-level diagram
   // would be unreadable); every vector still names itself on hover (its <title>). A white halo
   // keeps a label readable where it crosses a triangle's side.
   body.push('<g class="vectors">');
-  for (const v of d.vectors) body.push(`<circle class="vector surviving" cx="${X(v.alpha)}" cy="${Y(v.beta)}" r="3.6" fill="${STYLE.ink}"><title>${esc(`${v.class} ${named(v)}`)}</title></circle>`);
+  for (const v of d.vectors)
+    body.push(
+      `<circle class="vector surviving" cx="${X(v.alpha)}" cy="${Y(v.beta)}" r="3.6" fill="${STYLE.ink}"><title>${esc(`${v.class} ${named(v)}`)}</title></circle>`,
+    );
   for (const v of d.lost) {
     const x = cx + k * v.alpha;
     const y = cy - k * v.beta;
-    body.push(`<g class="vector lost"><rect x="${n(x - 4)}" y="${n(y - 4)}" width="8" height="8" fill="#ffffff" stroke="${STYLE.vermillion}" stroke-width="1.4"/><path d="M${n(x - 3)},${n(y - 3)} L${n(x + 3)},${n(y + 3)} M${n(x - 3)},${n(y + 3)} L${n(x + 3)},${n(y - 3)}" stroke="${STYLE.vermillion}" stroke-width="1.2"/><title>${esc(`lost ${v.class} ${named(v)}`)}</title></g>`);
+    body.push(
+      `<g class="vector lost"><rect x="${n(x - 4)}" y="${n(y - 4)}" width="8" height="8" fill="#ffffff" stroke="${STYLE.vermillion}" stroke-width="1.4"/><path d="M${n(x - 3)},${n(y - 3)} L${n(x + 3)},${n(y + 3)} M${n(x - 3)},${n(y + 3)} L${n(x + 3)},${n(y - 3)}" stroke="${STYLE.vermillion}" stroke-width="1.2"/><title>${esc(`lost ${v.class} ${named(v)}`)}</title></g>`,
+    );
   }
   body.push('</g>');
   let thinned = 0;
@@ -105,27 +131,43 @@ export function vectorDiagramSvg(plan: RemedialPlan, polarity: string, options: 
         continue;
       }
       placed.push(spot.box);
-      body.push(`<text class="label${lost ? ' lost-label' : ''}${r === 0 ? ' binding-end' : ''}" x="${n(spot.x)}" y="${n(spot.y)}"${spot.anchor === 'end' ? ' text-anchor="end"' : ''} fill="${lost ? STYLE.vermillion : STYLE.ink}"${r === 0 ? ' font-weight="bold"' : ''}>${esc(text)}</text>`);
+      body.push(
+        `<text class="label${lost ? ' lost-label' : ''}${r === 0 ? ' binding-end' : ''}" x="${n(spot.x)}" y="${n(spot.y)}"${spot.anchor === 'end' ? ' text-anchor="end"' : ''} fill="${lost ? STYLE.vermillion : STYLE.ink}"${r === 0 ? ' font-weight="bold"' : ''}>${esc(text)}</text>`,
+      );
     }
     body.push('</g>');
   }
   body.push(legend(size, plan, options.referenceM, d.outline !== null, bind !== null));
   const ny = size + (d.outline ? 88 : 70);
-  const foot = wrapWords(`Labels: ${note.legend}. "+n" after a label: n more redundant realisations of the same vector.${thinned ? ` ${thinned} labels left out where they would overlap; the binding edge's ends are always named (hover a dot for its name; \`vectors --json\` lists every vector).` : ''}`, Math.floor((size - 28) / 5.5));
-  body.push(`<g class="notation" font-size="${STYLE.smallFont}" fill="${STYLE.ink}">${foot.map((line, i) => `<text x="14" y="${ny + 13 * i}">${esc(line)}</text>`).join('')}</g>`);
-  return svgFrame({
-    width: size,
-    height: size + (d.outline ? 112 : 96) + 13 * Math.max(0, foot.length - 2),
-    title: `Vector diagram, polarity ${polarity}: ${plan.topology}${plan.faults.length ? `, ${plan.faults.join(', ')}` : ''}`,
-    desc: `${d.vectors.length} surviving vectors (filled dots), ${d.lost.length} lost vectors (hollow squares marked ×), ${d.triangles.length} admissible triangles, reach ${n(d.reach, 4)} (hull radius ${n(d.radius, 4)}) of healthy ${n(plan.mMaxHealthy, 4)} (units of Vdc/2).`,
-  }, body.join('\n'));
+  const foot = wrapWords(
+    `Labels: ${note.legend}. "+n" after a label: n more redundant realisations of the same vector.${thinned ? ` ${thinned} labels left out where they would overlap; the binding edge's ends are always named (hover a dot for its name; \`vectors --json\` lists every vector).` : ''}`,
+    Math.floor((size - 28) / 5.5),
+  );
+  body.push(
+    `<g class="notation" font-size="${STYLE.smallFont}" fill="${STYLE.ink}">${foot.map((line, i) => `<text x="14" y="${ny + 13 * i}">${esc(line)}</text>`).join('')}</g>`,
+  );
+  return svgFrame(
+    {
+      width: size,
+      height: size + (d.outline ? 112 : 96) + 13 * Math.max(0, foot.length - 2),
+      title: `Vector diagram, polarity ${polarity}: ${plan.topology}${plan.faults.length ? `, ${plan.faults.join(', ')}` : ''}`,
+      desc: `${d.vectors.length} surviving vectors (filled dots), ${d.lost.length} lost vectors (hollow squares marked ×), ${d.triangles.length} admissible triangles, reach ${n(d.reach, 4)} (hull radius ${n(d.radius, 4)}) of healthy ${n(plan.mMaxHealthy, 4)} (units of Vdc/2).`,
+    },
+    body.join('\n'),
+  );
 }
 
 type Box = [number, number, number, number];
 
 // The first of four places around a dot (right above, left above, right below, left below) whose
 // text box overlaps nothing placed; a label that must appear takes the first place regardless.
-function labelSpot(x: number, y: number, width: number, placed: readonly Box[], must: boolean): { x: number; y: number; anchor: 'start' | 'end'; box: Box } | null {
+function labelSpot(
+  x: number,
+  y: number,
+  width: number,
+  placed: readonly Box[],
+  must: boolean,
+): { x: number; y: number; anchor: 'start' | 'end'; box: Box } | null {
   const spots = [
     { x: x + 6, y: y - 6, anchor: 'start' as const },
     { x: x - 6, y: y - 6, anchor: 'end' as const },
@@ -176,10 +218,18 @@ function legend(size: number, plan: RemedialPlan, refM: number | undefined, outl
   // the binding edge goes on the first row beside the hull, or under the legend where the
   // safe-region entry takes that room
   const yb = outlined ? y + 36 : y;
-  if (bound || !outlined) items.push(`<line x1="${outlined ? 240 : 304}" y1="${yb}" x2="${outlined ? 262 : 326}" y2="${yb}" stroke="${STYLE.vermillion}" stroke-width="3.2"/><text x="${outlined ? 268 : 332}" y="${yb + 4}">binding edge</text>`);
+  if (bound || !outlined)
+    items.push(
+      `<line x1="${outlined ? 240 : 304}" y1="${yb}" x2="${outlined ? 262 : 326}" y2="${yb}" stroke="${STYLE.vermillion}" stroke-width="3.2"/><text x="${outlined ? 268 : 332}" y="${yb + 4}">binding edge</text>`,
+    );
   const y2 = y + 18;
-  items.push(`<circle cx="31" cy="${y2}" r="8" fill="none" stroke="${STYLE.green}" stroke-width="1.6"/><text x="44" y="${y2 + 4}">${plan.mMax > 0 ? `mMax = ${n(plan.mMax, 4)} over the cycle at φ = ${n(plan.loadAngleDeg, 1)}°` : `mMax = 0 at φ = ${n(plan.loadAngleDeg, 1)}°: cannot run`}</text>`);
+  items.push(
+    `<circle cx="31" cy="${y2}" r="8" fill="none" stroke="${STYLE.green}" stroke-width="1.6"/><text x="44" y="${y2 + 4}">${plan.mMax > 0 ? `mMax = ${n(plan.mMax, 4)} over the cycle at φ = ${n(plan.loadAngleDeg, 1)}°` : `mMax = 0 at φ = ${n(plan.loadAngleDeg, 1)}°: cannot run`}</text>`,
+  );
   items.push(`<line x1="290" y1="${y2}" x2="312" y2="${y2}" stroke="${STYLE.faint}" stroke-dasharray="2 3"/><text x="318" y="${y2 + 4}">healthy limit</text>`);
-  if (refM !== undefined) items.push(`<line x1="400" y1="${y2}" x2="422" y2="${y2}" stroke="${STYLE.orange}" stroke-width="1.4" stroke-dasharray="6 3"/><text x="428" y="${y2 + 4}">m = ${n(refM, 3)}</text>`);
+  if (refM !== undefined)
+    items.push(
+      `<line x1="400" y1="${y2}" x2="422" y2="${y2}" stroke="${STYLE.orange}" stroke-width="1.4" stroke-dasharray="6 3"/><text x="428" y="${y2 + 4}">m = ${n(refM, 3)}</text>`,
+    );
   return `<g class="legend" font-size="${STYLE.smallFont}" fill="${STYLE.ink}">${items.join('')}</g>`;
 }

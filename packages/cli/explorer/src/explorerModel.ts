@@ -1,6 +1,21 @@
 import {
-  builtinLeg, deratingCurve, diagramAtlas, HexsalvageInputError, planFromAtlas, planRemedial, planRemedies, switchingTableFromAtlas, switchover, withRemedies, withVolts,
-  type AnalyseLegOptions, type DeratingPoint, type DiagramAtlas, type LegNetlist, type RemedialPlan, type Remedy,
+  builtinLeg,
+  deratingCurve,
+  diagramAtlas,
+  HexsalvageInputError,
+  planFromAtlas,
+  planRemedial,
+  planRemedies,
+  switchingTableFromAtlas,
+  switchover,
+  withRemedies,
+  withVolts,
+  type AnalyseLegOptions,
+  type DeratingPoint,
+  type DiagramAtlas,
+  type LegNetlist,
+  type RemedialPlan,
+  type Remedy,
 } from '@hexsalvage/core';
 import { buildReport } from '../../src/report/buildReport.js';
 import { commandLineOf, faultStrings, type ExplorerState } from './explorerState.js';
@@ -86,7 +101,13 @@ export function computePictures(state: ExplorerState, result: ExplorerResult): E
  */
 export function planJson(state: ExplorerState): string {
   const o = legOptionsOf(state);
-  const plan = planRemedial({ ...o, topology: o.topology, loadAngleDeg: state.loadAngleDeg, polarityMarginDeg: state.polarityMarginDeg, ...(state.vdc === null ? {} : { vdc: state.vdc }) });
+  const plan = planRemedial({
+    ...o,
+    topology: o.topology,
+    loadAngleDeg: state.loadAngleDeg,
+    polarityMarginDeg: state.polarityMarginDeg,
+    ...(state.vdc === null ? {} : { vdc: state.vdc }),
+  });
   return `${JSON.stringify(plan)}\n`;
 }
 

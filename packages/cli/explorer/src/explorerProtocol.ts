@@ -18,12 +18,36 @@ export interface WireState {
 export type ExplorerRequest =
   | { readonly kind: 'update'; readonly id: number; readonly state: WireState; readonly polarity: string }
   | { readonly kind: 'plan-json'; readonly id: number; readonly state: WireState }
-  | { readonly kind: 'report'; readonly id: number; readonly state: WireState; readonly version: string; readonly inputs: readonly { path: string; sha256: string }[] };
+  | {
+      readonly kind: 'report';
+      readonly id: number;
+      readonly state: WireState;
+      readonly version: string;
+      readonly inputs: readonly { path: string; sha256: string }[];
+    };
 
 /** What the worker answers; an update is answered twice (the result, then the pictures). */
 export type ExplorerReply =
-  | { readonly kind: 'result'; readonly id: number; readonly mMax: number; readonly faults: string; readonly loadAngleDeg: number; readonly html: string; readonly ms: number }
-  | { readonly kind: 'pictures'; readonly id: number; readonly polarities: readonly { value: string; label: string }[]; readonly polarity: string; readonly diagram: string; readonly derating: string; readonly remedies: string; readonly levels: string; readonly ms: number }
+  | {
+      readonly kind: 'result';
+      readonly id: number;
+      readonly mMax: number;
+      readonly faults: string;
+      readonly loadAngleDeg: number;
+      readonly html: string;
+      readonly ms: number;
+    }
+  | {
+      readonly kind: 'pictures';
+      readonly id: number;
+      readonly polarities: readonly { value: string; label: string }[];
+      readonly polarity: string;
+      readonly diagram: string;
+      readonly derating: string;
+      readonly remedies: string;
+      readonly levels: string;
+      readonly ms: number;
+    }
   | { readonly kind: 'file'; readonly id: number; readonly text: string }
   | { readonly kind: 'error'; readonly id: number; readonly message: string };
 
@@ -38,7 +62,17 @@ export type ExplorerReply =
  * ```
  */
 export function toWire(s: ExplorerState): WireState {
-  return { topology: s.topology, ...(s.netlist ? { netlist: s.netlist } : {}), faults: [...s.faults], ambiguous: [...s.ambiguous], bypass: s.bypass, loadAngleDeg: s.loadAngleDeg, polarityMarginDeg: s.polarityMarginDeg, levelSteps: s.levelSteps, vdc: s.vdc };
+  return {
+    topology: s.topology,
+    ...(s.netlist ? { netlist: s.netlist } : {}),
+    faults: [...s.faults],
+    ambiguous: [...s.ambiguous],
+    bypass: s.bypass,
+    loadAngleDeg: s.loadAngleDeg,
+    polarityMarginDeg: s.polarityMarginDeg,
+    levelSteps: s.levelSteps,
+    vdc: s.vdc,
+  };
 }
 
 /**
@@ -52,5 +86,15 @@ export function toWire(s: ExplorerState): WireState {
  * ```
  */
 export function fromWire(w: WireState): ExplorerState {
-  return { topology: w.topology, ...(w.netlist ? { netlist: w.netlist } : {}), faults: new Map(w.faults), ambiguous: new Set(w.ambiguous), bypass: w.bypass, loadAngleDeg: w.loadAngleDeg, polarityMarginDeg: w.polarityMarginDeg, levelSteps: w.levelSteps, vdc: w.vdc };
+  return {
+    topology: w.topology,
+    ...(w.netlist ? { netlist: w.netlist } : {}),
+    faults: new Map(w.faults),
+    ambiguous: new Set(w.ambiguous),
+    bypass: w.bypass,
+    loadAngleDeg: w.loadAngleDeg,
+    polarityMarginDeg: w.polarityMarginDeg,
+    levelSteps: w.levelSteps,
+    vdc: w.vdc,
+  };
 }

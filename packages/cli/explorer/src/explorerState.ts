@@ -35,7 +35,17 @@ export const PICKER_LEGS: readonly string[] = BUILTIN_TOPOLOGIES;
  * ```
  */
 export function initialState(topology: string, netlist?: LegNetlist, vdc: number | null = null): ExplorerState {
-  return { topology, ...(netlist ? { netlist } : {}), faults: new Map(), ambiguous: new Set(), bypass: null, loadAngleDeg: 0, polarityMarginDeg: 0, levelSteps: 'commutable', vdc };
+  return {
+    topology,
+    ...(netlist ? { netlist } : {}),
+    faults: new Map(),
+    ambiguous: new Set(),
+    bypass: null,
+    loadAngleDeg: 0,
+    polarityMarginDeg: 0,
+    levelSteps: 'commutable',
+    vdc,
+  };
 }
 
 /**

@@ -23,7 +23,15 @@ export function answer(req: ExplorerRequest, post: (reply: ExplorerReply) => voi
     if (req.kind === 'report') return post({ kind: 'file', id: req.id, text: reportHtml(state, req.version, req.inputs) });
     const result = computeResult(state);
     const plan = result.plan;
-    post({ kind: 'result', id: req.id, mMax: plan.mMax, faults: plan.faults.join(','), loadAngleDeg: plan.loadAngleDeg, html: resultHtml(result, state), ms: performance.now() - t0 });
+    post({
+      kind: 'result',
+      id: req.id,
+      mMax: plan.mMax,
+      faults: plan.faults.join(','),
+      loadAngleDeg: plan.loadAngleDeg,
+      html: resultHtml(result, state),
+      ms: performance.now() - t0,
+    });
     const pictures = computePictures(state, result);
     const listed = [...new Set([plan.limitingPolarity, ...plan.sectors.map((s) => s.polarity)])];
     const polarity = listed.includes(req.polarity) ? req.polarity : plan.limitingPolarity;

@@ -5,7 +5,20 @@
  * where no worker can be made): the limit comes first, the pictures after it, and a heavy case
  * never stalls the page.
  */
-import { BUILTIN_TOPOLOGIES, CAUTIONS, HexsalvageInputError, LEVEL_STEP_RULES, MAX_INPUT_BYTES, parseFault, parseJsonText, parseNetlist, PHASES, type LegNetlist, type LevelStepRule, type Phase } from '@hexsalvage/core';
+import {
+  BUILTIN_TOPOLOGIES,
+  CAUTIONS,
+  HexsalvageInputError,
+  LEVEL_STEP_RULES,
+  MAX_INPUT_BYTES,
+  parseFault,
+  parseJsonText,
+  parseNetlist,
+  PHASES,
+  type LegNetlist,
+  type LevelStepRule,
+  type Phase,
+} from '@hexsalvage/core';
 import { esc } from '@hexsalvage/plot';
 import { errorLine, legOf } from './explorerModel.js';
 import { toWire, type ExplorerReply, type ExplorerRequest } from './explorerProtocol.js';
@@ -33,9 +46,8 @@ if (inWorker) {
 }
 const ownCode = inWorker ? '' : ((document.currentScript as HTMLScriptElement | null)?.textContent ?? '');
 const config = (inWorker ? {} : JSON.parse(document.getElementById('hs-config')?.textContent ?? '{}')) as PageConfig;
-let fileLeg: { name: string; netlist: LegNetlist; text: string } | null = config.netlist && config.netlistFile
-  ? { name: config.netlistFile.name, netlist: config.netlist, text: config.netlistFile.text }
-  : null;
+let fileLeg: { name: string; netlist: LegNetlist; text: string } | null =
+  config.netlist && config.netlistFile ? { name: config.netlistFile.name, netlist: config.netlist, text: config.netlistFile.text } : null;
 /** The state on screen (its limit shown) and the latest one asked for (changes build on it). */
 let state: ExplorerState = inWorker ? initialState('npc') : startState();
 let candidate: ExplorerState = state;
@@ -100,7 +112,12 @@ function skeleton(): string {
 
 // The computing side: a worker made from this very script, so that a heavy case (a triple fault of
 // a many-level leg takes seconds) never stalls the page; on the page itself where none can be made.
-interface Waiting { readonly t0: number; readonly onResult?: () => void; readonly onError?: (message: string) => void; readonly onFile?: (text: string) => void }
+interface Waiting {
+  readonly t0: number;
+  readonly onResult?: () => void;
+  readonly onError?: (message: string) => void;
+  readonly onFile?: (text: string) => void;
+}
 const waiting = new Map<number, Waiting>();
 let sequence = 0;
 let latest = 0;
@@ -181,9 +198,13 @@ function receive(reply: ExplorerReply): void {
     return;
   }
   waiting.delete(reply.id);
-  $('select[name="polarity"]').innerHTML = reply.polarities.map((p) => `<option value="${esc(p.value)}"${p.value === reply.polarity ? ' selected' : ''}>${p.label}</option>`).join('');
-  $('#diagram').innerHTML = `${reply.diagram}<figcaption class="muted">Polarity ${esc(reply.polarity)}: filled dots survive, hollow squares are lost; grey: the admissible triangles; green circle: mMax.</figcaption>`;
-  $('#derating').innerHTML = `${reply.derating}<figcaption class="muted">Exact safe mMax over the load angle; the operating angle ${state.loadAngleDeg}° is marked.</figcaption>`;
+  $('select[name="polarity"]').innerHTML = reply.polarities
+    .map((p) => `<option value="${esc(p.value)}"${p.value === reply.polarity ? ' selected' : ''}>${p.label}</option>`)
+    .join('');
+  $('#diagram').innerHTML =
+    `${reply.diagram}<figcaption class="muted">Polarity ${esc(reply.polarity)}: filled dots survive, hollow squares are lost; grey: the admissible triangles; green circle: mMax.</figcaption>`;
+  $('#derating').innerHTML =
+    `${reply.derating}<figcaption class="muted">Exact safe mMax over the load angle; the operating angle ${state.loadAngleDeg}° is marked.</figcaption>`;
   $('#remedies').innerHTML = reply.remedies;
   $('#levels').innerHTML = reply.levels;
   document.body.dataset.picturesMs = (performance.now() - w.t0).toFixed(2);
@@ -235,7 +256,8 @@ function chooseLeg(value: string): void {
 async function openNetlist(file: File): Promise<void> {
   const shown = file.name;
   try {
-    if (file.size > MAX_INPUT_BYTES) throw new HexsalvageInputError('netlist', shown, '(file)', `a file of at most ${MAX_INPUT_BYTES} bytes (it has ${file.size})`);
+    if (file.size > MAX_INPUT_BYTES)
+      throw new HexsalvageInputError('netlist', shown, '(file)', `a file of at most ${MAX_INPUT_BYTES} bytes (it has ${file.size})`);
     let text: string;
     try {
       text = new TextDecoder('utf-8', { fatal: true }).decode(await file.arrayBuffer());
@@ -247,7 +269,9 @@ async function openNetlist(file: File): Promise<void> {
     fileLeg = { name: shown, netlist, text };
     addFileOption();
     update(initialState(`file:${shown}`, netlist, candidate.vdc), {
-      onResult: () => { $('#leg-error').textContent = ''; },
+      onResult: () => {
+        $('#leg-error').textContent = '';
+      },
       onError: (message) => {
         fileLeg = previous;
         addFileOption();
@@ -338,16 +362,23 @@ function wire(): void {
   });
   $('button[name="copy"]').addEventListener('click', () => {
     const line = commandLineOf('plan', state, legOf(state));
-    const done = (how: string) => { $('#copy-status').textContent = how; };
-    navigator.clipboard?.writeText(line).then(() => done('Copied.'), () => done('Select the line above and copy it (the browser refused the clipboard).'))
-      ?? done('Select the line above and copy it.');
+    const done = (how: string) => {
+      $('#copy-status').textContent = how;
+    };
+    if (navigator.clipboard)
+      void navigator.clipboard.writeText(line).then(
+        () => done('Copied.'),
+        () => done('Select the line above and copy it (the browser refused the clipboard).'),
+      );
+    else done('Select the line above and copy it.');
   });
   $('button[name="download-plan"]').addEventListener('click', () => {
     fetchFile('plan-json', (text) => download(`${baseName()}_plan.json`, 'application/json', text));
   });
   $('button[name="download-report"]').addEventListener('click', () => {
     void (async () => {
-      const inputs = state.topology.startsWith('file:') && fileLeg ? [{ path: fileLeg.name, sha256: (await sha256(fileLeg.text)) ?? 'not computed (no Web Crypto)' }] : [];
+      const inputs =
+        state.topology.startsWith('file:') && fileLeg ? [{ path: fileLeg.name, sha256: (await sha256(fileLeg.text)) ?? 'not computed (no Web Crypto)' }] : [];
       fetchFile('report', (text) => download(`${baseName()}_review.html`, 'text/html', text), inputs);
     })();
   });

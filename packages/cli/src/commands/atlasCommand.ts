@@ -9,7 +9,8 @@ import { writeFileAtomic } from '../output.js';
 export const atlasCommand: Command = {
   name: 'atlas',
   summary: 'every single fault (or pair of faults) of a leg at once: limit over a load-angle range, verdict, reason',
-  usage: 'atlas --topology T [--modes open,short] [--load-angle-range LO,HI] [--step DEG] [--polarity-margin DEG] [--pairs] [--jobs N] [--vdc V] [--json|--csv] [--out FILE]',
+  usage:
+    'atlas --topology T [--modes open,short] [--load-angle-range LO,HI] [--step DEG] [--polarity-margin DEG] [--pairs] [--jobs N] [--vdc V] [--json|--csv] [--out FILE]',
   options: [
     { name: 'topology', type: 'string', value: 'T', help: 'built-in leg (two-level, npc, anpc, anpc-hybrid, tnpc) or a netlist .json file' },
     ...RULE_OPTIONS,
@@ -36,7 +37,11 @@ export const atlasCommand: Command = {
   },
 };
 
-const VERDICT_WORDS: Readonly<Record<FaultAtlas['entries'][number]['verdict'], string>> = { full: 'full voltage', derated: 'derated', 'cannot-run': 'CANNOT RUN' };
+const VERDICT_WORDS: Readonly<Record<FaultAtlas['entries'][number]['verdict'], string>> = {
+  full: 'full voltage',
+  derated: 'derated',
+  'cannot-run': 'CANNOT RUN',
+};
 
 /**
  * The atlas as terminal text: worst first, with the verdict in words and the reason.
@@ -71,7 +76,7 @@ export function atlasText(a: FaultAtlas): string {
     textTable(['faults', 'verdict', 'mMax min', 'ratio', ...(volts ? ['line V rms'] : []), 'worst at deg', 'hull min', 'best remedy', 'why'], rows),
     '',
     `${a.entries.length} fault sets: ${count('full')} keep full voltage, ${count('derated')} need derating, ${count('cannot-run')} cannot run (the drive must stop). ${a.classesComputed} computed, the rest follow by phase rotation.`,
-    'mMax min: the safe limit (ratings and commutation respected), its minimum over the whole load-angle range, exact; hull min: the first version\'s convex-hull bound, for comparison only.',
+    "mMax min: the safe limit (ratings and commutation respected), its minimum over the whole load-angle range, exact; hull min: the first version's convex-hull bound, for comparison only.",
     'best remedy: what raises mMax min most (clear-shorts: each short cleared to an open by a fuse; bypass-<phase>: that phase tied to the DC midpoint, its gates off), with the mMax min it leaves; "-" where none does better (see plan for every remedy).',
     ...(a.unrated.length ? [`Unrated devices (voltage not checked): ${a.unrated.join(', ')}.`] : []),
     cautionBlock(a.cautions),
@@ -91,19 +96,33 @@ export function atlasText(a: FaultAtlas): string {
 export function atlasCsv(a: FaultAtlas): string {
   const grid = a.healthy.mMaxAt.map(([phi]) => phi);
   const volts = a.volts !== undefined;
-  const head = ['faults', 'verdict', 'm_max_min', 'derating_ratio', 'worst_load_angle_deg', 'm_max_hull_min', ...(volts ? ['phase_peak_min_v', 'line_rms_min_v'] : []), 'best_remedy', 'best_remedy_m_max_min', 'reason', ...grid.map((g) => `m_max_at_${g}`)];
-  const rows = a.entries.map((e) => [
-    csvCell(csvText(e.faults.join(' + '))),
-    e.verdict,
-    e.mMaxMin.toFixed(9),
-    e.deratingRatio.toFixed(9),
-    String(e.worstLoadAngleDeg),
-    e.mMaxHullMin.toFixed(9),
-    ...(volts ? [(e.volts?.phasePeakMin ?? 0).toFixed(3), (e.volts?.lineRmsMin ?? 0).toFixed(3)] : []),
-    e.bestRemedy?.id ?? '',
-    e.bestRemedy ? e.bestRemedy.mMaxMin.toFixed(9) : '',
-    csvCell(csvText(e.reason)),
-    ...e.mMaxAt.map(([, m]) => m.toFixed(9)),
-  ].join(','));
+  const head = [
+    'faults',
+    'verdict',
+    'm_max_min',
+    'derating_ratio',
+    'worst_load_angle_deg',
+    'm_max_hull_min',
+    ...(volts ? ['phase_peak_min_v', 'line_rms_min_v'] : []),
+    'best_remedy',
+    'best_remedy_m_max_min',
+    'reason',
+    ...grid.map((g) => `m_max_at_${g}`),
+  ];
+  const rows = a.entries.map((e) =>
+    [
+      csvCell(csvText(e.faults.join(' + '))),
+      e.verdict,
+      e.mMaxMin.toFixed(9),
+      e.deratingRatio.toFixed(9),
+      String(e.worstLoadAngleDeg),
+      e.mMaxHullMin.toFixed(9),
+      ...(volts ? [(e.volts?.phasePeakMin ?? 0).toFixed(3), (e.volts?.lineRmsMin ?? 0).toFixed(3)] : []),
+      e.bestRemedy?.id ?? '',
+      e.bestRemedy ? e.bestRemedy.mMaxMin.toFixed(9) : '',
+      csvCell(csvText(e.reason)),
+      ...e.mMaxAt.map(([, m]) => m.toFixed(9)),
+    ].join(','),
+  );
   return `${head.join(',')}\n${rows.join('\n')}\n`;
 }

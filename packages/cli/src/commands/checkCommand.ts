@@ -10,7 +10,11 @@ export const checkCommand: Command = {
   summary: 'decide derating claims exactly over their load-angle ranges (exit 1 if any fails)',
   usage: 'check CLAIMS.json [--ignore-ratings] [--json]',
   positionals: 1,
-  options: [{ name: 'ignore-ratings', type: 'flag', help: 'judge every claim without the device voltage-rating check (unsafe; first version)' }, JSON_OPTION, HELP_OPTION],
+  options: [
+    { name: 'ignore-ratings', type: 'flag', help: 'judge every claim without the device voltage-rating check (unsafe; first version)' },
+    JSON_OPTION,
+    HELP_OPTION,
+  ],
   run: async (args, io) => {
     const file = args.positionals[0];
     if (file === undefined || args.positionals.length > 1) throw usage('CLAIMS.json', 'one claims file');
@@ -33,17 +37,51 @@ export const checkCommand: Command = {
  */
 export function checkText(verdicts: readonly ClaimVerdict[]): string {
   const volts = verdicts.some((v) => v.volts);
-  const vcol = (v: ClaimVerdict) => (volts ? [v.volts ? `${fmt(v.volts.lineRmsPromised, 1)} / ${fmt(v.volts.lineRmsAtWorst, 1)} V (Vdc ${fmt(v.volts.vdc, 0)} V)` : '-'] : []);
-  const rows = verdicts.map((v) => [v.name, v.holds ? 'HOLDS' : 'FAILS', fmt(v.m, 4), fmt(v.mMaxAtWorst, 6), ...vcol(v), fmt(v.mMaxHullAtWorst, 6), `${fmt(v.loadAngleDeg[0], 1)}…${fmt(v.loadAngleDeg[1], 1)}`, fmt(v.worstLoadAngleDeg, 3), v.holds ? '-' : fmt(v.shortfall, 6), claimRulesText(v), edgeText(v)]);
+  const vcol = (v: ClaimVerdict) =>
+    volts ? [v.volts ? `${fmt(v.volts.lineRmsPromised, 1)} / ${fmt(v.volts.lineRmsAtWorst, 1)} V (Vdc ${fmt(v.volts.vdc, 0)} V)` : '-'] : [];
+  const rows = verdicts.map((v) => [
+    v.name,
+    v.holds ? 'HOLDS' : 'FAILS',
+    fmt(v.m, 4),
+    fmt(v.mMaxAtWorst, 6),
+    ...vcol(v),
+    fmt(v.mMaxHullAtWorst, 6),
+    `${fmt(v.loadAngleDeg[0], 1)}…${fmt(v.loadAngleDeg[1], 1)}`,
+    fmt(v.worstLoadAngleDeg, 3),
+    v.holds ? '-' : fmt(v.shortfall, 6),
+    claimRulesText(v),
+    edgeText(v),
+  ]);
   const failing = verdicts.filter((v) => !v.holds).length;
   const unsafeRules = verdicts.filter((v) => !v.rules.ratings || v.rules.levelSteps === 'any');
   const unchecked = verdicts.filter((v) => v.rules.ratings && v.unrated.length > 0);
   return [
-    textTable(['claim', 'verdict', 'm promised', 'worst mMax', ...(volts ? ['line RMS promised / at worst'] : []), 'hull limit', 'load deg range', 'worst at deg', 'short by', 'rules', 'binding edge there'], rows),
+    textTable(
+      [
+        'claim',
+        'verdict',
+        'm promised',
+        'worst mMax',
+        ...(volts ? ['line RMS promised / at worst'] : []),
+        'hull limit',
+        'load deg range',
+        'worst at deg',
+        'short by',
+        'rules',
+        'binding edge there',
+      ],
+      rows,
+    ),
     '',
-    'worst mMax: the safe limit (ratings and commutation respected); hull limit: the first version\'s convex-hull bound, shown for comparison only.',
-    ...(unsafeRules.length ? [`WARNING: ${unsafeRules.map((v) => v.name).join(', ')} judged with relaxed rules; such a verdict does not show the hardware survives.`] : []),
-    ...(unchecked.length ? [`NOTE: ${unchecked.map((v) => v.name).join(', ')}: devices without a voltage rating were not checked (give each device a "rating" in the netlist); the verdict does not cover their voltage stress.`] : []),
+    "worst mMax: the safe limit (ratings and commutation respected); hull limit: the first version's convex-hull bound, shown for comparison only.",
+    ...(unsafeRules.length
+      ? [`WARNING: ${unsafeRules.map((v) => v.name).join(', ')} judged with relaxed rules; such a verdict does not show the hardware survives.`]
+      : []),
+    ...(unchecked.length
+      ? [
+          `NOTE: ${unchecked.map((v) => v.name).join(', ')}: devices without a voltage rating were not checked (give each device a "rating" in the netlist); the verdict does not cover their voltage stress.`,
+        ]
+      : []),
     failing ? `${failing} of ${verdicts.length} claims FAIL.` : `All ${verdicts.length} claims hold over their whole load-angle ranges.`,
     cautionBlock(CAUTIONS),
   ].join('\n');

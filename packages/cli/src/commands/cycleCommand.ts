@@ -8,7 +8,8 @@ import { angleInputs, legInputs, runtimeInputs, updateInput, vdcInput } from '..
 export const cycleCommand: Command = {
   name: 'cycle',
   summary: 'run the runtime through one fundamental period: steps, volt-seconds, midpoint, gate changes',
-  usage: 'cycle --topology T [--fault F]... --m M [--load-angle DEG] [--polarity-margin DEG] [--ratio N] [--current A] [--sequence S] [--balance on|off] [--update period|half] [--stream] [--vdc V] [--json]',
+  usage:
+    'cycle --topology T [--fault F]... --m M [--load-angle DEG] [--polarity-margin DEG] [--ratio N] [--current A] [--sequence S] [--balance on|off] [--update period|half] [--stream] [--vdc V] [--json]',
   options: [
     ...LEG_OPTIONS,
     ...ANGLE_OPTIONS,
@@ -36,33 +37,47 @@ export const cycleCommand: Command = {
     if (plan.mMax === 0) throw usage('--m', 'nothing: the drive cannot run in this state (mMax = 0 at this load angle)', m);
     if (m > plan.mMax + 1e-12) throw usage('--m', `at most mMax = ${fmt(plan.mMax, 6)} at this load angle (the reference would be clamped)`, m);
     const report = cycleCheck(switchingTableFromAtlas(atlas), {
-      m, loadAngleDeg, polarityMarginDeg, update, ...runtime,
+      m,
+      loadAngleDeg,
+      polarityMarginDeg,
+      update,
+      ...runtime,
       frequencyRatio: (args.values.get('ratio') as number | undefined) ?? 120,
       currentAmplitude: (args.values.get('current') as number | undefined) ?? 1,
       stream: args.flags.has('stream'),
     });
     if (args.flags.has('json')) {
-      await io.stdout(`${JSON.stringify({ topology: plan.topology, faults: plan.faults, m, loadAngleDeg, polarityMarginDeg, mMax: plan.mMax, mMaxBalanced: plan.mMaxBalanced, rules: plan.rules, ...(vdc === undefined ? {} : { volts: { vdc, phasePeak: phasePeakVolts(m, vdc), lineRms: lineRmsVolts(m, vdc), phasePeakMax: phasePeakVolts(plan.mMax, vdc), lineRmsMax: lineRmsVolts(plan.mMax, vdc) } }), ...report })}\n`);
+      await io.stdout(
+        `${JSON.stringify({ topology: plan.topology, faults: plan.faults, m, loadAngleDeg, polarityMarginDeg, mMax: plan.mMax, mMaxBalanced: plan.mMaxBalanced, rules: plan.rules, ...(vdc === undefined ? {} : { volts: { vdc, phasePeak: phasePeakVolts(m, vdc), lineRms: lineRmsVolts(m, vdc), phasePeakMax: phasePeakVolts(plan.mMax, vdc), lineRmsMax: lineRmsVolts(plan.mMax, vdc) } }), ...report })}\n`,
+      );
       return 0;
     }
     const rows = Object.entries(report.gateChangesPerCycle).map(([dev, c]) => [dev, String(c)]);
     const mc = report.midpointCurrent;
-    await io.stdout(`${[
-      `Leg: ${plan.topology}   faults: ${plan.faults.join(', ') || 'none'}   m = ${fmt(m, 4)} (mMax ${fmt(plan.mMax, 4)}, mMaxBalanced ${fmt(plan.mMaxBalanced, 4)})   load angle ${fmt(loadAngleDeg, 1)} deg`,
-      ...(vdc === undefined ? [] : [`At Vdc = ${fmt(vdc, 1)} V: m${voltsText(m, vdc)}; mMax${voltsText(plan.mMax, vdc)}`]),
-      `Runtime: ${report.sequence} sequence, midpoint balance ${report.balance}, ${report.update === 'half' ? 'a sample at each half period' : 'one sample per period'}; ${report.periods} switching periods per fundamental`,
-      `Steps: ${report.multiPhaseSteps === 0 ? 'every step changes one phase by an allowed move' : `${report.multiPhaseSteps} steps change two or more phases at once`}${report.chainSteps ? `; ${report.chainSteps} states inserted to chain periods` : ''}`,
-      ...(report.heldPeriods ? [`HELD ${report.heldPeriods} PERIODS: no safe step led from the present state into the triangle the reference needed, so the runtime kept its state and did not follow the reference. Do not run at this operating point with this table.`] : []),
-      `Volt-second balance: largest error ${report.voltSecondErrorMax.toExponential(2)} x Vdc/2${report.clampedPeriods ? `; ${report.clampedPeriods} periods clamped` : ''}`,
-      `Average current into the midpoint: ${fmt(mc.runtime, 5)} from the runtime${mc.reachable ? ` (reachable ${fmt(mc.reachable[0], 5)} ... ${fmt(mc.reachable[1], 5)})` : ''}`,
-      report.midpointDrift
-        ? `MIDPOINT WOULD DRIFT: no split of the redundant states balances it over the cycle (zero average is reachable only up to m = ${fmt(plan.mMaxBalanced, 4)}).`
-        : report.runtimeDrift ? 'MIDPOINT DRIFTS with this runtime setting (balance off, or the discontinuous sequence): the average above is not zero.' : 'Midpoint: balanced.',
-      '',
-      'Gate changes per fundamental period:',
-      textTable(['device', 'changes'], rows),
-      cautionBlock(CAUTIONS),
-    ].join('\n')}\n`);
+    await io.stdout(
+      `${[
+        `Leg: ${plan.topology}   faults: ${plan.faults.join(', ') || 'none'}   m = ${fmt(m, 4)} (mMax ${fmt(plan.mMax, 4)}, mMaxBalanced ${fmt(plan.mMaxBalanced, 4)})   load angle ${fmt(loadAngleDeg, 1)} deg`,
+        ...(vdc === undefined ? [] : [`At Vdc = ${fmt(vdc, 1)} V: m${voltsText(m, vdc)}; mMax${voltsText(plan.mMax, vdc)}`]),
+        `Runtime: ${report.sequence} sequence, midpoint balance ${report.balance}, ${report.update === 'half' ? 'a sample at each half period' : 'one sample per period'}; ${report.periods} switching periods per fundamental`,
+        `Steps: ${report.multiPhaseSteps === 0 ? 'every step changes one phase by an allowed move' : `${report.multiPhaseSteps} steps change two or more phases at once`}${report.chainSteps ? `; ${report.chainSteps} states inserted to chain periods` : ''}`,
+        ...(report.heldPeriods
+          ? [
+              `HELD ${report.heldPeriods} PERIODS: no safe step led from the present state into the triangle the reference needed, so the runtime kept its state and did not follow the reference. Do not run at this operating point with this table.`,
+            ]
+          : []),
+        `Volt-second balance: largest error ${report.voltSecondErrorMax.toExponential(2)} x Vdc/2${report.clampedPeriods ? `; ${report.clampedPeriods} periods clamped` : ''}`,
+        `Average current into the midpoint: ${fmt(mc.runtime, 5)} from the runtime${mc.reachable ? ` (reachable ${fmt(mc.reachable[0], 5)} ... ${fmt(mc.reachable[1], 5)})` : ''}`,
+        report.midpointDrift
+          ? `MIDPOINT WOULD DRIFT: no split of the redundant states balances it over the cycle (zero average is reachable only up to m = ${fmt(plan.mMaxBalanced, 4)}).`
+          : report.runtimeDrift
+            ? 'MIDPOINT DRIFTS with this runtime setting (balance off, or the discontinuous sequence): the average above is not zero.'
+            : 'Midpoint: balanced.',
+        '',
+        'Gate changes per fundamental period:',
+        textTable(['device', 'changes'], rows),
+        cautionBlock(CAUTIONS),
+      ].join('\n')}\n`,
+    );
     return 0;
   },
 };

@@ -16,7 +16,12 @@ export const exploreCommand: Command = {
   summary: 'write the explorer page: fail elements with a click and see the limit, vectors, derating and remedies at once',
   usage: 'explore --out FILE.html [--topology T] [--fault F]...',
   options: [
-    { name: 'topology', type: 'string', value: 'T', help: 'leg shown first: a built-in leg (default npc) or a netlist .json file (the page also opens files itself)' },
+    {
+      name: 'topology',
+      type: 'string',
+      value: 'T',
+      help: 'leg shown first: a built-in leg (default npc) or a netlist .json file (the page also opens files itself)',
+    },
     { name: 'fault', type: 'list', value: 'F', help: 'element failed at the start, PHASE.DEVICE[:open|short]; repeatable' },
     { name: 'out', type: 'string', value: 'FILE', help: 'output .html file (replaced atomically); open it from disk, it needs no server and no network' },
     HELP_OPTION,
@@ -30,7 +35,13 @@ export const exploreCommand: Command = {
     for (const f of faults) if (f.includes('|')) throw usage('--fault', 'one element per fault here (the page sets ambiguous diagnoses with its toggles)', f);
     const leg = typeof topology === 'string' ? undefined : topology;
     parseFailures(faults, leg ?? builtinLeg(topology as BuiltinTopology));
-    if (!existsSync(BUNDLE)) throw new HexsalvageInputError('usage', 'explore', '(installation)', 'the explorer script built by `pnpm build` (packages/cli/dist/bundle/explorer.js is missing)');
+    if (!existsSync(BUNDLE))
+      throw new HexsalvageInputError(
+        'usage',
+        'explore',
+        '(installation)',
+        'the explorer script built by `pnpm build` (packages/cli/dist/bundle/explorer.js is missing)',
+      );
     const html = explorerPage(readFileSync(BUNDLE, 'utf8'), {
       version: TOOL_VERSION,
       topology: typeof topology === 'string' ? topology : 'npc',

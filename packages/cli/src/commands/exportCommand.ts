@@ -10,7 +10,8 @@ const FORMATS = ['json', 'csv', 'c'] as const;
 export const exportCommand: Command = {
   name: 'export',
   summary: 'write the plan and switching table as JSON, CSV or a C header for firmware',
-  usage: 'export --format json|csv|c --out FILE --topology T [--fault F]... [--load-angle DEG] [--polarity-margin DEG] [--prefix ID] [--c-type double|float] [--sequence S] [--balance on|off] [--vdc V]',
+  usage:
+    'export --format json|csv|c --out FILE --topology T [--fault F]... [--load-angle DEG] [--polarity-margin DEG] [--prefix ID] [--c-type double|float] [--sequence S] [--balance on|off] [--vdc V]',
   options: [
     { name: 'format', type: 'string', value: 'FMT', help: 'json (plan + table), csv (one row per polarity x triangle x vertex) or c (header)' },
     { name: 'out', type: 'string', value: 'FILE', help: 'output file; an existing file is replaced atomically' },
@@ -41,7 +42,15 @@ export const exportCommand: Command = {
       const cType = (args.values.get('c-type') as string | undefined) ?? 'double';
       if (cType !== 'double' && cType !== 'float') throw usage('--c-type', 'double or float', cType);
       const derating = deratingSteps(atlas, { polarityMarginDeg: angles.polarityMarginDeg });
-      text = exportC(table, { prefix: (args.values.get('prefix') as string | undefined) ?? 'hs', cType, fileName: out, limits: plan, runtime, derating, ...(vdc === undefined ? {} : { vdc }) });
+      text = exportC(table, {
+        prefix: (args.values.get('prefix') as string | undefined) ?? 'hs',
+        cType,
+        fileName: out,
+        limits: plan,
+        runtime,
+        derating,
+        ...(vdc === undefined ? {} : { vdc }),
+      });
     }
     await writeFileAtomic(out, text);
     await io.stdout(`wrote ${out} (${format}, ${Buffer.byteLength(text)} bytes)\n`);

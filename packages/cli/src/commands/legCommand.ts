@@ -1,4 +1,17 @@
-import { faultTexts, analyseLeg, CAUTIONS, describeRules, exploreLeg, legDocument, levelNotation, PHASES, type LegDocument, type LegTable, type PatternResult, type PhasePolarity } from '@hexsalvage/core';
+import {
+  faultTexts,
+  analyseLeg,
+  CAUTIONS,
+  describeRules,
+  exploreLeg,
+  legDocument,
+  levelNotation,
+  PHASES,
+  type LegDocument,
+  type LegTable,
+  type PatternResult,
+  type PhasePolarity,
+} from '@hexsalvage/core';
 import { HELP_OPTION, JSON_OPTION, LEG_OPTIONS, type Command } from '../command.js';
 import { cautionBlock, levelText, textTable } from '../format.js';
 import { legInputs } from '../legInputs.js';
@@ -9,7 +22,12 @@ export const legCommand: Command = {
   name: 'leg',
   summary: 'levels of every gate pattern for each current sign, per phase, with faults applied',
   usage: 'leg --topology T [--fault F]... [--explore] [--json]',
-  options: [...LEG_OPTIONS, { name: 'explore', type: 'flag', help: 'also enumerate every gate combination and list the extra levels it offers' }, JSON_OPTION, HELP_OPTION],
+  options: [
+    ...LEG_OPTIONS,
+    { name: 'explore', type: 'flag', help: 'also enumerate every gate combination and list the extra levels it offers' },
+    JSON_OPTION,
+    HELP_OPTION,
+  ],
   run: async (args, io) => {
     const { topology, faults, rules } = legInputs(args);
     const analysis = analyseLeg({ topology, faults, ...rules });
@@ -33,7 +51,10 @@ export const legCommand: Command = {
       lines.push('', title, phaseTable(analysis.phases[ph], analysis.healthy, dc), movesText(doc.phases[ph].moves, dc));
     }
     if (explore) lines.push('', exploreText(analysis));
-    lines.push('', `Levels: ${levelNotation(dc).legend}; "open" = current interrupted, "unsafe" = a device would block more than its rating: the pattern must not be used for that sign.`);
+    lines.push(
+      '',
+      `Levels: ${levelNotation(dc).legend}; "open" = current interrupted, "unsafe" = a device would block more than its rating: the pattern must not be used for that sign.`,
+    );
     lines.push(cautionBlock(CAUTIONS));
     await io.stdout(`${lines.join('\n')}\n`);
     return 0;
@@ -51,7 +72,9 @@ function phaseTable(t: LegTable, healthy: LegTable, dc: readonly number[]): stri
       const shown = lv === null && p.unsafe[s] ? 'unsafe' : lt(lv);
       return lv === was ? shown : `${shown} (was ${lt(was)})`;
     };
-    const notes = (['+', '-'] as const).filter((s) => p.bySign[s].level === null).map((s) => `not used for i${s === '+' ? '>0' : '<0'}: ${p.unsafe[s] ? `unsafe, ${p.unsafe[s]}` : 'current interrupted'}`);
+    const notes = (['+', '-'] as const)
+      .filter((s) => p.bySign[s].level === null)
+      .map((s) => `not used for i${s === '+' ? '>0' : '<0'}: ${p.unsafe[s] ? `unsafe, ${p.unsafe[s]}` : 'current interrupted'}`);
     return [p.name, p.gates.join('+') || '(none)', cell('+'), cell('-'), notes.join('; ')];
   });
   const sets = (['+', '-', '?'] as PhasePolarity[]).map((s) => {

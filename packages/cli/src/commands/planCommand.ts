@@ -34,13 +34,28 @@ export function planText(plan: RemedialPlan): string {
     ? `between ${plan.bindingEdge.map((v) => `${v.class} vector ${tripletText(v.levels[0] ?? [], plan.dcLevels)} (${fmt(v.alpha, 3)}, ${fmt(v.beta, 3)})`).join(' and ')}`
     : '';
   const verdict = plan.stop
-    ? [`CANNOT RUN in this state${plan.stop.everyLoadAngle ? ' at any load angle' : ' at this load angle'}: the drive must stop; no output voltage above 0 can be produced${unsafe ? '' : ' safely'}.`, `Why: ${plan.stop.reason}`]
+    ? [
+        `CANNOT RUN in this state${plan.stop.everyLoadAngle ? ' at any load angle' : ' at this load angle'}: the drive must stop; no output voltage above 0 can be produced${unsafe ? '' : ' safely'}.`,
+        `Why: ${plan.stop.reason}`,
+      ]
     : [`Limit binds at theta = ${fmt(plan.limitingAngleDeg, 3)} deg with polarity ${plan.limitingPolarity}, on the outline edge ${edge}.`];
-  const hullNote = Math.abs(plan.mMaxHull - plan.mMax) > 1e-9
-    ? [`The convex hull of the surviving vectors would promise ${fmt(plan.mMaxHull, 6)}; that is NOT safe: the rules above leave only the admissible triangles.`]
-    : [];
+  const hullNote =
+    Math.abs(plan.mMaxHull - plan.mMax) > 1e-9
+      ? [
+          `The convex hull of the surviving vectors would promise ${fmt(plan.mMaxHull, 6)}; that is NOT safe: the rules above leave only the admissible triangles.`,
+        ]
+      : [];
   const lostFor = (pol: string) => plan.polarities[pol]?.lost.length ?? 0;
-  const rows = plan.sectors.map((s) => [`${fmt(s.fromDeg, 2)}`, `${fmt(s.toDeg, 2)}`, s.polarity, String(s.vectors.length), String(lostFor(s.polarity)), String(s.triangles.length), fmt(s.minExtent, 4), fmt(s.minExtentAngleDeg, 2)]);
+  const rows = plan.sectors.map((s) => [
+    `${fmt(s.fromDeg, 2)}`,
+    `${fmt(s.toDeg, 2)}`,
+    s.polarity,
+    String(s.vectors.length),
+    String(lostFor(s.polarity)),
+    String(s.triangles.length),
+    fmt(s.minExtent, 4),
+    fmt(s.minExtentAngleDeg, 2),
+  ]);
   return [
     `Leg: ${plan.topology}   faults: ${plan.faults.join(', ') || 'none'}`,
     `Load angle: ${fmt(plan.loadAngleDeg, 2)} deg   polarity margin: ${fmt(plan.polarityMarginDeg, 2)} deg`,
@@ -75,7 +90,11 @@ function alternativesText(plan: RemedialPlan): string[] {
   const alts = plan.alternatives ?? [];
   if (alts.length < 2) return [];
   const rows = alts.map((a, i) => [a.join(', '), fmt(plan.mMaxByAlternative?.[i] ?? 0, 6)]);
-  return ['', `Ambiguous diagnosis: the plan holds whichever of ${alts.length} configurations is true (its mMax ${fmt(plan.mMax, 6)} is at most each one's):`, textTable(['configuration', 'mMax alone'], rows)];
+  return [
+    '',
+    `Ambiguous diagnosis: the plan holds whichever of ${alts.length} configurations is true (its mMax ${fmt(plan.mMax, 6)} is at most each one's):`,
+    textTable(['configuration', 'mMax alone'], rows),
+  ];
 }
 
 // What could be done about the fault, best first; a plan that cannot run says which remedy would.
@@ -84,6 +103,13 @@ function remediesText(plan: RemedialPlan): string[] {
   if (list.length === 0) return [];
   const rows = list.map((r) => [r.id, fmt(r.mMax, 6), fmt(r.mMaxBalanced, 6), r.requires]);
   const runs = list.filter((r) => r.id !== 'as-is' && r.mMax > 0);
-  const verdict = plan.mMax > 0 ? [] : [runs.length ? `A remedy that would run: ${runs[0]?.id} (mMax ${fmt(runs[0]?.mMax ?? 0, 6)}): ${runs[0]?.requires}.` : `No remedy considered here lets the drive run: it must stop until repaired.${plan.dcLevels.includes(0) ? '' : ' (A bypass to the DC midpoint needs a split DC link with a node at potential 0; this leg has none.)'}`];
+  const verdict =
+    plan.mMax > 0
+      ? []
+      : [
+          runs.length
+            ? `A remedy that would run: ${runs[0]?.id} (mMax ${fmt(runs[0]?.mMax ?? 0, 6)}): ${runs[0]?.requires}.`
+            : `No remedy considered here lets the drive run: it must stop until repaired.${plan.dcLevels.includes(0) ? '' : ' (A bypass to the DC midpoint needs a split DC link with a node at potential 0; this leg has none.)'}`,
+        ];
   return ['', 'Remedies (best first):', textTable(['remedy', 'mMax', 'mMax balanced', 'requires'], rows), ...verdict];
 }

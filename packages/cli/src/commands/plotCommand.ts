@@ -1,5 +1,30 @@
-import { faultTexts, parsePolarity, diagramAtlas, simulatePeriod, simulationWaveform, deratingCurve, gatedDeviceIds, planFromAtlas, samplePeriod, switchingTableFromAtlas, type DiagramAtlas, type RemedialPlan, type SequenceMode } from '@hexsalvage/core';
-import { atlasHeatmapSvg, atlasPairMatrixSvg, deratingCurveSvg, legSchematicSvg, lossBarsSvg, spectrumSvg, waveformsSvg, sectorOverviewSvg, switchingPeriodSvg, vectorDiagramSvg } from '@hexsalvage/plot';
+import {
+  faultTexts,
+  parsePolarity,
+  diagramAtlas,
+  simulatePeriod,
+  simulationWaveform,
+  deratingCurve,
+  gatedDeviceIds,
+  planFromAtlas,
+  samplePeriod,
+  switchingTableFromAtlas,
+  type DiagramAtlas,
+  type RemedialPlan,
+  type SequenceMode,
+} from '@hexsalvage/core';
+import {
+  atlasHeatmapSvg,
+  atlasPairMatrixSvg,
+  deratingCurveSvg,
+  legSchematicSvg,
+  lossBarsSvg,
+  spectrumSvg,
+  waveformsSvg,
+  sectorOverviewSvg,
+  switchingPeriodSvg,
+  vectorDiagramSvg,
+} from '@hexsalvage/plot';
 import { degreeRange, usage } from '../args.js';
 import { SIM_OPTIONS, simulateInputs } from '../simulateInputs.js';
 import { ATLAS_OPTIONS, atlasFromArgs } from '../atlasInputs.js';
@@ -14,7 +39,8 @@ const KINDS = ['diagram', 'sectors', 'derating', 'leg', 'sequence', 'atlas', 'lo
 export const plotCommand: Command = {
   name: 'plot',
   summary: 'draw a review picture: diagram, sectors, derating, leg, sequence, atlas, losses, spectrum or waveforms (SVG or PNG)',
-  usage: 'plot diagram|sectors|derating|leg|sequence|atlas|losses|spectrum|waveforms --topology T [--fault F]... [--load-angle DEG] [--polarity XYZ] [atlas options] --out FILE.svg|.png',
+  usage:
+    'plot diagram|sectors|derating|leg|sequence|atlas|losses|spectrum|waveforms --topology T [--fault F]... [--load-angle DEG] [--polarity XYZ] [atlas options] --out FILE.svg|.png',
   positionals: 1,
   options: [
     ...LEG_OPTIONS,
@@ -25,7 +51,15 @@ export const plotCommand: Command = {
     { name: 'phase', type: 'string', value: 'a|b|c', help: 'leg: phase to draw (default: the first faulted phase)' },
     { name: 'pattern', type: 'string', value: 'NAME', help: 'leg: gate pattern whose conduction path is drawn (default: the first one a fault changes)' },
     { name: 'sign', type: 'string', value: '+|-', help: 'leg: current sign of the drawn path (default +)' },
-    { name: 'triangle', type: 'number', min: 0, max: 100000, integer: true, value: 'N', help: 'sequence: triangle index (default: the one at 0.7 mMax where the limit binds)' },
+    {
+      name: 'triangle',
+      type: 'number',
+      min: 0,
+      max: 100000,
+      integer: true,
+      value: 'N',
+      help: 'sequence: triangle index (default: the one at 0.7 mMax where the limit binds)',
+    },
     ...ATLAS_OPTIONS,
     VDC_OPTION,
     ...SIM_OPTIONS.filter((o) => !['m', 'load-angle', 'polarity-margin', 'vdc'].includes(o.name)),
@@ -43,7 +77,12 @@ export const plotCommand: Command = {
       const { topology: tp, faults: fs, rules: rl } = legInputs(args);
       const options = simulateInputs(args, tp, fs, rl);
       const sim = simulatePeriod(options);
-      const svgSim = kind === 'losses' ? lossBarsSvg(sim) : kind === 'spectrum' ? spectrumSvg(sim, { log: args.flags.has('log') }) : waveformsSvg(sim, simulationWaveform(options));
+      const svgSim =
+        kind === 'losses'
+          ? lossBarsSvg(sim)
+          : kind === 'spectrum'
+            ? spectrumSvg(sim, { log: args.flags.has('log') })
+            : waveformsSvg(sim, simulationWaveform(options));
       const bytes = await writeSvgOrPng(out, svgSim);
       await io.stdout(`wrote ${out} (${kind}, ${bytes} bytes)\n`);
       return 0;
@@ -71,7 +110,10 @@ export const plotCommand: Command = {
       const label = faultTexts(atlas.analysis).join(', ') || 'healthy';
       const series = [{ label, points: deratingCurve(atlas, { stepDeg: 1, polarityMarginDeg }) }];
       for (const c of args.lists.get('compare') ?? []) {
-        const f = c.split(',').map((x) => x.trim()).filter(Boolean);
+        const f = c
+          .split(',')
+          .map((x) => x.trim())
+          .filter(Boolean);
         const a = diagramAtlas({ topology, faults: f, ...rules });
         // the label as the CLI writes faults (with the mode), so that open and short read apart
         series.push({ label: faultTexts(a.analysis).join(', ') || 'healthy', points: deratingCurve(a, { stepDeg: 1, polarityMarginDeg }) });
@@ -87,7 +129,15 @@ export const plotCommand: Command = {
         ...(vdc !== undefined ? { vdc } : {}),
       });
     } else if (kind === 'leg') {
-      svg = legSchematicSvg(atlas.analysis.leg, schematicFocus(atlas.analysis, args.values.get('phase') as string | undefined, args.values.get('pattern') as string | undefined, args.values.get('sign') as string | undefined));
+      svg = legSchematicSvg(
+        atlas.analysis.leg,
+        schematicFocus(
+          atlas.analysis,
+          args.values.get('phase') as string | undefined,
+          args.values.get('pattern') as string | undefined,
+          args.values.get('sign') as string | undefined,
+        ),
+      );
     } else {
       svg = sequencePicture(atlas, plan, polarity, args.values.get('triangle') as number | undefined, runtimeInputs(args));
     }
@@ -109,7 +159,13 @@ export const plotCommand: Command = {
  * @returns the SVG
  * @throws HexsalvageInputError for a triangle index out of range
  */
-export function sequencePicture(atlas: DiagramAtlas, plan: RemedialPlan, polarity: string, triangle: number | undefined, runtime: { sequence: SequenceMode; balance: 'on' | 'off' }): string {
+export function sequencePicture(
+  atlas: DiagramAtlas,
+  plan: RemedialPlan,
+  polarity: string,
+  triangle: number | undefined,
+  runtime: { sequence: SequenceMode; balance: 'on' | 'off' },
+): string {
   const table = switchingTableFromAtlas(atlas);
   const entry = table.polarities[polarity]!;
   let alpha: number;
@@ -119,7 +175,8 @@ export function sequencePicture(atlas: DiagramAtlas, plan: RemedialPlan, polarit
     const r = 0.7 * (plan.mMax > 0 ? plan.mMax : plan.mMaxHealthy);
     [alpha, beta] = [r * Math.cos(th), r * Math.sin(th)];
   } else {
-    if (!Number.isInteger(triangle) || triangle < 0 || triangle >= entry.tableTriangles.length) throw usage('--triangle', `a triangle index 0…${entry.tableTriangles.length - 1} of polarity ${polarity}`, triangle);
+    if (!Number.isInteger(triangle) || triangle < 0 || triangle >= entry.tableTriangles.length)
+      throw usage('--triangle', `a triangle index 0…${entry.tableTriangles.length - 1} of polarity ${polarity}`, triangle);
     const v = entry.tableTriangles[triangle]!.vertices;
     [alpha, beta] = [(v[0].alpha + v[1].alpha + v[2].alpha) / 3, (v[0].beta + v[1].beta + v[2].beta) / 3];
   }

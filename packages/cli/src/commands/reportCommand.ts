@@ -1,5 +1,18 @@
 import { dirname, relative, resolve } from 'node:path';
-import { diagramAtlas, modulationOfLineRms, planFromAtlas, planRemedies, simulatePeriod, switchover, simulationWaveform, switchingTableFromAtlas, type ClaimVerdict, type LegNetlist, type LevelStepRule, type SequenceMode } from '@hexsalvage/core';
+import {
+  diagramAtlas,
+  modulationOfLineRms,
+  planFromAtlas,
+  planRemedies,
+  simulatePeriod,
+  switchover,
+  simulationWaveform,
+  switchingTableFromAtlas,
+  type ClaimVerdict,
+  type LegNetlist,
+  type LevelStepRule,
+  type SequenceMode,
+} from '@hexsalvage/core';
 import { usage, type ParsedArgs } from '../args.js';
 import { buildDate, commandLine } from '../commandLine.js';
 import { fileSha256, readScenario, type Scenario } from '../readScenario.js';
@@ -11,14 +24,19 @@ import { judgeClaimList, judgeClaims } from '../readClaims.js';
 import { buildReport } from '../report/buildReport.js';
 import { TOOL_VERSION } from '../toolVersion.js';
 
-
 /** `hexsalvage report`: one self-contained HTML file for a design review. */
 export const reportCommand: Command = {
   name: 'report',
   summary: 'write a self-contained HTML design-review report (header, limit, plots, table, claims, sign-off)',
-  usage: 'report (--scenario FILE.json | --topology T [--fault F]... [--load-angle DEG] [--polarity-margin DEG] [--vdc V] [--claims FILE]) [--sequence S] [--balance on|off] [--atlas [atlas options]] --out FILE.html',
+  usage:
+    'report (--scenario FILE.json | --topology T [--fault F]... [--load-angle DEG] [--polarity-margin DEG] [--vdc V] [--claims FILE]) [--sequence S] [--balance on|off] [--atlas [atlas options]] --out FILE.html',
   options: [
-    { name: 'scenario', type: 'string', value: 'FILE', help: 'a review scenario (docs/schema/scenario.schema.json): drive data, leg, faults, load angles, claims; needs nothing else' },
+    {
+      name: 'scenario',
+      type: 'string',
+      value: 'FILE',
+      help: 'a review scenario (docs/schema/scenario.schema.json): drive data, leg, faults, load angles, claims; needs nothing else',
+    },
     ...LEG_OPTIONS,
     ...ANGLE_OPTIONS,
     VDC_OPTION,
@@ -33,16 +51,34 @@ export const reportCommand: Command = {
     const out = args.values.get('out');
     if (typeof out !== 'string' || !out.endsWith('.html')) throw usage('--out', 'a file name ending in .html', out);
     const scenarioFile = args.values.get('scenario') as string | undefined;
-    let inputs: { topology: string | LegNetlist; topologyText: string; faults: readonly string[]; rules: { ignoreRatings: boolean; levelSteps: LevelStepRule }; loadAngleDeg: number; polarityMarginDeg: number; vdc: number | undefined };
+    let inputs: {
+      topology: string | LegNetlist;
+      topologyText: string;
+      faults: readonly string[];
+      rules: { ignoreRatings: boolean; levelSteps: LevelStepRule };
+      loadAngleDeg: number;
+      polarityMarginDeg: number;
+      vdc: number | undefined;
+    };
     let verdicts: ClaimVerdict[] | undefined;
     let scenario: Scenario | undefined;
     const files: { path: string; sha256: string }[] = [];
     if (scenarioFile !== undefined) {
-      const clash = ['topology', 'load-angle', 'polarity-margin', 'vdc', 'claims', 'level-steps'].find((k) => args.values.has(k)) ?? ((args.lists.get('fault') ?? []).length ? 'fault' : undefined);
+      const clash =
+        ['topology', 'load-angle', 'polarity-margin', 'vdc', 'claims', 'level-steps'].find((k) => args.values.has(k)) ??
+        ((args.lists.get('fault') ?? []).length ? 'fault' : undefined);
       if (clash) throw usage(`--${clash}`, 'not together with --scenario (the scenario file gives it)');
       scenario = readScenario(scenarioFile);
       const rules = { ignoreRatings: args.flags.has('ignore-ratings'), levelSteps: scenario.levelSteps ?? 'commutable' };
-      inputs = { topology: scenario.topology, topologyText: scenario.topologyText, faults: scenario.faults, rules, loadAngleDeg: scenario.loadAngleDeg, polarityMarginDeg: scenario.polarityMarginDeg, vdc: scenario.vdc };
+      inputs = {
+        topology: scenario.topology,
+        topologyText: scenario.topologyText,
+        faults: scenario.faults,
+        rules,
+        loadAngleDeg: scenario.loadAngleDeg,
+        polarityMarginDeg: scenario.polarityMarginDeg,
+        vdc: scenario.vdc,
+      };
       verdicts = scenario.claims.length ? judgeClaimList(scenario.claims, scenarioFile, rules.ignoreRatings, 'claims', 'scenario') : undefined;
       files.push(...scenario.inputs);
     } else {
@@ -56,14 +92,19 @@ export const reportCommand: Command = {
     const atlas = diagramAtlas({ topology: inputs.topology, faults: inputs.faults, ...inputs.rules });
     const atlasFlags = ['modes', 'load-angle-range', 'step', 'jobs'].filter((k) => args.values.has(k)).concat(args.flags.has('pairs') ? ['pairs'] : []);
     if (!args.flags.has('atlas') && atlasFlags.length > 0) throw usage(`--${atlasFlags[0]}`, 'only together with --atlas');
-    const faultAtlas = args.flags.has('atlas') ? await atlasFromArgs(scenario && scenarioFile ? withScenario(args, scenario, scenarioFile) : args, io, false, true) : undefined;
+    const faultAtlas = args.flags.has('atlas')
+      ? await atlasFromArgs(scenario && scenarioFile ? withScenario(args, scenario, scenarioFile) : args, io, false, true)
+      : undefined;
     const plan = planFromAtlas(atlas, inputs.loadAngleDeg, inputs.polarityMarginDeg);
     const runtime = runtimeInputs(args);
     const simulation = scenario ? scenarioSimulation(scenario, { ...inputs, runtime }, plan.mMax) : undefined;
     const legOptions = { topology: inputs.topology, faults: inputs.faults, ...inputs.rules };
     const remedies = planRemedies(atlas, legOptions, inputs.loadAngleDeg, inputs.polarityMarginDeg);
     const bypassed = (inputs.rules as { bypass?: string }).bypass !== undefined;
-    const switchoverDoc = inputs.faults.length === 0 || bypassed ? undefined : switchover({ ...legOptions, ...scenarioPoint(scenario, inputs.loadAngleDeg, inputs.polarityMarginDeg) });
+    const switchoverDoc =
+      inputs.faults.length === 0 || bypassed
+        ? undefined
+        : switchover({ ...legOptions, ...scenarioPoint(scenario, inputs.loadAngleDeg, inputs.polarityMarginDeg) });
     const html = buildReport({
       atlas,
       plan,
@@ -90,16 +131,39 @@ export const reportCommand: Command = {
 
 // The operating point of the healthy runtime before the diagnosis acts: the scenario's rated
 // voltage (at most the healthy limit, 2/√3) at its frequencies; none without the drive's data.
-function scenarioPoint(sc: Scenario | undefined, loadAngleDeg: number, polarityMarginDeg: number): { m?: number; loadAngleDeg?: number; polarityMarginDeg?: number; f1?: number; fsw?: number } {
-  if (!sc || sc.ratedLineVoltageV === undefined || sc.fundamentalHz === undefined || sc.switchingHz === undefined || sc.switchingHz < 6 * sc.fundamentalHz) return {};
-  return { m: Math.min(2 / Math.sqrt(3), modulationOfLineRms(sc.ratedLineVoltageV, sc.vdc)), loadAngleDeg, polarityMarginDeg, f1: sc.fundamentalHz, fsw: sc.switchingHz };
+function scenarioPoint(
+  sc: Scenario | undefined,
+  loadAngleDeg: number,
+  polarityMarginDeg: number,
+): { m?: number; loadAngleDeg?: number; polarityMarginDeg?: number; f1?: number; fsw?: number } {
+  if (!sc || sc.ratedLineVoltageV === undefined || sc.fundamentalHz === undefined || sc.switchingHz === undefined || sc.switchingHz < 6 * sc.fundamentalHz)
+    return {};
+  return {
+    m: Math.min(2 / Math.sqrt(3), modulationOfLineRms(sc.ratedLineVoltageV, sc.vdc)),
+    loadAngleDeg,
+    polarityMarginDeg,
+    f1: sc.fundamentalHz,
+    fsw: sc.switchingHz,
+  };
 }
 
 // One simulated period at the scenario's operating point, when it gives the drive's data: m is the
 // rated voltage's, or the safe limit where that is lower; the current is the rated one,
 // √2·P / (√3·V·cos φ) at the operating load angle.
-function scenarioSimulation(sc: Scenario, inputs: { topology: string | LegNetlist; faults: readonly string[]; rules: { ignoreRatings: boolean; levelSteps: LevelStepRule }; loadAngleDeg: number; polarityMarginDeg: number; runtime: { sequence: SequenceMode; balance: 'on' | 'off' } }, mMax: number) {
-  if (sc.ratedPowerKw === undefined || sc.ratedLineVoltageV === undefined || sc.fundamentalHz === undefined || sc.switchingHz === undefined || mMax <= 0) return undefined;
+function scenarioSimulation(
+  sc: Scenario,
+  inputs: {
+    topology: string | LegNetlist;
+    faults: readonly string[];
+    rules: { ignoreRatings: boolean; levelSteps: LevelStepRule };
+    loadAngleDeg: number;
+    polarityMarginDeg: number;
+    runtime: { sequence: SequenceMode; balance: 'on' | 'off' };
+  },
+  mMax: number,
+) {
+  if (sc.ratedPowerKw === undefined || sc.ratedLineVoltageV === undefined || sc.fundamentalHz === undefined || sc.switchingHz === undefined || mMax <= 0)
+    return undefined;
   const cos = Math.cos((inputs.loadAngleDeg * Math.PI) / 180);
   if (cos < 0.1 || sc.switchingHz < 6 * sc.fundamentalHz) return undefined;
   const options = {

@@ -9,7 +9,12 @@ export const vectorsCommand: Command = {
   name: 'vectors',
   summary: 'surviving space vectors, hull, triangles and radius for one current-polarity pattern',
   usage: 'vectors --topology T [--fault F]... --polarity XYZ [--json]',
-  options: [...LEG_OPTIONS, { name: 'polarity', type: 'string', value: 'XYZ', help: 'current polarity of phases a, b, c: each +, - or ?, e.g. +-?' }, JSON_OPTION, HELP_OPTION],
+  options: [
+    ...LEG_OPTIONS,
+    { name: 'polarity', type: 'string', value: 'XYZ', help: 'current polarity of phases a, b, c: each +, - or ?, e.g. +-?' },
+    JSON_OPTION,
+    HELP_OPTION,
+  ],
   run: async (args, io) => {
     const { topology, faults, rules } = legInputs(args);
     const pol = args.values.get('polarity');
@@ -31,7 +36,10 @@ export const vectorsCommand: Command = {
       `Phase levels used: ${(['a', 'b', 'c'] as const).map((ph, k) => `${ph} ${(d.phaseLevels[k] as readonly number[]).map((l) => levelText(l, dc)).join(', ') || '(none)'}`).join(' | ')}`,
       '',
       `Surviving vectors (${doc.vectors.length}):`,
-      textTable(['#', 'alpha', 'beta', '|v|', 'class', 'levels a, b, c'], doc.vectors.map((v, i) => [String(i), ...vec(v)])),
+      textTable(
+        ['#', 'alpha', 'beta', '|v|', 'class', 'levels a, b, c'],
+        doc.vectors.map((v, i) => [String(i), ...vec(v)]),
+      ),
       '',
       `Lost vectors (${doc.lost.length}, ${doc.lostTriplets} healthy triplets lost in all):`,
       doc.lost.length ? textTable(['alpha', 'beta', '|v|', 'class', 'triplets'], doc.lost.map(vec)) : '  none',

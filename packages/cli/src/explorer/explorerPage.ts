@@ -15,7 +15,8 @@ export interface ExplorerPageConfig {
 
 // Nothing may leave the page: no connection, no frame, no form target, scripts and styles only
 // from the page itself.
-const POLICY = "default-src 'none'; script-src 'unsafe-inline'; style-src 'unsafe-inline'; img-src data: blob:; worker-src blob:; connect-src 'none'; form-action 'none'; base-uri 'none'";
+const POLICY =
+  "default-src 'none'; script-src 'unsafe-inline'; style-src 'unsafe-inline'; img-src data: blob:; worker-src blob:; connect-src 'none'; form-action 'none'; base-uri 'none'";
 
 /**
  * The self-contained explorer page: the bundled script and its starting point in one HTML file
@@ -31,7 +32,10 @@ const POLICY = "default-src 'none'; script-src 'unsafe-inline'; style-src 'unsaf
  */
 export function explorerPage(bundle: string, config: ExplorerPageConfig): string {
   // JSON inside a script element: '<' escaped so that no text of a netlist can end the element
-  const json = JSON.stringify(config).replace(/</g, '\\u003c').replace(/\u2028/g, '\\u2028').replace(/\u2029/g, '\\u2029');
+  const json = JSON.stringify(config)
+    .replace(/</g, '\\u003c')
+    .replace(/\u2028/g, '\\u2028')
+    .replace(/\u2029/g, '\\u2029');
   const script = bundle.replace(/<\/(script)/gi, '<\\/$1').replace(/<!--/g, '<\\!--');
   return `<!doctype html>
 <html lang="en">

@@ -135,7 +135,12 @@ export function atlasWork(options: FaultAtlasOptions): AtlasWork {
   const rules = resolveRules(options, 'faultAtlas');
   const leg = resolveTopology(options.topology);
   const modes = options.modes ?? FAULT_MODES;
-  if (!Array.isArray(modes) || modes.length === 0 || modes.some((m) => !(FAULT_MODES as readonly unknown[]).includes(m)) || new Set(modes).size !== modes.length) {
+  if (
+    !Array.isArray(modes) ||
+    modes.length === 0 ||
+    modes.some((m) => !(FAULT_MODES as readonly unknown[]).includes(m)) ||
+    new Set(modes).size !== modes.length
+  ) {
     throw new HexsalvageInputError('option', 'faultAtlas', 'modes', `a non-empty list of distinct fault modes (${FAULT_MODES.join(', ')})`, modes);
   }
   const range = options.loadAngleRangeDeg ?? [-90, 90];
@@ -143,9 +148,11 @@ export function atlasWork(options: FaultAtlasOptions): AtlasWork {
   const lo = requireNumber(range[0], 'faultAtlas', 'loadAngleRangeDeg[0]', { min: -180, max: 180 });
   const hi = requireNumber(range[1], 'faultAtlas', 'loadAngleRangeDeg[1]', { min: lo, max: 180 });
   const stepDeg = requireNumber(options.stepDeg ?? 5, 'faultAtlas', 'stepDeg', { min: 0, openMin: true, max: 360 });
-  if ((hi - lo) / stepDeg > MAX_GRID_POINTS) throw new HexsalvageInputError('option', 'faultAtlas', 'stepDeg', `a step giving at most ${MAX_GRID_POINTS} points over the range`, stepDeg);
+  if ((hi - lo) / stepDeg > MAX_GRID_POINTS)
+    throw new HexsalvageInputError('option', 'faultAtlas', 'stepDeg', `a step giving at most ${MAX_GRID_POINTS} points over the range`, stepDeg);
   const polarityMarginDeg = requireNumber(options.polarityMarginDeg ?? 0, 'faultAtlas', 'polarityMarginDeg', { min: 0, max: 60, openMax: true });
-  if (options.pairs !== undefined && typeof options.pairs !== 'boolean') throw new HexsalvageInputError('option', 'faultAtlas', 'pairs', 'true or false', options.pairs);
+  if (options.pairs !== undefined && typeof options.pairs !== 'boolean')
+    throw new HexsalvageInputError('option', 'faultAtlas', 'pairs', 'true or false', options.pairs);
   const vdc = options.vdc === undefined ? null : requireVdc(options.vdc, 'faultAtlas', 'vdc');
   const settings: AtlasSettings = {
     topology: options.topology,
@@ -165,13 +172,16 @@ export function atlasWork(options: FaultAtlasOptions): AtlasWork {
     for (const e of elements) for (const m of settings.modes) faultSets.push([`a.${e}:${m}`]);
   } else {
     const all: { phase: number; element: string; text: string }[] = [];
-    PHASES.forEach((ph, k) => { for (const e of elements) for (const m of settings.modes) all.push({ phase: k, element: e, text: `${ph}.${e}:${m}` }); });
-    for (let i = 0; i < all.length; i++) for (let j = i + 1; j < all.length; j++) {
-      const x = all[i] as (typeof all)[number];
-      const y = all[j] as (typeof all)[number];
-      if (x.phase === y.phase && x.element === y.element) continue; // one mode per device
-      faultSets.push([x.text, y.text]);
-    }
+    PHASES.forEach((ph, k) => {
+      for (const e of elements) for (const m of settings.modes) all.push({ phase: k, element: e, text: `${ph}.${e}:${m}` });
+    });
+    for (let i = 0; i < all.length; i++)
+      for (let j = i + 1; j < all.length; j++) {
+        const x = all[i] as (typeof all)[number];
+        const y = all[j] as (typeof all)[number];
+        if (x.phase === y.phase && x.element === y.element) continue; // one mode per device
+        faultSets.push([x.text, y.text]);
+      }
   }
   const classIndex = new Map<string, number>();
   const classes: string[][] = [];
@@ -250,7 +260,15 @@ export function atlasClass(settings: AtlasSettings, faults: readonly string[]): 
   // a fault that keeps full voltage needs no remedy (the healthy diagrams are shared: cheap)
   const healthy = limitOverLoadAngles(atlas.healthy, lo, hi, settings.polarityMarginDeg).mMax;
   const remedy = worst.mMax >= healthy - VERDICT_TOLERANCE ? null : bestRemedy(atlas, options, [lo, hi], settings.polarityMarginDeg, worst.mMax);
-  return { mMaxMin: worst.mMax, worstLoadAngleDeg: worst.loadAngleDeg, mMaxHullMin: hull.mMax, mMaxAt, reason: why.reason, details: why.details, bestRemedy: remedy ? { id: remedy.id, mMaxMin: remedy.mMaxMin } : null };
+  return {
+    mMaxMin: worst.mMax,
+    worstLoadAngleDeg: worst.loadAngleDeg,
+    mMaxHullMin: hull.mMax,
+    mMaxAt,
+    reason: why.reason,
+    details: why.details,
+    bestRemedy: remedy ? { id: remedy.id, mMaxMin: remedy.mMaxMin } : null,
+  };
 }
 
 /**
@@ -278,12 +296,23 @@ export function assembleAtlas(work: AtlasWork, results: readonly AtlasClassResul
     const computed = results[work.classOf[i] as number] as AtlasClassResult;
     // the class was computed for its representative: its words name that rotation's phases
     const back = rotationFrom(rep, faults);
-    const r = back === 0 ? computed : {
-      ...computed,
-      reason: rotatePhaseNames(computed.reason, back),
-      details: computed.details.map((d) => rotatePhaseNames(d, back)),
-      bestRemedy: computed.bestRemedy ? { ...computed.bestRemedy, id: computed.bestRemedy.id.replace(/bypass-([abc])$/, (_, p: string) => `bypass-${PHASES[(PHASES.indexOf(p as (typeof PHASES)[number]) + back) % 3]}`) } : null,
-    };
+    const r =
+      back === 0
+        ? computed
+        : {
+            ...computed,
+            reason: rotatePhaseNames(computed.reason, back),
+            details: computed.details.map((d) => rotatePhaseNames(d, back)),
+            bestRemedy: computed.bestRemedy
+              ? {
+                  ...computed.bestRemedy,
+                  id: computed.bestRemedy.id.replace(
+                    /bypass-([abc])$/,
+                    (_, p: string) => `bypass-${PHASES[(PHASES.indexOf(p as (typeof PHASES)[number]) + back) % 3]}`,
+                  ),
+                }
+              : null,
+          };
     const verdict: AtlasEntry['verdict'] = r.mMaxMin <= VERDICT_TOLERANCE ? 'cannot-run' : r.mMaxMin >= healthyMin - VERDICT_TOLERANCE ? 'full' : 'derated';
     const v = volt(r.mMaxMin);
     const entry: AtlasEntry = {
@@ -319,7 +348,10 @@ export function assembleAtlas(work: AtlasWork, results: readonly AtlasClassResul
 function rotationFrom(rep: readonly string[], faults: readonly string[]): number {
   const want = [...faults].sort().join('|');
   for (let r = 0; r < 3; r++) {
-    const turned = rep.map((f) => `${PHASES[(PHASES.indexOf(f[0] as (typeof PHASES)[number]) + r) % 3]}${f.slice(1)}`).sort().join('|');
+    const turned = rep
+      .map((f) => `${PHASES[(PHASES.indexOf(f[0] as (typeof PHASES)[number]) + r) % 3]}${f.slice(1)}`)
+      .sort()
+      .join('|');
     if (turned === want) return r;
   }
   return 0;

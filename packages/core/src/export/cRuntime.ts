@@ -106,7 +106,7 @@ export function cRuntimeTables(p: RuntimeProgram, spec: CRuntimeSpec): string {
     decl('cand_first', p.candFirst, 1, `[${PX}_TRIANGLE_COUNT + 1]`),
     decl('cand_count', p.candCount, 1, `[${Math.max(1, nCand)}]`),
     decl('cand_pos', p.candPos, 4, `[${Math.max(1, nCand)}][4]`),
-    '/* levels of the candidates\' states: cand_level[c][3*s + k] indexes cand_levels */',
+    "/* levels of the candidates' states: cand_level[c][3*s + k] indexes cand_levels */",
     decl('cand_levels', Float64Array.from(dc.length ? dc : [0]), 1, `[${Math.max(1, dc.length)}]`, `${px}_real`),
     decl('cand_level', candLevelIndex, 12, `[${Math.max(1, nCand)}][12]`),
     decl('cand_mask', p.candMask, 4, `[${Math.max(1, nCand)}][4]`),

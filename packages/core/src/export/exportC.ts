@@ -16,7 +16,13 @@ export interface ExportCOptions {
   /** File name the header is written to: sets the include guard and the include line. Default `<prefix>_table.h`. */
   readonly fileName?: string;
   /** The plan the table is used with: its limits, load angle, margin and rules become `#define`s. */
-  readonly limits?: { readonly mMax: number; readonly mMaxHull: number; readonly loadAngleDeg: number; readonly polarityMarginDeg: number; readonly rules: { readonly ratings: boolean; readonly levelSteps: string } };
+  readonly limits?: {
+    readonly mMax: number;
+    readonly mMaxHull: number;
+    readonly loadAngleDeg: number;
+    readonly polarityMarginDeg: number;
+    readonly rules: { readonly ratings: boolean; readonly levelSteps: string };
+  };
   /** Total DC-link voltage in volts, as `<PREFIX>_VDC`. */
   readonly vdc?: number;
   /** The runtime settings the header's defaults name (`<PREFIX>_RUNTIME_*`). Default: continuous, balance on. */
@@ -62,16 +68,23 @@ export function exportC(table: SwitchingTable, options: ExportCOptions = {}): st
   if (real !== 'double' && real !== 'float') throw new HexsalvageInputError('option', 'exportC', 'cType', 'double or float', real);
   const fileName = options.fileName ?? `${px}_table.h`;
   const base = fileName.replace(/^.*[\\/]/, '');
-  const guard = `${base.replace(/[^A-Za-z0-9]/g, '_').replace(/^(\d)/, '_$1').toUpperCase()}_`;
+  const guard = `${base
+    .replace(/[^A-Za-z0-9]/g, '_')
+    .replace(/^(\d)/, '_$1')
+    .toUpperCase()}_`;
   // gate masks: bit i = gated device i of the phase, in netlist order
   const devices = table.devices ?? [];
   const wideMask = devices.length > 32;
-  if (devices.length > 64) throw new HexsalvageInputError('option', 'exportC', 'table.devices', 'at most 64 gated devices per phase (one 64-bit mask)', devices.length);
+  if (devices.length > 64)
+    throw new HexsalvageInputError('option', 'exportC', 'table.devices', 'at most 64 gated devices per phase (one 64-bit mask)', devices.length);
   const maskType = wideMask ? 'uint64_t' : 'uint32_t';
   const maskOf = (pattern: string): string => {
     const gates = table.patternGates?.[table.patterns.indexOf(pattern)] ?? [];
     let m = 0n;
-    for (const g of gates) { const i = devices.indexOf(g); if (i >= 0) m |= 1n << BigInt(i); }
+    for (const g of gates) {
+      const i = devices.indexOf(g);
+      if (i >= 0) m |= 1n << BigInt(i);
+    }
     return `0x${m.toString(16).toUpperCase()}${wideMask ? 'ULL' : 'UL'}`;
   };
   const realFirst: number[] = [0];
@@ -115,18 +128,21 @@ export function exportC(table: SwitchingTable, options: ExportCOptions = {}): st
   const runtimeTables = cRuntimeTables(program, { px, PX, real: c });
   const derating = deratingTable(options, c, px, PX);
   // the size of the tables: every initialiser counted (numbers, masks) at the width of its type
-  const bytes = (nTri * 9 + nHull * 2 + nOutline * 4 + nReal * 3) * R + nReal * 3 * (wideMask ? 8 : 4) + nReal + (3 * nTri + 1) * 4 + runtimeBytes(runtimeTables, R);
+  const bytes =
+    (nTri * 9 + nHull * 2 + nOutline * 4 + nReal * 3) * R + nReal * 3 * (wideMask ? 8 : 4) + nReal + (3 * nTri + 1) * 4 + runtimeBytes(runtimeTables, R);
   const firstType = intType(0, Math.max(nTri, nHull, nOutline));
   const lim = options.limits;
   const defines = [
-    ...(lim ? [
-      `#define ${PX}_M_MAX ${c(lim.mMax)} /* safe limit at the load angle below, units of Vdc/2 */`,
-      `#define ${PX}_M_MAX_HULL ${c(lim.mMaxHull)} /* first-version convex-hull bound: NOT safe, for review only */`,
-      `#define ${PX}_LOAD_ANGLE_DEG ${c(lim.loadAngleDeg)}`,
-      `#define ${PX}_POLARITY_MARGIN_DEG ${c(lim.polarityMarginDeg)}`,
-      `#define ${PX}_RULE_RATINGS ${lim.rules.ratings ? 1 : 0} /* 1: device voltage ratings applied */`,
-      `#define ${PX}_RULE_LEVEL_STEPS ${cString(lim.rules.levelSteps)}`,
-    ] : []),
+    ...(lim
+      ? [
+          `#define ${PX}_M_MAX ${c(lim.mMax)} /* safe limit at the load angle below, units of Vdc/2 */`,
+          `#define ${PX}_M_MAX_HULL ${c(lim.mMaxHull)} /* first-version convex-hull bound: NOT safe, for review only */`,
+          `#define ${PX}_LOAD_ANGLE_DEG ${c(lim.loadAngleDeg)}`,
+          `#define ${PX}_POLARITY_MARGIN_DEG ${c(lim.polarityMarginDeg)}`,
+          `#define ${PX}_RULE_RATINGS ${lim.rules.ratings ? 1 : 0} /* 1: device voltage ratings applied */`,
+          `#define ${PX}_RULE_LEVEL_STEPS ${cString(lim.rules.levelSteps)}`,
+        ]
+      : []),
     `#define ${PX}_RUNTIME_CONTINUOUS ${rtOpts.sequence === 'continuous' ? 1 : 0} /* ${px}_runtime_init defaults: 1 seven segments, 0 one phase clamped */`,
     `#define ${PX}_RUNTIME_BALANCE ${rtOpts.balance === 'on' ? 1 : 0}`,
     `#define ${PX}_RUNTIME_CHAIN_DWELL ${c(rtOpts.chainDwell)} /* fraction of the switching period per chained state */`,
@@ -323,8 +339,21 @@ static inline double ${px}_m_max_at(double load_angle_deg)
   return ${lim ? `load_angle_deg == ${c(lim.loadAngleDeg)} ? ${c(lim.mMax)} : ` : '(void)load_angle_deg, '}0.0;
 }`;
   }
-  const ok = typeof dr === 'object' && dr !== null && Number.isFinite(dr.stepDeg) && dr.stepDeg > 0 && Array.isArray(dr.minima) && dr.minima.length === Math.ceil(360 / dr.stepDeg - 1e-9) && dr.minima.every((m) => Number.isFinite(m) && m >= 0);
-  if (!ok) throw new HexsalvageInputError('option', 'exportC', 'derating', 'a grid { stepDeg > 0, minima: one limit ≥ 0 per cell of [-180, 180] } (from deratingSteps)');
+  const ok =
+    typeof dr === 'object' &&
+    dr !== null &&
+    Number.isFinite(dr.stepDeg) &&
+    dr.stepDeg > 0 &&
+    Array.isArray(dr.minima) &&
+    dr.minima.length === Math.ceil(360 / dr.stepDeg - 1e-9) &&
+    dr.minima.every((m) => Number.isFinite(m) && m >= 0);
+  if (!ok)
+    throw new HexsalvageInputError(
+      'option',
+      'exportC',
+      'derating',
+      'a grid { stepDeg > 0, minima: one limit ≥ 0 per cell of [-180, 180] } (from deratingSteps)',
+    );
   return `/* Safe limit over load angle (units of Vdc/2): ${px}_derating[i] is the exact minimum of mMax over
  * load angles [-180 + i*STEP, -180 + (i+1)*STEP] degrees, so the value is never above mMax. */
 #define ${PX}_DERATING_STEP_DEG ${c(dr.stepDeg)}
@@ -364,7 +393,10 @@ function cString(s: string): string {
     const code = ch.codePointAt(0) as number;
     if (ch === '"' || ch === '\\') out += `\\${ch}`;
     else if (ch === '?') out += '\\?';
-    else if (code < 0x20 || code > 0x7e) out += utf8(code).map((b) => `\\${b.toString(8).padStart(3, '0')}`).join('');
+    else if (code < 0x20 || code > 0x7e)
+      out += utf8(code)
+        .map((b) => `\\${b.toString(8).padStart(3, '0')}`)
+        .join('');
     else out += ch;
   }
   return `${out}"`;
@@ -381,8 +413,11 @@ function utf8(c: number): number[] {
 // comments are read, so "*\<newline>/" would end the comment), no line ends or other control
 // characters, no "*/", no trigraphs. Such characters become "?" (names are shown, never compiled).
 function comment(s: string): string {
-  // eslint-disable-next-line no-control-regex
-  return s.replace(/[\\\u0000-\u001f\u007f-\u009f\u2028\u2029]/g, '?').replace(/\*\//g, '* /').replace(/\?\?/g, '? ?').replace(/\*$/, '* ');
+  const plain = Array.from(s, (ch) => {
+    const code = ch.charCodeAt(0);
+    return ch === '\\' || code <= 0x1f || (code >= 0x7f && code <= 0x9f) || code === 0x2028 || code === 0x2029 ? '?' : ch;
+  }).join('');
+  return plain.replace(/\*\//g, '* /').replace(/\?\?/g, '? ?').replace(/\*$/, '* ');
 }
 
 // Doubles printed so that C reads back exactly the same value (17 significant digits).

@@ -4,9 +4,31 @@ import type { SwitchingTable } from '../table/switchingTable.js';
 
 /** CSV columns of {@link exportCsv}, in order (documented in docs/table.md). */
 export const CSV_COLUMNS = [
-  'polarity_index', 'polarity', 'triangle', 'vertex', 'sequence_position', 'alpha', 'beta', 'vector_class',
-  'la', 'lb', 'lc', 'pattern_a', 'pattern_b', 'pattern_c', 'np_a', 'np_b', 'np_c', 'common_mode',
-  'dwell_alpha', 'dwell_beta', 'dwell_const', 'np_authority', 'np_authority_lost', 'line_devices_at_pwm', 'level_jumps',
+  'polarity_index',
+  'polarity',
+  'triangle',
+  'vertex',
+  'sequence_position',
+  'alpha',
+  'beta',
+  'vector_class',
+  'la',
+  'lb',
+  'lc',
+  'pattern_a',
+  'pattern_b',
+  'pattern_c',
+  'np_a',
+  'np_b',
+  'np_c',
+  'common_mode',
+  'dwell_alpha',
+  'dwell_beta',
+  'dwell_const',
+  'np_authority',
+  'np_authority_lost',
+  'line_devices_at_pwm',
+  'level_jumps',
 ] as const;
 
 /**
@@ -34,17 +56,31 @@ export function exportCsv(table: SwitchingTable): string {
         const state = seq ? seq.states[position] : v.realisations[0]?.phases;
         const rz = seq ? v.realisations[seq.choice[k] as number] : v.realisations[0];
         const m = tri.dwell[k as 0 | 1 | 2];
-        rows.push([
-          p.index, pol, t, k, position + 1, num(v.alpha), num(v.beta), v.class,
-          ...(rz?.levels ?? ['', '', '']).map(String),
-          ...(state ?? []).map((s) => csvText(s.pattern)),
-          ...(rz?.midpoint ?? ['', '', '']).map(String),
-          num(rz?.commonMode ?? NaN),
-          num(m[0]), num(m[1]), num(m[2]),
-          tri.midpointAuthority, tri.authorityLost ? 1 : 0,
-          csvText((seq?.lineDevicesSwitching ?? []).join(';')),
-          (seq?.levelJumps ?? []).map((j) => `${j.phase}:${j.from}>${j.to}`).join(';'),
-        ].map(csvCell).join(','));
+        rows.push(
+          [
+            p.index,
+            pol,
+            t,
+            k,
+            position + 1,
+            num(v.alpha),
+            num(v.beta),
+            v.class,
+            ...(rz?.levels ?? ['', '', '']).map(String),
+            ...(state ?? []).map((s) => csvText(s.pattern)),
+            ...(rz?.midpoint ?? ['', '', '']).map(String),
+            num(rz?.commonMode ?? NaN),
+            num(m[0]),
+            num(m[1]),
+            num(m[2]),
+            tri.midpointAuthority,
+            tri.authorityLost ? 1 : 0,
+            csvText((seq?.lineDevicesSwitching ?? []).join(';')),
+            (seq?.levelJumps ?? []).map((j) => `${j.phase}:${j.from}>${j.to}`).join(';'),
+          ]
+            .map(csvCell)
+            .join(','),
+        );
       });
     });
   }

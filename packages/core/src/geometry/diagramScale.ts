@@ -34,9 +34,11 @@ export function diagramScale(healthy: readonly { readonly alpha: number; readonl
 export function levelSetScale(levels: readonly number[]): number {
   const ends = levels.length === 0 ? [] : [Math.min(...levels), Math.max(...levels)];
   let r = 0;
-  for (const la of ends) for (const lb of ends) for (const lc of ends) {
-    const x = Math.hypot(clarkeAlpha(la, lb, lc), clarkeBeta(lb, lc));
-    if (x > r) r = x;
-  }
+  for (const la of ends)
+    for (const lb of ends)
+      for (const lc of ends) {
+        const x = Math.hypot(clarkeAlpha(la, lb, lc), clarkeBeta(lb, lc));
+        if (x > r) r = x;
+      }
   return r > 0 ? r : 1;
 }

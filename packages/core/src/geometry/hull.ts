@@ -16,11 +16,13 @@ import { AREA_TOLERANCE } from '../shared/tolerance.js';
  */
 export function convexHull(points: readonly Point[], scale = 1): number[] {
   // (no arrays built per comparison or per turn: a many-level diagram has thousands of points)
-  const order = points.map((_, i) => i).sort((i, j) => {
-    const pi = points[i] as Point;
-    const pj = points[j] as Point;
-    return pi[0] - pj[0] || pi[1] - pj[1];
-  });
+  const order = points
+    .map((_, i) => i)
+    .sort((i, j) => {
+      const pi = points[i] as Point;
+      const pj = points[j] as Point;
+      return pi[0] - pj[0] || pi[1] - pj[1];
+    });
   if (order.length < 3) return dedupe(order, points, scale);
   const cross = (o: number, a: number, b: number) => {
     const po = points[o] as Point;

@@ -51,7 +51,14 @@ export type LocatedReference =
  * ```
  */
 export function locateReference(d: LocatableDiagram, alpha: number, beta: number): LocatedReference {
-  if (!(Math.abs(alpha) <= 1e6 && Math.abs(beta) <= 1e6)) throw new HexsalvageInputError('option', 'locateReference', 'alpha/beta', 'finite numbers within ±1000000 (units of Vdc/2)', Math.abs(alpha) <= 1e6 ? beta : alpha);
+  if (!(Math.abs(alpha) <= 1e6 && Math.abs(beta) <= 1e6))
+    throw new HexsalvageInputError(
+      'option',
+      'locateReference',
+      'alpha/beta',
+      'finite numbers within ±1000000 (units of Vdc/2)',
+      Math.abs(alpha) <= 1e6 ? beta : alpha,
+    );
   if (d.triangles.length === 0) return { ok: false, reason: 'no-triangles' };
   const direct = findTriangle(d, alpha, beta);
   if (direct) return { ok: true, ...direct, clamped: false, alpha, beta };

@@ -68,7 +68,15 @@ function complement(wedges: readonly [number, number][]): [number, number][] {
   if (wedges.length === 0) return [[0, 360]];
   const tol = 1e-9;
   // unroll each wedge onto [0, 4π) so that wedges crossing 0 overlap their neighbours
-  const spans = wedges.flatMap(([s, w]) => [[s, s + w], [s + TWO_PI, s + TWO_PI + w]] as [number, number][]).sort((x, y) => x[0] - y[0]);
+  const spans = wedges
+    .flatMap(
+      ([s, w]) =>
+        [
+          [s, s + w],
+          [s + TWO_PI, s + TWO_PI + w],
+        ] as [number, number][],
+    )
+    .sort((x, y) => x[0] - y[0]);
   const merged: [number, number][] = [];
   for (const [s, e] of spans) {
     const last = merged[merged.length - 1];

@@ -39,7 +39,8 @@ export function outlineGeometry(outline: readonly OutlineEdge[], originInside: b
   if (open) {
     const end = (cuts[0] as number) + 2 * Math.PI;
     // the last run continues into the first one when both are the same segment
-    if (first && edges.length > 0 && edges[0] && first.seg === open.seg) edges[0] = edgeOf(outline[open.seg] as OutlineEdge, open.from, (edges[0].span as [number, number])[1] + 2 * Math.PI);
+    if (first && edges.length > 0 && edges[0] && first.seg === open.seg)
+      edges[0] = edgeOf(outline[open.seg] as OutlineEdge, open.from, (edges[0].span as [number, number])[1] + 2 * Math.PI);
     else edges.push(edgeOf(outline[open.seg] as OutlineEdge, open.from, end));
   }
   return { edges, containsOrigin: true };

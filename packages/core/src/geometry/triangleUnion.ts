@@ -28,36 +28,39 @@ export interface OutlineEdge {
 export function tilingOutline(points: readonly Point[], triangles: readonly Triangle[], eps: number): OutlineEdge[] {
   const corners = [...new Set(triangles.flat())];
   const count = new Map<string, { from: number; to: number; n: number }>();
-  for (const t of triangles) for (let k = 0; k < 3; k++) {
-    const a = t[k] as number;
-    const b = t[(k + 1) % 3] as number;
-    const pa = points[a] as Point;
-    const pb = points[b] as Point;
-    const ex = pb[0] - pa[0];
-    const ey = pb[1] - pa[1];
-    const len2 = ex * ex + ey * ey;
-    const inner = corners
-      .filter((c) => c !== a && c !== b)
-      .map((c) => {
-        const pc = points[c] as Point;
-        const s = ((pc[0] - pa[0]) * ex + (pc[1] - pa[1]) * ey) / len2;
-        const d = Math.abs(ex * (pc[1] - pa[1]) - ey * (pc[0] - pa[0])) / Math.sqrt(len2);
-        return { c, s, d };
-      })
-      .filter((x) => x.d <= eps && x.s > 0 && x.s < 1)
-      .sort((x, y) => x.s - y.s)
-      .map((x) => x.c);
-    const chain = [a, ...inner, b];
-    for (let i = 0; i + 1 < chain.length; i++) {
-      const u = chain[i] as number;
-      const v = chain[i + 1] as number;
-      const k2 = u < v ? `${u},${v}` : `${v},${u}`;
-      const e = count.get(k2);
-      if (e) e.n++;
-      else count.set(k2, { from: u, to: v, n: 1 });
+  for (const t of triangles)
+    for (let k = 0; k < 3; k++) {
+      const a = t[k] as number;
+      const b = t[(k + 1) % 3] as number;
+      const pa = points[a] as Point;
+      const pb = points[b] as Point;
+      const ex = pb[0] - pa[0];
+      const ey = pb[1] - pa[1];
+      const len2 = ex * ex + ey * ey;
+      const inner = corners
+        .filter((c) => c !== a && c !== b)
+        .map((c) => {
+          const pc = points[c] as Point;
+          const s = ((pc[0] - pa[0]) * ex + (pc[1] - pa[1]) * ey) / len2;
+          const d = Math.abs(ex * (pc[1] - pa[1]) - ey * (pc[0] - pa[0])) / Math.sqrt(len2);
+          return { c, s, d };
+        })
+        .filter((x) => x.d <= eps && x.s > 0 && x.s < 1)
+        .sort((x, y) => x.s - y.s)
+        .map((x) => x.c);
+      const chain = [a, ...inner, b];
+      for (let i = 0; i + 1 < chain.length; i++) {
+        const u = chain[i] as number;
+        const v = chain[i + 1] as number;
+        const k2 = u < v ? `${u},${v}` : `${v},${u}`;
+        const e = count.get(k2);
+        if (e) e.n++;
+        else count.set(k2, { from: u, to: v, n: 1 });
+      }
     }
-  }
-  return [...count.values()].filter((e) => e.n === 1).map((e) => ({ from: e.from, to: e.to, segment: [points[e.from] as Point, points[e.to] as Point] as const }));
+  return [...count.values()]
+    .filter((e) => e.n === 1)
+    .map((e) => ({ from: e.from, to: e.to, segment: [points[e.from] as Point, points[e.to] as Point] as const }));
 }
 
 /**
@@ -81,13 +84,14 @@ export function unionOutline(points: readonly Point[], triangles: readonly Trian
   // same cuts and the same pieces, which the first one has already given
   const directed = new Set<string>();
   const edges: Segment[] = [];
-  for (const t of triangles) for (let k = 0; k < 3; k++) {
-    const a = t[k] as number;
-    const b = t[(k + 1) % 3] as number;
-    if (directed.has(`${a},${b}`)) continue;
-    directed.add(`${a},${b}`);
-    edges.push([points[a] as Point, points[b] as Point]);
-  }
+  for (const t of triangles)
+    for (let k = 0; k < 3; k++) {
+      const a = t[k] as number;
+      const b = t[(k + 1) % 3] as number;
+      if (directed.has(`${a},${b}`)) continue;
+      directed.add(`${a},${b}`);
+      edges.push([points[a] as Point, points[b] as Point]);
+    }
   // Boxes that skip the pairs and triangles which cannot matter: a cut of p→q by r→s lies within
   // eps·(1 + |rs|) of both (cutParameters' tolerances), a covered point within the triangle grown
   // by eps (coveredBy's); each box holds that region with room to spare, so the result is the same
@@ -124,7 +128,10 @@ export function unionOutline(points: readonly Point[], triangles: readonly Trian
       const a: Point = [p[0] + s0 * ex, p[1] + s0 * ey];
       const b: Point = [p[0] + s1 * ex, p[1] + s1 * ey];
       const seg: Segment = left ? [a, b] : [b, a];
-      const key = seg.flat().map((v) => Math.round(v / (probe * 10))).join(',');
+      const key = seg
+        .flat()
+        .map((v) => Math.round(v / (probe * 10)))
+        .join(',');
       if (seen.has(key)) continue;
       seen.add(key);
       out.push(seg);

@@ -1,6 +1,17 @@
 import { HexsalvageInputError } from '../shared/errors.js';
 import { expandElements, unratedDevices } from '../netlist/expandElements.js';
-import { failureConfigurations, faultsByPhase, formatFailure, formatFault, parseFailures, PHASES, type Failure, type Fault, type Phase, type PhaseFaults } from '../netlist/faults.js';
+import {
+  failureConfigurations,
+  faultsByPhase,
+  formatFailure,
+  formatFault,
+  parseFailures,
+  PHASES,
+  type Failure,
+  type Fault,
+  type Phase,
+  type PhaseFaults,
+} from '../netlist/faults.js';
 import { jointLegTable, type LegTable } from './legTable.js';
 import { parseNetlist } from '../netlist/parseNetlist.js';
 import { reasonInWords } from './ratingCheck.js';
@@ -102,7 +113,8 @@ export function analyseLeg(options: AnalyseLegOptions): LegAnalysis {
   if (!texts.some((t) => typeof t === 'string' && t.includes('|'))) faultsByPhase(texts, base, 'faults');
   const failures = parseFailures(texts, base, 'faults');
   const configurations = failureConfigurations(failures);
-  if (configurations.length === 0) throw new HexsalvageInputError('fault', 'faults', texts.join(', '), 'one mode per device in at least one combination of the alternatives', texts);
+  if (configurations.length === 0)
+    throw new HexsalvageInputError('fault', 'faults', texts.join(', '), 'one mode per device in at least one combination of the alternatives', texts);
   const bypass = options.bypass === undefined ? null : bypassOf(base, options.bypass);
   const leg = bypass ? withTie(base, bypass) : base;
   // leg tables depend only on the netlist, the phase's configurations, the disabled patterns and the
@@ -112,7 +124,10 @@ export function analyseLeg(options: AnalyseLegOptions): LegAnalysis {
   const tie = bypass ? patternCount - 1 : -1;
   const tableOf = (ph: Phase | null, maps: readonly { faults: PhaseFaults; label: string }[]): LegTable => {
     const bypassed = ph !== null && bypass?.phase === ph;
-    const withTieState = maps.map((m) => ({ label: m.label, faults: bypass ? new Map([...m.faults, [bypass.device, bypassed ? 'short' : 'open'] as const]) : m.faults }));
+    const withTieState = maps.map((m) => ({
+      label: m.label,
+      faults: bypass ? new Map([...m.faults, [bypass.device, bypassed ? 'short' : 'open'] as const]) : m.faults,
+    }));
     const disabled = new Map<number, string>();
     if (bypass) {
       for (let i = 0; i < patternCount; i++) {
@@ -120,7 +135,14 @@ export function analyseLeg(options: AnalyseLegOptions): LegAnalysis {
         if (!bypassed && i === tie) disabled.set(i, 'used only by a bypassed phase');
       }
     }
-    const key = `${rules.ratings}|${withTieState.map((m) => [...m.faults].map(([e, md]) => `${e}:${md}`).sort().join(',')).join('/')}|${[...disabled.keys()].join(',')}|${legKey}`;
+    const key = `${rules.ratings}|${withTieState
+      .map((m) =>
+        [...m.faults]
+          .map(([e, md]) => `${e}:${md}`)
+          .sort()
+          .join(','),
+      )
+      .join('/')}|${[...disabled.keys()].join(',')}|${legKey}`;
     return TABLES.through(key, () => jointLegTable(leg, withTieState, { ratings: rules.ratings, disabled }));
   };
   const mapsOf = (ph: Phase) => {
@@ -128,7 +150,10 @@ export function analyseLeg(options: AnalyseLegOptions): LegAnalysis {
     for (const c of configurations) {
       const mine = c.filter((f) => f.phase === ph);
       const faults = new Map(mine.map((f) => [f.element, f.mode] as const));
-      const key = [...faults].map(([e, m]) => `${e}:${m}`).sort().join(',');
+      const key = [...faults]
+        .map(([e, m]) => `${e}:${m}`)
+        .sort()
+        .join(',');
       if (!seen.has(key)) seen.set(key, { faults, label: mine.map(formatFault).join(' and ') || `phase ${ph} healthy` });
     }
     return [...seen.values()];
@@ -148,20 +173,57 @@ export function analyseLeg(options: AnalyseLegOptions): LegAnalysis {
   let bypassState = bypass;
   if (bypass) {
     const p = phases[bypass.phase].patterns[tie];
-    const unavailable = p === undefined ? 'no tie pattern'
-      : p.status === 'forbidden' ? `the bypassed state shoots through: ${p.reason}`
-        : (['+', '-'] as const).map((s) => (p.bySign[s].level === 0 ? '' : `for i ${s === '+' ? '>' : '<'} 0 ${p.unsafe[s] ? reasonInWords(p.unsafe[s] as string) : 'the output does not stay at 0'}`)).filter(Boolean).join('; ') || null;
+    const unavailable =
+      p === undefined
+        ? 'no tie pattern'
+        : p.status === 'forbidden'
+          ? `the bypassed state shoots through: ${p.reason}`
+          : (['+', '-'] as const)
+              .map((s) =>
+                p.bySign[s].level === 0
+                  ? ''
+                  : `for i ${s === '+' ? '>' : '<'} 0 ${p.unsafe[s] ? reasonInWords(p.unsafe[s] as string) : 'the output does not stay at 0'}`,
+              )
+              .filter(Boolean)
+              .join('; ') || null;
     bypassState = { ...bypass, unavailable };
-    if (unavailable !== null) throw new HexsalvageInputError('option', '--bypass', 'bypass', `a phase whose tied state is usable (phase ${bypass.phase}: ${unavailable})`, bypass.phase);
+    if (unavailable !== null)
+      throw new HexsalvageInputError(
+        'option',
+        '--bypass',
+        'bypass',
+        `a phase whose tied state is usable (phase ${bypass.phase}: ${unavailable})`,
+        bypass.phase,
+      );
   }
-  return { topology: typeof options.topology === 'string' ? options.topology : base.name, leg, faults, failures, configurations, simulated, bypass: bypassState, phases, healthy, rules, unrated: unratedDevices(base) };
+  return {
+    topology: typeof options.topology === 'string' ? options.topology : base.name,
+    leg,
+    faults,
+    failures,
+    configurations,
+    simulated,
+    bypass: bypassState,
+    phases,
+    healthy,
+    rules,
+    unrated: unratedDevices(base),
+  };
 }
 
 // The bypass to model: the phase checked, the DC node at 0 found, free names for the tie and its pattern.
 function bypassOf(leg: LegNetlist, phase: unknown): BypassState {
-  if (!(PHASES as readonly unknown[]).includes(phase)) throw new HexsalvageInputError('option', '--bypass', 'bypass', `a phase, one of ${PHASES.join(', ')}`, phase);
+  if (!(PHASES as readonly unknown[]).includes(phase))
+    throw new HexsalvageInputError('option', '--bypass', 'bypass', `a phase, one of ${PHASES.join(', ')}`, phase);
   const node = Object.entries(leg.dcNodes).find(([, v]) => v === 0)?.[0];
-  if (node === undefined) throw new HexsalvageInputError('option', '--bypass', 'bypass', 'a leg with a DC node at potential 0 (a split DC link with a midpoint) to tie the phase to', leg.name);
+  if (node === undefined)
+    throw new HexsalvageInputError(
+      'option',
+      '--bypass',
+      'bypass',
+      'a leg with a DC node at potential 0 (a split DC link with a midpoint) to tie the phase to',
+      leg.name,
+    );
   const ids = new Set(expandElements(leg).map((e) => e.id));
   let device = 'bypass';
   for (let k = 2; ids.has(device); k++) device = `bypass${k}`;
@@ -176,9 +238,12 @@ function bypassOf(leg: LegNetlist, phase: unknown): BypassState {
 function withTie(leg: LegNetlist, b: BypassState): LegNetlist {
   const pots = Object.values(leg.dcNodes);
   const span = Math.max(...pots) - Math.min(...pots);
-  return parseNetlist({
-    ...leg,
-    devices: [...leg.devices, { id: b.device, kind: 'diode', from: b.node, to: leg.output, rating: span }],
-    patterns: { ...leg.patterns, [b.pattern]: [] },
-  }, 'bypass');
+  return parseNetlist(
+    {
+      ...leg,
+      devices: [...leg.devices, { id: b.device, kind: 'diode', from: b.node, to: leg.output, rating: span }],
+      patterns: { ...leg.patterns, [b.pattern]: [] },
+    },
+    'bypass',
+  );
 }

@@ -30,7 +30,10 @@ export function patternCandidates(table: LegTable, healthy: LegTable, level: num
   const gives = (p: PatternResult, s: CurrentSign) => p.status === 'allowed' && p.bySign[s].level === level;
   const fits = (p: PatternResult) => (polarity === '?' ? gives(p, '+') && gives(p, '-') : gives(p, polarity));
   return table.patterns
-    .map((p, i) => ({ p, rank: [gives(healthy.patterns[i] as PatternResult, '+') && gives(healthy.patterns[i] as PatternResult, '-') ? 0 : 1, p.gates.length, i] }))
+    .map((p, i) => ({
+      p,
+      rank: [gives(healthy.patterns[i] as PatternResult, '+') && gives(healthy.patterns[i] as PatternResult, '-') ? 0 : 1, p.gates.length, i],
+    }))
     .filter(({ p }) => fits(p))
     .sort((x, y) => x.rank[0]! - y.rank[0]! || x.rank[1]! - y.rank[1]! || x.rank[2]! - y.rank[2]!)
     .map(({ p }) => ({ pattern: p.name, gates: p.gates, dcNodes: p.status === 'allowed' && polarity !== '?' ? p.bySign[polarity].dcNodes : [] }));

@@ -32,7 +32,7 @@ export interface PhaseCommutations {
 }
 
 /**
- * Whether a change of gate set commutates for a polarity (contract, Version 2): the switches gated
+ * Whether a change of gate set commutates for a polarity: the switches gated
  * in `from` but not in `to` are turned off one at a time, then those in `to` but not in `from` are
  * turned on one at a time, in some order, such that every intermediate gate set and `to` are usable
  * for the sign. For `?` one order must serve both signs, since the firmware does not know which
@@ -58,7 +58,14 @@ export function commutates(solve: GateSetSolver, from: readonly string[], to: re
   const on = to.filter((g) => !from.includes(g));
   if (off.length === 0 && on.length === 0) return true;
   // subsets are named by bit masks: 31 bits hold them exactly (netlists allow 24, NETLIST_LIMITS)
-  if (off.length > 30 || on.length > 30) throw new HexsalvageInputError('netlist', 'leg', 'patterns', 'a change of at most 30 switches each way between two gate sets', Math.max(off.length, on.length));
+  if (off.length > 30 || on.length > 30)
+    throw new HexsalvageInputError(
+      'netlist',
+      'leg',
+      'patterns',
+      'a change of at most 30 switches each way between two gate sets',
+      Math.max(off.length, on.length),
+    );
   const common = from.filter((g) => to.includes(g));
   // Intermediate sets are named by a numeric key (the sum of their gates' key values) so that a set
   // already solved costs one look-up and no array; the member list is built only for a new set.
@@ -146,7 +153,7 @@ export function patternLevel(solve: GateSetSolver, gates: readonly string[], pol
 }
 
 /**
- * Which level changes a phase may make, per polarity character (contract, Version 2): l1 → l2 is
+ * Which level changes a phase may make, per polarity character: l1 → l2 is
  * allowed when some pattern giving l1 commutates to some pattern giving l2, and some pattern giving
  * l2 commutates back to some pattern giving l1.
  *

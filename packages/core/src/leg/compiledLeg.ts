@@ -48,16 +48,31 @@ export function compiledLeg(leg: LegNetlist, elements: readonly LegElement[], fa
   const eTo: number[] = [];
   const eEl: number[] = [];
   const eGate: number[] = [];
-  const edge = (f: number, t: number, i: number, g: number) => { eFrom.push(f); eTo.push(t); eEl.push(i); eGate.push(g); };
+  const edge = (f: number, t: number, i: number, g: number) => {
+    eFrom.push(f);
+    eTo.push(t);
+    eEl.push(i);
+    eGate.push(g);
+  };
   elements.forEach((e, i) => {
     const mode = faults.get(e.id);
     if (mode === 'open') return;
     const f = node(e.from);
     const t = node(e.to);
-    if (mode === 'short') { edge(f, t, i, -1); edge(t, f, i, -1); return; }
-    if (!e.gated) { edge(f, t, i, -1); return; }
+    if (mode === 'short') {
+      edge(f, t, i, -1);
+      edge(t, f, i, -1);
+      return;
+    }
+    if (!e.gated) {
+      edge(f, t, i, -1);
+      return;
+    }
     let g = gateIndex.get(e.id);
-    if (g === undefined) { g = gateIndex.size; gateIndex.set(e.id, g); }
+    if (g === undefined) {
+      g = gateIndex.size;
+      gateIndex.set(e.id, g);
+    }
     edge(f, t, i, g);
     if (e.kind === 'mosfet') edge(t, f, i, g);
   });
@@ -68,7 +83,9 @@ export function compiledLeg(leg: LegNetlist, elements: readonly LegElement[], fa
   const gateOn = new Uint8Array(gateIndex.size);
   const n = index.size;
   const pot = new Float64Array(n).fill(NaN);
-  dcNames.forEach((d, k) => { pot[k] = leg.dcNodes[d] as number; });
+  dcNames.forEach((d, k) => {
+    pot[k] = leg.dcNodes[d] as number;
+  });
   const isDc = (k: number) => !Number.isNaN(pot[k] as number);
   const byPotential = dcNames.map((_, k) => k).sort((x, y) => (pot[y] as number) - (pot[x] as number));
   const seen = new Int32Array(n);
@@ -125,7 +142,11 @@ export function compiledLeg(leg: LegNetlist, elements: readonly LegElement[], fa
     // through it would find nothing the higher one did not: the DC nodes below it are below both).
     stamp++;
     let any = false;
-    for (const s of byPotential) if (lowerReached(s) >= 0) { any = true; break; }
+    for (const s of byPotential)
+      if (lowerReached(s) >= 0) {
+        any = true;
+        break;
+      }
     if (!any) return { shootThrough: null, plus: extreme(true), minus: extreme(false) };
     // There is one: the searches are redone one per DC node in netlist order, each from scratch,
     // so that the path reported is the one findShootThrough reports (BFS, a shortest path).
@@ -195,7 +216,7 @@ export function compiledLeg(leg: LegNetlist, elements: readonly LegElement[], fa
 
   function trace(s: number, t: number): ShootThrough {
     const path: string[] = [];
-    for (let x = t; x !== s; ) {
+    for (let x = t; x !== s;) {
       const k = via[x] as number;
       path.unshift((elements[el[k] as number] as LegElement).id);
       x = from[k] as number;

@@ -94,7 +94,14 @@ export function outputForSign(leg: LegNetlist, edges: readonly ConductionEdge[],
     if (sign === '+') collectSimplePaths(d, leg.output, fwd, isDc, onPath);
     else collectSimplePaths(leg.output, d, fwd, isDc, onPath);
   }
-  return { level, dcNodes: chosen, path: edges.filter((e) => onPath.has(e.element)).map((e) => e.element).filter(unique) };
+  return {
+    level,
+    dcNodes: chosen,
+    path: edges
+      .filter((e) => onPath.has(e.element))
+      .map((e) => e.element)
+      .filter(unique),
+  };
 }
 
 /**
@@ -140,7 +147,13 @@ function collectSimplePaths(start: string, goal: string, adj: Map<string, Conduc
   let walked = 0;
   const visit = (n: string): void => {
     for (const [to, edges] of hops.get(n) ?? []) {
-      if (++walked > MAX_WALK) throw new HexsalvageInputError('netlist', 'leg', '(structure)', `a leg whose conducting paths can be listed in ${MAX_WALK} steps (this one has more: too many meshed branches)`);
+      if (++walked > MAX_WALK)
+        throw new HexsalvageInputError(
+          'netlist',
+          'leg',
+          '(structure)',
+          `a leg whose conducting paths can be listed in ${MAX_WALK} steps (this one has more: too many meshed branches)`,
+        );
       if (onStack.has(to)) continue;
       if (to === goal) {
         for (const hop of trail) for (const e of hop) into.add(e.element);

@@ -29,8 +29,7 @@ export interface PhaseExploration {
 
 /** Result of {@link exploreLeg}. */
 export type LegExploration =
-  | { readonly ok: true; readonly phases: Readonly<Record<Phase, PhaseExploration>> }
-  | { readonly ok: false; readonly reason: string };
+  { readonly ok: true; readonly phases: Readonly<Record<Phase, PhaseExploration>> } | { readonly ok: false; readonly reason: string };
 
 /**
  * Enumerates every gate combination of the leg and reports which extra levels the hardware can
@@ -89,7 +88,11 @@ function explorePhase(switches: readonly string[], solve: GateSetSolver, named: 
     return [...got].sort((x, y) => x - y);
   };
   const extraLevels = { '+': extra('+'), '-': extra('-'), '?': extra('?') };
-  const extraCombinations = usable.filter((c) =>
-    (c['+'] !== null && extraLevels['+'].includes(c['+'])) || (c['-'] !== null && extraLevels['-'].includes(c['-'])) || (c['+'] !== null && c['+'] === c['-'] && extraLevels['?'].includes(c['+'])));
+  const extraCombinations = usable.filter(
+    (c) =>
+      (c['+'] !== null && extraLevels['+'].includes(c['+'])) ||
+      (c['-'] !== null && extraLevels['-'].includes(c['-'])) ||
+      (c['+'] !== null && c['+'] === c['-'] && extraLevels['?'].includes(c['+'])),
+  );
   return { combinations: 1 << switches.length, shootThrough, overstressed, extraLevels, extraCombinations };
 }

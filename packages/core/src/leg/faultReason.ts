@@ -35,7 +35,8 @@ export function faultReason(analysis: LegAnalysis, mMax: number): FaultReason {
     if (!faulted.has(ph)) continue;
     const table = analysis.phases[ph];
     table.patterns.forEach((p, k) => {
-      if (p.status === 'forbidden' && analysis.healthy.patterns[k]?.status === 'allowed') shoot.push(`phase ${ph}: pattern ${p.name} shoots through (${p.shootThrough.from}→${p.shootThrough.to})`);
+      if (p.status === 'forbidden' && analysis.healthy.patterns[k]?.status === 'allowed')
+        shoot.push(`phase ${ph}: pattern ${p.name} shoots through (${p.shootThrough.from}→${p.shootThrough.to})`);
     });
     const parts: string[] = [];
     for (const s of ['+', '-'] as const) {

@@ -51,12 +51,12 @@ const NO_REASONS: Readonly<Partial<Record<CurrentSign, string>>> = Object.freeze
 /**
  * Makes a solver that tells, for any gate set of a phase leg, whether it shoots through and, per
  * current sign, which level it gives and whether that state keeps every device within its rating.
- * A gate set is **usable** for a sign (contract, Version 2) when it is allowed and its level for
+ * A gate set is **usable** for a sign when it is allowed and its level for
  * that sign is not `null`.
  *
  * @param leg - the leg netlist
  * @param faults - element id → fault mode for this phase
- * @param ratings - apply the static voltage check (false reproduces the first version)
+ * @param ratings - apply the static voltage check (false gives the convex-hull bound's level tables, unsafe)
  * @param paths - also find the DC nodes and conducting elements of each sign, and name the device an
  *   unsafe state overstresses (slower); without, `dcNodes` and `path` are empty and an unsafe state's
  *   reason is the plain `not within ratings`: only usability is solved, as the commutation search needs

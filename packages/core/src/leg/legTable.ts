@@ -74,7 +74,7 @@ export interface JointLegTableOptions {
  * Level sets follow the contract: for `+`/`-` every level some usable pattern gives for that sign;
  * for `?` every level one pattern gives for both signs (a robust pattern). With `ratings` a pattern
  * whose state would make a device block more than its rating is not usable for that sign
- * (Version 2); its reason is kept in `unsafe`.
+ *; its reason is kept in `unsafe`.
  *
  * @param leg - the leg netlist
  * @param faults - element id → fault mode for this phase (empty for a healthy phase)
@@ -87,7 +87,8 @@ export interface JointLegTableOptions {
  */
 export function legTable(leg: LegNetlist, faults: PhaseFaults, ratings = true): LegTable {
   leg = parseNetlist(leg, 'legTable');
-  if (!(faults instanceof Map)) throw new HexsalvageInputError('option', 'legTable', 'faults', 'a Map of element id to fault mode (empty for a healthy phase)', faults);
+  if (!(faults instanceof Map))
+    throw new HexsalvageInputError('option', 'legTable', 'faults', 'a Map of element id to fault mode (empty for a healthy phase)', faults);
   if (typeof ratings !== 'boolean') throw new HexsalvageInputError('option', 'legTable', 'ratings', 'true or false', ratings);
   const solve = gateSetSolver(leg, faults, ratings);
   const named = gateSetSolver(leg, faults, ratings, true);
@@ -132,7 +133,8 @@ export function jointLegTable(leg: LegNetlist, configurations: readonly PhaseCon
   if (tables.length === 1 && disabled.size === 0) return first;
   const patterns = first.patterns.map((p0, i): PatternResult => {
     const off = disabled.get(i);
-    if (off !== undefined) return { name: p0.name, gates: p0.gates, status: 'allowed', bySign: { '+': NO_LEVEL, '-': NO_LEVEL }, unsafe: { '+': off, '-': off } };
+    if (off !== undefined)
+      return { name: p0.name, gates: p0.gates, status: 'allowed', bySign: { '+': NO_LEVEL, '-': NO_LEVEL }, unsafe: { '+': off, '-': off } };
     const k = tables.findIndex((t) => t.patterns[i]?.status === 'forbidden');
     if (k >= 0) {
       const f = (tables[k] as LegTable).patterns[i] as Extract<PatternResult, { status: 'forbidden' }>;
@@ -145,24 +147,43 @@ export function jointLegTable(leg: LegNetlist, configurations: readonly PhaseCon
       if (bad >= 0) {
         const q = all[bad] as Extract<PatternResult, { status: 'allowed' }>;
         const why = q.unsafe[s] ?? 'the current finds no path (interrupted)';
-        if (q.unsafe[s] !== undefined || tables.length > 1) unsafe[s] = tables.length > 1 ? `${why} if ${(configurations[bad] as PhaseConfiguration).label}` : why;
+        if (q.unsafe[s] !== undefined || tables.length > 1)
+          unsafe[s] = tables.length > 1 ? `${why} if ${(configurations[bad] as PhaseConfiguration).label}` : why;
         return NO_LEVEL;
       }
       const l0 = (all[0] as Extract<PatternResult, { status: 'allowed' }>).bySign[s].level;
       const other = all.findIndex((q) => q.bySign[s].level !== l0);
       if (other >= 0) {
-        unsafe[s] = `gives ${nodeOf(l0)} if ${(configurations[0] as PhaseConfiguration).label} but ${nodeOf((all[other] as Extract<PatternResult, { status: 'allowed' }>).bySign[s].level)} if ${(configurations[other] as PhaseConfiguration).label}`;
+        unsafe[s] =
+          `gives ${nodeOf(l0)} if ${(configurations[0] as PhaseConfiguration).label} but ${nodeOf((all[other] as Extract<PatternResult, { status: 'allowed' }>).bySign[s].level)} if ${(configurations[other] as PhaseConfiguration).label}`;
         return NO_LEVEL;
       }
       return (all[0] as Extract<PatternResult, { status: 'allowed' }>).bySign[s];
     };
     return { name: p0.name, gates: p0.gates, status: 'allowed', bySign: { '+': sign('+'), '-': sign('-') }, unsafe };
   });
-  const solve = jointSolver(tables.map((t) => t.solve), true);
-  const step = jointSolver(tables.map((t) => t.solve), false);
+  const solve = jointSolver(
+    tables.map((t) => t.solve),
+    true,
+  );
+  const step = jointSolver(
+    tables.map((t) => t.solve),
+    false,
+  );
   const gates = Object.values(leg.patterns).map((g, i) => (disabled.has(i) ? null : g));
   const commutations = phaseCommutations(solve, gates, step);
-  return { patterns, levels: levelSets(patterns), commutations, ratings, solve, explain: jointSolver(tables.map((t) => t.explain), true), step };
+  return {
+    patterns,
+    levels: levelSets(patterns),
+    commutations,
+    ratings,
+    solve,
+    explain: jointSolver(
+      tables.map((t) => t.explain),
+      true,
+    ),
+    step,
+  };
 }
 
 const NO_LEVEL: SignOutcome = Object.freeze({ level: null, dcNodes: Object.freeze([]) as readonly string[], path: Object.freeze([]) as readonly string[] });

@@ -8,7 +8,7 @@ export type MidpointSign = 1 | -1 | 0 | null;
  * Which phase currents flow through the DC midpoint for a level triplet.
  *
  * A phase at the midpoint potential (0) exchanges its current with the midpoint; the current into
- * the midpoint node is then `i_mid = −Σ c_k·i_k` (contract, Version 3), with `i_k` positive out of
+ * the midpoint node is then `i_mid = −Σ c_k·i_k`, with `i_k` positive out of
  * the leg into the load.
  *
  * @param levels - phase levels

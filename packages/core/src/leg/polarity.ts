@@ -14,10 +14,12 @@ const SYMBOLS: readonly PhasePolarity[] = ['+', '-', '?'];
  */
 export const POLARITY_STRINGS: readonly PolarityString[] = (() => {
   const out: string[] = [];
-  for (const a of SYMBOLS) for (const b of SYMBOLS) for (const c of SYMBOLS) {
-    const s = `${a}${b}${c}`;
-    if (s !== '+++' && s !== '---') out.push(s);
-  }
+  for (const a of SYMBOLS)
+    for (const b of SYMBOLS)
+      for (const c of SYMBOLS) {
+        const s = `${a}${b}${c}`;
+        if (s !== '+++' && s !== '---') out.push(s);
+      }
   return out;
 })();
 

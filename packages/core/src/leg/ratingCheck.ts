@@ -27,7 +27,7 @@ interface Arc {
 }
 
 /**
- * Static voltage check of a gate set (contract, Version 2): is there a distribution of node
+ * Static voltage check of a gate set: is there a distribution of node
  * potentials that every element can hold?
  *
  * DC nodes sit at their potentials and the output at `outputLevel`. Every element that can conduct
@@ -56,7 +56,13 @@ interface Arc {
  * // { ok: false, reason: 'innerUpper.diode blocks 2 > rating 1', … }
  * ```
  */
-export function ratingCheck(leg: LegNetlist, elements: readonly LegElement[], gates: ReadonlySet<string>, faults: PhaseFaults, outputLevel: number): RatingCheck {
+export function ratingCheck(
+  leg: LegNetlist,
+  elements: readonly LegElement[],
+  gates: ReadonlySet<string>,
+  faults: PhaseFaults,
+  outputLevel: number,
+): RatingCheck {
   return ratingChecker(leg, elements, faults)(gates, outputLevel);
 }
 
@@ -77,7 +83,11 @@ export function ratingCheck(leg: LegNetlist, elements: readonly LegElement[], ga
  * check(new Set(['upper']), 1).ok; // true
  * ```
  */
-export function ratingChecker(leg: LegNetlist, elements: readonly LegElement[], faults: PhaseFaults): (gates: ReadonlySet<string>, outputLevel: number, explainIt?: boolean) => RatingCheck {
+export function ratingChecker(
+  leg: LegNetlist,
+  elements: readonly LegElement[],
+  faults: PhaseFaults,
+): (gates: ReadonlySet<string>, outputLevel: number, explainIt?: boolean) => RatingCheck {
   const nodes = new Map<string, number>();
   const id = (n: string): number => {
     let k = nodes.get(n);
@@ -217,7 +227,14 @@ interface Scratch {
 }
 
 // Why there is no solution: the device to blame and the voltage it would block (see ratingCheck).
-function explain(arcs: readonly Arc[], n: number, eps: number, nodes: ReadonlyMap<string, number>, elements: readonly LegElement[], faults: PhaseFaults): RatingCheck {
+function explain(
+  arcs: readonly Arc[],
+  n: number,
+  eps: number,
+  nodes: ReadonlyMap<string, number>,
+  elements: readonly LegElement[],
+  faults: PhaseFaults,
+): RatingCheck {
   // Blame a device, not an element: a switch and its antiparallel diode share one rating, so
   // dropping only one of them would leave the other holding the same constraint.
   let worst: { element: LegElement; voltage: number; excess: number } | null = null;
@@ -248,14 +265,21 @@ function explain(arcs: readonly Arc[], n: number, eps: number, nodes: ReadonlyMa
   // 2. several devices overstressed at once: what conduction alone forces across each
   if (worst === null) {
     const conduction = arcs.filter((a) => a.rated < 0);
-    for (const members of byDevice.values()) consider(elements[members[0] as number] as LegElement, forced(elements[members[0] as number] as LegElement, conduction));
+    for (const members of byDevice.values())
+      consider(elements[members[0] as number] as LegElement, forced(elements[members[0] as number] as LegElement, conduction));
   }
   if (worst === null) {
     return { ok: false, reason: 'no static voltage distribution meets the ratings of the off devices together', element: null, voltage: null, rating: null };
   }
   const w = worst as { element: LegElement; voltage: number };
   const voltage = roundVoltage(w.voltage);
-  return { ok: false, reason: `${w.element.id} blocks ${voltage} > rating ${w.element.rating}`, element: w.element.id, voltage, rating: w.element.rating as number };
+  return {
+    ok: false,
+    reason: `${w.element.id} blocks ${voltage} > rating ${w.element.rating}`,
+    element: w.element.id,
+    voltage,
+    rating: w.element.rating as number,
+  };
 }
 
 // Relative to the link span, so that a leg written in other units of potential behaves the same.
@@ -275,7 +299,15 @@ function feasible(n: number, arcs: readonly Arc[], eps: number): boolean {
 }
 
 function scratchFor(n: number, m: number): Scratch {
-  return { d: new Float64Array(n), len: new Int32Array(n), start: new Int32Array(n + 1), cursor: new Int32Array(n), list: new Int32Array(m), queue: new Int32Array(n), queued: new Uint8Array(n) };
+  return {
+    d: new Float64Array(n),
+    len: new Int32Array(n),
+    start: new Int32Array(n + 1),
+    cursor: new Int32Array(n),
+    list: new Int32Array(m),
+    queue: new Int32Array(n),
+    queued: new Uint8Array(n),
+  };
 }
 
 // Shortest distances from `src`, or null when a negative cycle is reachable (the rest is unsolvable).

@@ -26,7 +26,11 @@ export function levelName(level: number, levels: readonly number[]): string {
   return level > 0 ? `+${level}` : String(level);
 }
 
-const SIGN_WORDS: Record<PhasePolarity, string> = { '+': 'while its current is positive', '-': 'while its current is negative', '?': 'while its current sign is unknown' };
+const SIGN_WORDS: Record<PhasePolarity, string> = {
+  '+': 'while its current is positive',
+  '-': 'while its current is negative',
+  '?': 'while its current sign is unknown',
+};
 
 /**
  * What the safety rules take away from each faulted phase, in words a reviewer understands:
@@ -66,17 +70,18 @@ export function explainRestrictions(analysis: LegAnalysis): string[] {
     for (const s of ['+', '-'] as const) {
       const levels = table.levels[s];
       const moves = table.commutations.moves[s];
-      for (let i = 0; i < levels.length; i++) for (let j = i + 1; j < levels.length; j++) {
-        const a = levels[i] as number;
-        const b = levels[j] as number;
-        if (moves.some(([x, y]) => x === a && y === b)) continue;
-        // under `adjacent` a change over more than one step is excluded by the rule itself
-        if (analysis.rules.levelSteps === 'adjacent' && Math.abs(dc.indexOf(a) - dc.indexOf(b)) > 1) continue;
-        named ??= table.explain;
-        const obstacle = firstObstacle(named, gatesOf, s, a, b) ?? firstObstacle(named, gatesOf, s, b, a);
-        const change = `${levelName(b, dc)}↔${levelName(a, dc)}`;
-        out.push(`phase ${ph}: no safe ${change} change ${SIGN_WORDS[s]}${obstacle ? `: ${obstacle}` : ''}`);
-      }
+      for (let i = 0; i < levels.length; i++)
+        for (let j = i + 1; j < levels.length; j++) {
+          const a = levels[i] as number;
+          const b = levels[j] as number;
+          if (moves.some(([x, y]) => x === a && y === b)) continue;
+          // under `adjacent` a change over more than one step is excluded by the rule itself
+          if (analysis.rules.levelSteps === 'adjacent' && Math.abs(dc.indexOf(a) - dc.indexOf(b)) > 1) continue;
+          named ??= table.explain;
+          const obstacle = firstObstacle(named, gatesOf, s, a, b) ?? firstObstacle(named, gatesOf, s, b, a);
+          const change = `${levelName(b, dc)}↔${levelName(a, dc)}`;
+          out.push(`phase ${ph}: no safe ${change} change ${SIGN_WORDS[s]}${obstacle ? `: ${obstacle}` : ''}`);
+        }
     }
   }
   return out;
@@ -91,7 +96,10 @@ function firstObstacle(solve: GateSetSolver, patterns: readonly (readonly string
       if (patternLevel(solve, b, sign) !== to || commutates(solve, a, b, sign)) continue;
       const off = a.filter((g) => !b.includes(g));
       const on = b.filter((g) => !a.includes(g));
-      const steps = off.length > 0 ? off.map((g) => ({ act: `turning ${g} off first`, gates: a.filter((x) => x !== g) })) : on.map((g) => ({ act: `turning ${g} on first`, gates: [...a, g] }));
+      const steps =
+        off.length > 0
+          ? off.map((g) => ({ act: `turning ${g} off first`, gates: a.filter((x) => x !== g) }))
+          : on.map((g) => ({ act: `turning ${g} on first`, gates: [...a, g] }));
       for (const st of steps) {
         const o = solve(st.gates);
         if (o.status === 'forbidden') return `${st.act} shoots through ${o.shootThrough.from}→${o.shootThrough.to}`;
@@ -103,4 +111,3 @@ function firstObstacle(solve: GateSetSolver, patterns: readonly (readonly string
   }
   return null;
 }
-

@@ -1,12 +1,12 @@
 import { HexsalvageInputError } from '../shared/errors.js';
 
-/** Which level changes a switching sequence may make (contract, Version 2). */
+/** Which level changes a switching sequence may make. */
 export const LEVEL_STEP_RULES = ['commutable', 'adjacent', 'any'] as const;
 /**
  * - `commutable` (default): a phase may change between two levels when some pair of patterns
  *   commutates safely both ways;
  * - `adjacent`: as `commutable`, and only between neighbouring DC potentials (the trade habit);
- * - `any`: the first version: every triangle allowed, no sequence rule in the limit.
+ * - `any`: every triangle allowed (the convex-hull bound), no sequence rule in the limit.
  */
 export type LevelStepRule = (typeof LEVEL_STEP_RULES)[number];
 
@@ -19,7 +19,7 @@ export interface LimitRules {
 
 /** Options that select {@link LimitRules}; both optional. */
 export interface LimitRuleOptions {
-  /** Skip the static voltage check (reproduces the first version's level tables). Default false. */
+  /** Skip the static voltage check (the convex-hull bound's level tables, unsafe). Default false. */
   readonly ignoreRatings?: boolean;
   /** Default `commutable`. */
   readonly levelSteps?: LevelStepRule;
@@ -47,7 +47,8 @@ export const DEFAULT_RULES: LimitRules = { ratings: true, levelSteps: 'commutabl
  */
 export function resolveRules(options: LimitRuleOptions = {}, input = 'options'): LimitRules {
   const { ignoreRatings, levelSteps } = options;
-  if (ignoreRatings !== undefined && typeof ignoreRatings !== 'boolean') throw new HexsalvageInputError('option', input, 'ignoreRatings', 'true or false', ignoreRatings);
+  if (ignoreRatings !== undefined && typeof ignoreRatings !== 'boolean')
+    throw new HexsalvageInputError('option', input, 'ignoreRatings', 'true or false', ignoreRatings);
   if (levelSteps !== undefined && !(LEVEL_STEP_RULES as readonly unknown[]).includes(levelSteps)) {
     throw new HexsalvageInputError('option', input, 'levelSteps', `one of ${LEVEL_STEP_RULES.join(', ')}`, levelSteps);
   }

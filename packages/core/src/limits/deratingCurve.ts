@@ -18,7 +18,7 @@ export interface DeratingCurveOptions {
   readonly stepDeg?: number;
   /** Polarity margin δ, degrees. Default 0. */
   readonly polarityMarginDeg?: number;
-  /** `tiling` (default): the safe limit mMax; `hull`: the first version's convex-hull limit. */
+  /** `tiling` (default): the safe limit mMax; `hull`: the convex-hull bound (not safe by itself). */
   readonly extent?: ExtentKind;
 }
 
@@ -29,7 +29,7 @@ export interface DeratingPoint {
   readonly deratingRatio: number;
   readonly limitingAngleDeg: number;
   readonly limitingPolarity: string;
-  /** The first version's convex-hull limit at the same load angle (for comparison; not safe). */
+  /** The convex-hull bound (not safe by itself) at the same load angle (for comparison; not safe). */
   readonly mMaxHull: number;
   /** `begins` where, as φ grows, the limit drops below the healthy one; `ends` where it returns. */
   readonly deratingEdge: 'begins' | 'ends' | null;
@@ -62,7 +62,8 @@ export function deratingCurve(atlas: DiagramAtlas, options: DeratingCurveOptions
   const toDeg = requireNumber(options.toDeg ?? 90, 'deratingCurve', 'toDeg', { min: fromDeg, max: 180 });
   const stepDeg = requireNumber(options.stepDeg ?? 1, 'deratingCurve', 'stepDeg', { min: Math.max((toDeg - fromDeg) / 100000, 0), openMin: true, max: 360 });
   const margin = requireNumber(options.polarityMarginDeg ?? 0, 'deratingCurve', 'polarityMarginDeg', { min: 0, max: 60, openMax: true });
-  if (options.extent !== undefined && options.extent !== 'tiling' && options.extent !== 'hull') throw new HexsalvageInputError('option', 'deratingCurve', 'extent', 'tiling or hull', options.extent);
+  if (options.extent !== undefined && options.extent !== 'tiling' && options.extent !== 'hull')
+    throw new HexsalvageInputError('option', 'deratingCurve', 'extent', 'tiling or hull', options.extent);
   const kind = options.extent ?? 'tiling';
   const grid: number[] = [];
   const n = Math.floor((toDeg - fromDeg) / stepDeg + 1e-9);
@@ -121,7 +122,13 @@ export function deratingCurve(atlas: DiagramAtlas, options: DeratingCurveOptions
 }
 
 // Load angles where a sector end crosses a corner or facet-normal direction of its extent.
-function structuralBreakpoints(diagrams: ReadonlyMap<string, PolarityDiagram>, fromDeg: number, toDeg: number, rel: readonly PolaritySector[], kind: ExtentKind): number[] {
+function structuralBreakpoints(
+  diagrams: ReadonlyMap<string, PolarityDiagram>,
+  fromDeg: number,
+  toDeg: number,
+  rel: readonly PolaritySector[],
+  kind: ExtentKind,
+): number[] {
   const out = new Set<number>();
   for (const s of rel) {
     const d = diagrams.get(s.polarity) as PolarityDiagram;
@@ -132,21 +139,30 @@ function structuralBreakpoints(diagrams: ReadonlyMap<string, PolarityDiagram>, f
       ...g.edges.map((e) => e.normalAngle / RAD),
       ...(outlined
         ? g.edges.flatMap((e) => (e.span ? [e.span[0] / RAD, e.span[1] / RAD] : []))
-        : d.hull.map((i) => Math.atan2((d.vectors[i] as PolarityDiagram['vectors'][number]).beta, (d.vectors[i] as PolarityDiagram['vectors'][number]).alpha) / RAD)),
+        : d.hull.map(
+            (i) => Math.atan2((d.vectors[i] as PolarityDiagram['vectors'][number]).beta, (d.vectors[i] as PolarityDiagram['vectors'][number]).alpha) / RAD,
+          )),
     ];
-    for (const psi of dirs) for (const end of [s.fromDeg, s.toDeg]) {
-      for (let k = -2; k <= 2; k++) {
-        const phi = psi - end + 360 * k;
-        if (phi > fromDeg && phi < toDeg) out.add(roundDeg(phi));
+    for (const psi of dirs)
+      for (const end of [s.fromDeg, s.toDeg]) {
+        for (let k = -2; k <= 2; k++) {
+          const phi = psi - end + 360 * k;
+          if (phi > fromDeg && phi < toDeg) out.add(roundDeg(phi));
+        }
       }
-    }
   }
   return [...out];
 }
 
 // Within [lo, hi] each sector minimum is smooth; if the minimising sector differs at the two ends,
 // bisect the difference of the two sector minima to find where they cross.
-function minimiserChange(diagrams: ReadonlyMap<string, PolarityDiagram>, lo: number, hi: number, rel: readonly PolaritySector[], kind: ExtentKind): number | null {
+function minimiserChange(
+  diagrams: ReadonlyMap<string, PolarityDiagram>,
+  lo: number,
+  hi: number,
+  rel: readonly PolaritySector[],
+  kind: ExtentKind,
+): number | null {
   const a = sectorMinimum(diagrams, lo, rel, kind);
   const b = sectorMinimum(diagrams, hi, rel, kind);
   if (a.key === b.key || hi - lo < 1e-9) return null;
@@ -164,7 +180,12 @@ function minimiserChange(diagrams: ReadonlyMap<string, PolarityDiagram>, lo: num
 
 // Sectors keep their identity across φ by their position relative to φ (the index in the φ = 0
 // partition), which is what makes "the minimising sector" meaningful as φ moves.
-function sectorMinimum(diagrams: ReadonlyMap<string, PolarityDiagram>, phi: number, rel: readonly PolaritySector[], kind: ExtentKind): { key: number; value: number } {
+function sectorMinimum(
+  diagrams: ReadonlyMap<string, PolarityDiagram>,
+  phi: number,
+  rel: readonly PolaritySector[],
+  kind: ExtentKind,
+): { key: number; value: number } {
   let best = { key: -1, value: Infinity };
   rel.forEach((s, k) => {
     const v = sectorValue(diagrams, phi, s, kind);
@@ -209,7 +230,8 @@ export function deratingSteps(atlas: DiagramAtlas, options: DeratingStepsOptions
   requireObject(options, 'deratingSteps', 'an options object { stepDeg?, polarityMarginDeg? }');
   const stepDeg = requireNumber(options.stepDeg ?? 0.5, 'deratingSteps', 'stepDeg', { min: 0.01, max: 360 });
   const cells = Math.round(360 / stepDeg);
-  if (Math.abs(cells * stepDeg - 360) > 1e-9) throw new HexsalvageInputError('option', 'deratingSteps', 'stepDeg', 'a cell width that divides 360 degrees', stepDeg);
+  if (Math.abs(cells * stepDeg - 360) > 1e-9)
+    throw new HexsalvageInputError('option', 'deratingSteps', 'stepDeg', 'a cell width that divides 360 degrees', stepDeg);
   const margin = requireNumber(options.polarityMarginDeg ?? 0, 'deratingSteps', 'polarityMarginDeg', { min: 0, max: 60, openMax: true });
   const minima: number[] = [];
   for (let i = 0; i < cells; i++) {

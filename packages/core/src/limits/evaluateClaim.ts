@@ -24,9 +24,9 @@ export interface DeratingClaim {
   readonly loadAngleDeg: readonly [number, number];
   /** Default 0. */
   readonly polarityMarginDeg?: number;
-  /** Level-step rule of the verdict (contract, Version 2). Default `commutable`. */
+  /** Level-step rule of the verdict. Default `commutable`. */
   readonly levelSteps?: LevelStepRule;
-  /** Skip the device-rating check (unsafe; reproduces the first version). Default false. */
+  /** Skip the device-rating check (unsafe: the convex-hull bound's level tables). Default false. */
   readonly ignoreRatings?: boolean;
   /** A phase tied to the DC midpoint by a fitted bypass (`a`, `b` or `c`). Default none. */
   readonly bypass?: 'a' | 'b' | 'c';
@@ -45,7 +45,7 @@ export interface ClaimVerdict {
   readonly m: number;
   readonly limitingAngleDeg: number;
   readonly limitingPolarity: string;
-  /** min over the range of the first version's convex-hull limit, for comparison. */
+  /** min over the range of the convex-hull bound (not safe by itself), for comparison. */
   readonly mMaxHullAtWorst: number;
   /** The rules the verdict was made under. */
   readonly rules: LimitRules;
@@ -57,7 +57,8 @@ export interface ClaimVerdict {
   /** How many devices the claim's leg has (to say whether the rating check covered any). */
   readonly deviceCount: number;
   /** The binding outline edge as its two vectors' level triplets and classes, or null. */
-  readonly bindingEdge: readonly { readonly alpha: number; readonly beta: number; readonly class: string; readonly levels: readonly (readonly number[])[] }[] | null;
+  readonly bindingEdge:
+    readonly { readonly alpha: number; readonly beta: number; readonly class: string; readonly levels: readonly (readonly number[])[] }[] | null;
   /** The leg's DC potentials, ascending: how the binding edge's vectors are written (`levelNotation`). */
   readonly dcLevels: readonly number[];
   /** The claim's own inputs, for a review table: topology (id or netlist name), faults, range, margin. */
@@ -66,7 +67,13 @@ export interface ClaimVerdict {
   readonly loadAngleDeg: readonly [number, number];
   readonly polarityMarginDeg: number;
   /** With `vdc`: the promise and the limit in volts. */
-  readonly volts?: { readonly vdc: number; readonly lineRmsPromised: number; readonly lineRmsAtWorst: number; readonly phasePeakAtWorst: number; readonly shortfallLineRms: number };
+  readonly volts?: {
+    readonly vdc: number;
+    readonly lineRmsPromised: number;
+    readonly lineRmsAtWorst: number;
+    readonly phasePeakAtWorst: number;
+    readonly shortfallLineRms: number;
+  };
 }
 
 /**
@@ -82,29 +89,40 @@ export interface ClaimVerdict {
  */
 export function evaluateClaim(claim: DeratingClaim): ClaimVerdict {
   requireObject(claim, 'evaluateClaim', 'a claim object { name, topology, faults, m, loadAngleDeg }');
-  if (!Array.isArray(claim.loadAngleDeg)) throw new HexsalvageInputError('claims', String(claim.name), 'loadAngleDeg', '[LO, HI] in degrees', claim.loadAngleDeg);
+  if (!Array.isArray(claim.loadAngleDeg))
+    throw new HexsalvageInputError('claims', String(claim.name), 'loadAngleDeg', '[LO, HI] in degrees', claim.loadAngleDeg);
   const [lo, hi] = claim.loadAngleDeg;
   const bad = (key: string, expected: string, got: unknown) => new HexsalvageInputError('claims', claim.name, key, expected, got);
   const vdc = claim.vdc === undefined ? undefined : requireVdc(claim.vdc, String(claim.name), 'vdc');
   if (claim.lineRmsV !== undefined) {
     if (claim.m !== undefined) throw bad('lineRmsV', 'either m or lineRmsV, not both', claim.lineRmsV);
     if (vdc === undefined) throw bad('vdc', 'the DC-link voltage in volts (needed with lineRmsV)', claim.vdc);
-    if (!(typeof claim.lineRmsV === 'number' && Number.isFinite(claim.lineRmsV) && claim.lineRmsV >= 0)) throw bad('lineRmsV', 'a line-to-line RMS voltage ≥ 0 in volts', claim.lineRmsV);
+    if (!(typeof claim.lineRmsV === 'number' && Number.isFinite(claim.lineRmsV) && claim.lineRmsV >= 0))
+      throw bad('lineRmsV', 'a line-to-line RMS voltage ≥ 0 in volts', claim.lineRmsV);
   }
   const m = claim.lineRmsV !== undefined && vdc !== undefined ? modulationOfLineRms(claim.lineRmsV, vdc) : claim.m;
   if (!(typeof m === 'number' && Number.isFinite(m) && m >= 0)) throw bad('m', 'a modulation index ≥ 0 (or lineRmsV with vdc)', claim.m);
-  if (!(Number.isFinite(lo) && Number.isFinite(hi) && lo >= -180 && hi <= 180 && lo <= hi)) throw bad('loadAngleDeg', '[LO, HI] with −180 ≤ LO ≤ HI ≤ 180', claim.loadAngleDeg);
+  if (!(Number.isFinite(lo) && Number.isFinite(hi) && lo >= -180 && hi <= 180 && lo <= hi))
+    throw bad('loadAngleDeg', '[LO, HI] with −180 ≤ LO ≤ HI ≤ 180', claim.loadAngleDeg);
   const delta = claim.polarityMarginDeg ?? 0;
   if (!(Number.isFinite(delta) && delta >= 0 && delta < 60)) throw bad('polarityMarginDeg', 'degrees in [0, 60)', delta);
   const rules = resolveRules({ levelSteps: claim.levelSteps, ignoreRatings: claim.ignoreRatings }, claim.name);
-  const atlas = diagramAtlas({ topology: claim.topology, faults: claim.faults, levelSteps: rules.levelSteps, ignoreRatings: !rules.ratings, ...(claim.bypass === undefined ? {} : { bypass: claim.bypass }) });
+  const atlas = diagramAtlas({
+    topology: claim.topology,
+    faults: claim.faults,
+    levelSteps: rules.levelSteps,
+    ignoreRatings: !rules.ratings,
+    ...(claim.bypass === undefined ? {} : { bypass: claim.bypass }),
+  });
   const r = limitOverLoadAngles(atlas.faulted, lo, hi, delta);
   const hull = limitOverLoadAngles(atlas.faulted, lo, hi, delta, 'hull');
   const d = atlas.faulted.get(r.limitingPolarity) as PolarityDiagram;
-  const edge = r.bindingEdge ? r.bindingEdge.map((i) => {
-    const v = d.vectors[i] as PolarityDiagram['vectors'][number];
-    return { alpha: v.alpha, beta: v.beta, class: v.class, levels: v.levels };
-  }) : null;
+  const edge = r.bindingEdge
+    ? r.bindingEdge.map((i) => {
+        const v = d.vectors[i] as PolarityDiagram['vectors'][number];
+        return { alpha: v.alpha, beta: v.beta, class: v.class, levels: v.levels };
+      })
+    : null;
   // exact comparison up to the rounding of the closed-form limit
   const holds = r.mMax >= m - 1e-12;
   return {
@@ -126,6 +144,16 @@ export function evaluateClaim(claim: DeratingClaim): ClaimVerdict {
     faults: faultTexts(atlas.analysis),
     loadAngleDeg: [lo, hi],
     polarityMarginDeg: delta,
-    ...(vdc === undefined ? {} : { volts: { vdc, lineRmsPromised: lineRmsVolts(m, vdc), lineRmsAtWorst: lineRmsVolts(r.mMax, vdc), phasePeakAtWorst: phasePeakVolts(r.mMax, vdc), shortfallLineRms: lineRmsVolts(Math.max(0, m - r.mMax), vdc) } }),
+    ...(vdc === undefined
+      ? {}
+      : {
+          volts: {
+            vdc,
+            lineRmsPromised: lineRmsVolts(m, vdc),
+            lineRmsAtWorst: lineRmsVolts(r.mMax, vdc),
+            phasePeakAtWorst: phasePeakVolts(r.mMax, vdc),
+            shortfallLineRms: lineRmsVolts(Math.max(0, m - r.mMax), vdc),
+          },
+        }),
   };
 }

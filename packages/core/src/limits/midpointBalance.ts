@@ -183,19 +183,27 @@ export function midpointProfile(diagrams: MidpointSource, mTop: number, loadAngl
       if (r0 <= 1e-12) {
         for (let j = 0; j < 4; j++) base[j] = (base[j] as number) + (p[2 + j] as number);
       } else if (prev && Math.abs((prev[1] as number) - r0) <= 1e-12) {
-        push(r0, (p[2] as number) - (prev[2] as number), (p[3] as number) - (prev[3] as number), (p[4] as number) - (prev[4] as number), (p[5] as number) - (prev[5] as number));
+        push(
+          r0,
+          (p[2] as number) - (prev[2] as number),
+          (p[3] as number) - (prev[3] as number),
+          (p[4] as number) - (prev[4] as number),
+          (p[5] as number) - (prev[5] as number),
+        );
         prev[1] = -1; // its end is accounted for
       } else {
-        if (prev && (prev[1] as number) >= 0 && (prev[1] as number) < mTop) push(prev[1] as number, -(prev[2] as number), -(prev[3] as number), -(prev[4] as number), -(prev[5] as number));
+        if (prev && (prev[1] as number) >= 0 && (prev[1] as number) < mTop)
+          push(prev[1] as number, -(prev[2] as number), -(prev[3] as number), -(prev[4] as number), -(prev[5] as number));
         push(r0, p[2] as number, p[3] as number, p[4] as number, p[5] as number);
       }
       prev = p;
     }
-    if (prev && (prev[1] as number) >= 0 && (prev[1] as number) < mTop - 1e-12) push(prev[1] as number, -(prev[2] as number), -(prev[3] as number), -(prev[4] as number), -(prev[5] as number));
+    if (prev && (prev[1] as number) >= 0 && (prev[1] as number) < mTop - 1e-12)
+      push(prev[1] as number, -(prev[2] as number), -(prev[3] as number), -(prev[4] as number), -(prev[5] as number));
     piece.length = 0;
     // the pieces of one ray must join up from 0; where they do not, the reference leaves the tiling
     let reach = 0;
-    for (let grew = true; grew; ) {
+    for (let grew = true; grew;) {
       grew = false;
       for (let p = 0; p < r0s.length; p++) {
         if ((r0s[p] as number) <= reach + 1e-9 && (r1s[p] as number) > reach) {
@@ -347,7 +355,7 @@ export function midpointRangeAt(p: MidpointProfile, m: number): readonly [number
 }
 
 /**
- * mMaxBalanced (contract, Version 2) from a profile: the largest m ≤ mTop such that zero average
+ * mMaxBalanced from a profile: the largest m ≤ mTop such that zero average
  * midpoint current is reachable at every m' ≤ m. Exact for the sampled θ: each linear piece of
  * `low` and `high` is solved for where it leaves [−tolerance, +tolerance].
  *

@@ -17,7 +17,7 @@ function sharedSectors(loadAngleDeg: number, marginDeg: number): readonly Polari
 
 /**
  * Which extent a limit is taken over: `tiling` — the admissible tiling (the safe limit, `mMax`);
- * `hull` — the convex hull of the surviving vectors (the first version's limit, `mMaxHull`).
+ * `hull` — the convex hull of the surviving vectors (the convex-hull bound, `mMaxHull`, not safe by itself).
  */
 export type ExtentKind = 'tiling' | 'hull';
 
@@ -67,7 +67,12 @@ export interface ModulationLimit {
  * modulationLimit(atlas.faulted, 30, 0).mMax;
  * ```
  */
-export function modulationLimit(diagrams: ReadonlyMap<PolarityString, PolarityDiagram>, loadAngleDeg: number, marginDeg: number, kind: ExtentKind = 'tiling'): ModulationLimit {
+export function modulationLimit(
+  diagrams: ReadonlyMap<PolarityString, PolarityDiagram>,
+  loadAngleDeg: number,
+  marginDeg: number,
+  kind: ExtentKind = 'tiling',
+): ModulationLimit {
   requireNumber(loadAngleDeg, 'modulationLimit', 'loadAngleDeg', { min: -360, max: 360 });
   requireNumber(marginDeg, 'modulationLimit', 'marginDeg', { min: 0, max: 60, openMax: true });
   const sectors = sharedSectors(loadAngleDeg, marginDeg);
@@ -124,7 +129,13 @@ const WORST_TIE = 1e-12;
  * limitOverLoadAngles(atlas.faulted, -30, 30, 5).mMax;
  * ```
  */
-export function limitOverLoadAngles(diagrams: ReadonlyMap<PolarityString, PolarityDiagram>, fromDeg: number, toDeg: number, marginDeg: number, kind: ExtentKind = 'tiling'): LimitOverRange {
+export function limitOverLoadAngles(
+  diagrams: ReadonlyMap<PolarityString, PolarityDiagram>,
+  fromDeg: number,
+  toDeg: number,
+  marginDeg: number,
+  kind: ExtentKind = 'tiling',
+): LimitOverRange {
   requireNumber(fromDeg, 'limitOverLoadAngles', 'fromDeg', { min: -180, max: 180 });
   requireNumber(toDeg, 'limitOverLoadAngles', 'toDeg', { min: fromDeg, max: 180 });
   requireNumber(marginDeg, 'limitOverLoadAngles', 'marginDeg', { min: 0, max: 60, openMax: true });
@@ -148,7 +159,13 @@ export function limitOverLoadAngles(diagrams: ReadonlyMap<PolarityString, Polari
       continue;
     }
     const e = m.edge === null ? null : g.edges[m.edge];
-    best = { mMax: prev === null ? m.value : Math.min(m.value, prev.mMax), loadAngleDeg: phi, limitingAngleDeg: angleOut(theta), limitingPolarity: s.polarity, bindingEdge: e ? [e.from, e.to] : null };
+    best = {
+      mMax: prev === null ? m.value : Math.min(m.value, prev.mMax),
+      loadAngleDeg: phi,
+      limitingAngleDeg: angleOut(theta),
+      limitingPolarity: s.polarity,
+      bindingEdge: e ? [e.from, e.to] : null,
+    };
   }
   return best as LimitOverRange;
 }

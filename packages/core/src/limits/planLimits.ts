@@ -48,6 +48,7 @@ function computeLimits(atlas: DiagramAtlas, loadAngleDeg: number, polarityMargin
   const hasMidpoint = dc.has(0) && dc.size >= 3;
   // a healthy leg draws no average midpoint current from a symmetric set (contract): no search
   const healthy = analysis.faults.length === 0 && analysis.bypass === null;
-  const mMaxBalanced = healthy || !hasMidpoint || limit.mMax <= 0 ? limit.mMax : balancedLimit(midpointProfile(atlas.faulted, limit.mMax, loadAngleDeg, polarityMarginDeg));
+  const mMaxBalanced =
+    healthy || !hasMidpoint || limit.mMax <= 0 ? limit.mMax : balancedLimit(midpointProfile(atlas.faulted, limit.mMax, loadAngleDeg, polarityMarginDeg));
   return { mMax: limit.mMax, mMaxBalanced, limit };
 }

@@ -57,7 +57,7 @@ export interface PlanPolarity {
   readonly triangles: readonly (readonly [number, number, number])[];
   /** First-version meaning: the largest origin-centred circle inside the hull. */
   readonly radius: number;
-  /** min over θ of the extent of the union of admissible triangles (Version 2). */
+  /** min over θ of the extent of the union of admissible triangles. */
   readonly reach: number;
   /**
    * Outline of the tiling as segments `[[α0, β0], [α1, β1]]` (the tiling on their left) when it does
@@ -90,11 +90,11 @@ export interface RemedialPlan {
   readonly faults: readonly string[];
   readonly loadAngleDeg: number;
   readonly polarityMarginDeg: number;
-  /** The safe limit: the extent of the admissible tiling, min over θ (Version 2). */
+  /** The safe limit: the extent of the admissible tiling, min over θ. */
   readonly mMax: number;
   readonly mMaxHealthy: number;
   readonly deratingRatio: number;
-  /** The first version's convex-hull limit (level sets with the ratings rule applied). */
+  /** The convex-hull bound (not safe by itself) (level sets with the ratings rule applied). */
   readonly mMaxHull: number;
   /** Largest m ≤ mMax up to which the average midpoint current can be held at zero. */
   readonly mMaxBalanced: number;
@@ -122,12 +122,12 @@ export interface RemedialPlan {
   readonly bypass: Phase | null;
   /**
    * The configurations the plan holds in (one alternative per failure, as fault strings); one for
-   * faults without alternatives (contract, Version 3: ambiguous diagnoses).
+   * faults without alternatives (ambiguous diagnoses, docs/remedial-options.md).
    */
   readonly alternatives?: readonly (readonly string[])[];
   /** The limit each configuration alone would give, in the order of `alternatives`. */
   readonly mMaxByAlternative?: readonly number[];
-  /** What could be done about the fault, best first (`planRemedial`; contract, Version 3). */
+  /** What could be done about the fault, best first (`planRemedial`; docs/remedial-options.md). */
   readonly remedies?: readonly Remedy[];
   readonly cautions: readonly string[];
 }
@@ -191,9 +191,13 @@ export function withRemedies(plan: RemedialPlan, atlas: DiagramAtlas, options: A
   const configs = atlas.analysis.configurations;
   const alternatives = configs.map((c) => c.map(formatFault));
   const { bypass, ...rest } = options;
-  const mMaxByAlternative = configs.length === 1
-    ? [plan.mMax]
-    : alternatives.map((faults) => planLimits(diagramAtlas({ ...rest, faults, ...(bypass === undefined ? {} : { bypass }) }), plan.loadAngleDeg, plan.polarityMarginDeg).mMax);
+  const mMaxByAlternative =
+    configs.length === 1
+      ? [plan.mMax]
+      : alternatives.map(
+          (faults) =>
+            planLimits(diagramAtlas({ ...rest, faults, ...(bypass === undefined ? {} : { bypass }) }), plan.loadAngleDeg, plan.polarityMarginDeg).mMax,
+        );
   const { cautions, volts, ...head } = plan;
   return {
     ...head,
@@ -243,7 +247,10 @@ export function planFromAtlas(atlas: DiagramAtlas, loadAngleDeg: number, polarit
   const leg = atlas.analysis.leg;
   const notes = [...new Set(lim.sectors.map((s) => s.polarity))]
     .filter((p) => !(atlas.faulted.get(p) as PolarityDiagram).exactTiling)
-    .map((p) => `polarity ${p}: no non-overlapping set of admissible triangles reaches as far as their union in every direction; mMax uses the tiling (${(atlas.faulted.get(p) as PolarityDiagram).reach.toFixed(4)} is the union's reach)`);
+    .map(
+      (p) =>
+        `polarity ${p}: no non-overlapping set of admissible triangles reaches as far as their union in every direction; mMax uses the tiling (${(atlas.faulted.get(p) as PolarityDiagram).reach.toFixed(4)} is the union's reach)`,
+    );
   notes.push(...bypassNotes(atlas));
   const polarities: Record<PolarityString, PlanPolarity> = {};
   for (const p of POLARITY_STRINGS) polarities[p] = polarityDocument(atlas.faulted.get(p) as PolarityDiagram);
@@ -263,7 +270,12 @@ export function planFromAtlas(atlas: DiagramAtlas, loadAngleDeg: number, polarit
     mMaxBalanced: balanced,
     limitingAngleDeg: lim.limitingAngleDeg,
     limitingPolarity: lim.limitingPolarity,
-    bindingEdge: lim.bindingEdge ? [vectorDocument(limitDiagram.vectors[lim.bindingEdge[0]] as ClassifiedVector), vectorDocument(limitDiagram.vectors[lim.bindingEdge[1]] as ClassifiedVector)] : null,
+    bindingEdge: lim.bindingEdge
+      ? [
+          vectorDocument(limitDiagram.vectors[lim.bindingEdge[0]] as ClassifiedVector),
+          vectorDocument(limitDiagram.vectors[lim.bindingEdge[1]] as ClassifiedVector),
+        ]
+      : null,
     rules: atlas.analysis.rules,
     unrated: atlas.analysis.unrated,
     restrictions: explainRestrictions(atlas.analysis),
@@ -284,11 +296,17 @@ export function planFromAtlas(atlas: DiagramAtlas, loadAngleDeg: number, polarit
 
 // Why the limit is 0: the polarity, the uncovered directions, and the faults' findings.
 function planStop(atlas: DiagramAtlas, d: PolarityDiagram, polarity: PolarityString): PlanStop {
-  const gapsDeg = originGaps(d.vectors.map((v) => [v.alpha, v.beta] as const), d.triangles);
-  const signs = parsePolarity(polarity).map((c, k) => `i${'abc'[k]} ${c === '+' ? '> 0' : c === '-' ? '< 0' : 'near zero'}`).join(', ');
-  const where = gapsDeg.length === 0 || (gapsDeg.length === 1 && (gapsDeg[0] as [number, number])[1] - (gapsDeg[0] as [number, number])[0] >= 360)
-    ? 'no admissible triangle has the origin as a corner: not even a zero voltage can be held'
-    : `no admissible triangle covers the directions ${gapsDeg.map(([f, t]) => `${fmtDeg(f)}° to ${fmtDeg(t)}°`).join(' and ')} next to the origin, so no small voltage can be made there`;
+  const gapsDeg = originGaps(
+    d.vectors.map((v) => [v.alpha, v.beta] as const),
+    d.triangles,
+  );
+  const signs = parsePolarity(polarity)
+    .map((c, k) => `i${'abc'[k]} ${c === '+' ? '> 0' : c === '-' ? '< 0' : 'near zero'}`)
+    .join(', ');
+  const where =
+    gapsDeg.length === 0 || (gapsDeg.length === 1 && (gapsDeg[0] as [number, number])[1] - (gapsDeg[0] as [number, number])[0] >= 360)
+      ? 'no admissible triangle has the origin as a corner: not even a zero voltage can be held'
+      : `no admissible triangle covers the directions ${gapsDeg.map(([f, t]) => `${fmtDeg(f)}° to ${fmtDeg(t)}°`).join(' and ')} next to the origin, so no small voltage can be made there`;
   const findings = faultReason(atlas.analysis, 0).details;
   const rules = atlas.analysis.rules.levelSteps === 'adjacent' ? ' under the adjacent rule (a phase steps only to a neighbouring level)' : '';
   return {
@@ -367,9 +385,13 @@ export function checkAngle(v: unknown, key: string, lo: number, hi: number, hiIn
 function bypassNotes(atlas: DiagramAtlas): string[] {
   const b = atlas.analysis.bypass;
   if (!b) return [];
-  const out = [`phase ${b.phase} bypassed: its output tied to the DC node ${b.node} (potential 0) by a fitted device, every gate of phase ${b.phase} off; it stays at 0 and never changes level`];
+  const out = [
+    `phase ${b.phase} bypassed: its output tied to the DC node ${b.node} (potential 0) by a fitted device, every gate of phase ${b.phase} off; it stays at 0 and never changes level`,
+  ];
   if (!atlas.analysis.faults.some((f) => f.phase === b.phase)) out.push(`phase ${b.phase} has no fault: the bypass takes a healthy phase out of use`);
-  out.push(`the DC midpoint carries phase ${b.phase}'s whole current: its voltage swings at the fundamental frequency by about 2·Î/(ω·2C) peak to peak (Î the phase current peak, ω = 2π·f1, C each half of the link; see simulate --capacitance)`);
+  out.push(
+    `the DC midpoint carries phase ${b.phase}'s whole current: its voltage swings at the fundamental frequency by about 2·Î/(ω·2C) peak to peak (Î the phase current peak, ω = 2π·f1, C each half of the link; see simulate --capacitance)`,
+  );
   if (b.unavailable) out.push(`the bypassed state is not usable: ${b.unavailable}`);
   return out;
 }

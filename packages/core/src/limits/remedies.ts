@@ -6,7 +6,7 @@ import { formatFault, PHASES, type Fault } from '../netlist/faults.js';
 import { limitOverLoadAngles } from './modulationLimit.js';
 import { planLimits } from './planLimits.js';
 
-/** One remedy: a change to the hardware (or none) and the limit it leaves (contract, Version 3). */
+/** One remedy: a change to the hardware (or none) and the limit it leaves. */
 export interface Remedy {
   /** `as-is`, `clear-shorts`, `bypass-<phase>` or `clear-shorts+bypass-<phase>`. */
   readonly id: string;
@@ -48,17 +48,41 @@ export function remedyCases(analysis: LegAnalysis, options: AnalyseLegOptions): 
   const cleared = analysis.failures.map((alternatives) => alternatives.map((f) => formatFault({ ...f, mode: 'open' })).join('|'));
   const { bypass: fitted, ...rest } = options;
   const base: AnalyseLegOptions = { ...rest, faults: texts };
-  const cases: RemedyCase[] = [{ id: 'as-is', description: fitted ? `run as it is, phase ${fitted} bypassed` : 'run the degraded table as it is', requires: 'nothing', options: { ...base, ...(fitted ? { bypass: fitted } : {}) } }];
+  const cases: RemedyCase[] = [
+    {
+      id: 'as-is',
+      description: fitted ? `run as it is, phase ${fitted} bypassed` : 'run the degraded table as it is',
+      requires: 'nothing',
+      options: { ...base, ...(fitted ? { bypass: fitted } : {}) },
+    },
+  ];
   const shortWords = shorts.map(formatFault).join(', ');
   const clearWords = `a series fuse or breaker that clears each short to an open (${shortWords})`;
-  if (shorts.length > 0) cases.push({ id: 'clear-shorts', description: `each short cleared to an open (${shortWords})`, requires: clearWords, options: { ...base, faults: cleared, ...(fitted ? { bypass: fitted } : {}) } });
+  if (shorts.length > 0)
+    cases.push({
+      id: 'clear-shorts',
+      description: `each short cleared to an open (${shortWords})`,
+      requires: clearWords,
+      options: { ...base, faults: cleared, ...(fitted ? { bypass: fitted } : {}) },
+    });
   const zero = Object.entries(analysis.leg.dcNodes).find(([, v]) => v === 0)?.[0];
   if (zero === undefined || fitted) return cases;
   const faulted = PHASES.filter((ph) => analysis.faults.some((f: Fault) => f.phase === ph));
   for (const ph of faulted) {
     const tie = `a bypass (a contactor or an antiparallel thyristor pair) from the output of phase ${ph} to the DC midpoint ${zero}, every gate of phase ${ph} held off`;
-    cases.push({ id: `bypass-${ph}`, description: `phase ${ph} tied to the DC midpoint ${zero}, its gates off`, requires: tie, options: { ...base, bypass: ph } });
-    if (shorts.length > 0) cases.push({ id: `clear-shorts+bypass-${ph}`, description: `each short cleared to an open, and phase ${ph} tied to the DC midpoint ${zero}`, requires: `${clearWords}, and ${tie}`, options: { ...base, faults: cleared, bypass: ph } });
+    cases.push({
+      id: `bypass-${ph}`,
+      description: `phase ${ph} tied to the DC midpoint ${zero}, its gates off`,
+      requires: tie,
+      options: { ...base, bypass: ph },
+    });
+    if (shorts.length > 0)
+      cases.push({
+        id: `clear-shorts+bypass-${ph}`,
+        description: `each short cleared to an open, and phase ${ph} tied to the DC midpoint ${zero}`,
+        requires: `${clearWords}, and ${tie}`,
+        options: { ...base, faults: cleared, bypass: ph },
+      });
   }
   return cases;
 }
@@ -112,7 +136,13 @@ export interface BestRemedy {
  * bestRemedy(atlas, { topology: 'two-level', faults: ['a.upper'] }, [-90, 90], 0, 0)?.id; // 'bypass-a' on a split link
  * ```
  */
-export function bestRemedy(atlas: DiagramAtlas, options: AnalyseLegOptions, range: readonly [number, number], polarityMarginDeg: number, asIs: number): BestRemedy | null {
+export function bestRemedy(
+  atlas: DiagramAtlas,
+  options: AnalyseLegOptions,
+  range: readonly [number, number],
+  polarityMarginDeg: number,
+  asIs: number,
+): BestRemedy | null {
   let best: BestRemedy | null = null;
   for (const c of remedyCases(atlas.analysis, options)) {
     if (c.id === 'as-is') continue;
@@ -144,5 +174,13 @@ function applicable(options: AnalyseLegOptions): DiagramAtlas | null {
 const UNFIT = new BoundedCache<boolean>(256);
 
 function byMerit(x: Remedy & { order: number }, y: Remedy & { order: number }): number {
-  return y.mMax - x.mMax > 1e-12 ? 1 : x.mMax - y.mMax > 1e-12 ? -1 : y.mMaxBalanced - x.mMaxBalanced > 1e-12 ? 1 : x.mMaxBalanced - y.mMaxBalanced > 1e-12 ? -1 : x.order - y.order;
+  return y.mMax - x.mMax > 1e-12
+    ? 1
+    : x.mMax - y.mMax > 1e-12
+      ? -1
+      : y.mMaxBalanced - x.mMaxBalanced > 1e-12
+        ? 1
+        : x.mMaxBalanced - y.mMaxBalanced > 1e-12
+          ? -1
+          : x.order - y.order;
 }

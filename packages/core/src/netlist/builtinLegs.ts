@@ -67,13 +67,16 @@ const LEGS: Record<BuiltinTopology, LegNetlist> = {
     devices: (() => {
       const line = { switching: 'line', technology: 'Si IGBT', ...HALF } as const;
       const sic = (id: string, from: string, to: string): DeviceSpec => ({
-        id, kind: 'mosfet', from, to, antiparallelDiode: true, switching: 'pwm', technology: 'SiC MOSFET', ...HALF,
+        id,
+        kind: 'mosfet',
+        from,
+        to,
+        antiparallelDiode: true,
+        switching: 'pwm',
+        technology: 'SiC MOSFET',
+        ...HALF,
       });
-      return [
-        ...clampedChain(sic, (id, from, to) => igbt(id, from, to, line)),
-        igbt('clampUpper', 'X', 'O', line),
-        igbt('clampLower', 'O', 'Y', line),
-      ];
+      return [...clampedChain(sic, (id, from, to) => igbt(id, from, to, line)), igbt('clampUpper', 'X', 'O', line), igbt('clampLower', 'O', 'Y', line)];
     })(),
     patterns: {
       P: ['outerUpper', 'innerUpper', 'clampLower'],
@@ -120,6 +123,7 @@ export function isBuiltinTopology(id: string): id is BuiltinTopology {
  * ```
  */
 export function builtinLeg(id: BuiltinTopology): LegNetlist {
-  if (typeof id !== 'string' || !isBuiltinTopology(id)) throw new HexsalvageInputError('topology', 'builtinLeg', 'id', `one of ${BUILTIN_TOPOLOGIES.join(', ')}`, id);
+  if (typeof id !== 'string' || !isBuiltinTopology(id))
+    throw new HexsalvageInputError('topology', 'builtinLeg', 'id', `one of ${BUILTIN_TOPOLOGIES.join(', ')}`, id);
   return JSON.parse(JSON.stringify(LEGS[id])) as LegNetlist;
 }

@@ -132,7 +132,8 @@ export function parseFailures(texts: readonly string[], leg: LegNetlist, input =
       seen.add(key);
     }
     combinations *= alternatives.length;
-    if (combinations > MAX_CONFIGURATIONS) throw new HexsalvageInputError('fault', input, t, `at most ${MAX_CONFIGURATIONS} combinations of alternatives in all (a documented limit)`, combinations);
+    if (combinations > MAX_CONFIGURATIONS)
+      throw new HexsalvageInputError('fault', input, t, `at most ${MAX_CONFIGURATIONS} combinations of alternatives in all (a documented limit)`, combinations);
     return alternatives;
   });
   return failures;

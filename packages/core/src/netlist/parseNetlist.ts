@@ -63,7 +63,8 @@ export function parseNetlist(value: unknown, input: string): LegNetlist {
 
   const name = doc.name;
   if (typeof name !== 'string' || name.trim() === '') throw err('name', 'a non-empty string', name);
-  if (name.length > 200 || hasInvisible(name)) throw err('name', 'a name of at most 200 visible characters (no control, bidirectional or zero-width characters)', name);
+  if (name.length > 200 || hasInvisible(name))
+    throw err('name', 'a name of at most 200 visible characters (no control, bidirectional or zero-width characters)', name);
   if (doc.description !== undefined && typeof doc.description !== 'string') throw err('description', 'a text (string), or no key', doc.description);
 
   const dcObj = asObject(doc.dcNodes, 'dcNodes', 'an object mapping DC node names to potentials in units of Vdc/2', err);
@@ -74,13 +75,18 @@ export function parseNetlist(value: unknown, input: string): LegNetlist {
     dcNodes[node] = v;
   }
   if (Object.keys(dcNodes).length < 2) throw err('dcNodes', 'at least two DC nodes', Object.keys(dcNodes).length);
-  if (Object.keys(dcNodes).length > NETLIST_LIMITS.dcNodes) throw err('dcNodes', `at most ${NETLIST_LIMITS.dcNodes} DC nodes (levels; a documented limit; it has ${Object.keys(dcNodes).length})`);
+  if (Object.keys(dcNodes).length > NETLIST_LIMITS.dcNodes)
+    throw err('dcNodes', `at most ${NETLIST_LIMITS.dcNodes} DC nodes (levels; a documented limit; it has ${Object.keys(dcNodes).length})`);
   const top = Math.max(...Object.values(dcNodes).map(Math.abs));
   if (!(top >= NETLIST_LIMITS.potentialMin && top <= NETLIST_LIMITS.potentialMax)) {
-    throw err('dcNodes', `potentials whose largest magnitude lies between ${NETLIST_LIMITS.potentialMin} and ${NETLIST_LIMITS.potentialMax} (write them in units of Vdc/2, or in volts)`);
+    throw err(
+      'dcNodes',
+      `potentials whose largest magnitude lies between ${NETLIST_LIMITS.potentialMin} and ${NETLIST_LIMITS.potentialMax} (write them in units of Vdc/2, or in volts)`,
+    );
   }
   for (const [node, v] of Object.entries(dcNodes)) {
-    if (v !== 0 && Math.abs(v) < NETLIST_LIMITS.resolution * top) throw err(`dcNodes.${node}`, `0, or a potential of at least ${NETLIST_LIMITS.resolution} times the largest`);
+    if (v !== 0 && Math.abs(v) < NETLIST_LIMITS.resolution * top)
+      throw err(`dcNodes.${node}`, `0, or a potential of at least ${NETLIST_LIMITS.resolution} times the largest`);
   }
   // Two DC nodes at one potential would be one node written twice (which of them a current returns
   // to would be arbitrary): each node has its own potential, so a link has a span.
@@ -97,7 +103,8 @@ export function parseNetlist(value: unknown, input: string): LegNetlist {
   if (output in dcNodes) throw err('output', 'a node that is not a DC node', output);
 
   if (!Array.isArray(doc.devices) || doc.devices.length === 0) throw err('devices', 'a non-empty array of devices', doc.devices);
-  if (doc.devices.length > NETLIST_LIMITS.devices) throw err('devices', `at most ${NETLIST_LIMITS.devices} devices (a documented limit; it has ${doc.devices.length})`);
+  if (doc.devices.length > NETLIST_LIMITS.devices)
+    throw err('devices', `at most ${NETLIST_LIMITS.devices} devices (a documented limit; it has ${doc.devices.length})`);
   const devices: DeviceSpec[] = [];
   const elementIds = new Set<string>();
   doc.devices.forEach((raw, i) => {
@@ -120,9 +127,11 @@ export function parseNetlist(value: unknown, input: string): LegNetlist {
   const patObj = asObject(doc.patterns, 'patterns', 'an object mapping pattern names to lists of gated switches', err);
   const gated = new Set(devices.filter((d) => d.kind !== 'diode').map((d) => d.id));
   const patterns: Record<string, string[]> = {};
-  if (Object.keys(patObj).length > NETLIST_LIMITS.patterns) throw err('patterns', `at most ${NETLIST_LIMITS.patterns} named patterns (a documented limit; it has ${Object.keys(patObj).length})`);
+  if (Object.keys(patObj).length > NETLIST_LIMITS.patterns)
+    throw err('patterns', `at most ${NETLIST_LIMITS.patterns} named patterns (a documented limit; it has ${Object.keys(patObj).length})`);
   for (const [pname, list] of Object.entries(patObj)) {
-    if (pname.trim() === '' || pname.length > 64 || hasInvisible(pname)) throw err('patterns', 'pattern names of 1 to 64 visible characters (no control, bidirectional or zero-width characters)', pname);
+    if (pname.trim() === '' || pname.length > 64 || hasInvisible(pname))
+      throw err('patterns', 'pattern names of 1 to 64 visible characters (no control, bidirectional or zero-width characters)', pname);
     if (!Array.isArray(list)) throw err(`patterns.${pname}`, 'an array of switch ids', list);
     const seen = new Set<string>();
     list.forEach((sw, j) => {
@@ -140,12 +149,17 @@ export function parseNetlist(value: unknown, input: string): LegNetlist {
   if (Object.keys(patterns).length === 0) throw err('patterns', 'at least one gate pattern');
   // the commutation search walks the subsets of the switches a change turns off and turns on
   const names = Object.keys(patterns);
-  for (const a of names) for (const b of names) {
-    const pa = patterns[a] as string[];
-    const pb = patterns[b] as string[];
-    const off = pa.filter((g) => !pb.includes(g)).length;
-    if (off > NETLIST_LIMITS.patternChange) throw err(`patterns.${b}`, `patterns that differ from each other in at most ${NETLIST_LIMITS.patternChange} switches each way (from ${a} it turns off ${off}; a documented limit)`);
-  }
+  for (const a of names)
+    for (const b of names) {
+      const pa = patterns[a] as string[];
+      const pb = patterns[b] as string[];
+      const off = pa.filter((g) => !pb.includes(g)).length;
+      if (off > NETLIST_LIMITS.patternChange)
+        throw err(
+          `patterns.${b}`,
+          `patterns that differ from each other in at most ${NETLIST_LIMITS.patternChange} switches each way (from ${a} it turns off ${off}; a documented limit)`,
+        );
+    }
 
   // frozen, and remembered as checked: passing it on (CLI → planRemedial) is not checked twice
   const leg: LegNetlist = deepFreeze({ name, dcNodes, output, devices, patterns });
@@ -184,7 +198,12 @@ function parseDevice(raw: unknown, at: string, err: (k: string, e: string, g?: u
 
 // A node that only one device touches is almost always a misspelt name; refuse it rather than
 // silently computing a leg with a dangling branch.
-function checkNodes(devices: DeviceSpec[], dcNodes: Record<string, number>, output: string, err: (k: string, e: string, g?: unknown) => HexsalvageInputError): void {
+function checkNodes(
+  devices: DeviceSpec[],
+  dcNodes: Record<string, number>,
+  output: string,
+  err: (k: string, e: string, g?: unknown) => HexsalvageInputError,
+): void {
   const uses = new Map<string, number>();
   for (const d of devices) for (const n of [d.from, d.to]) uses.set(n, (uses.get(n) ?? 0) + 1);
   if (!uses.has(output)) throw err('output', 'a node connected to at least one device', output);
@@ -193,7 +212,11 @@ function checkNodes(devices: DeviceSpec[], dcNodes: Record<string, number>, outp
       const n = d[side];
       if (n in dcNodes || n === output) continue;
       if ((uses.get(n) ?? 0) < 2) {
-        throw err(`devices[${i}].${side}`, `a DC node (${Object.keys(dcNodes).join(', ')}), the output "${output}", or an internal node shared by two or more devices`, n);
+        throw err(
+          `devices[${i}].${side}`,
+          `a DC node (${Object.keys(dcNodes).join(', ')}), the output "${output}", or an internal node shared by two or more devices`,
+          n,
+        );
       }
     }
   });
@@ -210,7 +233,8 @@ function checkParallel(devices: DeviceSpec[], err: (k: string, e: string, g?: un
     const key = [d.from, d.to].sort().join('\u0000');
     const n = (count.get(key) ?? 0) + 1;
     count.set(key, n);
-    if (n > NETLIST_LIMITS.parallelDevices) throw err(`devices[${i}]`, `at most ${NETLIST_LIMITS.parallelDevices} devices side by side between the same two nodes (a documented limit)`);
+    if (n > NETLIST_LIMITS.parallelDevices)
+      throw err(`devices[${i}]`, `at most ${NETLIST_LIMITS.parallelDevices} devices side by side between the same two nodes (a documented limit)`);
   });
 }
 

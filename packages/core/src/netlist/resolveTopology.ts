@@ -19,7 +19,13 @@ export function resolveTopology(topology: unknown, input = 'topology'): LegNetli
     if (isBuiltinTopology(topology)) return builtinLeg(topology);
     // a string that is not a built-in id is most likely a file path: the library takes objects (it
     // runs in browsers too), so say how to read a file
-    throw new HexsalvageInputError('topology', input, 'topology', `a built-in leg (${BUILTIN_TOPOLOGIES.join(', ')}) or a netlist object; to use a netlist file, read it first, e.g. in Node with loadNetlistFile(path) from '@hexsalvage/core/node'`, topology);
+    throw new HexsalvageInputError(
+      'topology',
+      input,
+      'topology',
+      `a built-in leg (${BUILTIN_TOPOLOGIES.join(', ')}) or a netlist object; to use a netlist file, read it first, e.g. in Node with loadNetlistFile(path) from '@hexsalvage/core/node'`,
+      topology,
+    );
   }
   return parseNetlist(topology, input);
 }

@@ -3,15 +3,7 @@
  * throws a {@link HexsalvageInputError} with one of these codes; nothing deeper in the engine
  * throws for numerical reasons (those are reported as data).
  */
-export type InputErrorCode =
-  | 'netlist'
-  | 'fault'
-  | 'topology'
-  | 'polarity'
-  | 'option'
-  | 'claims'
-  | 'scenario'
-  | 'usage';
+export type InputErrorCode = 'netlist' | 'fault' | 'topology' | 'polarity' | 'option' | 'claims' | 'scenario' | 'usage';
 
 /**
  * A typed error for bad input: names the input, the key and what was expected.
@@ -64,16 +56,40 @@ export class HexsalvageInputError extends Error {
  */
 export function plainText(text: string, max: number): string {
   const named: Record<string, string> = { '\n': '\\n', '\r': '\\r', '\t': '\\t' };
-  const esc = String(text).replace(INVISIBLE_G, (c) => named[c] ?? `\\u${c.charCodeAt(0).toString(16).padStart(4, '0')}`);
+  const raw = String(text);
+  let esc = '';
+  for (let i = 0; i < raw.length; i++) {
+    const c = raw[i] as string;
+    esc += invisibleUnit(raw.charCodeAt(i)) ? (named[c] ?? `\\u${c.charCodeAt(0).toString(16).padStart(4, '0')}`) : c;
+  }
   return esc.length > max ? `${esc.slice(0, max - 3)}...` : esc;
 }
 
 // Characters a terminal would act on or that print as nothing: C0 and C1 controls, DEL, line and
-// paragraph separators, bidirectional controls, zero-width and other invisible format characters.
-// eslint-disable-next-line no-control-regex
-const INVISIBLE_SOURCE = '[\\u0000-\\u001f\\u007f-\\u009f\\u00ad\\u034f\\u061c\\u115f\\u1160\\u17b4\\u17b5\\u180b-\\u180e\\u200b-\\u200f\\u2028-\\u202e\\u2060-\\u206f\\u3164\\ufe00-\\ufe0f\\ufeff\\uffa0\\ufff9-\\ufffb]';
-const INVISIBLE_G = new RegExp(INVISIBLE_SOURCE, 'g');
-const INVISIBLE = new RegExp(INVISIBLE_SOURCE);
+// paragraph separators, bidirectional controls, zero-width and other invisible format characters
+// (UTF-16 code-unit ranges, inclusive).
+const INVISIBLE_RANGES: readonly (readonly [number, number])[] = [
+  [0x0000, 0x001f],
+  [0x007f, 0x009f],
+  [0x00ad, 0x00ad],
+  [0x034f, 0x034f],
+  [0x061c, 0x061c],
+  [0x115f, 0x1160],
+  [0x17b4, 0x17b5],
+  [0x180b, 0x180e],
+  [0x200b, 0x200f],
+  [0x2028, 0x202e],
+  [0x2060, 0x206f],
+  [0x3164, 0x3164],
+  [0xfe00, 0xfe0f],
+  [0xfeff, 0xfeff],
+  [0xffa0, 0xffa0],
+  [0xfff9, 0xfffb],
+];
+
+function invisibleUnit(code: number): boolean {
+  return INVISIBLE_RANGES.some(([lo, hi]) => code >= lo && code <= hi);
+}
 
 /**
  * Whether a text holds a character a terminal would act on or that prints as nothing (controls,
@@ -87,7 +103,8 @@ const INVISIBLE = new RegExp(INVISIBLE_SOURCE);
  * ```
  */
 export function hasInvisible(text: string): boolean {
-  return INVISIBLE.test(text);
+  for (let i = 0; i < text.length; i++) if (invisibleUnit(text.charCodeAt(i))) return true;
+  return false;
 }
 
 /** A value read from a file, shown in messages by its kind only (messages never quote files). */
@@ -123,7 +140,11 @@ function describeValue(v: unknown): string {
     if (Array.isArray(x)) return 'an array';
     return typeof x === 'object' ? 'an object' : typeof x;
   }
-  if (typeof v === 'string') return `"${plainText(v.replace(/["\\]/g, (c) => `\\${c}`), 60)}"`;
+  if (typeof v === 'string')
+    return `"${plainText(
+      v.replace(/["\\]/g, (c) => `\\${c}`),
+      60,
+    )}"`;
   if (typeof v === 'number' || typeof v === 'boolean' || v === null) return String(v);
   if (Array.isArray(v)) return 'an array';
   return typeof v === 'object' ? 'an object' : typeof v;

@@ -78,7 +78,11 @@ function checkJson(text: string, bad: (key: string, expected: string) => Hexsalv
         if (text[i] !== '"') fail('a key in double quotes expected');
         const at = i;
         const k = str();
-        if (keys.has(k)) throw bad('(document)', `each key at most once in an object (key ${JSON.stringify(k.length > 40 ? `${k.slice(0, 37)}...` : k)} repeats at ${where(at)})`);
+        if (keys.has(k))
+          throw bad(
+            '(document)',
+            `each key at most once in an object (key ${JSON.stringify(k.length > 40 ? `${k.slice(0, 37)}...` : k)} repeats at ${where(at)})`,
+          );
         keys.add(k);
         ws();
         if (text[i++] !== ':') fail('":" expected');

@@ -71,7 +71,8 @@ export function modulationOfLineRms(lineRmsV: number, vdc: number): number {
  * ```
  */
 export function requireVdc(v: unknown, input: string, key: string): number {
-  if (typeof v !== 'number' || !Number.isFinite(v) || v <= 0 || v > 1e7) throw new HexsalvageInputError('option', input, key, 'a DC-link voltage in volts, above 0 and at most 1e7', v);
+  if (typeof v !== 'number' || !Number.isFinite(v) || v <= 0 || v > 1e7)
+    throw new HexsalvageInputError('option', input, key, 'a DC-link voltage in volts, above 0 and at most 1e7', v);
   return v;
 }
 

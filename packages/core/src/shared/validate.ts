@@ -46,11 +46,18 @@ export interface NumberRange {
  */
 export function requireNumber(v: unknown, input: string, key: string, range: NumberRange = {}): number {
   const { min = -Infinity, max = Infinity, openMin = false, openMax = false, integer = false } = range;
-  const ok = typeof v === 'number' && Number.isFinite(v) && (openMin ? v > min : v >= min) && (openMax ? v < max : v <= max) && (!integer || Number.isInteger(v));
+  const ok =
+    typeof v === 'number' && Number.isFinite(v) && (openMin ? v > min : v >= min) && (openMax ? v < max : v <= max) && (!integer || Number.isInteger(v));
   if (!ok) {
     const lo = Number.isFinite(min) ? `${openMin ? 'above' : 'from'} ${min}` : '';
     const hi = Number.isFinite(max) ? `${openMax ? 'below' : 'up to'} ${max}` : '';
-    throw new HexsalvageInputError('option', input, key, `${integer ? 'a whole number' : 'a finite number'}${lo || hi ? ` ${[lo, hi].filter(Boolean).join(' ')}` : ''}`, v);
+    throw new HexsalvageInputError(
+      'option',
+      input,
+      key,
+      `${integer ? 'a whole number' : 'a finite number'}${lo || hi ? ` ${[lo, hi].filter(Boolean).join(' ')}` : ''}`,
+      v,
+    );
   }
   return v as number;
 }

@@ -91,7 +91,12 @@ export function elementParameters(set: DeviceParameterSet, e: LegElement, kindOf
       return { part: e.kind === 'mosfet' ? 'mosfet' : 'igbt', p: part as SwitchParameters, rth: d.thermalResistance };
     }
   }
-  throw new HexsalvageInputError('option', set.name, `devices.${e.device}.${want}`, `loss parameters for ${e.id} (a "${want}" entry under "${e.device}", "${kindOfDevice}" or "*")`);
+  throw new HexsalvageInputError(
+    'option',
+    set.name,
+    `devices.${e.device}.${want}`,
+    `loss parameters for ${e.id} (a "${want}" entry under "${e.device}", "${kindOfDevice}" or "*")`,
+  );
 }
 
 /**
@@ -144,12 +149,15 @@ export function eventEnergy(eRef: number, vRef: number, iRef: number, v: number,
  * ```
  */
 export function parseDeviceParameters(doc: unknown, input: string): DeviceParameterSet {
-  const err = (key: string, expected: string, got?: unknown) => new HexsalvageInputError('option', input, key, expected, got === undefined ? undefined : fileValue(got));
-  if (typeof doc !== 'object' || doc === null || Array.isArray(doc)) throw err('(document)', 'an object { "name", "devices": { ID|KIND|"*": { "switch"?, "diode"?, "thermalResistance"? } } }', doc);
+  const err = (key: string, expected: string, got?: unknown) =>
+    new HexsalvageInputError('option', input, key, expected, got === undefined ? undefined : fileValue(got));
+  if (typeof doc !== 'object' || doc === null || Array.isArray(doc))
+    throw err('(document)', 'an object { "name", "devices": { ID|KIND|"*": { "switch"?, "diode"?, "thermalResistance"? } } }', doc);
   const o = doc as Record<string, unknown>;
   for (const k of Object.keys(o)) if (!['$schema', 'name', 'devices'].includes(k)) throw err(k, 'one of the keys name, devices', k);
   if (typeof o.name !== 'string' || o.name === '') throw err('name', 'a name for the parameter set', o.name);
-  if (typeof o.devices !== 'object' || o.devices === null || Array.isArray(o.devices)) throw err('devices', 'an object keyed by device id, kind or "*"', o.devices);
+  if (typeof o.devices !== 'object' || o.devices === null || Array.isArray(o.devices))
+    throw err('devices', 'an object keyed by device id, kind or "*"', o.devices);
   const num = (v: unknown, key: string, min = 0) => {
     if (typeof v !== 'number' || !Number.isFinite(v) || v < min || v > 1e6) throw err(key, `a number from ${min} up to 1e6`, v);
     return v;
@@ -163,12 +171,14 @@ export function parseDeviceParameters(doc: unknown, input: string): DeviceParame
     const at = `devices.${id}`;
     if (typeof raw !== 'object' || raw === null || Array.isArray(raw)) throw err(at, 'an object { "switch"?, "diode"?, "thermalResistance"? }', raw);
     const r = raw as Record<string, unknown>;
-    for (const k of Object.keys(r)) if (!['switch', 'diode', 'thermalResistance'].includes(k)) throw err(`${at}.${k}`, 'one of switch, diode, thermalResistance', k);
+    for (const k of Object.keys(r))
+      if (!['switch', 'diode', 'thermalResistance'].includes(k)) throw err(`${at}.${k}`, 'one of switch, diode, thermalResistance', k);
     let sw: SwitchParameters | undefined;
     if (r.switch !== undefined) {
       const s = r.switch as Record<string, unknown>;
       if (typeof s !== 'object' || s === null) throw err(`${at}.switch`, 'an object', s);
-      for (const k of Object.keys(s)) if (!['v0', 'r', 'rOn', 'eOn', 'eOff', 'vRef', 'iRef'].includes(k)) throw err(`${at}.switch.${k}`, 'one of v0, r, rOn, eOn, eOff, vRef, iRef', k);
+      for (const k of Object.keys(s))
+        if (!['v0', 'r', 'rOn', 'eOn', 'eOff', 'vRef', 'iRef'].includes(k)) throw err(`${at}.switch.${k}`, 'one of v0, r, rOn, eOn, eOff, vRef, iRef', k);
       sw = {
         ...(s.v0 !== undefined ? { v0: num(s.v0, `${at}.switch.v0`) } : {}),
         ...(s.r !== undefined ? { r: num(s.r, `${at}.switch.r`) } : {}),
@@ -184,7 +194,13 @@ export function parseDeviceParameters(doc: unknown, input: string): DeviceParame
       const s = r.diode as Record<string, unknown>;
       if (typeof s !== 'object' || s === null) throw err(`${at}.diode`, 'an object', s);
       for (const k of Object.keys(s)) if (!['v0', 'r', 'eRec', 'vRef', 'iRef'].includes(k)) throw err(`${at}.diode.${k}`, 'one of v0, r, eRec, vRef, iRef', k);
-      di = { v0: num(s.v0, `${at}.diode.v0`), r: num(s.r, `${at}.diode.r`), eRec: num(s.eRec, `${at}.diode.eRec`), vRef: pos(s.vRef, `${at}.diode.vRef`), iRef: pos(s.iRef, `${at}.diode.iRef`) };
+      di = {
+        v0: num(s.v0, `${at}.diode.v0`),
+        r: num(s.r, `${at}.diode.r`),
+        eRec: num(s.eRec, `${at}.diode.eRec`),
+        vRef: pos(s.vRef, `${at}.diode.vRef`),
+        iRef: pos(s.iRef, `${at}.diode.iRef`),
+      };
     }
     const rth = r.thermalResistance === undefined ? undefined : pos(r.thermalResistance, `${at}.thermalResistance`);
     devices[id] = { ...(sw ? { switch: sw } : {}), ...(di ? { diode: di } : {}), ...(rth !== undefined ? { thermalResistance: rth } : {}) };

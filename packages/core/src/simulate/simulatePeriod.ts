@@ -61,7 +61,13 @@ export interface DeviceResult {
 
 /** The results for one leg (faulted or healthy) at the same operating point. */
 export interface SimulationResult {
-  readonly lineVoltage: { readonly fundamentalPeak: number; readonly thd: number; readonly wthd: number; readonly rms: number; readonly harmonics: readonly (readonly [number, number])[] };
+  readonly lineVoltage: {
+    readonly fundamentalPeak: number;
+    readonly thd: number;
+    readonly wthd: number;
+    readonly rms: number;
+    readonly harmonics: readonly (readonly [number, number])[];
+  };
   /** Per element `phase.element`, every element of every phase. */
   readonly devices: Readonly<Record<string, DeviceResult>>;
   /** The surviving element with the largest total loss, and that loss in watts. */
@@ -204,7 +210,11 @@ interface RunInputs {
 
 // The options checked once, and the plan they must respect (m at most its mMax).
 function prepare(options: SimulateOptions): { run: RunInputs; plan: ReturnType<typeof planFromAtlas>; atlas: DiagramAtlas } {
-  requireObject(options, 'simulatePeriod', 'an options object { topology, faults?, m, loadAngleDeg, vdc, currentPeak, f1, fsw, devices?, capacitance?, deadTime? }');
+  requireObject(
+    options,
+    'simulatePeriod',
+    'an options object { topology, faults?, m, loadAngleDeg, vdc, currentPeak, f1, fsw, devices?, capacitance?, deadTime? }',
+  );
   const vdc = requireVdc(options.vdc, 'simulatePeriod', 'vdc');
   const m = requireNumber(options.m, 'simulatePeriod', 'm', { min: 0, max: 10 });
   const phi = requireNumber(options.loadAngleDeg, 'simulatePeriod', 'loadAngleDeg', { min: -180, max: 180 });
@@ -213,10 +223,21 @@ function prepare(options: SimulateOptions): { run: RunInputs; plan: ReturnType<t
   const f1 = requireNumber(options.f1, 'simulatePeriod', 'f1', { min: 0, openMin: true, max: 1e5 });
   const fsw = requireNumber(options.fsw, 'simulatePeriod', 'fsw', { min: 6 * f1, max: 1e8 });
   const periods = Math.round(fsw / f1);
-  if (periods > MAX_SIMULATED_PERIODS) throw new HexsalvageInputError('option', 'simulatePeriod', 'fsw', `at most ${MAX_SIMULATED_PERIODS} switching periods per fundamental (fsw/f1; a documented limit)`, fsw);
+  if (periods > MAX_SIMULATED_PERIODS)
+    throw new HexsalvageInputError(
+      'option',
+      'simulatePeriod',
+      'fsw',
+      `at most ${MAX_SIMULATED_PERIODS} switching periods per fundamental (fsw/f1; a documented limit)`,
+      fsw,
+    );
   const td = requireNumber(options.deadTime ?? 0, 'simulatePeriod', 'deadTime', { min: 0, max: 0.1 / fsw });
-  const cap = options.capacitance === undefined ? undefined : requireNumber(options.capacitance, 'simulatePeriod', 'capacitance', { min: 0, openMin: true, max: 1e3 });
-  const maxH = options.maxHarmonic === undefined ? 4 * periods + 2 : requireNumber(options.maxHarmonic, 'simulatePeriod', 'maxHarmonic', { min: 1, max: 200000, integer: true });
+  const cap =
+    options.capacitance === undefined ? undefined : requireNumber(options.capacitance, 'simulatePeriod', 'capacitance', { min: 0, openMin: true, max: 1e3 });
+  const maxH =
+    options.maxHarmonic === undefined
+      ? 4 * periods + 2
+      : requireNumber(options.maxHarmonic, 'simulatePeriod', 'maxHarmonic', { min: 1, max: 200000, integer: true });
   const { sequence, balance } = runtimeOptions({ sequence: options.sequence, balance: options.balance }, 'simulatePeriod');
   const update = options.update ?? 'half';
   if (!(UPDATE_MODES as readonly unknown[]).includes(update)) throw new HexsalvageInputError('option', 'simulatePeriod', 'update', 'period or half', update);
@@ -226,9 +247,21 @@ function prepare(options: SimulateOptions): { run: RunInputs; plan: ReturnType<t
   const atlas = diagramAtlas({ topology: options.topology, faults, ...rules });
   const plan = planFromAtlas(atlas, phi, delta);
   if (m > plan.mMax + 1e-12) {
-    throw new HexsalvageInputError('option', 'simulatePeriod', 'm', plan.mMax === 0 ? 'nothing: the drive cannot run in this state (mMax = 0 at this load angle)' : `at most mMax = ${plan.mMax.toFixed(6)} at this load angle`, m);
+    throw new HexsalvageInputError(
+      'option',
+      'simulatePeriod',
+      'm',
+      plan.mMax === 0
+        ? 'nothing: the drive cannot run in this state (mMax = 0 at this load angle)'
+        : `at most mMax = ${plan.mMax.toFixed(6)} at this load angle`,
+      m,
+    );
   }
-  return { run: { topology: options.topology, faults, rules, m, phi, delta, vdc, ipk, f1, periods, cap, maxH, params, td, sequence, balance, update }, plan, atlas };
+  return {
+    run: { topology: options.topology, faults, rules, m, phi, delta, vdc, ipk, f1, periods, cap, maxH, params, td, sequence, balance, update },
+    plan,
+    atlas,
+  };
 }
 
 interface RunOutput {
@@ -279,7 +312,15 @@ interface Change {
 
 function runPeriod(x: RunInputs, atlas: DiagramAtlas): RunOutput {
   const table = switchingTableFromAtlas(atlas);
-  const stream = runtimeStream(table, { m: x.m, loadAngleDeg: x.phi, polarityMarginDeg: x.delta, frequencyRatio: x.periods, update: x.update, sequence: x.sequence, balance: x.balance });
+  const stream = runtimeStream(table, {
+    m: x.m,
+    loadAngleDeg: x.phi,
+    polarityMarginDeg: x.delta,
+    frequencyRatio: x.periods,
+    update: x.update,
+    sequence: x.sequence,
+    balance: x.balance,
+  });
   const analysis = atlas.analysis;
   const leg = analysis.leg;
   const elements = expandElements(leg);
@@ -298,7 +339,9 @@ function runPeriod(x: RunInputs, atlas: DiagramAtlas): RunOutput {
   const paramsOf = parameterLookup(x.params, elementById, kindOf);
   const paths = pathLookup(leg, elements, phaseFaults, paramsOf);
   const { spans, changes } = gateTimeline(stream.segments, leg, T, x.td, x.periods);
-  const acc = new Map<string, { abs: number; sq: number; esw: number }>(PHASES.flatMap((ph) => elements.map((e) => [`${ph}.${e.id}`, { abs: 0, sq: 0, esw: 0 }] as const)));
+  const acc = new Map<string, { abs: number; sq: number; esw: number }>(
+    PHASES.flatMap((ph) => elements.map((e) => [`${ph}.${e.id}`, { abs: 0, sq: 0, esw: 0 }] as const)),
+  );
 
   // switching energy of every change (see docs/simulate.md: which element takes which energy)
   for (const c of changes) chargeChange(c, paths, current, half, phaseFaults, paramsOf, acc);
@@ -345,7 +388,10 @@ function runPeriod(x: RunInputs, atlas: DiagramAtlas): RunOutput {
       const i2 = integralSq(x.ipk, w, psi[k] as number, a, b);
       for (const id of (chosen[k] as CurrentPath).elements) {
         const e = acc.get(`${PHASES[k]}.${id}`);
-        if (e) { e.abs += ia; e.sq += i2; }
+        if (e) {
+          e.abs += ia;
+          e.sq += i2;
+        }
       }
       // current into the midpoint node: −i_k for a phase at its potential, = A cos wt + B sin wt
       if (hasMidpoint && levels[k] === 0) {
@@ -355,7 +401,8 @@ function runPeriod(x: RunInputs, atlas: DiagramAtlas): RunOutput {
     }
     line.add(a, b, ((levels[0] as number) - (levels[1] as number)) * half);
     segments.push({
-      t0: a, t1: b,
+      t0: a,
+      t1: b,
       phaseVolts: [(levels[0] as number) * half, (levels[1] as number) * half, (levels[2] as number) * half],
       midpointVolts: x.cap ? mid.charge / (2 * x.cap) : 0,
       paths: [chosen[0]!.elements, chosen[1]!.elements, chosen[2]!.elements],
@@ -369,7 +416,11 @@ function runPeriod(x: RunInputs, atlas: DiagramAtlas): RunOutput {
 }
 
 // Every element's parameters, found once.
-function parameterLookup(set: DeviceParameterSet, elementById: ReadonlyMap<string, LegElement>, kindOf: ReadonlyMap<string, string>): (id: string) => ElementParameters {
+function parameterLookup(
+  set: DeviceParameterSet,
+  elementById: ReadonlyMap<string, LegElement>,
+  kindOf: ReadonlyMap<string, string>,
+): (id: string) => ElementParameters {
   const cache = new Map<string, ElementParameters>();
   return (id) => {
     let p = cache.get(id);
@@ -389,7 +440,12 @@ type PathLookup = (k: number, gates: readonly string[], key: string, sign: Curre
 // channel, none for a shorted element), each hop by its element of lowest voltage; node paths and
 // their elements' parameters cached per state and sign.
 function pathLookup(leg: LegNetlist, elements: readonly LegElement[], faults: readonly PhaseFaults[], paramsOf: (id: string) => ElementParameters): PathLookup {
-  interface Hop { readonly ids: readonly string[]; readonly forward: readonly boolean[]; readonly v0: Float64Array; readonly r: Float64Array }
+  interface Hop {
+    readonly ids: readonly string[];
+    readonly forward: readonly boolean[];
+    readonly v0: Float64Array;
+    readonly r: Float64Array;
+  }
   const cache = new Map<string, { level: number | null; paths: readonly (readonly Hop[])[] }>();
   const none: CurrentPath = { elements: [], forward: [] };
   return (k, gates, key, sign, i) => {
@@ -404,12 +460,14 @@ function pathLookup(leg: LegNetlist, elements: readonly LegElement[], faults: re
       };
       c = {
         level: pc.level,
-        paths: pc.paths.map((p) => p.hops.map((h) => ({
-          ids: h.map((b) => b.element),
-          forward: h.map((b) => b.forward),
-          v0: Float64Array.from(h, (b) => drop(b.element)[0]),
-          r: Float64Array.from(h, (b) => drop(b.element)[1]),
-        }))),
+        paths: pc.paths.map((p) =>
+          p.hops.map((h) => ({
+            ids: h.map((b) => b.element),
+            forward: h.map((b) => b.forward),
+            v0: Float64Array.from(h, (b) => drop(b.element)[0]),
+            r: Float64Array.from(h, (b) => drop(b.element)[1]),
+          })),
+        ),
       };
       cache.set(ck, c);
     }
@@ -478,7 +536,15 @@ function gateTimeline(stream: readonly StreamSegment[], leg: LegNetlist, T: numb
 // switch not gated) takes its recovery; at turn-on (tOn) a switch that takes the current over with
 // a level change takes E_on, and the diode it relieves its recovery. Energies scale with the
 // current and the level step. Failed elements take none.
-function chargeChange(c: Change, paths: PathLookup, current: (k: number, t: number) => number, half: number, faults: readonly PhaseFaults[], paramsOf: (id: string) => ElementParameters, acc: Map<string, { abs: number; sq: number; esw: number }>): void {
+function chargeChange(
+  c: Change,
+  paths: PathLookup,
+  current: (k: number, t: number) => number,
+  half: number,
+  faults: readonly PhaseFaults[],
+  paramsOf: (id: string) => ElementParameters,
+  acc: Map<string, { abs: number; sq: number; esw: number }>,
+): void {
   const k = c.phase;
   const ph = PHASES[k] as string;
   const healthy = (id: string) => !(faults[k] as PhaseFaults).has(id);
@@ -486,7 +552,14 @@ function chargeChange(c: Change, paths: PathLookup, current: (k: number, t: numb
   const charge = (id: string, what: 'eOn' | 'eOff' | 'eRec', volts: number, amps: number) => {
     if (!healthy(id) || volts <= 0 || amps <= 0) return;
     const ep = paramsOf(id);
-    const e = what === 'eRec' ? (ep.part === 'diode' ? eventEnergy(ep.p.eRec, ep.p.vRef, ep.p.iRef, volts, amps) : 0) : ep.part === 'diode' ? 0 : eventEnergy(ep.p[what], ep.p.vRef, ep.p.iRef, volts, amps);
+    const e =
+      what === 'eRec'
+        ? ep.part === 'diode'
+          ? eventEnergy(ep.p.eRec, ep.p.vRef, ep.p.iRef, volts, amps)
+          : 0
+        : ep.part === 'diode'
+          ? 0
+          : eventEnergy(ep.p[what], ep.p.vRef, ep.p.iRef, volts, amps);
     const a = acc.get(`${ph}.${id}`);
     if (a) a.esw += e;
   };
@@ -540,7 +613,11 @@ class LineVoltage {
   sq = 0;
   private value = NaN;
   private start = 0;
-  constructor(private readonly maxH: number, private readonly w: number, readonly T: number) {
+  constructor(
+    private readonly maxH: number,
+    private readonly w: number,
+    readonly T: number,
+  ) {
     this.an = new Float64Array(maxH + 1);
     this.bn = new Float64Array(maxH + 1);
   }
@@ -619,8 +696,19 @@ class MidpointCharge {
 }
 
 function summarise(
-  x: RunInputs, hasMidpoint: boolean, acc: ReadonlyMap<string, { abs: number; sq: number; esw: number }>, line: LineVoltage, mid: MidpointCharge, wrong: number, interrupted: number,
-  stream: ReturnType<typeof runtimeStream>, faults: readonly PhaseFaults[], paramsOf: (id: string) => ElementParameters, lineDevices: ReadonlySet<string>, segments: WaveformSegment[], T: number,
+  x: RunInputs,
+  hasMidpoint: boolean,
+  acc: ReadonlyMap<string, { abs: number; sq: number; esw: number }>,
+  line: LineVoltage,
+  mid: MidpointCharge,
+  wrong: number,
+  interrupted: number,
+  stream: ReturnType<typeof runtimeStream>,
+  faults: readonly PhaseFaults[],
+  paramsOf: (id: string) => ElementParameters,
+  lineDevices: ReadonlySet<string>,
+  segments: WaveformSegment[],
+  T: number,
 ): RunOutput {
   const harmonics = line.harmonics();
   const v1 = harmonics[0]?.[1] ?? 0;
@@ -644,7 +732,13 @@ function summarise(
     const ep = paramsOf(element);
     const cond = failed === 'open' ? 0 : conductionLoss(ep, avg, rmsI);
     const sw = failed ? 0 : e.esw / T;
-    devices[id] = { avgCurrent: failed === 'open' ? 0 : avg, rmsCurrent: failed === 'open' ? 0 : rmsI, conductionLoss: cond, switchingLoss: sw, ...(failed ? { failed } : {}) };
+    devices[id] = {
+      avgCurrent: failed === 'open' ? 0 : avg,
+      rmsCurrent: failed === 'open' ? 0 : rmsI,
+      conductionLoss: cond,
+      switchingLoss: sw,
+      ...(failed ? { failed } : {}),
+    };
     if (failed) continue;
     // at x times the current: v0·Iavg and switching scale with x, r·Irms² with x²
     const lin = (ep.part === 'mosfet' ? 0 : (ep.p.v0 ?? 0) * avg) + sw;

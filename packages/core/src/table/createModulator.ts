@@ -52,7 +52,9 @@ export interface Modulator {
 }
 
 /** Source of a modulator: a plan (`planRemedial`) or a switching table (`switchingTable`). */
-export type ModulatorSource = { readonly polarities: Readonly<Record<PolarityString, PlanPolarity & { readonly tableTriangles?: readonly SequencedTriangle[] }>> };
+export type ModulatorSource = {
+  readonly polarities: Readonly<Record<PolarityString, PlanPolarity & { readonly tableTriangles?: readonly SequencedTriangle[] }>>;
+};
 
 /**
  * What the modulator reads of a switching table's triangle: the triplet its sequence chose for each
@@ -101,12 +103,29 @@ interface Prepared {
  * ```
  */
 export function createModulator(source: ModulatorSource): Modulator {
-  const polarities = requireObject(requireObject(source, 'createModulator', 'a plan or a switching table (with "polarities")').polarities, 'createModulator', 'a plan or a switching table: its "polarities" object');
+  const polarities = requireObject(
+    requireObject(source, 'createModulator', 'a plan or a switching table (with "polarities")').polarities,
+    'createModulator',
+    'a plan or a switching table: its "polarities" object',
+  );
   const prepared: (Prepared | null)[] = POLARITY_STRINGS.map((p) => {
     const d = Object.prototype.hasOwnProperty.call(polarities, p) ? (polarities[p] as ModulatorSource['polarities'][string]) : undefined;
     if (d === undefined) return null;
-    const ok = typeof d === 'object' && d !== null && Array.isArray(d.triangles) && Array.isArray(d.dwell) && Array.isArray(d.vectors) && Array.isArray(d.hull) && d.dwell.length === d.triangles.length;
-    if (!ok) throw new HexsalvageInputError('option', 'createModulator', `polarities.${p}`, 'a polarity with vectors, hull, triangles and one dwell matrix per triangle');
+    const ok =
+      typeof d === 'object' &&
+      d !== null &&
+      Array.isArray(d.triangles) &&
+      Array.isArray(d.dwell) &&
+      Array.isArray(d.vectors) &&
+      Array.isArray(d.hull) &&
+      d.dwell.length === d.triangles.length;
+    if (!ok)
+      throw new HexsalvageInputError(
+        'option',
+        'createModulator',
+        `polarities.${p}`,
+        'a polarity with vectors, hull, triangles and one dwell matrix per triangle',
+      );
     return prepare(d);
   });
   return modulatorFrom(prepared);
@@ -141,8 +160,15 @@ function modulatorFrom(prepared: readonly (Prepared | null)[]): Modulator {
   // every polarity's dwell matrices in one array, and where each polarity's last triangle starts
   // in it: the fast path then reads two typed arrays and nothing else
   const base = new Int32Array(POLARITY_STRINGS.length);
-  const all = new Float64Array(prepared.reduce((n, pr, k) => { base[k] = n; return n + (pr ? pr.m.length : 0); }, 0));
-  prepared.forEach((pr, k) => { if (pr) all.set(pr.m, base[k] as number); });
+  const all = new Float64Array(
+    prepared.reduce((n, pr, k) => {
+      base[k] = n;
+      return n + (pr ? pr.m.length : 0);
+    }, 0),
+  );
+  prepared.forEach((pr, k) => {
+    if (pr) all.set(pr.m, base[k] as number);
+  });
   const lastAt = new Int32Array(POLARITY_STRINGS.length).fill(-1);
 
   const run = (alpha: number, beta: number, k: number, out: Float64Array): number => {
@@ -215,29 +241,47 @@ function modulatorFrom(prepared: readonly (Prepared | null)[]): Modulator {
       const t = run(alpha, beta, k, scratch);
       if (t < 0) {
         if (!(Math.abs(alpha) <= REFERENCE_LIMIT && Math.abs(beta) <= REFERENCE_LIMIT)) {
-          throw new HexsalvageInputError('option', 'modulate', 'alpha/beta', `finite numbers within ±${REFERENCE_LIMIT} (units of Vdc/2)`, Math.abs(alpha) <= REFERENCE_LIMIT ? beta : alpha);
+          throw new HexsalvageInputError(
+            'option',
+            'modulate',
+            'alpha/beta',
+            `finite numbers within ±${REFERENCE_LIMIT} (units of Vdc/2)`,
+            Math.abs(alpha) <= REFERENCE_LIMIT ? beta : alpha,
+          );
         }
         return { triangle: -1, dwell: [0, 0, 0], vertices: [], clamped: true };
       }
-      return { triangle: t, dwell: [scratch[0] as number, scratch[1] as number, scratch[2] as number], vertices: (prepared[k] as Prepared).vertices[t] as LevelTriplet[], clamped: scratch[3] === 1 };
+      return {
+        triangle: t,
+        dwell: [scratch[0] as number, scratch[1] as number, scratch[2] as number],
+        vertices: (prepared[k] as Prepared).vertices[t] as LevelTriplet[],
+        clamped: scratch[3] === 1,
+      };
     },
     modulateInto: run,
     polarityIndex,
   };
 }
 
-function prepare(d: Pick<PlanPolarity, 'vectors' | 'hull' | 'triangles' | 'dwell'> & { readonly outline?: PlanPolarity['outline']; readonly tableTriangles?: readonly SequencedTriangle[] }): Prepared {
+function prepare(
+  d: Pick<PlanPolarity, 'vectors' | 'hull' | 'triangles' | 'dwell'> & {
+    readonly outline?: PlanPolarity['outline'];
+    readonly tableTriangles?: readonly SequencedTriangle[];
+  },
+): Prepared {
   const count = d.triangles.length;
   const m = new Float64Array(9 * count);
   d.dwell.forEach((mat: DwellMatrix, t) => {
     for (let r = 0; r < 3; r++) for (let c = 0; c < 3; c++) m[9 * t + 3 * r + c] = mat[r]![c]!;
   });
-  const vertices = d.triangles.map((tri, t) => tri.map((vi, pos) => {
-    const seq = d.tableTriangles?.[t]?.sequence;
-    const choice = seq ? seq.choice[pos] ?? 0 : 0;
-    const v = d.vectors[vi];
-    return (d.tableTriangles?.[t]?.vertices[pos]?.realisations[choice]?.levels ?? v?.levels[0]) as LevelTriplet;
-  }));
+  const vertices = d.triangles.map((tri, t) =>
+    tri.map((vi, pos) => {
+      const seq = d.tableTriangles?.[t]?.sequence;
+      const choice = seq ? (seq.choice[pos] ?? 0) : 0;
+      const v = d.vectors[vi];
+      return (d.tableTriangles?.[t]?.vertices[pos]?.realisations[choice]?.levels ?? v?.levels[0]) as LevelTriplet;
+    }),
+  );
   const xs = d.hull.map((p) => p[0]);
   const ys = d.hull.map((p) => p[1]);
   const x0 = Math.min(...xs, 0);
@@ -261,12 +305,15 @@ function prepare(d: Pick<PlanPolarity, 'vectors' | 'hull' | 'triangles' | 'dwell
     const i1 = clampIdx(Math.floor((Math.max(...px) + pad - x0) / cell), nx);
     const j0 = clampIdx(Math.floor((Math.min(...py) - pad - y0) / cell), ny);
     const j1 = clampIdx(Math.floor((Math.max(...py) + pad - y0) / cell), ny);
-    for (let i = i0; i <= i1; i++) for (let j = j0; j <= j1; j++) {
-      if (boxMeetsTriangle(x0 + i * cell, y0 + j * cell, cell, P, pad)) lists[j * nx + i]!.push(t);
-    }
+    for (let i = i0; i <= i1; i++)
+      for (let j = j0; j <= j1; j++) {
+        if (boxMeetsTriangle(x0 + i * cell, y0 + j * cell, cell, P, pad)) lists[j * nx + i]!.push(t);
+      }
   });
   const cellStart = new Int32Array(nx * ny + 1);
-  lists.forEach((l, c) => { cellStart[c + 1] = (cellStart[c] as number) + l.length; });
+  lists.forEach((l, c) => {
+    cellStart[c + 1] = (cellStart[c] as number) + l.length;
+  });
   const cellTri = Int32Array.from(lists.flat());
   const outline = d.outline && d.outline.length > 0 ? d.outline : null;
   return { count, m, hull: d.hull, outline, vertices, x0, y0, cell, nx, ny, cellStart, cellTri };
@@ -274,7 +321,12 @@ function prepare(d: Pick<PlanPolarity, 'vectors' | 'hull' | 'triangles' | 'dwell
 
 // Separating-axis test of a square cell against a triangle, both grown by `pad`.
 function boxMeetsTriangle(bx: number, by: number, size: number, P: readonly (readonly [number, number])[], pad: number): boolean {
-  const corners = [[bx, by], [bx + size, by], [bx, by + size], [bx + size, by + size]] as const;
+  const corners = [
+    [bx, by],
+    [bx + size, by],
+    [bx, by + size],
+    [bx + size, by + size],
+  ] as const;
   for (let e = 0; e < 3; e++) {
     const [ax, ay] = P[e] as readonly [number, number];
     const [cx, cy] = P[(e + 1) % 3] as readonly [number, number];

@@ -79,17 +79,36 @@ export interface Runtime {
    * @returns the triangle index; −1 when the polarity has no triangles (or none can be entered on a
    *   first call), −2 when the reference is not a finite number within ±1e6
    */
-  period(alpha: number, beta: number, polarityIndex: number, ia: number, ib: number, ic: number, midpointError: number, out: RuntimeOutput, nextPolarityIndex?: number): number;
+  period(
+    alpha: number,
+    beta: number,
+    polarityIndex: number,
+    ia: number,
+    ib: number,
+    ic: number,
+    midpointError: number,
+    out: RuntimeOutput,
+    nextPolarityIndex?: number,
+  ): number;
   /**
    * One half of a switching period from its own sample (firmware that updates at the carrier's
    * peak and valley): up halves run the sequence forwards, down halves backwards, alternately.
    * Arguments as for {@link Runtime.period}; durations are fractions of the half.
    */
-  half(alpha: number, beta: number, polarityIndex: number, ia: number, ib: number, ic: number, midpointError: number, out: RuntimeOutput, nextPolarityIndex?: number): number;
+  half(
+    alpha: number,
+    beta: number,
+    polarityIndex: number,
+    ia: number,
+    ib: number,
+    ic: number,
+    midpointError: number,
+    out: RuntimeOutput,
+    nextPolarityIndex?: number,
+  ): number;
   /** The tables the runtime reads (also printed into the C header). */
   readonly program: RuntimeProgram;
 }
-
 
 /**
  * Builds the runtime of a switching table: per switching period it locates the reference, then
@@ -120,7 +139,25 @@ export function createRuntime(table: SwitchingTable, options: RuntimeOptions = {
   const program = runtimeProgram(table);
   const mod = createModulator(table);
   const P = program.patternCount;
-  const { triFirst, candFirst, candCount, candPos, candLevel, candMask, candSeq, candClamped, next, enterable, polarityChars, level, pathPattern, pick, pickLine, pickGates, pickDist } = program;
+  const {
+    triFirst,
+    candFirst,
+    candCount,
+    candPos,
+    candLevel,
+    candMask,
+    candSeq,
+    candClamped,
+    next,
+    enterable,
+    polarityChars,
+    level,
+    pathPattern,
+    pick,
+    pickLine,
+    pickGates,
+    pickDist,
+  } = program;
   const dwellRows = flatDwell(table);
   const maxSegments = 4 + 3 * P + 4;
   const loc = new Float64Array(4);
@@ -170,7 +207,10 @@ export function createRuntime(table: SwitchingTable, options: RuntimeOptions = {
       lo = e0 < e1 ? e0 : e1;
       hi = e0 < e1 ? e1 : e0;
     } else {
-      lo = (d[candPos[4 * c] as number] as number) * (q[0] as number) + (d[candPos[4 * c + 1] as number] as number) * (q[1] as number) + (d[candPos[4 * c + 2] as number] as number) * (q[2] as number);
+      lo =
+        (d[candPos[4 * c] as number] as number) * (q[0] as number) +
+        (d[candPos[4 * c + 1] as number] as number) * (q[1] as number) +
+        (d[candPos[4 * c + 2] as number] as number) * (q[2] as number);
       hi = lo;
     }
     const miss = target < lo ? lo - target : target > hi ? target - hi : 0;
@@ -280,7 +320,7 @@ export function createRuntime(table: SwitchingTable, options: RuntimeOptions = {
       const B = P + 1;
       const code = (prev[0] as number) + 1 + B * ((prev[1] as number) + 1 + B * ((prev[2] as number) + 1));
       const chars = (prevChar[0] as number) + 1 + 4 * ((prevChar[1] as number) + 1 + 4 * ((prevChar[2] as number) + 1));
-      key = ((((g * B * B * B + code) * 64 + chars) * 25 + nq) * 3 + (exit < 0 ? 2 : dir));
+      key = (((g * B * B * B + code) * 64 + chars) * 25 + nq) * 3 + (exit < 0 ? 2 : dir);
       if (ctxKey[g] === key) return ctxRows[g] as Int32Array;
     }
     const first = candFirst[g] as number;
@@ -302,10 +342,29 @@ export function createRuntime(table: SwitchingTable, options: RuntimeOptions = {
         rows.length = 0;
         [bU, bX, bT] = [u, x, t];
       }
-      rows.push([c, stat[3] as number, stat[4] as number, stat[5] as number, stat[6] as number, stat[7] as number, stat[8] as number, stat[9] as number, stat[10] as number, stat[11] as number, u, 0]);
+      rows.push([
+        c,
+        stat[3] as number,
+        stat[4] as number,
+        stat[5] as number,
+        stat[6] as number,
+        stat[7] as number,
+        stat[8] as number,
+        stat[9] as number,
+        stat[10] as number,
+        stat[11] as number,
+        u,
+        0,
+      ]);
     }
     // the order of the early stop: form, gates, steps, rank (candidate index)
-    rows.sort((a, b) => (a[1] as number) - (b[1] as number) || (a[3] as number) - (b[3] as number) || (a[2] as number) - (b[2] as number) || (a[0] as number) - (b[0] as number));
+    rows.sort(
+      (a, b) =>
+        (a[1] as number) - (b[1] as number) ||
+        (a[3] as number) - (b[3] as number) ||
+        (a[2] as number) - (b[2] as number) ||
+        (a[0] as number) - (b[0] as number),
+    );
     const flat = new Int32Array(12 * rows.length);
     rows.forEach((r, i) => flat.set(r, 12 * i));
     if (keyable) {
@@ -356,7 +415,14 @@ export function createRuntime(table: SwitchingTable, options: RuntimeOptions = {
         const clamp = continuous ? 0 : candClamped[c] === big ? 0 : 1;
         const line = (wI[0] as number) * (rows[o + 7] as number) + (wI[1] as number) * (rows[o + 8] as number) + (wI[2] as number) * (rows[o + 9] as number);
         if (r >= 0) {
-          const order = cmp(miss, bM) || cmp(rows[o + 1] as number, bF) || cmp(clamp, bC) || cmp(line, bL) || cmp(rows[o + 3] as number, bG) || cmp(rows[o + 2] as number, bS) || cmp(c, bI);
+          const order =
+            cmp(miss, bM) ||
+            cmp(rows[o + 1] as number, bF) ||
+            cmp(clamp, bC) ||
+            cmp(line, bL) ||
+            cmp(rows[o + 3] as number, bG) ||
+            cmp(rows[o + 2] as number, bS) ||
+            cmp(c, bI);
           if (order >= 0) continue;
         }
         r = i;
@@ -388,7 +454,8 @@ export function createRuntime(table: SwitchingTable, options: RuntimeOptions = {
     const den = dA * ((q[0] as number) - (q[3] as number));
     const scale = Math.abs(ia) + Math.abs(ib) + Math.abs(ic);
     if (!(Math.abs(den) > 1e-12 * scale)) return 0.5;
-    const rest = (d[candPos[4 * c + 1] as number] as number) * (q[1] as number) + (d[candPos[4 * c + 2] as number] as number) * (q[2] as number) + dA * (q[3] as number);
+    const rest =
+      (d[candPos[4 * c + 1] as number] as number) * (q[1] as number) + (d[candPos[4 * c + 2] as number] as number) * (q[2] as number) + dA * (q[3] as number);
     const x = (target - rest) / den;
     return x < 0 ? 0 : x > 1 ? 1 : x;
   };
@@ -447,7 +514,19 @@ export function createRuntime(table: SwitchingTable, options: RuntimeOptions = {
     return n;
   };
 
-  const run = (alpha: number, beta: number, qi: number, nq: number, ia: number, ib: number, ic: number, err: number, out: RuntimeOutput, dir: number, whole: boolean): number => {
+  const run = (
+    alpha: number,
+    beta: number,
+    qi: number,
+    nq: number,
+    ia: number,
+    ib: number,
+    ic: number,
+    err: number,
+    out: RuntimeOutput,
+    dir: number,
+    whole: boolean,
+  ): number => {
     out.count = 0;
     out.chainSteps = 0;
     out.held = false;
@@ -504,7 +583,8 @@ export function createRuntime(table: SwitchingTable, options: RuntimeOptions = {
     // the states are those of the last call (same buffer, candidate, paths and layout, no chain):
     // only the durations change
     const layout = n > 0 ? -1 : whole ? 2 : dir;
-    const same = layout >= 0 && out === lastOut && lastC === c && lastP0 === bestPath[0] && lastP1 === bestPath[1] && lastP2 === bestPath[2] && lastLayout === layout;
+    const same =
+      layout >= 0 && out === lastOut && lastC === c && lastP0 === bestPath[0] && lastP1 === bestPath[1] && lastP2 === bestPath[2] && lastLayout === layout;
     if (whole) {
       // first half forwards, then mirrored; the centre state once, durations as period fractions
       for (let s = 0; s < k; s++) {
@@ -540,15 +620,26 @@ export function createRuntime(table: SwitchingTable, options: RuntimeOptions = {
   // buffers this runtime made (a buffer of another runtime may be too small for this one's states)
   const own = new WeakSet<RuntimeOutput>();
   const checkIndex = (qi: number, out: RuntimeOutput) => {
-    if (!(Number.isInteger(qi) && qi >= 0 && qi < POLARITY_STRINGS.length)) throw new HexsalvageInputError('option', 'runtime', 'polarityIndex', `an integer from 0 to ${POLARITY_STRINGS.length - 1}`, qi);
-    if (out !== lastOut && !own.has(out)) throw new HexsalvageInputError('option', 'runtime', 'out', 'a buffer from this runtime\'s output()');
+    if (!(Number.isInteger(qi) && qi >= 0 && qi < POLARITY_STRINGS.length))
+      throw new HexsalvageInputError('option', 'runtime', 'polarityIndex', `an integer from 0 to ${POLARITY_STRINGS.length - 1}`, qi);
+    if (out !== lastOut && !own.has(out)) throw new HexsalvageInputError('option', 'runtime', 'out', "a buffer from this runtime's output()");
   };
 
   return {
     options: opts,
     program,
     output: () => {
-      const o: RuntimeOutput = { count: 0, patterns: new Int32Array(3 * maxSegments), levels: new Float64Array(3 * maxSegments), duration: new Float64Array(maxSegments), triangle: -1, clamped: false, split: NaN, chainSteps: 0, held: false };
+      const o: RuntimeOutput = {
+        count: 0,
+        patterns: new Int32Array(3 * maxSegments),
+        levels: new Float64Array(3 * maxSegments),
+        duration: new Float64Array(maxSegments),
+        triangle: -1,
+        clamped: false,
+        split: NaN,
+        chainSteps: 0,
+        held: false,
+      };
       own.add(o);
       return o;
     },
@@ -595,13 +686,16 @@ function cmp(a: number, b: number): number {
 export function runtimeOptions(options: RuntimeOptions = {}, input = 'options'): Required<RuntimeOptions> {
   requireObject(options, input, 'an options object { sequence?, balance?, midpointGain?, chainDwell? }');
   const sequence = options.sequence ?? 'continuous';
-  if (!(SEQUENCE_MODES as readonly unknown[]).includes(sequence)) throw new HexsalvageInputError('option', input, 'sequence', 'continuous or discontinuous', sequence);
+  if (!(SEQUENCE_MODES as readonly unknown[]).includes(sequence))
+    throw new HexsalvageInputError('option', input, 'sequence', 'continuous or discontinuous', sequence);
   const balance = options.balance ?? 'on';
   if (balance !== 'on' && balance !== 'off') throw new HexsalvageInputError('option', input, 'balance', 'on or off', balance);
   const midpointGain = options.midpointGain ?? 0;
-  if (!(typeof midpointGain === 'number' && Number.isFinite(midpointGain) && midpointGain >= 0 && midpointGain <= 1e12)) throw new HexsalvageInputError('option', input, 'midpointGain', 'a number from 0 to 1e12', midpointGain);
+  if (!(typeof midpointGain === 'number' && Number.isFinite(midpointGain) && midpointGain >= 0 && midpointGain <= 1e12))
+    throw new HexsalvageInputError('option', input, 'midpointGain', 'a number from 0 to 1e12', midpointGain);
   const chainDwell = options.chainDwell ?? 0.02;
-  if (!(typeof chainDwell === 'number' && Number.isFinite(chainDwell) && chainDwell > 0 && chainDwell <= 0.1)) throw new HexsalvageInputError('option', input, 'chainDwell', 'a fraction of the switching period above 0, at most 0.1', chainDwell);
+  if (!(typeof chainDwell === 'number' && Number.isFinite(chainDwell) && chainDwell > 0 && chainDwell <= 0.1))
+    throw new HexsalvageInputError('option', input, 'chainDwell', 'a fraction of the switching period above 0, at most 0.1', chainDwell);
   return { sequence: sequence as SequenceMode, balance, midpointGain, chainDwell };
 }
 

@@ -85,7 +85,11 @@ export interface CycleReport {
  */
 export function cycleCheck(table: SwitchingTable, options: CycleCheckOptions): CycleReport {
   requireTable(table, 'cycleCheck');
-  requireObject(options, 'cycleCheck', 'an options object { m, loadAngleDeg?, polarityMarginDeg?, frequencyRatio?, currentAmplitude?, sequence?, balance?, update? }');
+  requireObject(
+    options,
+    'cycleCheck',
+    'an options object { m, loadAngleDeg?, polarityMarginDeg?, frequencyRatio?, currentAmplitude?, sequence?, balance?, update? }',
+  );
   const { m } = options;
   const phi = options.loadAngleDeg ?? 0;
   const delta = options.polarityMarginDeg ?? 0;

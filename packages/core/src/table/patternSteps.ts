@@ -15,7 +15,7 @@ export interface PhaseSteps {
   readonly levels: Readonly<Record<PhasePolarity, readonly (number | null)[]>>;
   /**
    * Directed pattern changes `[i, j]` the phase may make in one step for the character, sorted:
-   * both patterns usable, the change commutates safely (contract, Version 2), and a level change is
+   * both patterns usable, the change commutates safely, and a level change is
    * one of the phase's moves under the rules. Under `levelSteps: any` every change between usable
    * patterns is listed (no sequence rule).
    */
@@ -102,7 +102,9 @@ export function patternSteps(table: LegTable, healthy: LegTable, rules: LimitRul
       .map((g, i) => ({ i, key: [lv[i] !== null && healthyLevel[i] === lv[i] ? 0 : 1, g.length, i] as const }))
       .sort((x, y) => x.key[0] - y.key[0] || x.key[1] - y.key[1] || x.key[2] - y.key[2]);
     const pref = new Array<number>(gates.length).fill(0);
-    order.forEach((o, r) => { pref[o.i] = r; });
+    order.forEach((o, r) => {
+      pref[o.i] = r;
+    });
     preference[c] = pref;
   }
   return { levels, steps, entries, preference };

@@ -72,13 +72,20 @@ export interface PolarityTable {
  * ```
  */
 export function polarityTable(atlas: DiagramAtlas, polarity: PolarityString): PolarityTable {
-  const faulted = buildTriangles(atlas, atlas.faulted.get(polarity) as PolarityDiagram, [atlas.analysis.phases.a, atlas.analysis.phases.b, atlas.analysis.phases.c], polarity);
+  const faulted = buildTriangles(
+    atlas,
+    atlas.faulted.get(polarity) as PolarityDiagram,
+    [atlas.analysis.phases.a, atlas.analysis.phases.b, atlas.analysis.phases.c],
+    polarity,
+  );
   const healthyDiagram = atlas.healthy.get(polarity) as PolarityDiagram;
   const h = atlas.analysis.healthy;
   // the healthy triangle under each faulted triangle's centroid (the same one a plain search of the
   // healthy triangles finds), then only those healthy triangles are built
   const find = healthyLocator(healthyDiagram);
-  const under = faulted.map((t) => find((t.vertices[0].alpha + t.vertices[1].alpha + t.vertices[2].alpha) / 3, (t.vertices[0].beta + t.vertices[1].beta + t.vertices[2].beta) / 3));
+  const under = faulted.map((t) =>
+    find((t.vertices[0].alpha + t.vertices[1].alpha + t.vertices[2].alpha) / 3, (t.vertices[0].beta + t.vertices[1].beta + t.vertices[2].beta) / 3),
+  );
   const needed = [...new Set(under.filter((k) => k >= 0))];
   const built = buildTriangles(atlas, healthyDiagram, [h, h, h], polarity, false, needed);
   const authorityOf = new Map(needed.map((k, i) => [k, (built[i] as Draft).midpointAuthority]));
@@ -113,7 +120,14 @@ type Draft = Omit<TableTriangle, 'healthyMidpointAuthority' | 'authorityLost'>;
 
 // `withSequence: false` skips the sequence search where only the midpoint authority is needed;
 // `only` builds just those triangles (indices into `d.triangles`), in that order.
-function buildTriangles(atlas: DiagramAtlas, d: PolarityDiagram, tables: readonly [LegTable, LegTable, LegTable], polarity: PolarityString, withSequence = true, only?: readonly number[]): Draft[] {
+function buildTriangles(
+  atlas: DiagramAtlas,
+  d: PolarityDiagram,
+  tables: readonly [LegTable, LegTable, LegTable],
+  polarity: PolarityString,
+  withSequence = true,
+  only?: readonly number[],
+): Draft[] {
   const pol = parsePolarity(polarity);
   const leg = atlas.analysis.leg;
   const hasMidpoint = Object.values(leg.dcNodes).includes(0);
@@ -125,7 +139,11 @@ function buildTriangles(atlas: DiagramAtlas, d: PolarityDiagram, tables: readonl
     const key = `${k}:${level}`;
     let c = cache.get(key);
     if (!c) {
-      c = patternCandidates(tables[k] as LegTable, atlas.analysis.healthy, level, pol[k] as PhasePolarity).map((x) => ({ level, pattern: x.pattern, gates: x.gates }));
+      c = patternCandidates(tables[k] as LegTable, atlas.analysis.healthy, level, pol[k] as PhasePolarity).map((x) => ({
+        level,
+        pattern: x.pattern,
+        gates: x.gates,
+      }));
       cache.set(key, c);
     }
     return c;
@@ -137,14 +155,16 @@ function buildTriangles(atlas: DiagramAtlas, d: PolarityDiagram, tables: readonl
     const known = vertices.get(vi);
     if (known) return known;
     const v = d.vectors[vi] as ClassifiedVector;
-    const realisations = v.levels.flatMap((t) => {
-      const r = realise(t, candidatesOf);
-      return r ? [r] : [];
-    }).map((phases) => {
-      const lv = phases.map((p) => p.level) as unknown as LevelTriplet;
-      const midpoint = midpointCoefficients(lv, hasMidpoint);
-      return { levels: lv, phases, midpoint, midpointSign: midpointSign(midpoint, pol), commonMode: (lv[0] + lv[1] + lv[2]) / 3 };
-    });
+    const realisations = v.levels
+      .flatMap((t) => {
+        const r = realise(t, candidatesOf);
+        return r ? [r] : [];
+      })
+      .map((phases) => {
+        const lv = phases.map((p) => p.level) as unknown as LevelTriplet;
+        const midpoint = midpointCoefficients(lv, hasMidpoint);
+        return { levels: lv, phases, midpoint, midpointSign: midpointSign(midpoint, pol), commonMode: (lv[0] + lv[1] + lv[2]) / 3 };
+      });
     const vertex = { vector: vi, alpha: v.alpha, beta: v.beta, class: v.class, realisations };
     vertices.set(vi, vertex);
     return vertex;
@@ -156,7 +176,16 @@ function buildTriangles(atlas: DiagramAtlas, d: PolarityDiagram, tables: readonl
       vertices,
       dwell: d.dwell[i] as DwellMatrix,
       midpointAuthority: authority(vertices),
-      sequence: withSequence ? chooseSequence(vertices.map((v) => v.realisations.map((r) => r.levels)), candidatesOf, levels, line, memo, step) : null,
+      sequence: withSequence
+        ? chooseSequence(
+            vertices.map((v) => v.realisations.map((r) => r.levels)),
+            candidatesOf,
+            levels,
+            line,
+            memo,
+            step,
+          )
+        : null,
     };
   });
 }
@@ -164,7 +193,12 @@ function buildTriangles(atlas: DiagramAtlas, d: PolarityDiagram, tables: readonl
 // The sequence rule of the atlas's rules: a level change needs one pattern pair that commutates both
 // ways (and neighbouring levels under `adjacent`); a phase keeping its level keeps its pattern or
 // changes it by a commutating pair. No rule under `levelSteps: any`.
-function sequenceRule(atlas: DiagramAtlas, tables: readonly [LegTable, LegTable, LegTable], pol: readonly PhasePolarity[], levels: readonly number[]): StepAllowed | undefined {
+function sequenceRule(
+  atlas: DiagramAtlas,
+  tables: readonly [LegTable, LegTable, LegTable],
+  pol: readonly PhasePolarity[],
+  levels: readonly number[],
+): StepAllowed | undefined {
   const rules = atlas.analysis.rules;
   if (rules.levelSteps === 'any') return undefined;
   const index = new Map(Object.keys(atlas.analysis.leg.patterns).map((n, i) => [n, i]));
@@ -198,4 +232,3 @@ function authority(vertices: readonly TableVertex[]): MidpointAuthority {
   }
   return definite ? 'partial' : 'none';
 }
-

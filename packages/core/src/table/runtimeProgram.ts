@@ -137,12 +137,16 @@ export function runtimeProgram(table: SwitchingTable): RuntimeProgram {
   const phases = [table.phaseSteps.a, table.phaseSteps.b, table.phaseSteps.c] as const;
   const level = new Float64Array(9 * P).fill(NaN);
   const allowed = new Uint8Array(18 * P * P);
-  phases.forEach((ph, k) => POLARITY_CHARS.forEach((c, ci) => {
-    const base = (k * 3 + ci) * P;
-    ph.levels[c].forEach((l, p) => { if (l !== null) level[base + p] = l; });
-    for (const [i, j] of ph.steps[c]) allowed[(base + i) * P + j] = 1;
-    for (const [i, j] of ph.entries[c]) allowed[(9 * P + base + i) * P + j] = 1;
-  }));
+  phases.forEach((ph, k) =>
+    POLARITY_CHARS.forEach((c, ci) => {
+      const base = (k * 3 + ci) * P;
+      ph.levels[c].forEach((l, p) => {
+        if (l !== null) level[base + p] = l;
+      });
+      for (const [i, j] of ph.steps[c]) allowed[(base + i) * P + j] = 1;
+      for (const [i, j] of ph.entries[c]) allowed[(9 * P + base + i) * P + j] = 1;
+    }),
+  );
   const { dist, next } = shortestSteps(allowed, P);
   const enterable = new Uint8Array(9 * P);
   for (let kc = 0; kc < 9; kc++) {
@@ -153,7 +157,11 @@ export function runtimeProgram(table: SwitchingTable): RuntimeProgram {
     }
   }
   const polarityChars = new Uint8Array(3 * POLARITY_STRINGS.length);
-  POLARITY_STRINGS.forEach((p, q) => parsePolarity(p).forEach((c, k) => { polarityChars[3 * q + k] = POLARITY_CHARS.indexOf(c); }));
+  POLARITY_STRINGS.forEach((p, q) =>
+    parsePolarity(p).forEach((c, k) => {
+      polarityChars[3 * q + k] = POLARITY_CHARS.indexOf(c);
+    }),
+  );
   const gateSets = table.patternGates.map((g) => new Set(g));
   const line = new Set(table.lineDevices);
   const diff = (i: number, j: number, only?: ReadonlySet<string>) => {
@@ -184,7 +192,15 @@ export function runtimeProgram(table: SwitchingTable): RuntimeProgram {
     const tris = table.polarities[pol]?.tableTriangles ?? [];
     triFirst[q + 1] = (triFirst[q] as number) + tris.length;
     const chars = [0, 1, 2].map((k) => polarityChars[3 * q + k] as number);
-    for (const tri of tris) drafts.push(triangleCandidates(tri.vertices.map((v) => v.realisations.map((r) => r.levels)), chars, sequenceOf, sequences));
+    for (const tri of tris)
+      drafts.push(
+        triangleCandidates(
+          tri.vertices.map((v) => v.realisations.map((r) => r.levels)),
+          chars,
+          sequenceOf,
+          sequences,
+        ),
+      );
   });
   return {
     patternCount: P,
@@ -293,7 +309,14 @@ function phasePaths(ctx: Ctx, k: number, c: number, lv: readonly number[]): Path
     .map((x) => x.p);
 }
 
-const PERMUTATIONS: readonly (readonly [number, number, number])[] = [[0, 1, 2], [0, 2, 1], [1, 0, 2], [1, 2, 0], [2, 0, 1], [2, 1, 0]];
+const PERMUTATIONS: readonly (readonly [number, number, number])[] = [
+  [0, 1, 2],
+  [0, 2, 1],
+  [1, 0, 2],
+  [1, 2, 0],
+  [2, 0, 1],
+  [2, 1, 0],
+];
 
 // The candidates of one triangle (see runtimeProgram).
 function triangleCandidates(
@@ -305,7 +328,13 @@ function triangleCandidates(
   const apart = (x: LevelTriplet, y: LevelTriplet) => (x[0] !== y[0] ? 1 : 0) + (x[1] !== y[1] ? 1 : 0) + (x[2] !== y[2] ? 1 : 0);
   const found: CandidateDraft[] = [];
   const emit = (levels: LevelTriplet[], pos: number[]) => {
-    const seq = [0, 1, 2].map((k) => sequenceOf(k, chars[k] as number, levels.map((t) => t[k] as number)));
+    const seq = [0, 1, 2].map((k) =>
+      sequenceOf(
+        k,
+        chars[k] as number,
+        levels.map((t) => t[k] as number),
+      ),
+    );
     const best = seq.map((s) => (sequences[s] as SequenceDraft).paths[0]);
     if (best.some((p) => p === undefined)) return;
     let line = 0;
@@ -382,7 +411,10 @@ function pick(found: readonly CandidateDraft[]): CandidateDraft[] {
   return sorted.filter((d) => chosen.has(d));
 }
 
-function flattenCandidates(drafts: readonly (readonly CandidateDraft[])[], hasMidpoint: boolean): Pick<RuntimeProgram, 'candFirst' | 'candCount' | 'candPos' | 'candLevel' | 'candMask' | 'candSeq' | 'candClamped'> {
+function flattenCandidates(
+  drafts: readonly (readonly CandidateDraft[])[],
+  hasMidpoint: boolean,
+): Pick<RuntimeProgram, 'candFirst' | 'candCount' | 'candPos' | 'candLevel' | 'candMask' | 'candSeq' | 'candClamped'> {
   const total = drafts.reduce((n, d) => n + d.length, 0);
   const candFirst = new Int32Array(drafts.length + 1);
   const candCount = new Uint8Array(total);
@@ -416,49 +448,62 @@ function flattenCandidates(drafts: readonly (readonly CandidateDraft[])[], hasMi
 }
 
 // The paths of every sequence and the pick tables (see RuntimeProgram.pick).
-function flattenSequences(ctx: Ctx, sequences: readonly SequenceDraft[]): Pick<RuntimeProgram, 'pathFirst' | 'pathPattern' | 'pick' | 'pickLine' | 'pickGates' | 'pickDist'> {
+function flattenSequences(
+  ctx: Ctx,
+  sequences: readonly SequenceDraft[],
+): Pick<RuntimeProgram, 'pathFirst' | 'pathPattern' | 'pick' | 'pickLine' | 'pickGates' | 'pickDist'> {
   const { P, dist } = ctx;
   const pathFirst = new Int32Array(sequences.length + 1);
-  sequences.forEach((s, i) => { pathFirst[i + 1] = (pathFirst[i] as number) + s.paths.length; });
+  sequences.forEach((s, i) => {
+    pathFirst[i + 1] = (pathFirst[i] as number) + s.paths.length;
+  });
   const pathPattern = new Int32Array(4 * (pathFirst[sequences.length] as number)).fill(-1);
-  sequences.forEach((s, i) => s.paths.forEach((p, j) => p.patterns.forEach((x, t) => { pathPattern[4 * ((pathFirst[i] as number) + j) + t] = x; })));
+  sequences.forEach((s, i) =>
+    s.paths.forEach((p, j) =>
+      p.patterns.forEach((x, t) => {
+        pathPattern[4 * ((pathFirst[i] as number) + j) + t] = x;
+      }),
+    ),
+  );
   const size = sequences.length * 2 * 2 * (P + 1) * 3;
   const pick = new Int32Array(size).fill(-1);
   const pickLine = new Int32Array(size);
   const pickGates = new Int32Array(size);
   const pickDist = new Int32Array(size);
   sequences.forEach((s, si) => {
-    for (let dir = 0; dir < 2; dir++) for (let b = 0; b < 2; b++) for (let p0 = -1; p0 < P; p0++) {
-      const at = (((si * 2 + dir) * 2 + b) * (P + 1) + p0 + 1) * 3;
-      const kc = (b * 9 + s.k * 3 + s.c) * P;
-      // options 0, 1 and 2, each the best by its key; paths are in static rank order already
-      const best = [-1, -1, -1];
-      const keyOf: number[][] = [[], [], []];
-      s.paths.forEach((path, j) => {
-        const entry = path.patterns[dir === 0 ? 0 : path.patterns.length - 1] as number;
-        const d = p0 < 0 ? 0 : (dist[(kc + p0) * P + entry] as number);
-        const line = path.line + (p0 >= 0 && d > 0 ? ctx.lineDiff(p0, entry) : 0);
-        const gates = path.gates + (p0 >= 0 && d > 0 ? ctx.gateDiff(p0, entry) : 0);
-        const consider = (o: number, key: number[]) => {
-          const k = keyOf[o] as number[];
-          if (best[o] === -1 || lexLess(key, k)) {
-            best[o] = j;
-            keyOf[o] = key;
+    for (let dir = 0; dir < 2; dir++)
+      for (let b = 0; b < 2; b++)
+        for (let p0 = -1; p0 < P; p0++) {
+          const at = (((si * 2 + dir) * 2 + b) * (P + 1) + p0 + 1) * 3;
+          const kc = (b * 9 + s.k * 3 + s.c) * P;
+          // options 0, 1 and 2, each the best by its key; paths are in static rank order already
+          const best = [-1, -1, -1];
+          const keyOf: number[][] = [[], [], []];
+          s.paths.forEach((path, j) => {
+            const entry = path.patterns[dir === 0 ? 0 : path.patterns.length - 1] as number;
+            const d = p0 < 0 ? 0 : (dist[(kc + p0) * P + entry] as number);
+            const line = path.line + (p0 >= 0 && d > 0 ? ctx.lineDiff(p0, entry) : 0);
+            const gates = path.gates + (p0 >= 0 && d > 0 ? ctx.gateDiff(p0, entry) : 0);
+            const consider = (o: number, key: number[]) => {
+              const k = keyOf[o] as number[];
+              if (best[o] === -1 || lexLess(key, k)) {
+                best[o] = j;
+                keyOf[o] = key;
+              }
+            };
+            if (d === 0) consider(0, [line, gates]);
+            if (d === 1) consider(1, [line, gates]);
+            if (d !== NO_PATH) consider(2, [d, line, gates]);
+          });
+          for (let o = 0; o < 3; o++) {
+            if (best[o] === -1) continue;
+            const key = keyOf[o] as number[];
+            pick[at + o] = (pathFirst[si] as number) + (best[o] as number);
+            pickDist[at + o] = o === 0 ? 0 : o === 1 ? 1 : (key[0] as number);
+            pickLine[at + o] = o === 2 ? (key[1] as number) : (key[0] as number);
+            pickGates[at + o] = o === 2 ? (key[2] as number) : (key[1] as number);
           }
-        };
-        if (d === 0) consider(0, [line, gates]);
-        if (d === 1) consider(1, [line, gates]);
-        if (d !== NO_PATH) consider(2, [d, line, gates]);
-      });
-      for (let o = 0; o < 3; o++) {
-        if (best[o] === -1) continue;
-        const key = keyOf[o] as number[];
-        pick[at + o] = (pathFirst[si] as number) + (best[o] as number);
-        pickDist[at + o] = o === 0 ? 0 : o === 1 ? 1 : (key[0] as number);
-        pickLine[at + o] = o === 2 ? (key[1] as number) : (key[0] as number);
-        pickGates[at + o] = o === 2 ? (key[2] as number) : (key[1] as number);
-      }
-    }
+        }
   });
   return { pathFirst, pathPattern, pick, pickLine, pickGates, pickDist };
 }

@@ -137,7 +137,13 @@ export function runtimeStream(table: SwitchingTable, options: RuntimeStreamOptio
         vb += (out.duration[s] as number) * ((lv[1] - lv[2]) / Math.sqrt(3));
         const end = s === out.count - 1 ? t0 + h : at + dt;
         charge += midpointCharge(lv, hasMidpoint, at, end, phiRad);
-        segs.push({ t: at, end, levels: lv, patterns: [out.patterns[3 * s] as number, out.patterns[3 * s + 1] as number, out.patterns[3 * s + 2] as number], polarity: pol });
+        segs.push({
+          t: at,
+          end,
+          levels: lv,
+          patterns: [out.patterns[3 * s] as number, out.patterns[3 * s + 1] as number, out.patterns[3 * s + 2] as number],
+          polarity: pol,
+        });
         at = end;
       }
       if (!out.clamped) vsErr = Math.max(vsErr, Math.hypot(va - ra, vb - rb));
@@ -169,7 +175,8 @@ export function runtimeStream(table: SwitchingTable, options: RuntimeStreamOptio
   }
   const { segs, chainSteps, heldUpdates, clamped, vsErr } = result;
   const merged = mergeEqual(segs);
-  const stepsOf = (a: Seg, b: Seg) => (a.patterns[0] !== b.patterns[0] ? 1 : 0) + (a.patterns[1] !== b.patterns[1] ? 1 : 0) + (a.patterns[2] !== b.patterns[2] ? 1 : 0);
+  const stepsOf = (a: Seg, b: Seg) =>
+    (a.patterns[0] !== b.patterns[0] ? 1 : 0) + (a.patterns[1] !== b.patterns[1] ? 1 : 0) + (a.patterns[2] !== b.patterns[2] ? 1 : 0);
   let multi = 0;
   const gateChanges: Record<string, number> = {};
   const gateSets = table.patternGates.map((g) => new Set(g));
@@ -185,7 +192,13 @@ export function runtimeStream(table: SwitchingTable, options: RuntimeStreamOptio
     }
   }
   return {
-    segments: merged.map((s) => ({ t: s.t, dt: s.end - s.t, levels: s.levels, patterns: s.patterns.map((p) => P[p] as string) as unknown as [string, string, string], polarity: s.polarity })),
+    segments: merged.map((s) => ({
+      t: s.t,
+      dt: s.end - s.t,
+      levels: s.levels,
+      patterns: s.patterns.map((p) => P[p] as string) as unknown as [string, string, string],
+      polarity: s.polarity,
+    })),
     multiPhaseSteps: multi,
     chainSteps,
     heldUpdates,
@@ -215,7 +228,8 @@ function mergeEqual(segs: readonly Seg[]): Seg[] {
   const out: Seg[] = [];
   for (const s of segs) {
     const last = out[out.length - 1];
-    if (last && last.patterns[0] === s.patterns[0] && last.patterns[1] === s.patterns[1] && last.patterns[2] === s.patterns[2] && last.polarity === s.polarity) last.end = s.end;
+    if (last && last.patterns[0] === s.patterns[0] && last.patterns[1] === s.patterns[1] && last.patterns[2] === s.patterns[2] && last.polarity === s.polarity)
+      last.end = s.end;
     else out.push({ ...s });
   }
   return out;

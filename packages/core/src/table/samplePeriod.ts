@@ -55,7 +55,8 @@ export function samplePeriod(table: SwitchingTable, options: SamplePeriodOptions
   const beta = requireNumber(options.beta, 'samplePeriod', 'beta', { min: -1e6, max: 1e6 });
   parsePolarity(options.polarity, 'samplePeriod.polarity');
   const currents = options.currents ?? [0, 0, 0];
-  if (!Array.isArray(currents) || currents.length !== 3 || !currents.every((x) => Number.isFinite(x))) throw new HexsalvageInputError('option', 'samplePeriod', 'currents', 'three finite phase currents', currents);
+  if (!Array.isArray(currents) || currents.length !== 3 || !currents.every((x) => Number.isFinite(x)))
+    throw new HexsalvageInputError('option', 'samplePeriod', 'currents', 'three finite phase currents', currents);
   const rt = createRuntime(table, { sequence: options.sequence, balance: options.balance, chainDwell: options.chainDwell });
   const out = rt.output();
   const qi = POLARITY_STRINGS.indexOf(options.polarity);

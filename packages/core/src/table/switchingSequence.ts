@@ -39,7 +39,7 @@ export interface SwitchingSequence {
 export type PatternCandidatesOf = (phase: number, level: number) => readonly PhaseState[];
 
 /**
- * The sequence rule (contract, Version 2): whether phase k may go from state `a` to state `b` in
+ * The sequence rule: whether phase k may go from state `a` to state `b` in
  * one step of a sequence and back again. Absent: every step is allowed (`levelSteps: any`).
  */
 export type StepAllowed = (phase: number, a: PhaseState, b: PhaseState) => boolean;
@@ -119,56 +119,66 @@ export function chooseSequence(
     const x0 = at[order[0]] as Int32Array;
     const x1 = at[order[1]] as Int32Array;
     const x2 = at[order[2]] as Int32Array;
-    for (let c0 = 0; c0 < r0.length; c0++) for (let c1 = 0; c1 < r1.length; c1++) {
-      const a0 = 3 * c0;
-      const a1 = 3 * c1;
-      // under the sequence rule the first step must change one phase: tested before the third
-      // vertex's realisations are gone through (the order of the search is unchanged)
-      if (step && !apart(x0, a0, x1, a1)) continue;
-      for (let c2 = 0; c2 < r2.length; c2++) {
-        const a2 = 3 * c2;
-        if (step && !apart(x1, a1, x2, a2)) continue;
-        const pa = phasePath(0, x0[a0] as number, x1[a1] as number, x2[a2] as number);
-        if (pa === null) continue;
-        const pb = phasePath(1, x0[a0 + 1] as number, x1[a1 + 1] as number, x2[a2 + 1] as number);
-        if (pb === null) continue;
-        const pc = phasePath(2, x0[a0 + 2] as number, x1[a1 + 2] as number, x2[a2 + 2] as number);
-        if (pc === null) continue;
-        const t0 = r0[c0] as LevelTriplet;
-        const t1 = r1[c1] as LevelTriplet;
-        const t2 = r2[c2] as LevelTriplet;
-        const line = pa.line + pb.line + pc.line;
-        const total = pa.total + pb.total + pc.total;
-        let jumps = 0;
-        for (let k = 0; k < 3; k++) {
-          if (Math.abs((x1[a1 + k] as number) - (x0[a0 + k] as number)) > 1) jumps++;
-          if (Math.abs((x2[a2 + k] as number) - (x1[a1 + k] as number)) > 1) jumps++;
-        }
-        const pref = pa.pref + pb.pref + pc.pref;
-        if (best !== null && !(line < bestLine || (line === bestLine && (total < bestTotal || (total === bestTotal && (jumps < bestJumps || (jumps === bestJumps && pref < bestPref))))))) continue;
-        [bestLine, bestTotal, bestJumps, bestPref] = [line, total, jumps, pref];
-        const t = [t0, t1, t2] as const;
-        const paths = [pa, pb, pc];
-        const levelJumps: LevelJump[] = [];
-        PHASES.forEach((ph, k) => {
-          for (let s = 0; s < 2; s++) {
-            const [a, b] = [t[s]![k] as number, t[s + 1]![k] as number];
-            if (Math.abs(levels.indexOf(b) - levels.indexOf(a)) > 1) levelJumps.push({ phase: ph, from: a, to: b });
+    for (let c0 = 0; c0 < r0.length; c0++)
+      for (let c1 = 0; c1 < r1.length; c1++) {
+        const a0 = 3 * c0;
+        const a1 = 3 * c1;
+        // under the sequence rule the first step must change one phase: tested before the third
+        // vertex's realisations are gone through (the order of the search is unchanged)
+        if (step && !apart(x0, a0, x1, a1)) continue;
+        for (let c2 = 0; c2 < r2.length; c2++) {
+          const a2 = 3 * c2;
+          if (step && !apart(x1, a1, x2, a2)) continue;
+          const pa = phasePath(0, x0[a0] as number, x1[a1] as number, x2[a2] as number);
+          if (pa === null) continue;
+          const pb = phasePath(1, x0[a0 + 1] as number, x1[a1 + 1] as number, x2[a2 + 1] as number);
+          if (pb === null) continue;
+          const pc = phasePath(2, x0[a0 + 2] as number, x1[a1 + 2] as number, x2[a2 + 2] as number);
+          if (pc === null) continue;
+          const t0 = r0[c0] as LevelTriplet;
+          const t1 = r1[c1] as LevelTriplet;
+          const t2 = r2[c2] as LevelTriplet;
+          const line = pa.line + pb.line + pc.line;
+          const total = pa.total + pb.total + pc.total;
+          let jumps = 0;
+          for (let k = 0; k < 3; k++) {
+            if (Math.abs((x1[a1 + k] as number) - (x0[a0 + k] as number)) > 1) jumps++;
+            if (Math.abs((x2[a2 + k] as number) - (x1[a1 + k] as number)) > 1) jumps++;
           }
-        });
-        const choice = [0, 0, 0] as [number, number, number];
-        [choice[order[0]], choice[order[1]], choice[order[2]]] = [c0, c1, c2];
-        const states = [0, 1, 2].map((s) => paths.map((p) => p.states[s]) as unknown as LegState) as unknown as [LegState, LegState, LegState];
-        const changes = paths.flatMap((p) => Object.entries(p.changes)).sort(([a], [b]) => (a < b ? -1 : 1));
-        best = {
-          order, choice, states,
-          gateChanges: Object.fromEntries(changes),
-          totalGateChanges: total,
-          levelJumps,
-          lineDevicesSwitching: paths.flatMap((p) => p.lineSwitching),
-        };
+          const pref = pa.pref + pb.pref + pc.pref;
+          if (
+            best !== null &&
+            !(
+              line < bestLine ||
+              (line === bestLine && (total < bestTotal || (total === bestTotal && (jumps < bestJumps || (jumps === bestJumps && pref < bestPref)))))
+            )
+          )
+            continue;
+          [bestLine, bestTotal, bestJumps, bestPref] = [line, total, jumps, pref];
+          const t = [t0, t1, t2] as const;
+          const paths = [pa, pb, pc];
+          const levelJumps: LevelJump[] = [];
+          PHASES.forEach((ph, k) => {
+            for (let s = 0; s < 2; s++) {
+              const [a, b] = [t[s]![k] as number, t[s + 1]![k] as number];
+              if (Math.abs(levels.indexOf(b) - levels.indexOf(a)) > 1) levelJumps.push({ phase: ph, from: a, to: b });
+            }
+          });
+          const choice = [0, 0, 0] as [number, number, number];
+          [choice[order[0]], choice[order[1]], choice[order[2]]] = [c0, c1, c2];
+          const states = [0, 1, 2].map((s) => paths.map((p) => p.states[s]) as unknown as LegState) as unknown as [LegState, LegState, LegState];
+          const changes = paths.flatMap((p) => Object.entries(p.changes)).sort(([a], [b]) => (a < b ? -1 : 1));
+          best = {
+            order,
+            choice,
+            states,
+            gateChanges: Object.fromEntries(changes),
+            totalGateChanges: total,
+            levelJumps,
+            lineDevicesSwitching: paths.flatMap((p) => p.lineSwitching),
+          };
+        }
       }
-    }
   }
   return best;
 }
@@ -182,20 +192,38 @@ interface PhasePath {
   readonly lineSwitching: string[];
 }
 
-function bestPhasePath(ph: Phase, lv: readonly number[], cands: (level: number) => readonly PhaseState[], lineDevices: ReadonlySet<string>, step?: (a: PhaseState, b: PhaseState) => boolean): PhasePath | null {
+function bestPhasePath(
+  ph: Phase,
+  lv: readonly number[],
+  cands: (level: number) => readonly PhaseState[],
+  lineDevices: ReadonlySet<string>,
+  step?: (a: PhaseState, b: PhaseState) => boolean,
+): PhasePath | null {
   const [x, y, z] = lv.map(cands) as [readonly PhaseState[], readonly PhaseState[], readonly PhaseState[]];
   let best: PhasePath | null = null;
-  for (let i = 0; i < x.length; i++) for (let j = 0; j < y.length; j++) for (let k = 0; k < z.length; k++) {
-    const st = [x[i], y[j], z[k]] as PhaseState[];
-    if (step && !(step(st[0]!, st[1]!) && step(st[1]!, st[2]!))) continue;
-    const changes: Record<string, number> = {};
-    for (const [a, b] of [[st[0], st[1]], [st[1], st[2]]] as [PhaseState, PhaseState][]) {
-      for (const d of gateDifference(a.gates, b.gates)) changes[`${ph}.${d}`] = (changes[`${ph}.${d}`] ?? 0) + 2;
-    }
-    const lineSwitching = Object.keys(changes).filter((key) => lineDevices.has(key.slice(ph.length + 1)));
-    const path = { states: st, changes, total: sum(Object.values(changes)), line: sum(lineSwitching.map((key) => changes[key] as number)), pref: i + j + k, lineSwitching };
-    if (!best || lexLess([path.line, path.total, path.pref], [best.line, best.total, best.pref])) best = path;
-  }
+  for (let i = 0; i < x.length; i++)
+    for (let j = 0; j < y.length; j++)
+      for (let k = 0; k < z.length; k++) {
+        const st = [x[i], y[j], z[k]] as PhaseState[];
+        if (step && !(step(st[0]!, st[1]!) && step(st[1]!, st[2]!))) continue;
+        const changes: Record<string, number> = {};
+        for (const [a, b] of [
+          [st[0], st[1]],
+          [st[1], st[2]],
+        ] as [PhaseState, PhaseState][]) {
+          for (const d of gateDifference(a.gates, b.gates)) changes[`${ph}.${d}`] = (changes[`${ph}.${d}`] ?? 0) + 2;
+        }
+        const lineSwitching = Object.keys(changes).filter((key) => lineDevices.has(key.slice(ph.length + 1)));
+        const path = {
+          states: st,
+          changes,
+          total: sum(Object.values(changes)),
+          line: sum(lineSwitching.map((key) => changes[key] as number)),
+          pref: i + j + k,
+          lineSwitching,
+        };
+        if (!best || lexLess([path.line, path.total, path.pref], [best.line, best.total, best.pref])) best = path;
+      }
   return best;
 }
 
@@ -214,7 +242,14 @@ export function gateDifference(a: readonly string[], b: readonly string[]): stri
   return [...a.filter((g) => !b.includes(g)), ...b.filter((g) => !a.includes(g))];
 }
 
-const PERMUTATIONS: readonly (readonly [number, number, number])[] = [[0, 1, 2], [0, 2, 1], [1, 0, 2], [1, 2, 0], [2, 0, 1], [2, 1, 0]];
+const PERMUTATIONS: readonly (readonly [number, number, number])[] = [
+  [0, 1, 2],
+  [0, 2, 1],
+  [1, 0, 2],
+  [1, 2, 0],
+  [2, 0, 1],
+  [2, 1, 0],
+];
 
 function sum(xs: readonly number[]): number {
   return xs.reduce((a, b) => a + b, 0);

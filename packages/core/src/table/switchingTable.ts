@@ -92,7 +92,14 @@ export function switchingTable(options: AnalyseLegOptions): SwitchingTable {
 export function switchingTableFromAtlas(atlas: DiagramAtlas): SwitchingTable {
   requireAtlas(atlas, 'switchingTableFromAtlas');
   const count = legLevels(atlas.analysis.leg).length;
-  if (count > MAX_TABLE_LEVELS) throw new HexsalvageInputError('topology', atlas.analysis.topology, 'dcNodes', `a leg of at most ${MAX_TABLE_LEVELS} levels for the switching table, its runtime and exports (a documented limit: the table of ${count} levels would be too large)`, count);
+  if (count > MAX_TABLE_LEVELS)
+    throw new HexsalvageInputError(
+      'topology',
+      atlas.analysis.topology,
+      'dcNodes',
+      `a leg of at most ${MAX_TABLE_LEVELS} levels for the switching table, its runtime and exports (a documented limit: the table of ${count} levels would be too large)`,
+      count,
+    );
   const polarities: Record<PolarityString, TablePolarity> = {};
   const lineDevicesAtPwm: TriangleFlag[] = [];
   const levelJumps: TriangleFlag[] = [];
@@ -104,7 +111,12 @@ export function switchingTableFromAtlas(atlas: DiagramAtlas): SwitchingTable {
     t.triangles.forEach((tri, i) => {
       const s = tri.sequence;
       if (s && s.lineDevicesSwitching.length > 0) lineDevicesAtPwm.push({ polarity: p, triangle: i, detail: s.lineDevicesSwitching });
-      if (s && s.levelJumps.length > 0) levelJumps.push({ polarity: p, triangle: i, detail: s.levelJumps.map((j: { phase: Phase; from: number; to: number }) => `${j.phase}: ${j.from}→${j.to}`) });
+      if (s && s.levelJumps.length > 0)
+        levelJumps.push({
+          polarity: p,
+          triangle: i,
+          detail: s.levelJumps.map((j: { phase: Phase; from: number; to: number }) => `${j.phase}: ${j.from}→${j.to}`),
+        });
       if (!s) noSequence.push({ polarity: p, triangle: i, detail: ['no sequence obeys the sequence rule'] });
       if (tri.authorityLost) midpointAuthorityLost.push({ polarity: p, triangle: i, detail: [`${tri.healthyMidpointAuthority}→${tri.midpointAuthority}`] });
     });

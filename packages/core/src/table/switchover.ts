@@ -66,7 +66,7 @@ export interface SwitchoverExit {
 export interface Switchover {
   readonly topology: string;
   readonly faults: readonly string[];
-  /** Per phase, per healthy pattern, per current sign: same, deviates or unsafe (contract, Version 3). */
+  /** Per phase, per healthy pattern, per current sign: same, deviates or unsafe. */
   readonly patterns: Readonly<Record<Phase, Readonly<Record<string, Readonly<Record<CurrentSign, SwitchoverClass>>>>>>;
   /** The same, with levels and reasons. */
   readonly details: Readonly<Record<Phase, Readonly<Record<string, Readonly<Record<CurrentSign, SwitchoverCell>>>>>>;
@@ -110,16 +110,24 @@ export const SWITCHOVER_SEARCH_LIMIT = 1 << 14;
  */
 export function switchover(options: SwitchoverOptions): Switchover {
   requireObject(options, 'switchover', 'an options object { topology, faults, m?, loadAngleDeg?, f1?, fsw? }');
-  if (options.bypass !== undefined) throw new HexsalvageInputError('option', 'switchover', 'bypass', 'no bypass (the switch-over is from the healthy table into the degraded one)', options.bypass);
+  if (options.bypass !== undefined)
+    throw new HexsalvageInputError(
+      'option',
+      'switchover',
+      'bypass',
+      'no bypass (the switch-over is from the healthy table into the degraded one)',
+      options.bypass,
+    );
   const atlas = diagramAtlas(options);
   const analysis = atlas.analysis;
   const details = {} as Record<Phase, Record<string, Record<CurrentSign, SwitchoverCell>>>;
   const patterns = {} as Record<Phase, Record<string, Record<CurrentSign, SwitchoverClass>>>;
   // under an ambiguous diagnosis each configuration is judged on its own and the worst case kept
   // (a pattern that deviates in one and is unchanged in another deviates)
-  const configs = analysis.configurations.length > 1
-    ? analysis.configurations.map((c) => ({ label: c.map(formatFault).join(', '), phases: analyseLeg({ ...options, faults: c.map(formatFault) }).phases }))
-    : [{ label: '', phases: analysis.phases }];
+  const configs =
+    analysis.configurations.length > 1
+      ? analysis.configurations.map((c) => ({ label: c.map(formatFault).join(', '), phases: analyseLeg({ ...options, faults: c.map(formatFault) }).phases }))
+      : [{ label: '', phases: analysis.phases }];
   for (const ph of PHASES) {
     details[ph] = {};
     patterns[ph] = {};
@@ -133,7 +141,13 @@ export function switchover(options: SwitchoverOptions): Switchover {
   const run = operatingRun(options, details);
   const faulted = PHASES.filter((ph) => analysis.faults.some((x) => x.phase === ph));
   const switches = gatedDeviceIds(analysis.leg);
-  const exits = faulted.flatMap((ph) => analysis.healthy.patterns.flatMap((h) => (['+', '-'] as const).filter((s) => h.status === 'allowed' && h.bySign[s].level !== null).map((s) => exitFrom(ph, h, s, analysis.phases[ph], switches, analysis.leg.output))));
+  const exits = faulted.flatMap((ph) =>
+    analysis.healthy.patterns.flatMap((h) =>
+      (['+', '-'] as const)
+        .filter((s) => h.status === 'allowed' && h.bySign[s].level !== null)
+        .map((s) => exitFrom(ph, h, s, analysis.phases[ph], switches, analysis.leg.output)),
+    ),
+  );
   return { topology: analysis.topology, faults: faultTexts(analysis), patterns, details, run, exits, cautions: CAUTIONS };
 }
 
@@ -151,10 +165,22 @@ function worstOf(cells: readonly { label: string; cell: SwitchoverCell }[]): Swi
 // A healthy pattern and sign against the faulted table.
 function classify(h: PatternResult, f: PatternResult, s: CurrentSign): SwitchoverCell {
   const healthyLevel = h.status === 'allowed' ? h.bySign[s].level : null;
-  if (f.status === 'forbidden') return { class: 'unsafe', healthyLevel, level: null, reason: `shoot-through ${f.shootThrough.from}→${f.shootThrough.to} via ${f.shootThrough.path.join(', ')}` };
+  if (f.status === 'forbidden')
+    return {
+      class: 'unsafe',
+      healthyLevel,
+      level: null,
+      reason: `shoot-through ${f.shootThrough.from}→${f.shootThrough.to} via ${f.shootThrough.path.join(', ')}`,
+    };
   const level = f.bySign[s].level;
   if (level === healthyLevel) return { class: 'same', healthyLevel, level };
-  if (level === null) return { class: 'unsafe', healthyLevel, level, reason: f.unsafe[s] ? reasonInWords(f.unsafe[s] as string) : 'the current finds no path: it is interrupted' };
+  if (level === null)
+    return {
+      class: 'unsafe',
+      healthyLevel,
+      level,
+      reason: f.unsafe[s] ? reasonInWords(f.unsafe[s] as string) : 'the current finds no path: it is interrupted',
+    };
   return { class: 'deviates', healthyLevel, level };
 }
 
@@ -162,16 +188,35 @@ function classify(h: PatternResult, f: PatternResult, s: CurrentSign): Switchove
 function operatingRun(o: SwitchoverOptions, details: Record<Phase, Record<string, Record<CurrentSign, SwitchoverCell>>>): SwitchoverRun | null {
   const given = [o.m, o.loadAngleDeg, o.f1, o.fsw].filter((x) => x !== undefined).length;
   if (given === 0) return null;
-  if (o.m === undefined || o.f1 === undefined || o.fsw === undefined) throw new HexsalvageInputError('option', 'switchover', o.m === undefined ? 'm' : o.f1 === undefined ? 'f1' : 'fsw', 'm, f1 and fsw together (the operating point), or none of them', undefined);
+  if (o.m === undefined || o.f1 === undefined || o.fsw === undefined)
+    throw new HexsalvageInputError(
+      'option',
+      'switchover',
+      o.m === undefined ? 'm' : o.f1 === undefined ? 'f1' : 'fsw',
+      'm, f1 and fsw together (the operating point), or none of them',
+      undefined,
+    );
   const m = requireNumber(o.m, 'switchover', 'm', { min: 0 });
   const phi = requireNumber(o.loadAngleDeg ?? 0, 'switchover', 'loadAngleDeg', { min: -180, max: 180 });
   const delta = requireNumber(o.polarityMarginDeg ?? 0, 'switchover', 'polarityMarginDeg', { min: 0, max: 60, openMax: true });
   const f1 = requireNumber(o.f1, 'switchover', 'f1', { min: 0, openMin: true, max: 1e5 });
   const fsw = requireNumber(o.fsw, 'switchover', 'fsw', { min: 6 * f1, max: 20000 * f1 });
   const ratio = Math.round(fsw / f1);
-  const healthy: DiagramAtlas = diagramAtlas({ topology: o.topology, faults: [], ...(o.ignoreRatings === undefined ? {} : { ignoreRatings: o.ignoreRatings }), ...(o.levelSteps === undefined ? {} : { levelSteps: o.levelSteps }) });
+  const healthy: DiagramAtlas = diagramAtlas({
+    topology: o.topology,
+    faults: [],
+    ...(o.ignoreRatings === undefined ? {} : { ignoreRatings: o.ignoreRatings }),
+    ...(o.levelSteps === undefined ? {} : { levelSteps: o.levelSteps }),
+  });
   const limit = planLimits(healthy, phi, delta).mMax;
-  if (m > limit + 1e-12) throw new HexsalvageInputError('option', 'switchover', 'm', `at most the healthy limit ${limit.toFixed(6)} (the healthy table runs until the diagnosis acts)`, m);
+  if (m > limit + 1e-12)
+    throw new HexsalvageInputError(
+      'option',
+      'switchover',
+      'm',
+      `at most the healthy limit ${limit.toFixed(6)} (the healthy table runs until the diagnosis acts)`,
+      m,
+    );
   const stream = runtimeStream(switchingTableFromAtlas(healthy), { m, loadAngleDeg: phi, polarityMarginDeg: delta, frequencyRatio: ratio });
   const T = 1 / f1;
   const psi = (phi * Math.PI) / 180;
@@ -211,7 +256,20 @@ function operatingRun(o: SwitchoverOptions, details: Record<Phase, Record<string
     distortion: `distortion only: ${deviating} of ${stream.segments.length} states give another level, none is unsafe; the diagnosis may take its time`,
     hardware: `the healthy table overstresses a device or breaks a current within one switching period when the fault strikes while such states are due (${unsafeStates} of ${stream.segments.length} states per fundamental period are unsafe; the longest stretch without one is ${ms(longest)}${longest <= period + 1e-12 ? ', one switching period' : ''}): protection must act in hardware`,
   }[urgency];
-  return { m, loadAngleDeg: phi, f1, fsw, states: stream.segments.length, unsafeStates, deviatingStates: deviating, unsafeShare: unsafeTime, longestSafeS: longest * T, firstUnsafe: first, verdict, urgency };
+  return {
+    m,
+    loadAngleDeg: phi,
+    f1,
+    fsw,
+    states: stream.segments.length,
+    unsafeStates,
+    deviatingStates: deviating,
+    unsafeShare: unsafeTime,
+    longestSafeS: longest * T,
+    firstUnsafe: first,
+    verdict,
+    urgency,
+  };
 }
 
 // The longest stretch of the periodic time axis [0, 1) outside the given intervals.
@@ -277,9 +335,11 @@ function trace(seen: ReadonlyMap<string, { from: string | null; act: string }>, 
 // What the current does with every gate of the phase off.
 function blockAll(solve: GateSetSolver, sign: CurrentSign, output: string): string {
   const o = solve([]);
-  if (o.status === 'forbidden') return `blocking every gate still shoots through ${o.shootThrough.from}→${o.shootThrough.to} (via the failed element): only the DC-link protection can act`;
+  if (o.status === 'forbidden')
+    return `blocking every gate still shoots through ${o.shootThrough.from}→${o.shootThrough.to} (via the failed element): only the DC-link protection can act`;
   const l = o.bySign[sign].level;
-  if (l !== null) return `no safe way through single gate actions; blocking every gate, the current (i ${sign === '+' ? '> 0' : '< 0'}) freewheels through the diodes and holds ${output} at ${l} × Vdc/2 until it decays`;
+  if (l !== null)
+    return `no safe way through single gate actions; blocking every gate, the current (i ${sign === '+' ? '> 0' : '< 0'}) freewheels through the diodes and holds ${output} at ${l} × Vdc/2 until it decays`;
   const why = o.unsafe[sign];
   return `no safe way through single gate actions; blocking every gate, the current (i ${sign === '+' ? '> 0' : '< 0'}) ${why ? `flows but ${reasonInWords(why)}` : 'finds no path: it is interrupted (the inductive load drives an overvoltage a snubber or clamp must take)'}`;
 }

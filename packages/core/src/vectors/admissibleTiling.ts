@@ -54,7 +54,12 @@ const TURN = 2 * Math.PI;
  * admissibleTiling(points, admissibleTriangles(vectors, moves, points), 1e-9).triangles;
  * ```
  */
-export function admissibleTiling(points: readonly Point[], admissible: readonly AdmissibleTriangle[], eps: number, delaunay?: readonly Triangle[]): AdmissibleTiling {
+export function admissibleTiling(
+  points: readonly Point[],
+  admissible: readonly AdmissibleTriangle[],
+  eps: number,
+  delaunay?: readonly Triangle[],
+): AdmissibleTiling {
   const all = admissible.map((a) => a.vertices);
   const shapes = all.map((t) => shapeOf(points, t));
   const hullArea = hullAreaOf(points, all);
@@ -77,7 +82,12 @@ export function admissibleTiling(points: readonly Point[], admissible: readonly 
     }
     return out;
   };
-  const tilingOf = (chosen: number[]): TilingState => describe(points, chosen.map((i) => all[i] as Triangle), eps);
+  const tilingOf = (chosen: number[]): TilingState =>
+    describe(
+      points,
+      chosen.map((i) => all[i] as Triangle),
+      eps,
+    );
   const covers = (chosen: number[], state: TilingState) => {
     const area = chosen.reduce((acc, i) => acc + (shapes[i] as Shape).area, 0);
     if (area >= hullArea - 1e3 * eps) return true;
@@ -178,7 +188,12 @@ function hullAreaOf(points: readonly Point[], triangles: readonly Triangle[]): n
 // the fan around the origin is settled before any outer triangle can block it; (3) by the distance
 // of the farthest corner; (4) by area alone.
 // Each order is made only when asked for, and then kept: most diagrams need the first one only.
-function candidateOrders(points: readonly Point[], all: readonly Triangle[], shapes: readonly Shape[], known?: readonly Triangle[]): (() => readonly number[])[] {
+function candidateOrders(
+  points: readonly Point[],
+  all: readonly Triangle[],
+  shapes: readonly Shape[],
+  known?: readonly Triangle[],
+): (() => readonly number[])[] {
   const area = shapes.map((s) => s.area);
   const idx = all.map((_, i) => i);
   const by = (key: () => readonly number[]) => {
@@ -236,10 +251,13 @@ function finish(state: TilingState, union: HullGeometry, exact: boolean, candida
 
 // A triangle lies inside the tiling when its centroid is covered and no outline segment enters it.
 function inside(points: readonly Point[], t: Triangle, state: TilingState, eps: number): boolean {
-  const c = [0, 1, 2].reduce<Point>((acc, k) => {
-    const p = points[t[k] as number] as Point;
-    return [acc[0] + p[0] / 3, acc[1] + p[1] / 3];
-  }, [0, 0]);
+  const c = [0, 1, 2].reduce<Point>(
+    (acc, k) => {
+      const p = points[t[k] as number] as Point;
+      return [acc[0] + p[0] / 3, acc[1] + p[1] / 3];
+    },
+    [0, 0],
+  );
   if (!coveredBy(points, state.triangles, c, eps)) return false;
   return state.outline.every((e) => !segmentEntersTriangle(points, t, e.segment, eps));
 }

@@ -16,7 +16,7 @@ export interface AdmissibleTriangle {
 }
 
 /**
- * Every admissible triangle of a polarity (contract, Version 2): three distinct, non-collinear
+ * Every admissible triangle of a polarity: three distinct, non-collinear
  * vectors with realisations r1, r2, r3 such that r1 → r2 and r2 → r3 each change exactly one phase
  * by a level move that phase may make.
  *
@@ -41,30 +41,32 @@ export function admissibleTriangles(vectors: readonly SpaceVector[], moves: Phas
   });
   const next = moveMaps(moves);
   const found = new Map<string, AdmissibleTriangle>();
-  for (const v of vectors) for (const r2 of v.levels) {
-    const nbrs: { phase: number; t: LevelTriplet; vec: number }[] = [];
-    for (let k = 0; k < 3; k++) {
-      for (const l of next[k]?.get(r2[k] as number) ?? []) {
-        const t = [...r2] as [number, number, number];
-        t[k] = l;
-        const vec = owner.get(key(t));
-        if (vec !== undefined) nbrs.push({ phase: k, t, vec });
+  for (const v of vectors)
+    for (const r2 of v.levels) {
+      const nbrs: { phase: number; t: LevelTriplet; vec: number }[] = [];
+      for (let k = 0; k < 3; k++) {
+        for (const l of next[k]?.get(r2[k] as number) ?? []) {
+          const t = [...r2] as [number, number, number];
+          t[k] = l;
+          const vec = owner.get(key(t));
+          if (vec !== undefined) nbrs.push({ phase: k, t, vec });
+        }
       }
+      const v2 = owner.get(key(r2)) as number;
+      for (let i = 0; i < nbrs.length; i++)
+        for (let j = i + 1; j < nbrs.length; j++) {
+          const x = nbrs[i] as (typeof nbrs)[number];
+          const y = nbrs[j] as (typeof nbrs)[number];
+          if (x.phase === y.phase || x.vec === y.vec || x.vec === v2 || y.vec === v2) continue;
+          let tri: [number, number, number] = [x.vec, v2, y.vec];
+          const area = triangleArea(points, tri);
+          if (Math.abs(area) <= AREA_TOLERANCE * scale * scale) continue;
+          if (area < 0) tri = [tri[0], tri[2], tri[1]];
+          const rotated = rotateToMin(tri);
+          const k = rotated.join(',');
+          if (!found.has(k)) found.set(k, { vertices: rotated, chain: [x.t, r2, y.t] });
+        }
     }
-    const v2 = owner.get(key(r2)) as number;
-    for (let i = 0; i < nbrs.length; i++) for (let j = i + 1; j < nbrs.length; j++) {
-      const x = nbrs[i] as (typeof nbrs)[number];
-      const y = nbrs[j] as (typeof nbrs)[number];
-      if (x.phase === y.phase || x.vec === y.vec || x.vec === v2 || y.vec === v2) continue;
-      let tri: [number, number, number] = [x.vec, v2, y.vec];
-      const area = triangleArea(points, tri);
-      if (Math.abs(area) <= AREA_TOLERANCE * scale * scale) continue;
-      if (area < 0) tri = [tri[0], tri[2], tri[1]];
-      const rotated = rotateToMin(tri);
-      const k = rotated.join(',');
-      if (!found.has(k)) found.set(k, { vertices: rotated, chain: [x.t, r2, y.t] });
-    }
-  }
   return [...found.values()].sort((a, b) => a.vertices[0] - b.vertices[0] || a.vertices[1] - b.vertices[1] || a.vertices[2] - b.vertices[2]);
 }
 
@@ -97,7 +99,9 @@ export function admissibleChain(vectors: readonly SpaceVector[], tri: Triangle, 
  * delaunay.every((t) => chain(vectors, t) !== null);
  * ```
  */
-export function admissibleChecker(moves: PhaseMoves): (vectors: readonly SpaceVector[], tri: Triangle) => readonly [LevelTriplet, LevelTriplet, LevelTriplet] | null {
+export function admissibleChecker(
+  moves: PhaseMoves,
+): (vectors: readonly SpaceVector[], tri: Triangle) => readonly [LevelTriplet, LevelTriplet, LevelTriplet] | null {
   const next = moveMaps(moves);
   const step = (a: LevelTriplet, b: LevelTriplet): boolean => {
     let k = -1;
@@ -187,9 +191,11 @@ export function admissibleStands(vectors: readonly SpaceVector[], moves: PhaseMo
     const q = (code - ic) / L;
     const ib = q % L;
     const ia = (q - ib) / L;
-    return hits(owner, ra[ia] as number[], code - ia * LL, LL, target)
-      || hits(owner, rb[ib] as number[], code - ib * L, L, target)
-      || hits(owner, rc[ic] as number[], code - ic, 1, target);
+    return (
+      hits(owner, ra[ia] as number[], code - ia * LL, LL, target) ||
+      hits(owner, rb[ib] as number[], code - ib * L, L, target) ||
+      hits(owner, rc[ic] as number[], code - ic, 1, target)
+    );
   };
   return (tri) => {
     for (let m = 0; m < 3; m++) {

@@ -34,8 +34,8 @@ export function vectorShells(healthy: readonly SpaceVector[], levelCount: number
     const i = firstNotBelow(lengths, r, tol);
     if (!(i < lengths.length && Math.abs((lengths[i] as number) - r) <= tol)) lengths.splice(i, 0, r);
   }
-  const names = levelCount === 3 && lengths.length === 4 ? ['zero', 'small', 'medium', 'large']
-    : levelCount === 2 && lengths.length === 2 ? ['zero', 'active'] : null;
+  const names =
+    levelCount === 3 && lengths.length === 4 ? ['zero', 'small', 'medium', 'large'] : levelCount === 2 && lengths.length === 2 ? ['zero', 'active'] : null;
   return lengths.map((length, k) => ({ length, name: names?.[k] ?? `shell-${k}` }));
 }
 

@@ -6,10 +6,9 @@ import type { LevelMove } from '../leg/commutation.js';
 import type { LegTable, PhasePolarity } from '../leg/legTable.js';
 import type { LimitRules } from '../leg/rules.js';
 
-/** One pattern in the `leg` JSON document; `unsafe` gives the reason a level is not used (Version 2). */
+/** One pattern in the `leg` JSON document; `unsafe` gives the reason a level is not used. */
 export type LegDocumentPattern =
-  | { readonly '+': number | null; readonly '-': number | null; readonly unsafe?: Readonly<Partial<Record<'+' | '-', string>>> }
-  | { readonly forbidden: string };
+  { readonly '+': number | null; readonly '-': number | null; readonly unsafe?: Readonly<Partial<Record<'+' | '-', string>>> } | { readonly forbidden: string };
 
 /** The `leg` command's JSON document, exactly as the interface contract fixes it (plus `paths`). */
 export interface LegDocument {
@@ -18,14 +17,19 @@ export interface LegDocument {
   readonly rules: LimitRules;
   /** Devices without a voltage rating (not checked). */
   readonly unrated: readonly string[];
-  readonly phases: Readonly<Record<Phase, {
-    readonly patterns: Readonly<Record<string, LegDocumentPattern>>;
-    readonly levels: LegTable['levels'];
-    /** Level changes the phase may make per polarity character, under the rules, sorted. */
-    readonly moves: Readonly<Record<PhasePolarity, readonly LevelMove[]>>;
-    /** Per allowed pattern and sign, the elements that carry the current. */
-    readonly paths: Readonly<Record<string, { readonly '+': readonly string[]; readonly '-': readonly string[] }>>;
-  }>>;
+  readonly phases: Readonly<
+    Record<
+      Phase,
+      {
+        readonly patterns: Readonly<Record<string, LegDocumentPattern>>;
+        readonly levels: LegTable['levels'];
+        /** Level changes the phase may make per polarity character, under the rules, sorted. */
+        readonly moves: Readonly<Record<PhasePolarity, readonly LevelMove[]>>;
+        /** Per allowed pattern and sign, the elements that carry the current. */
+        readonly paths: Readonly<Record<string, { readonly '+': readonly string[]; readonly '-': readonly string[] }>>;
+      }
+    >
+  >;
 }
 
 /**

@@ -28,7 +28,8 @@ export interface LevelNotation {
  */
 export function levelNotation(dcLevels: readonly number[]): LevelNotation {
   const sorted = [...new Set(dcLevels)].sort((x, y) => x - y);
-  const letters = (sorted.length === 3 && sorted[0] === -1 && sorted[1] === 0 && sorted[2] === 1) || (sorted.length === 2 && sorted[0] === -1 && sorted[1] === 1);
+  const letters =
+    (sorted.length === 3 && sorted[0] === -1 && sorted[1] === 0 && sorted[2] === 1) || (sorted.length === 2 && sorted[0] === -1 && sorted[1] === 1);
   const number = (l: number) => {
     const s = Number(l.toFixed(4)).toString();
     return l > 0 ? `+${s}` : s === '-0' ? '0' : s;

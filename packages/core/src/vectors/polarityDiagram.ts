@@ -44,7 +44,7 @@ export interface PolarityDiagram {
   readonly lostTriplets: number;
   /** Radial geometry of the tiling: the extent e(θ) the limit uses. */
   readonly geometry: HullGeometry;
-  /** Radial geometry of the convex hull (first version): the extent behind `mMaxHull`. */
+  /** Radial geometry of the convex hull (the convex-hull bound): the extent behind `mMaxHull`. */
   readonly hullGeometry: HullGeometry;
   /** min over θ of the extent of the union of all admissible triangles (contract `reach`). */
   readonly reach: number;
@@ -95,7 +95,7 @@ export function offerKey(offer: Pick<PhaseOffer, 'levels' | 'moves'>, c: PhasePo
  * Builds the surviving vectors, hull, admissible tiling and dwell matrices for one polarity string.
  *
  * Under `levelSteps: any` the tiling is the Delaunay triangulation of the surviving vectors and the
- * extent is the convex hull's (the first version). Otherwise the triangles are admissible: when
+ * extent is the convex hull's (the convex-hull bound). Otherwise the triangles are admissible: when
  * every Delaunay triangle already is, the Delaunay tiling stands (it covers the hull, so the union
  * of admissible triangles too) and the extent is the hull's; else the admissible triangles are
  * enumerated and tiled (`admissibleTiling`), and the extent is the tiling's outline.
@@ -132,9 +132,10 @@ export function polarityDiagram(
   const fullKey = () => `${part(phases.a, pa)}|${part(phases.b, pb)}|${part(phases.c, pc)}`;
   // First stage, where the offers give neighbour moves: keyed by levels and those moves only, valid
   // only for a diagram whose Delaunay triangles stand under them (see PhaseOffer.adjacent).
-  const adj = withMoves && phases.a.adjacent && phases.b.adjacent && phases.c.adjacent
-    ? ([phases.a.adjacent(pa), phases.b.adjacent(pb), phases.c.adjacent(pc)] as PhaseMoves)
-    : null;
+  const adj =
+    withMoves && phases.a.adjacent && phases.b.adjacent && phases.c.adjacent
+      ? ([phases.a.adjacent(pa), phases.b.adjacent(pb), phases.c.adjacent(pc)] as PhaseMoves)
+      : null;
   const stageKey = adj ? `A|${stagePart(phases.a, pa)}|${stagePart(phases.b, pb)}|${stagePart(phases.c, pc)}` : null;
   if (stageKey) {
     const known = cache?.get(stageKey);
@@ -216,7 +217,13 @@ function stagePart(o: PhaseOffer, c: PhasePolarity): string {
 const STAGE_PARTS = new WeakMap<PhaseOffer, Map<PhasePolarity, string>>();
 
 // Healthy vectors missing from a diagram, and healthy realising triplets missing from it.
-function losses(phaseLevels: PolarityDiagram['phaseLevels'], vectors: readonly SpaceVector[], healthy: readonly SpaceVector[], shellOf: (v: SpaceVector) => string, scale: number): Pick<PolarityDiagram, 'lost' | 'lostTriplets'> {
+function losses(
+  phaseLevels: PolarityDiagram['phaseLevels'],
+  vectors: readonly SpaceVector[],
+  healthy: readonly SpaceVector[],
+  shellOf: (v: SpaceVector) => string,
+  scale: number,
+): Pick<PolarityDiagram, 'lost' | 'lostTriplets'> {
   const find = vectorFinder(vectors, scale);
   const lost = healthy.filter((h) => find([h.alpha, h.beta]) < 0).map((v) => ({ ...v, class: shellOf(v) }));
   // the surviving triplets are the whole product of the three level sets, so a healthy triplet is
@@ -259,7 +266,17 @@ interface Tiling {
   readonly exact: boolean;
 }
 
-function tile(vectors: readonly SpaceVector[], points: readonly Point[], delaunay: readonly Triangle[], hull: readonly number[], convex: HullGeometry, radius: number, moves: PhaseMoves, rules: LimitRules, scale: number): Tiling {
+function tile(
+  vectors: readonly SpaceVector[],
+  points: readonly Point[],
+  delaunay: readonly Triangle[],
+  hull: readonly number[],
+  convex: HullGeometry,
+  radius: number,
+  moves: PhaseMoves,
+  rules: LimitRules,
+  scale: number,
+): Tiling {
   const whole = { triangles: delaunay, geometry: convex, reach: radius, outline: null, exact: true };
   if (rules.levelSteps === 'any') return whole;
   const stands = admissibleStands(vectors, moves);

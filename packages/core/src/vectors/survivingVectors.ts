@@ -61,19 +61,20 @@ export function survivingVectors(sets: readonly [readonly number[], readonly num
         const y1 = size - fy < 2 * tol ? 1 : 0;
         const y0 = fy < 2 * tol ? -1 : 0;
         let g = -1;
-        for (let dx = fx < 2 * tol ? -1 : 0; dx <= x1; dx++) for (let dy = y0; dy <= y1; dy++) {
-          const list = cells.get(cx + dx, cy + dy);
-          if (list === undefined) continue;
-          // a cell lists its groups in the order they were made: the first match is its earliest
-          for (let k = 0; k < list.length; k++) {
-            const x = list[k] as number;
-            if (g >= 0 && x > g) break;
-            if (Math.hypot((gx[x] as number) - px, (gy[x] as number) - py) <= tol) {
-              g = x;
-              break;
+        for (let dx = fx < 2 * tol ? -1 : 0; dx <= x1; dx++)
+          for (let dy = y0; dy <= y1; dy++) {
+            const list = cells.get(cx + dx, cy + dy);
+            if (list === undefined) continue;
+            // a cell lists its groups in the order they were made: the first match is its earliest
+            for (let k = 0; k < list.length; k++) {
+              const x = list[k] as number;
+              if (g >= 0 && x > g) break;
+              if (Math.hypot((gx[x] as number) - px, (gy[x] as number) - py) <= tol) {
+                g = x;
+                break;
+              }
             }
           }
-        }
         const code = (ia * nb + ib) * nc + ic;
         if (g >= 0) (members[g] as number[]).push(code);
         else {
@@ -193,13 +194,15 @@ export function vectorFinder(vectors: readonly SpaceVector[], scale = 1): (p: Po
     const cx = Math.floor(p[0] / tol);
     const cy = Math.floor(p[1] / tol);
     let best = -1;
-    for (let dx = -1; dx <= 1; dx++) for (let dy = -1; dy <= 1; dy++) {
-      const list = cells.get(cx + dx, cy + dy);
-      if (list) for (const i of list) {
-        const v = vectors[i] as SpaceVector;
-        if ((best < 0 || i < best) && Math.hypot(v.alpha - p[0], v.beta - p[1]) <= tol) best = i;
+    for (let dx = -1; dx <= 1; dx++)
+      for (let dy = -1; dy <= 1; dy++) {
+        const list = cells.get(cx + dx, cy + dy);
+        if (list)
+          for (const i of list) {
+            const v = vectors[i] as SpaceVector;
+            if ((best < 0 || i < best) && Math.hypot(v.alpha - p[0], v.beta - p[1]) <= tol) best = i;
+          }
       }
-    }
     return best;
   };
 }
