@@ -7,6 +7,7 @@ export default defineConfig({
     // exact matches: '@hexsalvage/core/errors' must not be read as a path below the index
     alias: [
       { find: /^@hexsalvage\/core$/, replacement: fileURLToPath(new URL('./packages/core/src/index.ts', import.meta.url)) },
+      { find: /^@hexsalvage\/core\/internal$/, replacement: fileURLToPath(new URL('./packages/core/src/internal.ts', import.meta.url)) },
       { find: /^@hexsalvage\/core\/node$/, replacement: fileURLToPath(new URL('./packages/core/src/node/index.ts', import.meta.url)) },
       { find: /^@hexsalvage\/core\/errors$/, replacement: fileURLToPath(new URL('./packages/core/src/shared/errors.ts', import.meta.url)) },
       { find: /^@hexsalvage\/plot$/, replacement: fileURLToPath(new URL('./packages/plot/src/index.ts', import.meta.url)) },

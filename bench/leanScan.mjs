@@ -1,6 +1,6 @@
 // The benchmarks' fair baseline for the modulator: the plan's dwell matrices in flat arrays and the
 // same arithmetic, tried triangle by triangle in index order, no grid, no memory, no allocation.
-import { POLARITY_STRINGS } from '../packages/core/dist/index.js';
+import { POLARITY_STRINGS } from '../packages/core/dist/internal.js';
 
 /**
  * A plain allocation-free scan over a plan's triangles.

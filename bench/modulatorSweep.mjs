@@ -5,7 +5,7 @@
 // (mMax = 0) have nothing to modulate and are left out.
 import { readFileSync } from 'node:fs';
 import { performance } from 'node:perf_hooks';
-import { createModulator, expandElements, FAULT_MODES, planRemedial, polarityAt, POLARITY_STRINGS, resolveTopology } from '../packages/core/dist/index.js';
+import { createModulator, expandElements, FAULT_MODES, planRemedial, polarityAt, POLARITY_STRINGS, resolveTopology } from '../packages/core/dist/internal.js';
 import { leanScan } from './leanScan.mjs';
 
 const arg = process.argv[2] ?? 'npc';

@@ -83,7 +83,7 @@ try {
   paired('--version against node -e 0', [BIN, '--version'], ['-e', '0'], 1.3);
   // the fault atlas: every single fault of every built-in leg in both modes over 181 load angles,
   // in one process (start-up included), and the ANPC double-fault atlas of open faults on 2 threads
-  const CORE = new URL('../packages/core/dist/index.js', import.meta.url).href;
+  const CORE = new URL('../packages/core/dist/internal.js', import.meta.url).href;
   const allLegs = `const { BUILTIN_TOPOLOGIES, faultAtlas } = await import(${JSON.stringify(CORE)}); for (const t of BUILTIN_TOPOLOGIES) faultAtlas({ topology: t, stepDeg: 1 });`;
   alone('atlas, every single fault of the 5 built-in legs, 181 angles', ['--input-type=module', '-e', allLegs], 1000);
   alone(

@@ -3,7 +3,7 @@
 // next leg's (in one process the same call sites see several modulators and may stop inlining).
 import { readFileSync } from 'node:fs';
 import { performance } from 'node:perf_hooks';
-import { createModulator, createRuntime, planRemedial, polarityAt, POLARITY_STRINGS, switchingTable } from '../packages/core/dist/index.js';
+import { createModulator, createRuntime, planRemedial, polarityAt, POLARITY_STRINGS, switchingTable } from '../packages/core/dist/internal.js';
 import { leanScan } from './leanScan.mjs';
 
 const label = process.argv[2];

@@ -1,7 +1,7 @@
 // Benchmarks (`pnpm bench`): wall-clock figures on this machine, printed, never asserted.
 import { performance } from 'node:perf_hooks';
 import { leanScan } from './leanScan.mjs';
-import { BUILTIN_TOPOLOGIES, builtinLeg, diagramAtlas, expandElements, modulationLimit, planRemedial } from '../packages/core/dist/index.js';
+import { BUILTIN_TOPOLOGIES, builtinLeg, diagramAtlas, expandElements, modulationLimit, planRemedial } from '../packages/core/dist/internal.js';
 
 function time(label, fn, minMs = 1500) {
   fn(); // warm-up
@@ -114,7 +114,7 @@ const atlasMs = time(
 console.log(`  = ${evaluations} exact limits, ${((atlasMs * 1000) / evaluations).toFixed(1)} µs per limit including the atlas build`);
 
 // modulate: fast grid paths against the plain linear scan over all triangles (locateReference)
-const { createModulator, locateReference, POLARITY_STRINGS } = await import('../packages/core/dist/index.js');
+const { createModulator, locateReference, POLARITY_STRINGS } = await import('../packages/core/dist/internal.js');
 const N = 200000;
 let seed = 12345;
 const rnd = () => (seed = (seed * 1103515245 + 12345) >>> 0) / 2 ** 32;
@@ -193,7 +193,7 @@ for (const [label, faults] of [
 
 // One simulated period at fsw/f1 = 200 on a three-level leg, beside a plan of the same case.
 {
-  const { simulatePeriod } = await import('../packages/core/dist/index.js');
+  const { simulatePeriod } = await import('../packages/core/dist/internal.js');
   const o = { topology: 'npc', faults: ['a.outerUpper'], loadAngleDeg: 30, polarityMarginDeg: 5 };
   const planMs = median(() => planRemedial(o), 200);
   const simMs = median(() => simulatePeriod({ ...o, m: 0.5, vdc: 750, currentPeak: 150, f1: 50, fsw: 10000 }), 20);

@@ -11,6 +11,7 @@ const root = fileURLToPath(new URL('..', import.meta.url));
 export const ENTRIES = [
   ['@hexsalvage/core', 'packages/core/src/index.ts'],
   ['@hexsalvage/core/node', 'packages/core/src/node/index.ts'],
+  ['@hexsalvage/core/internal', 'packages/core/src/internal.ts'],
   ['@hexsalvage/plot', 'packages/plot/src/index.ts'],
 ];
 

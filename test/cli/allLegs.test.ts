@@ -3,7 +3,8 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { XMLValidator } from 'fast-xml-parser';
 import { describe, expect, it } from 'vitest';
-import { BUILTIN_TOPOLOGIES, builtinLeg, expandElements } from '@hexsalvage/core';
+import { BUILTIN_TOPOLOGIES, builtinLeg } from '@hexsalvage/core';
+import { expandElements } from '@hexsalvage/core/internal';
 import { runBin, runInProcess } from '../support/cli.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'hexsalvage-all-'));

@@ -3,7 +3,8 @@ import { chmodSync, existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSyn
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { createModulator, deratingCurve, diagramAtlas, HexsalvageInputError, planRemedial, plainText } from '@hexsalvage/core';
+import { createModulator, deratingCurve, HexsalvageInputError, planRemedial } from '@hexsalvage/core';
+import { diagramAtlas, plainText } from '@hexsalvage/core/internal';
 import { fc, fcParams } from '../support/fc.js';
 import { BIN, ROOT, runBin, runInProcess } from '../support/cli.js';
 

@@ -3,19 +3,8 @@ import { existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, 
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
-import {
-  builtinLeg,
-  createModulator,
-  csvCell,
-  deratingCurve,
-  exportC,
-  exportCsv,
-  HexsalvageInputError,
-  legTable,
-  NETLIST_LIMITS,
-  planRemedial,
-  switchingTable,
-} from '@hexsalvage/core';
+import { builtinLeg, createModulator, deratingCurve, exportC, exportCsv, HexsalvageInputError, planRemedial, switchingTable } from '@hexsalvage/core';
+import { csvCell, legTable, NETLIST_LIMITS } from '@hexsalvage/core/internal';
 import { BIN, ROOT, runBin, runInProcess } from '../support/cli.js';
 
 // The second hostile review: each class of failure with the input that showed it, and variants.

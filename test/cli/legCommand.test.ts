@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { analyseLeg, BUILTIN_TOPOLOGIES, builtinLeg, expandElements, legDocument } from '@hexsalvage/core';
+import { analyseLeg, BUILTIN_TOPOLOGIES, builtinLeg, legDocument } from '@hexsalvage/core';
+import { expandElements } from '@hexsalvage/core/internal';
 import { runBin, runInProcess } from '../support/cli.js';
 
 describe('hexsalvage leg', () => {

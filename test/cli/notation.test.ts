@@ -1,7 +1,8 @@
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { deratingCurve, diagramAtlas, levelNotation, parseNetlist, planRemedial, vectorName } from '@hexsalvage/core';
+import { deratingCurve, levelNotation, parseNetlist, planRemedial } from '@hexsalvage/core';
+import { diagramAtlas, vectorName } from '@hexsalvage/core/internal';
 import { deratingCurveSvg, vectorDiagramSvg } from '@hexsalvage/plot';
 import { ROOT, runInProcess } from '../support/cli.js';
 

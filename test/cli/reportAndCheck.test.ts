@@ -3,7 +3,8 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { XMLValidator } from 'fast-xml-parser';
 import { describe, expect, it } from 'vitest';
-import { evaluateClaim, modulationLimit, diagramAtlas } from '@hexsalvage/core';
+import { evaluateClaim, modulationLimit } from '@hexsalvage/core';
+import { diagramAtlas } from '@hexsalvage/core/internal';
 import { ROOT, runBin, runInProcess } from '../support/cli.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'hexsalvage-report-'));

@@ -8,18 +8,16 @@ import {
   BUILTIN_TOPOLOGIES,
   builtinLeg,
   deratingCurve,
-  diagramAtlas,
   evaluateClaim,
   faultAtlas,
   formatFault,
-  limitOverLoadAngles,
-  planFromAtlas,
   planRemedial,
   simulatePeriod,
   simulationWaveform,
   switchingTable,
   type FaultMode,
 } from '@hexsalvage/core';
+import { diagramAtlas, limitOverLoadAngles, planFromAtlas } from '@hexsalvage/core/internal';
 import { loadNetlistFile } from '@hexsalvage/core/node';
 import { deratingCurveSvg, legSchematicSvg, sectorOverviewSvg, vectorDiagramSvg, waveformsSvg } from '@hexsalvage/plot';
 import { buildReport } from '../../packages/cli/src/report/buildReport.js';

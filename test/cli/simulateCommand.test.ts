@@ -3,7 +3,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { Ajv } from 'ajv';
 import { describe, expect, it } from 'vitest';
-import { DEMO_DEVICES } from '@hexsalvage/core';
+import { DEMO_DEVICES } from '@hexsalvage/core/internal';
 import { ROOT, runBin, runInProcess } from '../support/cli.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'hexsalvage-sim-'));

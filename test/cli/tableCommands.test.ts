@@ -2,7 +2,8 @@ import { mkdtempSync, readFileSync, readdirSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { BUILTIN_TOPOLOGIES, builtinLeg, CSV_COLUMNS, expandElements } from '@hexsalvage/core';
+import { BUILTIN_TOPOLOGIES, builtinLeg } from '@hexsalvage/core';
+import { CSV_COLUMNS, expandElements } from '@hexsalvage/core/internal';
 import { runBin, runInProcess } from '../support/cli.js';
 
 describe('hexsalvage table', () => {

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { chooseSequence, type PhaseState } from '@hexsalvage/core';
+import { type PhaseState } from '@hexsalvage/core';
+import { chooseSequence } from '@hexsalvage/core/internal';
 
 // A three-level phase with one pattern per level (invented names): P, O, N.
 const NAMES: Record<number, string> = { 1: 'P', 0: 'O', [-1]: 'N' };

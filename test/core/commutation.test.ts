@@ -1,19 +1,7 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import {
-  BUILTIN_TOPOLOGIES,
-  builtinLeg,
-  commutates,
-  expandElements,
-  gateSetSolver,
-  legLevels,
-  parseNetlist,
-  patternLevel,
-  phaseCommutations,
-  type LegNetlist,
-  type LevelMove,
-  type PhasePolarity,
-} from '@hexsalvage/core';
+import { BUILTIN_TOPOLOGIES, builtinLeg, parseNetlist, type LegNetlist, type LevelMove, type PhasePolarity } from '@hexsalvage/core';
+import { commutates, expandElements, gateSetSolver, legLevels, patternLevel, phaseCommutations } from '@hexsalvage/core/internal';
 
 // phaseCommutations takes two shortcuts: it stops at the first commutating pattern pair of each
 // level change, and it reuses the '?' moves for a sign whose levels they already join completely.

@@ -1,6 +1,7 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { BUILTIN_TOPOLOGIES, builtinLeg, expandElements, HexsalvageInputError, parseNetlist, type FaultMode, type LegNetlist } from '@hexsalvage/core';
+import { BUILTIN_TOPOLOGIES, builtinLeg, HexsalvageInputError, parseNetlist, type FaultMode, type LegNetlist } from '@hexsalvage/core';
+import { expandElements } from '@hexsalvage/core/internal';
 import { compiledLeg } from '../../packages/core/src/leg/compiledLeg.js';
 import { conductionEdges, findShootThrough, outputForSign } from '../../packages/core/src/leg/conduction.js';
 import { ratingChecker } from '../../packages/core/src/leg/ratingCheck.js';

@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { readFileSync } from 'node:fs';
-import { clarke, createModulator, HexsalvageInputError, locateReference, planRemedial, polarityAt, POLARITY_STRINGS, switchingTable } from '@hexsalvage/core';
+import { createModulator, HexsalvageInputError, planRemedial, polarityAt, POLARITY_STRINGS, switchingTable } from '@hexsalvage/core';
+import { clarke, locateReference } from '@hexsalvage/core/internal';
 import { fc, fcParams } from '../support/fc.js';
 
 const plan = planRemedial({ topology: 'npc', faults: ['a.outerUpper'] });

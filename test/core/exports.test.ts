@@ -4,17 +4,8 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { Ajv } from 'ajv';
 import { describe, expect, it } from 'vitest';
-import {
-  createModulator,
-  CSV_COLUMNS,
-  exportC,
-  exportCsv,
-  exportDocument,
-  HexsalvageInputError,
-  planRemedial,
-  POLARITY_STRINGS,
-  switchingTable,
-} from '@hexsalvage/core';
+import { createModulator, exportC, exportCsv, exportDocument, HexsalvageInputError, planRemedial, POLARITY_STRINGS, switchingTable } from '@hexsalvage/core';
+import { CSV_COLUMNS } from '@hexsalvage/core/internal';
 import { fc, FC_SEED } from '../support/fc.js';
 
 const SCHEMA = JSON.parse(readFileSync(new URL('../../docs/schema/export.schema.json', import.meta.url), 'utf8'));

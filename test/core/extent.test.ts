@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { BUILTIN_TOPOLOGIES, builtinLeg, diagramAtlas, expandElements, minRadialExtent, POLARITY_STRINGS, radialExtent, type Point } from '@hexsalvage/core';
+import { BUILTIN_TOPOLOGIES, builtinLeg, POLARITY_STRINGS, type Point } from '@hexsalvage/core';
+import { diagramAtlas, expandElements, minRadialExtent, radialExtent } from '@hexsalvage/core/internal';
 import { fc, fcParams } from '../support/fc.js';
 
 const caseArb = fc.constantFrom(...BUILTIN_TOPOLOGIES).chain((t) => {

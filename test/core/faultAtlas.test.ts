@@ -1,16 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import {
-  atlasWork,
-  BUILTIN_TOPOLOGIES,
-  builtinLeg,
-  canonicalRotation,
-  evaluateClaim,
-  expandElements,
-  faultAtlas,
-  HexsalvageInputError,
-  planRemedial,
-  type LegNetlist,
-} from '@hexsalvage/core';
+import { BUILTIN_TOPOLOGIES, builtinLeg, evaluateClaim, faultAtlas, HexsalvageInputError, planRemedial, type LegNetlist } from '@hexsalvage/core';
+import { atlasWork, canonicalRotation, expandElements } from '@hexsalvage/core/internal';
 import { fc, fcParams } from '../support/fc.js';
 
 const S3 = Math.sqrt(3);

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { analyseLeg, builtinLeg, faultsByPhase, HexsalvageInputError, parseFault } from '@hexsalvage/core';
+import { analyseLeg, builtinLeg, HexsalvageInputError, parseFault } from '@hexsalvage/core';
+import { faultsByPhase } from '@hexsalvage/core/internal';
 
 describe('parseFault', () => {
   const npc = builtinLeg('npc');

@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+import { type Point } from '@hexsalvage/core';
 import {
   clampToHull,
   clarke,
@@ -13,8 +14,7 @@ import {
   survivingVectors,
   triangleArea,
   triangulate,
-  type Point,
-} from '@hexsalvage/core';
+} from '@hexsalvage/core/internal';
 
 const S3 = Math.sqrt(3);
 

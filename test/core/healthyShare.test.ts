@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
+import { BUILTIN_TOPOLOGIES, type VectorShell } from '@hexsalvage/core';
 import {
-  BUILTIN_TOPOLOGIES,
   classifyVector,
   diagramAtlas,
   sharedSurvivingVectors,
@@ -8,8 +8,7 @@ import {
   survivingVectors,
   vectorShells,
   VECTOR_TOLERANCE,
-  type VectorShell,
-} from '@hexsalvage/core';
+} from '@hexsalvage/core/internal';
 import { diagramScale, levelSetScale } from '../../packages/core/src/geometry/diagramScale.js';
 import { fc, fcParams } from '../support/fc.js';
 import { diodeClampedLeg } from '../support/legs.js';

@@ -2,15 +2,14 @@ import { describe, expect, it } from 'vitest';
 import {
   BUILTIN_TOPOLOGIES,
   builtinLeg,
-  expandElements,
   HexsalvageInputError,
-  legTable,
   parseNetlist,
   planRemedial,
   type BuiltinTopology,
   type FaultMode,
   type LegNetlist,
 } from '@hexsalvage/core';
+import { expandElements, legTable } from '@hexsalvage/core/internal';
 import { fc, fcParams } from '../support/fc.js';
 import { mirrorElement, mirrorPattern } from '../support/mirror.js';
 

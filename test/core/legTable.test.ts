@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { analyseLeg, BUILTIN_TOPOLOGIES, builtinLeg, expandElements, legTable, type BuiltinTopology } from '@hexsalvage/core';
+import { analyseLeg, BUILTIN_TOPOLOGIES, builtinLeg, type BuiltinTopology } from '@hexsalvage/core';
+import { expandElements, legTable } from '@hexsalvage/core/internal';
 
 type Row = Record<string, [number | null, number | null]>; // pattern → [level for i>0, level for i<0]
 

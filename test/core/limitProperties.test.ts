@@ -2,18 +2,14 @@ import { describe, expect, it } from 'vitest';
 import {
   BUILTIN_TOPOLOGIES,
   builtinLeg,
-  diagramAtlas,
-  expandElements,
-  limitOverLoadAngles,
-  locateReference,
   modulationLimit,
   planRemedial,
   polarityAt,
   polarityDocument,
   POLARITY_STRINGS,
-  radialExtent,
   type BuiltinTopology,
 } from '@hexsalvage/core';
+import { diagramAtlas, expandElements, limitOverLoadAngles, locateReference, radialExtent } from '@hexsalvage/core/internal';
 import { fc, fcParams } from '../support/fc.js';
 import { mirrorElement } from '../support/mirror.js';
 

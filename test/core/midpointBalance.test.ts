@@ -1,18 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import {
-  BUILTIN_TOPOLOGIES,
-  builtinLeg,
-  diagramAtlas,
-  expandElements,
-  MIDPOINT_SAMPLES,
-  MIDPOINT_TOLERANCE,
-  balancedLimit,
-  midpointProfile,
-  midpointRangeAt,
-  modulationLimit,
-  polarityAt,
-  type PolarityDiagram,
-} from '@hexsalvage/core';
+import { BUILTIN_TOPOLOGIES, builtinLeg, modulationLimit, polarityAt, type PolarityDiagram } from '@hexsalvage/core';
+import { diagramAtlas, expandElements, MIDPOINT_SAMPLES, MIDPOINT_TOLERANCE, balancedLimit, midpointProfile, midpointRangeAt } from '@hexsalvage/core/internal';
 import { fc, fcParams } from '../support/fc.js';
 
 // An independent evaluation of the reachable range at one m: for every sample direction, find the

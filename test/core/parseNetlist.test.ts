@@ -1,6 +1,7 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { builtinLeg, HexsalvageInputError, legTable, parseNetlist } from '@hexsalvage/core';
+import { builtinLeg, HexsalvageInputError, parseNetlist } from '@hexsalvage/core';
+import { legTable } from '@hexsalvage/core/internal';
 
 const FIVE = JSON.parse(readFileSync(new URL('../../examples/five-level-leg.json', import.meta.url), 'utf8')) as Record<string, unknown>;
 

@@ -1,14 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import {
-  deratingCurve,
-  diagramAtlas,
-  HexsalvageInputError,
-  limitOverLoadAngles,
-  modulationLimit,
-  planRemedial,
-  polaritySectors,
-  POLARITY_STRINGS,
-} from '@hexsalvage/core';
+import { deratingCurve, HexsalvageInputError, modulationLimit, planRemedial, POLARITY_STRINGS } from '@hexsalvage/core';
+import { diagramAtlas, limitOverLoadAngles, polaritySectors } from '@hexsalvage/core/internal';
 
 describe('polaritySectors', () => {
   it('splits the cycle at the six current zero crossings (plus 0°) without a margin', () => {

@@ -4,17 +4,15 @@ import {
   analyseLeg,
   BUILTIN_TOPOLOGIES,
   builtinLeg,
-  expandElements,
   HexsalvageInputError,
   legDocument,
-  legTable,
   planRemedial,
   simulatePeriod,
   switchover,
-  usableLevel,
   type CurrentSign,
   type PatternResult,
 } from '@hexsalvage/core';
+import { expandElements, legTable, usableLevel } from '@hexsalvage/core/internal';
 import { loadNetlistFile } from '@hexsalvage/core/node';
 import { ROOT, runInProcess } from '../support/cli.js';
 

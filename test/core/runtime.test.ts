@@ -7,21 +7,14 @@ import {
   analyseLeg,
   BUILTIN_TOPOLOGIES,
   builtinLeg,
-  commutates,
   createRuntime,
   deratingCurve,
   deratingSteps,
-  diagramAtlas,
-  expandElements,
   exportC,
   HexsalvageInputError,
-  legLevels,
   parsePolarity,
-  patternLevel,
-  planFromAtlas,
   POLARITY_STRINGS,
   runtimeStream,
-  switchingTableFromAtlas,
   type LegNetlist,
   type LevelStepRule,
   type PhasePolarity,
@@ -29,6 +22,7 @@ import {
   type StreamSegment,
   type SwitchingTable,
 } from '@hexsalvage/core';
+import { commutates, diagramAtlas, expandElements, legLevels, patternLevel, planFromAtlas, switchingTableFromAtlas } from '@hexsalvage/core/internal';
 import { fc, FC_SEED } from '../support/fc.js';
 
 const FIVE = JSON.parse(readFileSync(new URL('../../examples/five-level-leg.json', import.meta.url), 'utf8')) as LegNetlist;

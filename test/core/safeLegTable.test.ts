@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { analyseLeg, BUILTIN_TOPOLOGIES, builtinLeg, expandElements, type BuiltinTopology } from '@hexsalvage/core';
+import { analyseLeg, BUILTIN_TOPOLOGIES, builtinLeg, type BuiltinTopology } from '@hexsalvage/core';
+import { expandElements } from '@hexsalvage/core/internal';
 
 type Level = number | null;
 type Row = Record<string, [Level, Level] | 'forbidden'>; // pattern → [level for i>0, level for i<0]

@@ -3,17 +3,15 @@ import { describe, expect, it } from 'vitest';
 import {
   BUILTIN_TOPOLOGIES,
   builtinLeg,
-  diagramAtlas,
   evaluateClaim,
-  expandElements,
   LEVEL_STEP_RULES,
-  limitOverLoadAngles,
   modulationLimit,
   planRemedial,
   switchingTable,
   type BuiltinTopology,
   type LevelStepRule,
 } from '@hexsalvage/core';
+import { diagramAtlas, expandElements, limitOverLoadAngles } from '@hexsalvage/core/internal';
 import { fc, fcParams } from '../support/fc.js';
 
 const HEALTHY = 2 / Math.sqrt(3);

@@ -1,6 +1,6 @@
 import { readFileSync, writeFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import * as core from '@hexsalvage/core';
+import * as core from '@hexsalvage/core/internal';
 // @ts-expect-error a plain module shared with the script that wrote the golden file
 import { sequenceDigest } from '../support/sequenceDigest.mjs';
 

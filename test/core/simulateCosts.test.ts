@@ -2,15 +2,13 @@ import { describe, expect, it } from 'vitest';
 import {
   BUILTIN_TOPOLOGIES,
   builtinLeg,
-  diagramAtlas,
-  expandElements,
   HexsalvageInputError,
-  planFromAtlas,
   simulatePeriod,
   simulationWaveform,
   type BuiltinTopology,
   type SimulateOptions,
 } from '@hexsalvage/core';
+import { diagramAtlas, expandElements, planFromAtlas } from '@hexsalvage/core/internal';
 
 // What degraded operation costs: energy booked where a gate change commutates current against a
 // voltage, one branch per current (Kirchhoff), failed elements never blamed, no artefact of the

@@ -2,17 +2,13 @@ import { describe, expect, it } from 'vitest';
 import {
   BUILTIN_TOPOLOGIES,
   builtinLeg,
-  conductionLoss,
-  expandElements,
   planRemedial,
-  DEMO_DEVICES,
-  eventEnergy,
   HexsalvageInputError,
-  parseDeviceParameters,
   simulatePeriod,
   simulationWaveform,
   type DeviceParameterSet,
 } from '@hexsalvage/core';
+import { conductionLoss, expandElements, DEMO_DEVICES, eventEnergy, parseDeviceParameters } from '@hexsalvage/core/internal';
 import { fc, fcParams } from '../support/fc.js';
 
 const op = { vdc: 750, currentPeak: 150, f1: 50, fsw: 3000 } as const;

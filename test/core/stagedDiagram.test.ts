@@ -1,21 +1,17 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { diodeClampedLeg } from '../support/legs.js';
+import { BUILTIN_TOPOLOGIES, builtinLeg, POLARITY_STRINGS, type LegTable, type PhaseOffer } from '@hexsalvage/core';
 import {
   admissibleChecker,
   admissibleStands,
-  BUILTIN_TOPOLOGIES,
-  builtinLeg,
   diagramAtlas,
   expandElements,
   legLevels,
   phaseMoves,
   polarityDiagram,
-  POLARITY_STRINGS,
   triangulate,
-  type LegTable,
-  type PhaseOffer,
-} from '@hexsalvage/core';
+} from '@hexsalvage/core/internal';
 
 // On a leg with many named patterns diagramAtlas first tries each diagram with the level moves
 // between neighbouring levels only (a cheap search) and keeps it when every Delaunay triangle is

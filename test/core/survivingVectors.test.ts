@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { clarke, indexOfVector, survivingVectors, vectorFinder, VECTOR_TOLERANCE, type LevelTriplet } from '@hexsalvage/core';
+import { type LevelTriplet } from '@hexsalvage/core';
+import { clarke, indexOfVector, survivingVectors, vectorFinder, VECTOR_TOLERANCE } from '@hexsalvage/core/internal';
 import { fc, fcParams } from '../support/fc.js';
 
 // The plain method the grid replaces: scan every group in order, the first within the tolerance

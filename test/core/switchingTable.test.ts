@@ -1,21 +1,15 @@
 import { describe, expect, it } from 'vitest';
 import {
   analyseLeg,
-  midpointSign,
   BUILTIN_TOPOLOGIES,
   builtinLeg,
-  conductionEdges,
   cycleCheck,
-  diagramAtlas,
-  expandElements,
-  outputForSign,
   parsePolarity,
-  planFromAtlas,
   switchingTable,
-  switchingTableFromAtlas,
   type BuiltinTopology,
   type PhaseFaults,
 } from '@hexsalvage/core';
+import { midpointSign, conductionEdges, diagramAtlas, expandElements, outputForSign, planFromAtlas, switchingTableFromAtlas } from '@hexsalvage/core/internal';
 
 // Re-solves one phase state with the leg solver: the level the pattern really gives for the sign.
 function solvedLevel(topology: BuiltinTopology, faults: PhaseFaults, gates: readonly string[], sign: '+' | '-') {

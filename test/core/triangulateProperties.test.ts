@@ -1,18 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import {
-  admissibleChain,
-  BUILTIN_TOPOLOGIES,
-  builtinLeg,
-  diagramAtlas,
-  expandElements,
-  parsePolarity,
-  phaseMoves,
-  polygonArea,
-  POLARITY_STRINGS,
-  triangleArea,
-  triangulate,
-  type Point,
-} from '@hexsalvage/core';
+import { BUILTIN_TOPOLOGIES, builtinLeg, parsePolarity, POLARITY_STRINGS, type Point } from '@hexsalvage/core';
+import { admissibleChain, diagramAtlas, expandElements, phaseMoves, polygonArea, triangleArea, triangulate } from '@hexsalvage/core/internal';
 import { fc, fcParams } from '../support/fc.js';
 
 const caseArb = fc.constantFrom(...BUILTIN_TOPOLOGIES).chain((t) => {

@@ -1,20 +1,8 @@
 import { existsSync, readFileSync, writeFileSync } from 'node:fs';
 import { XMLParser, XMLValidator } from 'fast-xml-parser';
 import { describe, expect, it } from 'vitest';
-import {
-  builtinLeg,
-  deratingCurve,
-  diagramAtlas,
-  faultAtlas,
-  gatedDeviceIds,
-  samplePeriod,
-  simulatePeriod,
-  simulationWaveform,
-  parseNetlist,
-  planFromAtlas,
-  planRemedial,
-  switchingTableFromAtlas,
-} from '@hexsalvage/core';
+import { builtinLeg, deratingCurve, faultAtlas, samplePeriod, simulatePeriod, simulationWaveform, parseNetlist, planRemedial } from '@hexsalvage/core';
+import { diagramAtlas, gatedDeviceIds, planFromAtlas, switchingTableFromAtlas } from '@hexsalvage/core/internal';
 import {
   atlasHeatmapSvg,
   atlasPairMatrixSvg,

@@ -1,7 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import monotoneHull from 'monotone-convex-hull-2d';
 import { solve } from 'yalps';
-import { BUILTIN_TOPOLOGIES, builtinLeg, convexHull, diagramAtlas, expandElements, POLARITY_STRINGS, radialExtent, type Point } from '@hexsalvage/core';
+import { BUILTIN_TOPOLOGIES, builtinLeg, POLARITY_STRINGS, type Point } from '@hexsalvage/core';
+import { convexHull, diagramAtlas, expandElements, radialExtent } from '@hexsalvage/core/internal';
 import { fc, fcParams } from '../support/fc.js';
 
 // r(θ) from a general-purpose LP solver (yalps, npm): maximise r subject to r·u(θ) being a convex

@@ -1,7 +1,8 @@
 import { readFileSync } from 'node:fs';
 import { inverse, Matrix } from 'ml-matrix';
 import { describe, expect, it } from 'vitest';
-import { BUILTIN_TOPOLOGIES, dwellMatrix, planRemedial, type Point } from '@hexsalvage/core';
+import { BUILTIN_TOPOLOGIES, planRemedial, type Point } from '@hexsalvage/core';
+import { dwellMatrix } from '@hexsalvage/core/internal';
 import { fc, fcParams } from '../support/fc.js';
 
 // Reference library from the npm registry: ml-matrix 6.15.1 (mljs), `inverse` = LU decomposition

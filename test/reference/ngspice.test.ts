@@ -1,16 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import {
-  BUILTIN_TOPOLOGIES,
-  builtinLeg,
-  expandElements,
-  gateSetSolver,
-  planFromAtlas,
-  diagramAtlas,
-  simulationWaveform,
-  type FaultMode,
-  type LegNetlist,
-  type PhaseFaults,
-} from '@hexsalvage/core';
+import { BUILTIN_TOPOLOGIES, builtinLeg, simulationWaveform, type FaultMode, type LegNetlist, type PhaseFaults } from '@hexsalvage/core';
+import { expandElements, gateSetSolver, planFromAtlas, diagramAtlas } from '@hexsalvage/core/internal';
 import { HAS_NGSPICE, solveWithNgspice, VOLTS_PER_UNIT, type SpiceCase } from '../support/spice.js';
 
 // Cross-check against a circuit simulator from the Debian archive (ngspice): the leg solver's

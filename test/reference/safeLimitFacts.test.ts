@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { builtinLeg, expandElements, ratingCheck, switchingTable, type LegNetlist } from '@hexsalvage/core';
+import { builtinLeg, switchingTable, type LegNetlist } from '@hexsalvage/core';
+import { expandElements, ratingCheck } from '@hexsalvage/core/internal';
 
 // Facts of the trade behind the Version 2 rules, checked against the solver.
 

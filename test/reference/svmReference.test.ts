@@ -1,15 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import {
-  convexHull,
-  dwellMatrix,
-  hullGeometry,
-  locateReference,
-  minRadialExtent,
-  planRemedial,
-  survivingVectors,
-  triangulate,
-  type Point,
-} from '@hexsalvage/core';
+import { planRemedial, type Point } from '@hexsalvage/core';
+import { convexHull, dwellMatrix, hullGeometry, locateReference, minRadialExtent, survivingVectors, triangulate } from '@hexsalvage/core/internal';
 
 const S3 = Math.sqrt(3);
 const DEG = Math.PI / 180;

@@ -4,7 +4,8 @@ import { promisify } from 'node:util';
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { expandElements, type LegNetlist, type PhaseFaults } from '@hexsalvage/core';
+import { type LegNetlist, type PhaseFaults } from '@hexsalvage/core';
+import { expandElements } from '@hexsalvage/core/internal';
 
 /** Volts per unit of Vdc/2 in the circuits (diode drops stay small beside a level step). */
 export const VOLTS_PER_UNIT = 100;

@@ -1,5 +1,6 @@
 import { availableParallelism } from 'node:os';
-import { assembleAtlas, atlasWork, FAULT_MODES, type FaultAtlas, type FaultMode } from '@hexsalvage/core';
+import { FAULT_MODES, type FaultAtlas, type FaultMode } from '@hexsalvage/core';
+import { assembleAtlas, atlasWork } from '@hexsalvage/core/internal';
 import { degreeRange, usage, type OptionSpec, type ParsedArgs } from './args.js';
 import { computeClasses } from './atlasPool.js';
 import { ruleInputs } from './legInputs.js';

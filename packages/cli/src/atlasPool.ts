@@ -1,5 +1,6 @@
 import { Worker } from 'node:worker_threads';
-import { atlasClass, type AtlasClassResult, type AtlasProgress, type AtlasWork } from '@hexsalvage/core';
+import { type AtlasClassResult, type AtlasProgress, type AtlasWork } from '@hexsalvage/core';
+import { atlasClass } from '@hexsalvage/core/internal';
 import type { AtlasChunk, AtlasReply } from './atlasWorker.js';
 
 /**

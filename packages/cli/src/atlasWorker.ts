@@ -2,7 +2,8 @@
 // Each class is `atlasClass` of plain data, the same call the main thread would make, so the
 // document is identical for every N.
 import { parentPort, workerData } from 'node:worker_threads';
-import { atlasClass, type AtlasClassResult, type AtlasSettings } from '@hexsalvage/core';
+import { type AtlasClassResult, type AtlasSettings } from '@hexsalvage/core';
+import { atlasClass } from '@hexsalvage/core/internal';
 
 /** A chunk of classes to compute: their indices and fault sets. */
 export interface AtlasChunk {

@@ -1,6 +1,7 @@
 import { existsSync } from 'node:fs';
 import { dirname } from 'node:path';
-import { evaluateClaim, fileValue, HexsalvageInputError, LEVEL_STEP_RULES, type ClaimVerdict, type DeratingClaim, type LevelStepRule } from '@hexsalvage/core';
+import { evaluateClaim, HexsalvageInputError, LEVEL_STEP_RULES, type ClaimVerdict, type DeratingClaim, type LevelStepRule } from '@hexsalvage/core';
+import { fileValue } from '@hexsalvage/core/internal';
 import { loadTopology } from './loadTopology.js';
 import { readJsonFile } from '@hexsalvage/core/node';
 

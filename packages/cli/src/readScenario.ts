@@ -2,7 +2,6 @@ import { createHash } from 'node:crypto';
 import { existsSync, readFileSync, statSync } from 'node:fs';
 import { dirname, resolve } from 'node:path';
 import {
-  fileValue,
   HexsalvageInputError,
   isBuiltinTopology,
   MAX_SIMULATED_PERIODS,
@@ -11,6 +10,7 @@ import {
   type LegNetlist,
   type LevelStepRule,
 } from '@hexsalvage/core';
+import { fileValue } from '@hexsalvage/core/internal';
 import { confined, loadTopology } from './loadTopology.js';
 import { claimsFromDocument, parseClaimList } from './readClaims.js';
 import { readJsonFile } from '@hexsalvage/core/node';

@@ -1,4 +1,5 @@
-import { conductionEdges, expandElements, outputForSign, reasonInWords, type LegAnalysis, type PatternResult, type Phase } from '@hexsalvage/core';
+import { type LegAnalysis, type PatternResult, type Phase } from '@hexsalvage/core';
+import { conductionEdges, expandElements, outputForSign, reasonInWords } from '@hexsalvage/core/internal';
 import type { LegSchematicOptions } from '@hexsalvage/plot';
 import { usage } from './args.js';
 

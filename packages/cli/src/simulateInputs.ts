@@ -1,5 +1,6 @@
 import { existsSync } from 'node:fs';
-import { HexsalvageInputError, parseDeviceParameters, type LegNetlist, type LevelStepRule, type SimulateOptions } from '@hexsalvage/core';
+import { HexsalvageInputError, type LegNetlist, type LevelStepRule, type SimulateOptions } from '@hexsalvage/core';
+import { parseDeviceParameters } from '@hexsalvage/core/internal';
 import { usage, type OptionSpec, type ParsedArgs } from './args.js';
 import { runtimeInputs, updateInput } from './legInputs.js';
 import { readJsonFile } from '@hexsalvage/core/node';

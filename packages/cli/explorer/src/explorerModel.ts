@@ -1,15 +1,9 @@
 import {
   builtinLeg,
   deratingCurve,
-  diagramAtlas,
   HexsalvageInputError,
-  planFromAtlas,
   planRemedial,
-  planRemedies,
-  switchingTableFromAtlas,
   switchover,
-  withRemedies,
-  withVolts,
   type AnalyseLegOptions,
   type DeratingPoint,
   type DiagramAtlas,
@@ -17,6 +11,7 @@ import {
   type RemedialPlan,
   type Remedy,
 } from '@hexsalvage/core';
+import { diagramAtlas, planFromAtlas, planRemedies, switchingTableFromAtlas, withRemedies, withVolts } from '@hexsalvage/core/internal';
 import { buildReport } from '../../src/report/buildReport.js';
 import { commandLineOf, faultStrings, type ExplorerState } from './explorerState.js';
 

@@ -10,7 +10,6 @@ import {
   CAUTIONS,
   HexsalvageInputError,
   LEVEL_STEP_RULES,
-  MAX_INPUT_BYTES,
   parseFault,
   parseJsonText,
   parseNetlist,
@@ -19,6 +18,7 @@ import {
   type LevelStepRule,
   type Phase,
 } from '@hexsalvage/core';
+import { MAX_INPUT_BYTES } from '@hexsalvage/core/internal';
 import { esc } from '@hexsalvage/plot';
 import { errorLine, legOf } from './explorerModel.js';
 import { toWire, type ExplorerReply, type ExplorerRequest } from './explorerProtocol.js';

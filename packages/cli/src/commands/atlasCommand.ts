@@ -1,4 +1,5 @@
-import { csvCell, csvText, describeRules, type FaultAtlas } from '@hexsalvage/core';
+import { describeRules, type FaultAtlas } from '@hexsalvage/core';
+import { csvCell, csvText } from '@hexsalvage/core/internal';
 import { usage } from '../args.js';
 import { ATLAS_OPTIONS, atlasFromArgs } from '../atlasInputs.js';
 import { HELP_OPTION, JSON_OPTION, RULE_OPTIONS, type Command } from '../command.js';

@@ -1,4 +1,5 @@
-import { CAUTIONS, cycleCheck, diagramAtlas, lineRmsVolts, phasePeakVolts, planFromAtlas, switchingTableFromAtlas } from '@hexsalvage/core';
+import { CAUTIONS, cycleCheck, lineRmsVolts, phasePeakVolts } from '@hexsalvage/core';
+import { diagramAtlas, planFromAtlas, switchingTableFromAtlas } from '@hexsalvage/core/internal';
 import { usage } from '../args.js';
 import { ANGLE_OPTIONS, HELP_OPTION, JSON_OPTION, LEG_OPTIONS, RUNTIME_OPTIONS, VDC_OPTION, type Command } from '../command.js';
 import { cautionBlock, fmt, textTable, voltsText } from '../format.js';

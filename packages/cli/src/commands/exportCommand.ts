@@ -1,4 +1,5 @@
-import { deratingSteps, diagramAtlas, exportC, exportCsv, exportDocument, planFromAtlas, switchingTableFromAtlas, withVolts } from '@hexsalvage/core';
+import { deratingSteps, exportC, exportCsv, exportDocument } from '@hexsalvage/core';
+import { diagramAtlas, planFromAtlas, switchingTableFromAtlas, withVolts } from '@hexsalvage/core/internal';
 import { usage } from '../args.js';
 import { ANGLE_OPTIONS, HELP_OPTION, LEG_OPTIONS, RUNTIME_OPTIONS, VDC_OPTION, type Command } from '../command.js';
 import { angleInputs, legInputs, runtimeInputs, vdcInput } from '../legInputs.js';

@@ -1,5 +1,4 @@
 import {
-  faultTexts,
   analyseLeg,
   CAUTIONS,
   describeRules,
@@ -12,6 +11,7 @@ import {
   type PatternResult,
   type PhasePolarity,
 } from '@hexsalvage/core';
+import { faultTexts } from '@hexsalvage/core/internal';
 import { HELP_OPTION, JSON_OPTION, LEG_OPTIONS, type Command } from '../command.js';
 import { cautionBlock, levelText, textTable } from '../format.js';
 import { legInputs } from '../legInputs.js';

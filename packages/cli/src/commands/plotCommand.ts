@@ -1,18 +1,14 @@
 import {
-  faultTexts,
   parsePolarity,
-  diagramAtlas,
   simulatePeriod,
   simulationWaveform,
   deratingCurve,
-  gatedDeviceIds,
-  planFromAtlas,
   samplePeriod,
-  switchingTableFromAtlas,
   type DiagramAtlas,
   type RemedialPlan,
   type SequenceMode,
 } from '@hexsalvage/core';
+import { faultTexts, diagramAtlas, gatedDeviceIds, planFromAtlas, switchingTableFromAtlas } from '@hexsalvage/core/internal';
 import {
   atlasHeatmapSvg,
   atlasPairMatrixSvg,

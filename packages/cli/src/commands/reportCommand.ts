@@ -1,18 +1,15 @@
 import { dirname, relative, resolve } from 'node:path';
 import {
-  diagramAtlas,
   modulationOfLineRms,
-  planFromAtlas,
-  planRemedies,
   simulatePeriod,
   switchover,
   simulationWaveform,
-  switchingTableFromAtlas,
   type ClaimVerdict,
   type LegNetlist,
   type LevelStepRule,
   type SequenceMode,
 } from '@hexsalvage/core';
+import { diagramAtlas, planFromAtlas, planRemedies, switchingTableFromAtlas } from '@hexsalvage/core/internal';
 import { usage, type ParsedArgs } from '../args.js';
 import { buildDate, commandLine } from '../commandLine.js';
 import { fileSha256, readScenario, type Scenario } from '../readScenario.js';

@@ -1,4 +1,5 @@
-import { CAUTIONS, csvCell, csvText, simulatePeriod, simulationWaveform, type Simulation, type SimulateOptions } from '@hexsalvage/core';
+import { CAUTIONS, simulatePeriod, simulationWaveform, type Simulation, type SimulateOptions } from '@hexsalvage/core';
+import { csvCell, csvText } from '@hexsalvage/core/internal';
 import { usage } from '../args.js';
 import { HELP_OPTION, JSON_OPTION, LEG_OPTIONS, type Command } from '../command.js';
 import { cautionBlock, fmt, textTable } from '../format.js';

@@ -1,4 +1,5 @@
-import { faultTexts, CAUTIONS, describeRules, diagramAtlas, deratingCurve, lineRmsVolts, phasePeakVolts } from '@hexsalvage/core';
+import { CAUTIONS, describeRules, deratingCurve, lineRmsVolts, phasePeakVolts } from '@hexsalvage/core';
+import { faultTexts, diagramAtlas } from '@hexsalvage/core/internal';
 import { usage } from '../args.js';
 import { HELP_OPTION, JSON_OPTION, LEG_OPTIONS, VDC_OPTION, type Command } from '../command.js';
 import { cautionBlock, fmt, textTable } from '../format.js';

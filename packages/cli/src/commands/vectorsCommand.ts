@@ -1,4 +1,5 @@
-import { faultTexts, CAUTIONS, describeRules, diagramAtlas, levelNotation, parsePolarity, polarityDocument, type PlanVector } from '@hexsalvage/core';
+import { CAUTIONS, describeRules, levelNotation, parsePolarity, polarityDocument, type PlanVector } from '@hexsalvage/core';
+import { faultTexts, diagramAtlas } from '@hexsalvage/core/internal';
 import { usage } from '../args.js';
 import { HELP_OPTION, JSON_OPTION, LEG_OPTIONS, type Command } from '../command.js';
 import { cautionBlock, fmt, levelText, textTable, tripletText } from '../format.js';

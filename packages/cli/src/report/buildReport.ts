@@ -2,12 +2,10 @@ import {
   CAUTIONS,
   deratingCurve,
   describeRules,
-  limitOverLoadAngles,
   lineRmsVolts,
   modulationOfLineRms,
   unsafeRules,
   phasePeakVolts,
-  gatedDeviceIds,
   PHASES,
   samplePeriod,
   type SequenceMode,
@@ -23,6 +21,7 @@ import {
   type Switchover,
   type SwitchingTable,
 } from '@hexsalvage/core';
+import { limitOverLoadAngles, gatedDeviceIds } from '@hexsalvage/core/internal';
 import {
   atlasHeatmapSvg,
   atlasPairMatrixSvg,
