@@ -1,6 +1,7 @@
 import type { DiagramAtlas } from '../vectors/diagramAtlas.js';
 import { balancedLimit, midpointProfile } from './midpointBalance.js';
 import { modulationLimit, type ModulationLimit } from './modulationLimit.js';
+import { hasMidpoint, legLevels } from '../netlist/expandElements.js';
 
 /** The two limits of a plan at one load angle. */
 export interface PlanLimits {
@@ -44,11 +45,10 @@ const MEMO = new WeakMap<DiagramAtlas, Map<string, PlanLimits>>();
 function computeLimits(atlas: DiagramAtlas, loadAngleDeg: number, polarityMarginDeg: number): PlanLimits {
   const limit = modulationLimit(atlas.faulted, loadAngleDeg, polarityMarginDeg);
   const analysis = atlas.analysis;
-  const dc = new Set(Object.values(analysis.leg.dcNodes));
-  const hasMidpoint = dc.has(0) && dc.size >= 3;
+  const midpoint = hasMidpoint(legLevels(analysis.leg));
   // a healthy leg draws no average midpoint current from a symmetric set (contract): no search
   const healthy = analysis.faults.length === 0 && analysis.bypass === null;
   const mMaxBalanced =
-    healthy || !hasMidpoint || limit.mMax <= 0 ? limit.mMax : balancedLimit(midpointProfile(atlas.faulted, limit.mMax, loadAngleDeg, polarityMarginDeg));
+    healthy || !midpoint || limit.mMax <= 0 ? limit.mMax : balancedLimit(midpointProfile(atlas.faulted, limit.mMax, loadAngleDeg, polarityMarginDeg));
   return { mMax: limit.mMax, mMaxBalanced, limit };
 }

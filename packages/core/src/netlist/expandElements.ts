@@ -64,3 +64,20 @@ export function unratedDevices(leg: LegNetlist): string[] {
 export function legLevels(leg: LegNetlist): number[] {
   return [...new Set(Object.values(leg.dcNodes))].sort((x, y) => x - y);
 }
+
+/**
+ * Whether a set of DC potentials has a midpoint: a node at potential 0 with others above and
+ * below it (the node that draws the phases' current at level 0 and whose voltage must be kept
+ * balanced). The one test every part of the core uses.
+ *
+ * @param levels - DC potentials (units of Vdc/2), as {@link legLevels} gives them
+ * @returns true for a split DC link
+ * @example
+ * ```ts
+ * hasMidpoint([-1, 0, 1]); // true
+ * hasMidpoint([-1, 1]); // false
+ * ```
+ */
+export function hasMidpoint(levels: readonly number[]): boolean {
+  return levels.includes(0) && levels.some((l) => l > 0) && levels.some((l) => l < 0);
+}

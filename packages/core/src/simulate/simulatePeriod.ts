@@ -5,7 +5,7 @@ import { runtimeOptions, type SequenceMode } from '../table/createRuntime.js';
 import { conductionLoss, DEMO_DEVICES, elementParameters, eventEnergy, type DeviceParameterSet, type ElementParameters } from './deviceLosses.js';
 import { diagramAtlas, type DiagramAtlas } from '../vectors/diagramAtlas.js';
 import { HexsalvageInputError } from '../shared/errors.js';
-import { expandElements } from '../netlist/expandElements.js';
+import { expandElements, hasMidpoint, legLevels } from '../netlist/expandElements.js';
 import { PHASES, type FaultMode, type PhaseFaults } from '../netlist/faults.js';
 import type { LegElement, LegNetlist } from '../netlist/netlist.js';
 import { planFromAtlas } from '../limits/planRemedial.js';
@@ -327,7 +327,7 @@ function runPeriod(x: RunInputs, atlas: DiagramAtlas): RunOutput {
   const elementById = new Map(elements.map((e) => [e.id, e] as const));
   const kindOf = new Map(leg.devices.map((d) => [d.id, d.kind] as const));
   const lineDevices = new Set(leg.devices.filter((d) => d.switching === 'line').map((d) => d.id));
-  const hasMidpoint = Object.values(leg.dcNodes).includes(0);
+  const midpoint = hasMidpoint(legLevels(leg));
   // the elements as they are in the configuration simulated (the first alternative of each failure,
   // the bypass tie closed in its phase)
   const phaseFaults = PHASES.map((ph) => analysis.simulated[ph]);
@@ -394,7 +394,7 @@ function runPeriod(x: RunInputs, atlas: DiagramAtlas): RunOutput {
         }
       }
       // current into the midpoint node: −i_k for a phase at its potential, = A cos wt + B sin wt
-      if (hasMidpoint && levels[k] === 0) {
+      if (midpoint && levels[k] === 0) {
         qA -= x.ipk * Math.cos(psi[k] as number);
         qB -= x.ipk * Math.sin(psi[k] as number);
       }
@@ -412,7 +412,7 @@ function runPeriod(x: RunInputs, atlas: DiagramAtlas): RunOutput {
     });
     mid.add(a, b, qA, qB);
   }
-  return summarise(x, hasMidpoint, acc, line, mid, wrong, interrupted, stream, phaseFaults, paramsOf, lineDevices, segments, T);
+  return summarise(x, midpoint, acc, line, mid, wrong, interrupted, stream, phaseFaults, paramsOf, lineDevices, segments, T);
 }
 
 // Every element's parameters, found once.

@@ -1,5 +1,5 @@
 import { patternCandidates } from '../leg/choosePattern.js';
-import { legLevels } from '../netlist/expandElements.js';
+import { hasMidpoint, legLevels } from '../netlist/expandElements.js';
 import type { LevelTriplet } from '../geometry/clarke.js';
 import type { DiagramAtlas } from '../vectors/diagramAtlas.js';
 import type { DwellMatrix } from '../geometry/dwell.js';
@@ -130,8 +130,8 @@ function buildTriangles(
 ): Draft[] {
   const pol = parsePolarity(polarity);
   const leg = atlas.analysis.leg;
-  const hasMidpoint = Object.values(leg.dcNodes).includes(0);
   const levels = legLevels(leg);
+  const split = hasMidpoint(levels);
   const line = new Set(leg.devices.filter((x) => x.switching === 'line').map((x) => x.id));
   const cache = new Map<string, PhaseState[]>();
   const memo = new Map<string | number, unknown>();
@@ -162,7 +162,7 @@ function buildTriangles(
       })
       .map((phases) => {
         const lv = phases.map((p) => p.level) as unknown as LevelTriplet;
-        const midpoint = midpointCoefficients(lv, hasMidpoint);
+        const midpoint = midpointCoefficients(lv, split);
         return { levels: lv, phases, midpoint, midpointSign: midpointSign(midpoint, pol), commonMode: (lv[0] + lv[1] + lv[2]) / 3 };
       });
     const vertex = { vector: vi, alpha: v.alpha, beta: v.beta, class: v.class, realisations };

@@ -2,6 +2,7 @@ import type { LevelTriplet } from '../geometry/clarke.js';
 import { POLARITY_CHARS, type PhaseSteps } from './patternSteps.js';
 import { parsePolarity, POLARITY_STRINGS } from '../leg/polarity.js';
 import type { SwitchingTable } from './switchingTable.js';
+import { hasMidpoint } from '../netlist/expandElements.js';
 
 /** Largest number of sequence candidates kept per triangle (best static rank; every first and last triplet kept first). */
 export const MAX_CANDIDATES = 64;
@@ -173,7 +174,7 @@ export function runtimeProgram(table: SwitchingTable): RuntimeProgram {
     return n;
   };
   const ctx: Ctx = { P, level, allowed, dist, phases, gateDiff: (i, j) => diff(i, j), lineDiff: (i, j) => diff(i, j, line) };
-  const hasMidpoint = table.levels.includes(0);
+  const midpoint = hasMidpoint(table.levels);
   const sequences: SequenceDraft[] = [];
   const seqIndex = new Map<string, number>();
   const sequenceOf = (k: number, c: number, lv: readonly number[]): number => {
@@ -204,7 +205,7 @@ export function runtimeProgram(table: SwitchingTable): RuntimeProgram {
   });
   return {
     patternCount: P,
-    hasMidpoint,
+    hasMidpoint: midpoint,
     polarityChars,
     level,
     allowed,
@@ -212,7 +213,7 @@ export function runtimeProgram(table: SwitchingTable): RuntimeProgram {
     next,
     enterable,
     triFirst,
-    ...flattenCandidates(drafts, hasMidpoint),
+    ...flattenCandidates(drafts, midpoint),
     ...flattenSequences(ctx, sequences),
   };
 }

@@ -4,6 +4,7 @@ import { POLARITY_STRINGS, type PolarityString } from '../leg/polarity.js';
 import { polarityAt } from '../vectors/polaritySectors.js';
 import type { SwitchingTable } from './switchingTable.js';
 import { requireNumber, requireObject, requireTable } from '../shared/validate.js';
+import { hasMidpoint } from '../netlist/expandElements.js';
 
 /** When the runtime takes a new sample: once per switching period, or at each half (carrier peak and valley). */
 export const UPDATE_MODES = ['period', 'half'] as const;
@@ -101,7 +102,7 @@ export function runtimeStream(table: SwitchingTable, options: RuntimeStreamOptio
   const out = rt.output();
   const phiRad = (phi * Math.PI) / 180;
   const P = table.patterns;
-  const hasMidpoint = table.levels.includes(0);
+  const midpoint = hasMidpoint(table.levels);
   let charge = 0;
   // one fundamental period from the runtime's present state and the present charge
   const runCycle = () => {
@@ -136,7 +137,7 @@ export function runtimeStream(table: SwitchingTable, options: RuntimeStreamOptio
         va += (out.duration[s] as number) * ((2 / 3) * (lv[0] - (lv[1] + lv[2]) / 2));
         vb += (out.duration[s] as number) * ((lv[1] - lv[2]) / Math.sqrt(3));
         const end = s === out.count - 1 ? t0 + h : at + dt;
-        charge += midpointCharge(lv, hasMidpoint, at, end, phiRad);
+        charge += midpointCharge(lv, midpoint, at, end, phiRad);
         segs.push({
           t: at,
           end,
