@@ -1,7 +1,7 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { builtinLeg, HexsalvageInputError, parseNetlist } from '@hexsalvage/core';
-import { legTable } from '@hexsalvage/core/internal';
+import { hasMidpoint, legLevels, legTable } from '@hexsalvage/core/internal';
 
 const FIVE = JSON.parse(readFileSync(new URL('../../examples/five-level-leg.json', import.meta.url), 'utf8')) as Record<string, unknown>;
 
@@ -131,5 +131,15 @@ describe('parseNetlist', () => {
     expect(l4).toMatchObject({ status: 'allowed', bySign: { '+': { level: 0.5 }, '-': { level: 1 } } });
     expect(faulted.levels['+']).toEqual([-1, -0.5, 0, 0.5]);
     expect(faulted.levels['-']).toEqual([-1, -0.5, 0, 0.5, 1]);
+  });
+});
+
+describe('hasMidpoint', () => {
+  it('is true for a node at 0 between others, false without one or with 0 at an end (common practice: a split DC link)', () => {
+    expect(hasMidpoint(legLevels(builtinLeg('npc')))).toBe(true);
+    expect(hasMidpoint(legLevels(builtinLeg('two-level')))).toBe(false);
+    expect(hasMidpoint([-1, -0.5, 0, 0.5, 1])).toBe(true);
+    expect(hasMidpoint([0, 0.5, 1])).toBe(false);
+    expect(hasMidpoint([-1, 0])).toBe(false);
   });
 });

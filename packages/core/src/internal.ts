@@ -8,7 +8,7 @@
 export * from './index.js';
 export { fileValue, hasInvisible, plainText } from './shared/errors.js';
 export { requireNumber, requireObject } from './shared/validate.js';
-export { expandElements, gatedDeviceIds, legLevels, unratedDevices } from './netlist/expandElements.js';
+export { expandElements, hasMidpoint, gatedDeviceIds, legLevels, unratedDevices } from './netlist/expandElements.js';
 export { NETLIST_LIMITS } from './netlist/parseNetlist.js';
 export { MAX_INPUT_BYTES, MAX_INPUT_DEPTH } from './shared/parseJsonText.js';
 export { resolveTopology } from './netlist/resolveTopology.js';

@@ -2,6 +2,7 @@ import { CAUTIONS } from '../shared/cautions.js';
 import { cRuntimeCode, cRuntimeTables, intType } from './cRuntime.js';
 import { runtimeOptions, type RuntimeOptions } from '../table/createRuntime.js';
 import { HexsalvageInputError } from '../shared/errors.js';
+import { cLocate, cPolarityIndex } from './cLocator.js';
 import { runtimeProgram } from '../table/runtimeProgram.js';
 import type { SwitchingTable } from '../table/switchingTable.js';
 import { DWELL_TOLERANCE } from '../shared/tolerance.js';
@@ -61,6 +62,45 @@ export interface ExportCOptions {
 export function exportC(table: SwitchingTable, options: ExportCOptions = {}): string {
   requireTable(table, 'exportC');
   requireObject(options, 'exportC', 'an options object { prefix?, cType?, fileName?, limits?, vdc? }');
+  const h = headerSettings(table, options);
+  const rows = flattenRows(table, h);
+  const program = runtimeProgram(table);
+  const rtOpts = runtimeOptions(options.runtime ?? {}, 'exportC.runtime');
+  const runtimeTables = cRuntimeTables(program, { px: h.px, PX: h.PX, real: c });
+  const derating = deratingTable(options, c, h.px, h.PX);
+  const bytes = tableBytes(rows, h, runtimeTables);
+  const preamble = cPreamble(table, options, h, rows, bytes, rtOpts);
+  const tables = cTables(table, h, rows);
+  const { px, PX, guard } = h;
+  return `${preamble}${tables}
+
+${cPolarityIndex(px)}
+
+${derating}
+
+${cLocate(px, PX)}
+
+${runtimeTables}
+
+${cRuntimeCode({ px, PX, real: c })}
+#endif /* ${guard} */
+`;
+}
+
+/** Names, types and the gate-mask writer of one header, from the options (checked here). */
+interface HeaderSettings {
+  readonly px: string;
+  readonly PX: string;
+  readonly real: 'double' | 'float';
+  readonly base: string;
+  readonly guard: string;
+  readonly devices: readonly string[];
+  readonly wideMask: boolean;
+  readonly maskType: string;
+  readonly maskOf: (pattern: string) => string;
+}
+
+function headerSettings(table: SwitchingTable, options: ExportCOptions): HeaderSettings {
   const px = options.prefix ?? 'hs';
   if (!/^[A-Za-z_][A-Za-z0-9_]{0,30}$/.test(px)) throw new HexsalvageInputError('option', 'exportC', 'prefix', 'a C identifier of up to 31 characters', px);
   const PX = px.toUpperCase();
@@ -87,6 +127,29 @@ export function exportC(table: SwitchingTable, options: ExportCOptions = {}): st
     }
     return `0x${m.toString(16).toUpperCase()}${wideMask ? 'ULL' : 'UL'}`;
   };
+  return { px, PX, real, base, guard, devices, wideMask, maskType, maskOf };
+}
+
+/** The per-polarity arrays of the header as C initialiser rows, and where each polarity starts. */
+interface HeaderRows {
+  readonly realFirst: number[];
+  readonly realLevels: string[];
+  readonly realMask: string[];
+  readonly realSign: number[];
+  readonly dwell: string[];
+  readonly hull: string[];
+  readonly outline: string[];
+  readonly triFirst: number[];
+  readonly hullFirst: number[];
+  readonly outlineFirst: number[];
+  readonly nTri: number;
+  readonly nHull: number;
+  readonly nOutline: number;
+  readonly nReal: number;
+}
+
+function flattenRows(table: SwitchingTable, h: HeaderSettings): HeaderRows {
+  const { maskOf } = h;
   const realFirst: number[] = [0];
   const realLevels: string[] = [];
   const realMask: string[] = [];
@@ -121,16 +184,32 @@ export function exportC(table: SwitchingTable, options: ExportCOptions = {}): st
   const nHull = hullFirst[hullFirst.length - 1] as number;
   const nOutline = outlineFirst[outlineFirst.length - 1] as number;
   const nReal = realFirst[realFirst.length - 1] as number;
-  const body = (rows: string[], empty: string) => (rows.length ? rows.join(',\n') : empty);
-  const R = real === 'float' ? 4 : 8;
-  const program = runtimeProgram(table);
-  const rtOpts = runtimeOptions(options.runtime ?? {}, 'exportC.runtime');
-  const runtimeTables = cRuntimeTables(program, { px, PX, real: c });
-  const derating = deratingTable(options, c, px, PX);
-  // the size of the tables: every initialiser counted (numbers, masks) at the width of its type
-  const bytes =
-    (nTri * 9 + nHull * 2 + nOutline * 4 + nReal * 3) * R + nReal * 3 * (wideMask ? 8 : 4) + nReal + (3 * nTri + 1) * 4 + runtimeBytes(runtimeTables, R);
-  const firstType = intType(0, Math.max(nTri, nHull, nOutline));
+  return { realFirst, realLevels, realMask, realSign, dwell, hull, outline, triFirst, hullFirst, outlineFirst, nTri, nHull, nOutline, nReal };
+}
+
+// The size of the tables: every initialiser counted (numbers, masks) at the width of its type.
+function tableBytes(r: HeaderRows, h: HeaderSettings, runtimeTables: string): number {
+  const R = h.real === 'float' ? 4 : 8;
+  return (
+    (r.nTri * 9 + r.nHull * 2 + r.nOutline * 4 + r.nReal * 3) * R +
+    r.nReal * 3 * (h.wideMask ? 8 : 4) +
+    r.nReal +
+    (3 * r.nTri + 1) * 4 +
+    runtimeBytes(runtimeTables, R)
+  );
+}
+
+// The leading comment (with the cautions), the include guard, the types and the macros.
+function cPreamble(
+  table: SwitchingTable,
+  options: ExportCOptions,
+  h: HeaderSettings,
+  r: HeaderRows,
+  bytes: number,
+  rtOpts: ReturnType<typeof runtimeOptions>,
+): string {
+  const { px, PX, real, base, guard, devices } = h;
+  const { nTri, nReal } = r;
   const lim = options.limits;
   const defines = [
     ...(lim
@@ -172,7 +251,17 @@ typedef ${real} ${px}_real;
 #define ${PX}_REALISATION_COUNT ${nReal}
 ${defines.join('\n')}
 
-/* "?" is written "\\?" so that no "??x" trigraph forms */
+`;
+}
+
+// The constant tables: names, gate masks, where each polarity starts, dwell matrices, realisations,
+// hulls and outlines.
+function cTables(table: SwitchingTable, h: HeaderSettings, r: HeaderRows): string {
+  const { px, PX, devices, maskType, maskOf } = h;
+  const { realFirst, realLevels, realMask, realSign, dwell, hull, outline, triFirst, hullFirst, outlineFirst, nTri, nHull, nOutline, nReal } = r;
+  const firstType = intType(0, Math.max(nTri, nHull, nOutline));
+  const body = (rows: string[], empty: string) => (rows.length ? rows.join(',\n') : empty);
+  return `/* "?" is written "\\?" so that no "??x" trigraph forms */
 static const char *const ${px}_polarity_names[${PX}_POLARITY_COUNT] = {${table.polarityOrder.map(cString).join(', ')}};
 static const char *const ${px}_pattern_names[${PX}_PATTERN_COUNT] = {${table.patterns.map(cString).join(', ')}};
 static const char *const ${px}_device_names[${Math.max(1, devices.length)}] = {${devices.length ? devices.map(cString).join(', ') : '0'}};
@@ -201,129 +290,7 @@ ${body(hull, '  {0}')}
 /* Outline of the admissible tiling where it does not fill the hull: {x0, y0, x1, y1}, tiling on the left. */
 static const ${px}_real ${px}_outline[${Math.max(1, nOutline)}][4] = {
 ${body(outline, '  {0}')}
-};
-
-/* Polarity index from the measured current signs: +1 (out of the leg), -1 (into it), 0 (unknown).
- * Returns -1 for +++ and --- (impossible with a three-wire load). */
-static inline int ${px}_polarity_index(int sa, int sb, int sc)
-{
-  int s[3], i, k = 0;
-  s[0] = sa; s[1] = sb; s[2] = sc;
-  if (sa == sb && sb == sc && sa != 0) return -1;
-  for (i = 0; i < 3; i++) k = 3 * k + (s[i] > 0 ? 0 : s[i] < 0 ? 1 : 2);
-  /* +++ (0) is skipped, and --- (13) too */
-  return k - 1 - (k > 13 ? 1 : 0);
-}
-
-${derating}
-
-static inline int ${px}_inside_(int t, double a, double b, double d[3])
-{
-  const ${px}_real *m = ${px}_dwell[t];
-  double d0 = m[0] * a + m[1] * b + m[2];
-  double d1 = m[3] * a + m[4] * b + m[5];
-  double d2 = m[6] * a + m[7] * b + m[8];
-  double s;
-  if (fmin(d0, fmin(d1, d2)) < -${PX}_DWELL_TOLERANCE) return 0;
-  d0 = fmax(0.0, d0); d1 = fmax(0.0, d1); d2 = fmax(0.0, d2);
-  s = d0 + d1 + d2;
-  d[0] = d0 / s; d[1] = d1 / s; d[2] = d2 / s;
-  return 1;
-}
-
-static inline void ${px}_clamp_outline_(int p, double x, double y, double *ox, double *oy)
-{
-  int first = ${px}_outline_first[p], n = ${px}_outline_first[p + 1] - first, i;
-  double len = sqrt(x * x + y * y), dist = INFINITY;
-  if (len > 0) {
-    double ux = x / len, uy = y / len, exit = -1, entry = INFINITY, t;
-    for (i = 0; i < n; i++) {
-      const ${px}_real *g = ${px}_outline[first + i];
-      double dx = g[2] - g[0], dy = g[3] - g[1], den = ux * dy - uy * dx, s;
-      if (fabs(den) < 1e-15) continue;
-      t = (g[0] * dy - g[1] * dx) / den;
-      s = (g[0] * uy - g[1] * ux) / den;
-      if (t <= 0 || s < 0 || s > 1) continue;
-      if (den > 0 && t <= len && t > exit) exit = t;
-      if (den < 0 && t >= len && t < entry) entry = t;
-    }
-    t = exit >= 0 ? exit : entry;
-    if (t < INFINITY) { *ox = t * ux; *oy = t * uy; return; }
-  }
-  for (i = 0; i < n; i++) {
-    const ${px}_real *g = ${px}_outline[first + i];
-    double ex = g[2] - g[0], ey = g[3] - g[1];
-    double s = fmin(1.0, fmax(0.0, ((x - g[0]) * ex + (y - g[1]) * ey) / (ex * ex + ey * ey)));
-    double qx = g[0] + s * ex, qy = g[1] + s * ey, dq = (qx - x) * (qx - x) + (qy - y) * (qy - y);
-    if (dq < dist) { dist = dq; *ox = qx; *oy = qy; }
-  }
-}
-
-static inline void ${px}_clamp_(int p, double x, double y, double *ox, double *oy)
-{
-  int first = ${px}_hull_first[p], n = ${px}_hull_first[p + 1] - first, i, empty = 0;
-  double len = sqrt(x * x + y * y), dist = INFINITY;
-  if (${px}_outline_first[p + 1] > ${px}_outline_first[p]) { ${px}_clamp_outline_(p, x, y, ox, oy); return; }
-  if (len > 0) {
-    double ux = x / len, uy = y / len, lo = 0, hi = INFINITY;
-    for (i = 0; i < n; i++) {
-      const ${px}_real *a = ${px}_hull[first + i], *b = ${px}_hull[first + (i + 1) % n];
-      double nx = b[1] - a[1], ny = -(b[0] - a[0]);
-      double h = nx * a[0] + ny * a[1], c = nx * ux + ny * uy;
-      if (fabs(c) < 1e-15) { if (h < 0) empty = 1; }
-      else if (c > 0) hi = fmin(hi, h / c);
-      else lo = fmax(lo, h / c);
-    }
-    if (!empty && lo <= hi) {
-      double t = fmin(fmax(len, lo), hi);
-      *ox = t * ux; *oy = t * uy;
-      return;
-    }
-  }
-  for (i = 0; i < n; i++) {
-    const ${px}_real *a = ${px}_hull[first + i], *b = ${px}_hull[first + (i + 1) % n];
-    double ex = b[0] - a[0], ey = b[1] - a[1];
-    double s = fmin(1.0, fmax(0.0, ((x - a[0]) * ex + (y - a[1]) * ey) / (ex * ex + ey * ey)));
-    double qx = a[0] + s * ex, qy = a[1] + s * ey, dq = (qx - x) * (qx - x) + (qy - y) * (qy - y);
-    if (dq < dist) { dist = dq; *ox = qx; *oy = qy; }
-  }
-}
-
-/* Locates reference (alpha, beta) for polarity index p. Writes the vertices' duty cycles to
- * dwell[3] (vertex order of the triangle) and 1/0 to *clamped. Returns the global triangle row
- * (index into the per-triangle arrays), or -1 when polarity p has no triangles. */
-static inline int ${px}_locate(int p, double alpha, double beta, double dwell[3], int *clamped)
-{
-  int t, first, last, best;
-  double a = alpha, b = beta, score = -INFINITY;
-  if (p < 0 || p >= ${PX}_POLARITY_COUNT) return -1;
-  first = ${px}_tri_first[p]; last = ${px}_tri_first[p + 1];
-  if (first == last) return -1;
-  *clamped = 0;
-  for (t = first; t < last; t++) if (${px}_inside_(t, a, b, dwell)) return t;
-  *clamped = 1;
-  ${px}_clamp_(p, alpha, beta, &a, &b);
-  for (t = first; t < last; t++) if (${px}_inside_(t, a, b, dwell)) return t;
-  best = first;
-  for (t = first; t < last; t++) {
-    const ${px}_real *m = ${px}_dwell[t];
-    double s = fmin(m[0] * a + m[1] * b + m[2], fmin(m[3] * a + m[4] * b + m[5], m[6] * a + m[7] * b + m[8]));
-    if (s > score) { score = s; best = t; }
-  }
-  {
-    const ${px}_real *m = ${px}_dwell[best];
-    double d0 = fmax(0.0, m[0] * a + m[1] * b + m[2]), d1 = fmax(0.0, m[3] * a + m[4] * b + m[5]), d2 = fmax(0.0, m[6] * a + m[7] * b + m[8]);
-    double s = d0 + d1 + d2;
-    dwell[0] = d0 / s; dwell[1] = d1 / s; dwell[2] = d2 / s;
-  }
-  return best;
-}
-
-${runtimeTables}
-
-${cRuntimeCode({ px, PX, real: c })}
-#endif /* ${guard} */
-`;
+};`;
 }
 
 // `<prefix>_m_max_at()`: the cell minima of the safe limit over load angle (a step function never

@@ -1,0 +1,146 @@
+/**
+ * The C functions that turn measured signs into a polarity index and locate a reference among the
+ * header's triangles: the same search as the TypeScript modulator's plain form (first triangle in
+ * index order containing the point; otherwise clamped to the tiling's outline or the hull, then the
+ * least-outside triangle), so that firmware and the library give the same triangle and dwell times.
+ */
+
+/**
+ * `<prefix>_polarity_index(sa, sb, sc)`: measured current signs to a polarity index.
+ *
+ * @param px - the identifier prefix
+ * @returns C source
+ * @example
+ * ```ts
+ * cPolarityIndex('hs');
+ * ```
+ */
+export function cPolarityIndex(px: string): string {
+  return `/* Polarity index from the measured current signs: +1 (out of the leg), -1 (into it), 0 (unknown).
+ * Returns -1 for +++ and --- (impossible with a three-wire load). */
+static inline int ${px}_polarity_index(int sa, int sb, int sc)
+{
+  int s[3], i, k = 0;
+  s[0] = sa; s[1] = sb; s[2] = sc;
+  if (sa == sb && sb == sc && sa != 0) return -1;
+  for (i = 0; i < 3; i++) k = 3 * k + (s[i] > 0 ? 0 : s[i] < 0 ? 1 : 2);
+  /* +++ (0) is skipped, and --- (13) too */
+  return k - 1 - (k > 13 ? 1 : 0);
+}`;
+}
+
+/**
+ * `<prefix>_locate(p, alpha, beta, dwell, clamped)` with its helpers (the inside test, clamping to
+ * the outline and to the hull).
+ *
+ * @param px - the identifier prefix
+ * @param PX - the prefix in capitals (macros)
+ * @returns C source
+ * @example
+ * ```ts
+ * cLocate('hs', 'HS');
+ * ```
+ */
+export function cLocate(px: string, PX: string): string {
+  return `static inline int ${px}_inside_(int t, double a, double b, double d[3])
+{
+  const ${px}_real *m = ${px}_dwell[t];
+  double d0 = m[0] * a + m[1] * b + m[2];
+  double d1 = m[3] * a + m[4] * b + m[5];
+  double d2 = m[6] * a + m[7] * b + m[8];
+  double s;
+  if (fmin(d0, fmin(d1, d2)) < -${PX}_DWELL_TOLERANCE) return 0;
+  d0 = fmax(0.0, d0); d1 = fmax(0.0, d1); d2 = fmax(0.0, d2);
+  s = d0 + d1 + d2;
+  d[0] = d0 / s; d[1] = d1 / s; d[2] = d2 / s;
+  return 1;
+}
+
+static inline void ${px}_clamp_outline_(int p, double x, double y, double *ox, double *oy)
+{
+  int first = ${px}_outline_first[p], n = ${px}_outline_first[p + 1] - first, i;
+  double len = sqrt(x * x + y * y), dist = INFINITY;
+  if (len > 0) {
+    double ux = x / len, uy = y / len, exit = -1, entry = INFINITY, t;
+    for (i = 0; i < n; i++) {
+      const ${px}_real *g = ${px}_outline[first + i];
+      double dx = g[2] - g[0], dy = g[3] - g[1], den = ux * dy - uy * dx, s;
+      if (fabs(den) < 1e-15) continue;
+      t = (g[0] * dy - g[1] * dx) / den;
+      s = (g[0] * uy - g[1] * ux) / den;
+      if (t <= 0 || s < 0 || s > 1) continue;
+      if (den > 0 && t <= len && t > exit) exit = t;
+      if (den < 0 && t >= len && t < entry) entry = t;
+    }
+    t = exit >= 0 ? exit : entry;
+    if (t < INFINITY) { *ox = t * ux; *oy = t * uy; return; }
+  }
+  for (i = 0; i < n; i++) {
+    const ${px}_real *g = ${px}_outline[first + i];
+    double ex = g[2] - g[0], ey = g[3] - g[1];
+    double s = fmin(1.0, fmax(0.0, ((x - g[0]) * ex + (y - g[1]) * ey) / (ex * ex + ey * ey)));
+    double qx = g[0] + s * ex, qy = g[1] + s * ey, dq = (qx - x) * (qx - x) + (qy - y) * (qy - y);
+    if (dq < dist) { dist = dq; *ox = qx; *oy = qy; }
+  }
+}
+
+static inline void ${px}_clamp_(int p, double x, double y, double *ox, double *oy)
+{
+  int first = ${px}_hull_first[p], n = ${px}_hull_first[p + 1] - first, i, empty = 0;
+  double len = sqrt(x * x + y * y), dist = INFINITY;
+  if (${px}_outline_first[p + 1] > ${px}_outline_first[p]) { ${px}_clamp_outline_(p, x, y, ox, oy); return; }
+  if (len > 0) {
+    double ux = x / len, uy = y / len, lo = 0, hi = INFINITY;
+    for (i = 0; i < n; i++) {
+      const ${px}_real *a = ${px}_hull[first + i], *b = ${px}_hull[first + (i + 1) % n];
+      double nx = b[1] - a[1], ny = -(b[0] - a[0]);
+      double h = nx * a[0] + ny * a[1], c = nx * ux + ny * uy;
+      if (fabs(c) < 1e-15) { if (h < 0) empty = 1; }
+      else if (c > 0) hi = fmin(hi, h / c);
+      else lo = fmax(lo, h / c);
+    }
+    if (!empty && lo <= hi) {
+      double t = fmin(fmax(len, lo), hi);
+      *ox = t * ux; *oy = t * uy;
+      return;
+    }
+  }
+  for (i = 0; i < n; i++) {
+    const ${px}_real *a = ${px}_hull[first + i], *b = ${px}_hull[first + (i + 1) % n];
+    double ex = b[0] - a[0], ey = b[1] - a[1];
+    double s = fmin(1.0, fmax(0.0, ((x - a[0]) * ex + (y - a[1]) * ey) / (ex * ex + ey * ey)));
+    double qx = a[0] + s * ex, qy = a[1] + s * ey, dq = (qx - x) * (qx - x) + (qy - y) * (qy - y);
+    if (dq < dist) { dist = dq; *ox = qx; *oy = qy; }
+  }
+}
+
+/* Locates reference (alpha, beta) for polarity index p. Writes the vertices' duty cycles to
+ * dwell[3] (vertex order of the triangle) and 1/0 to *clamped. Returns the global triangle row
+ * (index into the per-triangle arrays), or -1 when polarity p has no triangles. */
+static inline int ${px}_locate(int p, double alpha, double beta, double dwell[3], int *clamped)
+{
+  int t, first, last, best;
+  double a = alpha, b = beta, score = -INFINITY;
+  if (p < 0 || p >= ${PX}_POLARITY_COUNT) return -1;
+  first = ${px}_tri_first[p]; last = ${px}_tri_first[p + 1];
+  if (first == last) return -1;
+  *clamped = 0;
+  for (t = first; t < last; t++) if (${px}_inside_(t, a, b, dwell)) return t;
+  *clamped = 1;
+  ${px}_clamp_(p, alpha, beta, &a, &b);
+  for (t = first; t < last; t++) if (${px}_inside_(t, a, b, dwell)) return t;
+  best = first;
+  for (t = first; t < last; t++) {
+    const ${px}_real *m = ${px}_dwell[t];
+    double s = fmin(m[0] * a + m[1] * b + m[2], fmin(m[3] * a + m[4] * b + m[5], m[6] * a + m[7] * b + m[8]));
+    if (s > score) { score = s; best = t; }
+  }
+  {
+    const ${px}_real *m = ${px}_dwell[best];
+    double d0 = fmax(0.0, m[0] * a + m[1] * b + m[2]), d1 = fmax(0.0, m[3] * a + m[4] * b + m[5]), d2 = fmax(0.0, m[6] * a + m[7] * b + m[8]);
+    double s = d0 + d1 + d2;
+    dwell[0] = d0 / s; dwell[1] = d1 / s; dwell[2] = d2 / s;
+  }
+  return best;
+}`;
+}
