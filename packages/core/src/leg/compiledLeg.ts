@@ -28,60 +28,8 @@ export interface GateSetLevels {
  * ```
  */
 export function compiledLeg(leg: LegNetlist, elements: readonly LegElement[], faults: PhaseFaults): (gates: readonly string[]) => GateSetLevels {
-  const index = new Map<string, number>();
-  const node = (n: string) => {
-    let k = index.get(n);
-    if (k === undefined) {
-      k = index.size;
-      index.set(n, k);
-    }
-    return k;
-  };
-  // DC nodes first, in netlist order, so that "DC nodes taken in netlist order" holds
-  const dcNames = Object.keys(leg.dcNodes);
-  for (const d of dcNames) node(d);
-  const out = node(leg.output);
-  // every edge in element order (from, to, element index) and the gate it needs (-1: none), in flat
-  // arrays: a gate set then only selects edges, with no object built per call
-  const gateIndex = new Map<string, number>();
-  const eFrom: number[] = [];
-  const eTo: number[] = [];
-  const eEl: number[] = [];
-  const eGate: number[] = [];
-  const edge = (f: number, t: number, i: number, g: number) => {
-    eFrom.push(f);
-    eTo.push(t);
-    eEl.push(i);
-    eGate.push(g);
-  };
-  elements.forEach((e, i) => {
-    const mode = faults.get(e.id);
-    if (mode === 'open') return;
-    const f = node(e.from);
-    const t = node(e.to);
-    if (mode === 'short') {
-      edge(f, t, i, -1);
-      edge(t, f, i, -1);
-      return;
-    }
-    if (!e.gated) {
-      edge(f, t, i, -1);
-      return;
-    }
-    let g = gateIndex.get(e.id);
-    if (g === undefined) {
-      g = gateIndex.size;
-      gateIndex.set(e.id, g);
-    }
-    edge(f, t, i, g);
-    if (e.kind === 'mosfet') edge(t, f, i, g);
-  });
-  const from = Int32Array.from(eFrom);
-  const to = Int32Array.from(eTo);
-  const el = Int32Array.from(eEl);
-  const needs = Int32Array.from(eGate);
+  const { dcNames, out, n, from, to, el, needs, gateIndex } = compileEdges(leg, elements, faults);
   const gateOn = new Uint8Array(gateIndex.size);
-  const n = index.size;
   const pot = new Float64Array(n).fill(NaN);
   dcNames.forEach((d, k) => {
     pot[k] = leg.dcNodes[d] as number;
@@ -100,7 +48,7 @@ export function compiledLeg(leg: LegNetlist, elements: readonly LegElement[], fa
   const outList = new Int32Array(from.length);
   const inList = new Int32Array(from.length);
   let stamp = 0;
-  const index_ = () => {
+  const indexSelectedEdges = () => {
     outStart.fill(0);
     inStart.fill(0);
     for (let k = 0; k < from.length; k++) {
@@ -135,7 +83,7 @@ export function compiledLeg(leg: LegNetlist, elements: readonly LegElement[], fa
       const k = gateIndex.get(g);
       if (k !== undefined) gateOn[k] = 1;
     }
-    index_();
+    indexSelectedEdges();
     // shoot-through: a forward path from a DC node to a lower one through non-DC nodes. Whether
     // there is one is decided in one pass: sources from the highest potential down, each node
     // entered once only, by the highest source that reaches it (a lower source reaching a node
@@ -223,4 +171,85 @@ export function compiledLeg(leg: LegNetlist, elements: readonly LegElement[], fa
     }
     return { from: dcNames[s] as string, to: dcNames[t] as string, path };
   }
+}
+
+/** One phase's conduction as numbered nodes and flat edge arrays. */
+interface CompiledEdges {
+  /** DC node names in netlist order: they are nodes 0 … dcNames.length − 1. */
+  readonly dcNames: readonly string[];
+  /** The output node's number. */
+  readonly out: number;
+  /** Number of nodes. */
+  readonly n: number;
+  /** Per edge: from and to node, element index, and the gate it needs (-1: none). */
+  readonly from: Int32Array;
+  readonly to: Int32Array;
+  readonly el: Int32Array;
+  readonly needs: Int32Array;
+  /** Gated element id → gate number. */
+  readonly gateIndex: ReadonlyMap<string, number>;
+}
+
+// Nodes numbered once, DC nodes first in netlist order (so that "DC nodes taken in netlist order"
+// holds), and every element as directed edges in element order: an open element none, a short both
+// ways whatever its gate, a switch forward under its gate (a MOSFET both ways), a diode forward.
+function compileEdges(leg: LegNetlist, elements: readonly LegElement[], faults: PhaseFaults): CompiledEdges {
+  const index = new Map<string, number>();
+  const node = (n: string) => {
+    let k = index.get(n);
+    if (k === undefined) {
+      k = index.size;
+      index.set(n, k);
+    }
+    return k;
+  };
+  // DC nodes first, in netlist order, so that "DC nodes taken in netlist order" holds
+  const dcNames = Object.keys(leg.dcNodes);
+  for (const d of dcNames) node(d);
+  const out = node(leg.output);
+  // every edge in element order (from, to, element index) and the gate it needs (-1: none), in flat
+  // arrays: a gate set then only selects edges, with no object built per call
+  const gateIndex = new Map<string, number>();
+  const eFrom: number[] = [];
+  const eTo: number[] = [];
+  const eEl: number[] = [];
+  const eGate: number[] = [];
+  const edge = (f: number, t: number, i: number, g: number) => {
+    eFrom.push(f);
+    eTo.push(t);
+    eEl.push(i);
+    eGate.push(g);
+  };
+  elements.forEach((e, i) => {
+    const mode = faults.get(e.id);
+    if (mode === 'open') return;
+    const f = node(e.from);
+    const t = node(e.to);
+    if (mode === 'short') {
+      edge(f, t, i, -1);
+      edge(t, f, i, -1);
+      return;
+    }
+    if (!e.gated) {
+      edge(f, t, i, -1);
+      return;
+    }
+    let g = gateIndex.get(e.id);
+    if (g === undefined) {
+      g = gateIndex.size;
+      gateIndex.set(e.id, g);
+    }
+    edge(f, t, i, g);
+    if (e.kind === 'mosfet') edge(t, f, i, g);
+  });
+  return {
+    dcNames,
+    out,
+    n: index.size,
+    from: Int32Array.from(eFrom),
+    to: Int32Array.from(eTo),
+    el: Int32Array.from(eEl),
+    needs: Int32Array.from(eGate),
+    gateIndex,
+  };
 }
