@@ -348,70 +348,9 @@ function runPeriod(x: RunInputs, atlas: DiagramAtlas): RunOutput {
 
   // the pieces: every boundary of every phase's spans and every current zero crossing
   const cuts = pieceBoundaries(spans, psi, w, T);
-  const cursor = [0, 0, 0];
-  const segments: WaveformSegment[] = [];
   const line = new LineVoltage(x.maxH, w, T);
   const mid = new MidpointCharge(w);
-  let wrong = 0;
-  let interrupted = 0;
-  for (let c = 0; c + 1 < cuts.length; c++) {
-    const a = cuts[c] as number;
-    const b = cuts[c + 1] as number;
-    if (b <= a) continue;
-    const tm = (a + b) / 2;
-    const levels: number[] = [];
-    const chosen: CurrentPath[] = [];
-    const dead: boolean[] = [];
-    const gates: (readonly string[])[] = [];
-    let qA = 0;
-    let qB = 0;
-    for (let k = 0; k < 3; k++) {
-      const list = spans[k] as GateSpan[];
-      while ((cursor[k] as number) + 1 < list.length && (list[cursor[k] as number] as GateSpan).t1 <= tm) cursor[k] = (cursor[k] as number) + 1;
-      const span = list[cursor[k] as number] as GateSpan;
-      const i = current(k, tm);
-      const sign: CurrentSign = i >= 0 ? '+' : '-';
-      const got = paths(k, span.gates, span.key, sign, Math.abs(i));
-      dead.push(span.dead);
-      gates.push(span.gates);
-      if (got.level === null) {
-        // no path for the actual sign: the current would be interrupted (reported); the planned level stands for the voltage
-        interrupted += b - a;
-        levels.push(span.planned);
-        chosen.push({ elements: [], forward: [] });
-      } else {
-        if (!span.dead && got.level !== span.planned) wrong += b - a;
-        levels.push(got.level);
-        chosen.push(got.path);
-      }
-      const ia = integralAbs(x.ipk, w, psi[k] as number, a, b);
-      const i2 = integralSq(x.ipk, w, psi[k] as number, a, b);
-      for (const id of (chosen[k] as CurrentPath).elements) {
-        const e = acc.get(`${PHASES[k]}.${id}`);
-        if (e) {
-          e.abs += ia;
-          e.sq += i2;
-        }
-      }
-      // current into the midpoint node: −i_k for a phase at its potential, = A cos wt + B sin wt
-      if (midpoint && levels[k] === 0) {
-        qA -= x.ipk * Math.cos(psi[k] as number);
-        qB -= x.ipk * Math.sin(psi[k] as number);
-      }
-    }
-    line.add(a, b, ((levels[0] as number) - (levels[1] as number)) * half);
-    segments.push({
-      t0: a,
-      t1: b,
-      phaseVolts: [(levels[0] as number) * half, (levels[1] as number) * half, (levels[2] as number) * half],
-      midpointVolts: x.cap ? mid.charge / (2 * x.cap) : 0,
-      paths: [chosen[0]!.elements, chosen[1]!.elements, chosen[2]!.elements],
-      forward: [chosen[0]!.forward, chosen[1]!.forward, chosen[2]!.forward],
-      dead: [dead[0] as boolean, dead[1] as boolean, dead[2] as boolean],
-      gates: [gates[0] as readonly string[], gates[1] as readonly string[], gates[2] as readonly string[]],
-    });
-    mid.add(a, b, qA, qB);
-  }
+  const { segments, wrong, interrupted } = walkPieces(cuts, spans, { x, psi, w, half, midpoint, current, paths, acc, line, mid });
   return summarise(x, midpoint, acc, line, mid, wrong, interrupted, stream, phaseFaults, paramsOf, lineDevices, segments, T);
 }
 
@@ -797,4 +736,93 @@ function currentDerating(faulted: RunOutput, healthy: RunOutput): Simulation['cu
       ? 'temperature rise = thermal resistance × loss per surviving device, from the parameter file'
       : 'equal thermal resistance for every surviving device: losses compared directly',
   };
+}
+
+/** What walking the pieces of a period needs: the run's inputs and the accumulators it fills. */
+interface PieceContext {
+  readonly x: RunInputs;
+  readonly psi: readonly number[];
+  readonly w: number;
+  readonly half: number;
+  readonly midpoint: boolean;
+  readonly current: (k: number, t: number) => number;
+  readonly paths: PathLookup;
+  readonly acc: Map<string, { abs: number; sq: number; esw: number }>;
+  readonly line: LineVoltage;
+  readonly mid: MidpointCharge;
+}
+
+// Every piece between consecutive cuts: each phase's gate span and current sign give its path and
+// level; conduction integrals go to the path's elements, the line voltage and the midpoint charge
+// are accumulated, and the piece is kept as a waveform segment. Returns the segments and the time
+// with a wrong level or an interrupted current.
+function walkPieces(
+  cuts: readonly number[],
+  spans: readonly (readonly GateSpan[])[],
+  ctx: PieceContext,
+): { segments: WaveformSegment[]; wrong: number; interrupted: number } {
+  const { x, psi, w, half, midpoint, current, paths, acc, line, mid } = ctx;
+  const cursor = [0, 0, 0];
+  const segments: WaveformSegment[] = [];
+  let wrong = 0;
+  let interrupted = 0;
+  for (let c = 0; c + 1 < cuts.length; c++) {
+    const a = cuts[c] as number;
+    const b = cuts[c + 1] as number;
+    if (b <= a) continue;
+    const tm = (a + b) / 2;
+    const levels: number[] = [];
+    const chosen: CurrentPath[] = [];
+    const dead: boolean[] = [];
+    const gates: (readonly string[])[] = [];
+    let qA = 0;
+    let qB = 0;
+    for (let k = 0; k < 3; k++) {
+      const list = spans[k] as GateSpan[];
+      while ((cursor[k] as number) + 1 < list.length && (list[cursor[k] as number] as GateSpan).t1 <= tm) cursor[k] = (cursor[k] as number) + 1;
+      const span = list[cursor[k] as number] as GateSpan;
+      const i = current(k, tm);
+      const sign: CurrentSign = i >= 0 ? '+' : '-';
+      const got = paths(k, span.gates, span.key, sign, Math.abs(i));
+      dead.push(span.dead);
+      gates.push(span.gates);
+      if (got.level === null) {
+        // no path for the actual sign: the current would be interrupted (reported); the planned level stands for the voltage
+        interrupted += b - a;
+        levels.push(span.planned);
+        chosen.push({ elements: [], forward: [] });
+      } else {
+        if (!span.dead && got.level !== span.planned) wrong += b - a;
+        levels.push(got.level);
+        chosen.push(got.path);
+      }
+      const ia = integralAbs(x.ipk, w, psi[k] as number, a, b);
+      const i2 = integralSq(x.ipk, w, psi[k] as number, a, b);
+      for (const id of (chosen[k] as CurrentPath).elements) {
+        const e = acc.get(`${PHASES[k]}.${id}`);
+        if (e) {
+          e.abs += ia;
+          e.sq += i2;
+        }
+      }
+      // current into the midpoint node: −i_k for a phase at its potential, = A cos wt + B sin wt
+      if (midpoint && levels[k] === 0) {
+        qA -= x.ipk * Math.cos(psi[k] as number);
+        qB -= x.ipk * Math.sin(psi[k] as number);
+      }
+    }
+    line.add(a, b, ((levels[0] as number) - (levels[1] as number)) * half);
+    segments.push({
+      t0: a,
+      t1: b,
+      phaseVolts: [(levels[0] as number) * half, (levels[1] as number) * half, (levels[2] as number) * half],
+      midpointVolts: x.cap ? mid.charge / (2 * x.cap) : 0,
+      paths: [chosen[0]!.elements, chosen[1]!.elements, chosen[2]!.elements],
+      forward: [chosen[0]!.forward, chosen[1]!.forward, chosen[2]!.forward],
+      dead: [dead[0] as boolean, dead[1] as boolean, dead[2] as boolean],
+      gates: [gates[0] as readonly string[], gates[1] as readonly string[], gates[2] as readonly string[]],
+    });
+    mid.add(a, b, qA, qB);
+  }
+  return { segments, wrong, interrupted };
 }
