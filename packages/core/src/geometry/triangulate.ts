@@ -1,6 +1,7 @@
 import { Delaunay } from 'd3-delaunay';
 import type { Point } from './clarke.js';
 import { AREA_TOLERANCE } from '../shared/tolerance.js';
+import { offsetLists } from '../shared/offsetLists.js';
 
 /** A triangle as three indices into a vector list, counter-clockwise. */
 export type Triangle = readonly [number, number, number];
@@ -86,20 +87,10 @@ export function triangulate(points: readonly Point[], scale = 1): Triangle[] {
 
 // Stable counting sort of positions by their integer key in [0, size).
 function countingSort(order: Int32Array, key: Int32Array, size: number): Int32Array {
-  const start = new Int32Array(size + 1);
-  for (let r = 0; r < order.length; r++) {
-    const v = (key[order[r] as number] as number) + 1;
-    start[v] = (start[v] as number) + 1;
-  }
-  for (let v = 0; v < size; v++) start[v + 1] = (start[v + 1] as number) + (start[v] as number);
-  const out = new Int32Array(order.length);
-  for (let r = 0; r < order.length; r++) {
-    const t = order[r] as number;
-    const v = key[t] as number;
-    out[start[v] as number] = t;
-    start[v] = (start[v] as number) + 1;
-  }
-  return out;
+  const keys = order.map((t) => key[t] as number);
+  const places = new Int32Array(order.length);
+  offsetLists(keys, order.length, size, new Int32Array(size + 1), places, new Int32Array(size));
+  return places.map((r) => order[r] as number);
 }
 
 /**

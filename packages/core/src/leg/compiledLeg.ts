@@ -1,6 +1,7 @@
 import type { ShootThrough } from './conduction.js';
 import type { PhaseFaults } from '../netlist/faults.js';
 import type { LegElement, LegNetlist } from '../netlist/netlist.js';
+import { offsetLists } from '../shared/offsetLists.js';
 
 /** Levels and shoot-through of one gate set, without the conducting paths. */
 export interface GateSetLevels {
@@ -48,33 +49,18 @@ export function compiledLeg(leg: LegNetlist, elements: readonly LegElement[], fa
   const outList = new Int32Array(from.length);
   const inList = new Int32Array(from.length);
   let stamp = 0;
+  const outKey = new Int32Array(from.length);
+  const inKey = new Int32Array(from.length);
   const indexSelectedEdges = () => {
-    outStart.fill(0);
-    inStart.fill(0);
+    // an edge whose gate is off is left out (key −1)
     for (let k = 0; k < from.length; k++) {
       const g = needs[k] as number;
-      if (g >= 0 && gateOn[g] === 0) continue;
-      const f = (from[k] as number) + 1;
-      const t = (to[k] as number) + 1;
-      outStart[f] = (outStart[f] as number) + 1;
-      inStart[t] = (inStart[t] as number) + 1;
+      const on = g < 0 || gateOn[g] !== 0;
+      outKey[k] = on ? (from[k] as number) : -1;
+      inKey[k] = on ? (to[k] as number) : -1;
     }
-    for (let k = 0; k < n; k++) {
-      outStart[k + 1] = (outStart[k + 1] as number) + (outStart[k] as number);
-      inStart[k + 1] = (inStart[k + 1] as number) + (inStart[k] as number);
-    }
-    outCur.set(outStart.subarray(0, n));
-    inCur.set(inStart.subarray(0, n));
-    for (let k = 0; k < from.length; k++) {
-      const g = needs[k] as number;
-      if (g >= 0 && gateOn[g] === 0) continue;
-      const f = from[k] as number;
-      const t = to[k] as number;
-      outList[outCur[f] as number] = k;
-      outCur[f] = (outCur[f] as number) + 1;
-      inList[inCur[t] as number] = k;
-      inCur[t] = (inCur[t] as number) + 1;
-    }
+    offsetLists(outKey, from.length, n, outStart, outList, outCur);
+    offsetLists(inKey, from.length, n, inStart, inList, inCur);
   };
 
   return (gates) => {

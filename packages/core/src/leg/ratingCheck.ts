@@ -1,5 +1,6 @@
 import type { PhaseFaults } from '../netlist/faults.js';
 import type { LegElement, LegNetlist } from '../netlist/netlist.js';
+import { offsetLists } from '../shared/offsetLists.js';
 
 /** Result of the static voltage check of one gate set for one current sign. */
 export type RatingCheck =
@@ -169,19 +170,7 @@ export function ratingChecker(
 // round-robin form needed as many rounds as the chain has links.
 function feasibleFlat(n: number, m: number, from: Int32Array, to: Int32Array, weight: Float64Array, eps: number, s: Scratch): boolean {
   const { d, len, start, list, queue, queued } = s;
-  start.fill(0);
-  for (let k = 0; k < m; k++) {
-    const f = (from[k] as number) + 1;
-    start[f] = (start[f] as number) + 1;
-  }
-  for (let k = 0; k < n; k++) start[k + 1] = (start[k + 1] as number) + (start[k] as number);
-  const cur = s.cursor;
-  cur.set(start.subarray(0, n));
-  for (let k = 0; k < m; k++) {
-    const f = from[k] as number;
-    list[cur[f] as number] = k;
-    cur[f] = (cur[f] as number) + 1;
-  }
+  offsetLists(from, m, n, start, list, s.cursor);
   d.fill(0);
   len.fill(0);
   let head = 0;

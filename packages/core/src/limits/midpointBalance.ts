@@ -318,6 +318,7 @@ function prepare(d: PolarityDiagram): Prepared {
     const c = centre[t] as number;
     return [Math.ceil((c - h) / step - 0.5), Math.floor((c + h) / step - 0.5)];
   };
+  // a triangle lies on several rays, so this is not offsetLists' one-key-per-item form
   const rayStart = new Int32Array(K + 1);
   for (let t = 0; t < count; t++) {
     const [k0, k1] = range(t);
