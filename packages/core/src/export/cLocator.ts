@@ -3,6 +3,7 @@
  * header's triangles: the same search as the TypeScript modulator's plain form (first triangle in
  * index order containing the point; otherwise clamped to the tiling's outline or the hull, then the
  * least-outside triangle), so that firmware and the library give the same triangle and dwell times.
+ * The clamp's ray–segment test is geometry/rayHit.ts's arithmetic written in C.
  */
 
 /**

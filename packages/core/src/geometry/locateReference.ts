@@ -2,6 +2,7 @@ import type { Point } from './clarke.js';
 import { dwellTimes, type DwellMatrix } from './dwell.js';
 import { HexsalvageInputError } from '../shared/errors.js';
 import { DWELL_TOLERANCE } from '../shared/tolerance.js';
+import { rayHit } from './rayHit.js';
 
 /** An outline segment `[[α0, β0], [α1, β1]]`, the tiling on its left. */
 export type OutlineSegment = readonly [readonly [number, number], readonly [number, number]];
@@ -158,6 +159,9 @@ export function clampInto(hull: readonly (readonly [number, number])[], x: numbe
   nearestOnEdges(n, (i) => [hull[i] as readonly [number, number], hull[(i + 1) % n] as readonly [number, number]], x, y, out);
 }
 
+// scratch of the ray–segment test (one call at a time: the library is synchronous)
+const HIT = new Float64Array(3);
+
 /**
  * Brings a point back into a tiling that does not fill its hull, along the ray from the origin
  * through it: to the farthest point where the ray leaves the tiling before the point, else to the
@@ -183,12 +187,10 @@ export function clampToOutline(outline: readonly OutlineSegment[], x: number, y:
     let entry = Infinity;
     for (let i = 0; i < outline.length; i++) {
       const [p, q] = outline[i] as OutlineSegment;
-      const dx = q[0] - p[0];
-      const dy = q[1] - p[1];
-      const den = ux * dy - uy * dx;
-      if (Math.abs(den) < 1e-15) continue;
-      const t = (p[0] * dy - p[1] * dx) / den;
-      const s = (p[0] * uy - p[1] * ux) / den;
+      if (!rayHit(ux, uy, p, q, HIT)) continue;
+      const t = HIT[0] as number;
+      const s = HIT[1] as number;
+      const den = HIT[2] as number;
       if (t <= 0 || s < 0 || s > 1) continue;
       // the tiling is on the left of p→q: the ray leaves it where it crosses left to right (den > 0)
       if (den > 0 && t <= len && t > exit) exit = t;

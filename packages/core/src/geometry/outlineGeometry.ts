@@ -1,6 +1,7 @@
 import type { Point } from './clarke.js';
 import type { HullEdge, HullGeometry } from './radialExtent.js';
 import type { OutlineEdge } from './triangleUnion.js';
+import { rayHit } from './rayHit.js';
 
 /**
  * Prepares the outline of a (possibly non-convex) region for radial queries: the region's extent
@@ -63,14 +64,12 @@ function firstHit(outline: readonly OutlineEdge[], theta: number): number {
   const uy = Math.sin(theta);
   let best = -1;
   let bestT = Infinity;
+  const hit = new Float64Array(3);
   outline.forEach((e, i) => {
     const [p, q] = e.segment;
-    const dx = q[0] - p[0];
-    const dy = q[1] - p[1];
-    const den = ux * dy - uy * dx;
-    if (Math.abs(den) < 1e-15) return;
-    const t = (p[0] * dy - p[1] * dx) / den;
-    const s = (p[0] * uy - p[1] * ux) / den;
+    if (!rayHit(ux, uy, p, q, hit)) return;
+    const t = hit[0] as number;
+    const s = hit[1] as number;
     if (t > 0 && s >= 0 && s <= 1 && t < bestT) {
       bestT = t;
       best = i;
