@@ -93,6 +93,19 @@ describe('the house', () => {
     expect(wrong).toEqual([]);
   });
 
+  it('keeps every folder of every package at 15 source files or fewer', () => {
+    const crowded: string[] = [];
+    const visit = (dir: string) => {
+      const entries = readdirSync(dir);
+      const files = entries.filter((f) => f.endsWith('.ts'));
+      if (files.length > 15) crowded.push(`${relative(ROOT, dir)}: ${files.length}`);
+      for (const e of entries) if (statSync(join(dir, e)).isDirectory()) visit(join(dir, e));
+    };
+    for (const pkg of ['core', 'plot', 'cli']) visit(join(ROOT, 'packages', pkg, 'src'));
+    visit(join(ROOT, 'packages/cli/explorer/src'));
+    expect(crowded).toEqual([]);
+  });
+
   it('keeps the packages layered: core imports no package of ours, plot only core, the CLI core and plot', () => {
     const allowed: Record<string, readonly string[]> = { core: [], plot: ['@hexsalvage/core'], cli: ['@hexsalvage/core', '@hexsalvage/plot'] };
     for (const [pkg, ok] of Object.entries(allowed)) {

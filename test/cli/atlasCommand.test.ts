@@ -3,7 +3,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { builtinLeg, faultAtlas } from '@hexsalvage/core';
-import { progressLine } from '../../packages/cli/src/progressLine.js';
+import { progressLine } from '../../packages/cli/src/output/progressLine.js';
 import { runBin, runInProcess } from '../support/cli.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'hexsalvage-atlas-'));

@@ -7,7 +7,7 @@ import { Ajv } from 'ajv';
 import { describe, expect, it } from 'vitest';
 import { evaluateClaim, lineRmsVolts, modulationOfLineRms, phasePeakVolts, planRemedial } from '@hexsalvage/core';
 import { buildDate, commandLine } from '../../packages/cli/src/commandLine.js';
-import { readScenario } from '../../packages/cli/src/readScenario.js';
+import { readScenario } from '../../packages/cli/src/inputs/readScenario.js';
 import { ROOT, runBin, runInProcess } from '../support/cli.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'hexsalvage-volts-'));

@@ -10,7 +10,7 @@ if (argv.length === 1 && (argv[0] === '--version' || argv[0] === '-v')) {
   process.stdout.write(`hexsalvage ${version}\n`);
 } else {
   const { main } = await import('../dist/main.js');
-  const { stdoutClosed, stdoutSink } = await import('../dist/output.js');
+  const { stdoutClosed, stdoutSink } = await import('../dist/output/output.js');
   process.stderr.on('error', () => {});
   if (stdoutClosed()) {
     process.stderr.write('hexsalvage: standard output is closed: nothing this command prints could be read (redirect it to a file or to /dev/null)\n');

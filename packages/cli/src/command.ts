@@ -1,5 +1,5 @@
-import type { OptionSpec, ParsedArgs } from './args.js';
-import type { CommandIO } from './output.js';
+import type { OptionSpec, ParsedArgs } from './inputs/args.js';
+import type { CommandIO } from './output/output.js';
 
 /** One CLI command. */
 export interface Command {

@@ -1,5 +1,5 @@
 import { HexsalvageInputError } from '@hexsalvage/core/errors';
-import type { OptionSpec, ParsedArgs } from './args.js';
+import type { OptionSpec, ParsedArgs } from './inputs/args.js';
 
 /**
  * The command line as a user can type it again: the program, the command, its positionals, then

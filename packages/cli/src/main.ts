@@ -1,7 +1,7 @@
 import { HexsalvageInputError, plainText } from '@hexsalvage/core/errors';
-import { parseArgs } from './args.js';
+import { parseArgs } from './inputs/args.js';
 import type { Command } from './command.js';
-import { OutputError, type CommandIO } from './output.js';
+import { OutputError, type CommandIO } from './output/output.js';
 import { TOOL_VERSION } from './toolVersion.js';
 
 // Commands are loaded only when they run (or when the full help lists them): `--version` and a

@@ -1,7 +1,7 @@
 import { type LegAnalysis, type PatternResult, type Phase } from '@hexsalvage/core';
 import { conductionEdges, expandElements, outputForSign, reasonInWords } from '@hexsalvage/core/internal';
 import type { LegSchematicOptions } from '@hexsalvage/plot';
-import { usage } from './args.js';
+import { usage } from './inputs/args.js';
 
 /**
  * Chooses what a leg schematic shows: the phase (default the first faulted one), the pattern

@@ -1,10 +1,10 @@
 import { describeRules, type FaultAtlas } from '@hexsalvage/core';
 import { csvCell, csvText } from '@hexsalvage/core/internal';
-import { usage } from '../args.js';
-import { ATLAS_OPTIONS, atlasFromArgs } from '../atlasInputs.js';
+import { usage } from '../inputs/args.js';
+import { ATLAS_OPTIONS, atlasFromArgs } from '../inputs/atlasInputs.js';
 import { HELP_OPTION, JSON_OPTION, RULE_OPTIONS, type Command } from '../command.js';
 import { cautionBlock, fmt, textTable } from '../format.js';
-import { writeFileAtomic } from '../output.js';
+import { writeFileAtomic } from '../output/output.js';
 
 /** `hexsalvage atlas`: every fault of a leg (or every pair) at once. */
 export const atlasCommand: Command = {

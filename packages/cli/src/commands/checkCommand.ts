@@ -1,8 +1,8 @@
 import { CAUTIONS, type ClaimVerdict } from '@hexsalvage/core';
-import { usage } from '../args.js';
+import { usage } from '../inputs/args.js';
 import { HELP_OPTION, JSON_OPTION, type Command } from '../command.js';
 import { cautionBlock, claimRulesText, fmt, textTable, tripletText } from '../format.js';
-import { judgeClaims } from '../readClaims.js';
+import { judgeClaims } from '../inputs/readClaims.js';
 
 /** `hexsalvage check`: verdicts on derating claims, exit 1 when any fails. */
 export const checkCommand: Command = {

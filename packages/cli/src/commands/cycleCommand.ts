@@ -1,9 +1,9 @@
 import { CAUTIONS, cycleCheck, lineRmsVolts, phasePeakVolts } from '@hexsalvage/core';
 import { diagramAtlas, planFromAtlas, switchingTableFromAtlas } from '@hexsalvage/core/internal';
-import { usage } from '../args.js';
+import { usage } from '../inputs/args.js';
 import { ANGLE_OPTIONS, HELP_OPTION, JSON_OPTION, LEG_OPTIONS, RUNTIME_OPTIONS, VDC_OPTION, type Command } from '../command.js';
 import { cautionBlock, fmt, textTable, voltsText } from '../format.js';
-import { angleInputs, legInputs, runtimeInputs, updateInput, vdcInput } from '../legInputs.js';
+import { angleInputs, legInputs, runtimeInputs, updateInput, vdcInput } from '../inputs/legInputs.js';
 
 /** `hexsalvage cycle`: run the runtime through one fundamental period. */
 export const cycleCommand: Command = {

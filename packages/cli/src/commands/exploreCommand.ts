@@ -1,11 +1,11 @@
 import { existsSync, readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import { builtinLeg, HexsalvageInputError, parseFailures, type BuiltinTopology } from '@hexsalvage/core';
-import { usage } from '../args.js';
+import { usage } from '../inputs/args.js';
 import { HELP_OPTION, type Command } from '../command.js';
 import { explorerPage } from '../explorer/explorerPage.js';
-import { loadTopology } from '../loadTopology.js';
-import { writeFileAtomic } from '../output.js';
+import { loadTopology } from '../inputs/loadTopology.js';
+import { writeFileAtomic } from '../output/output.js';
 import { TOOL_VERSION } from '../toolVersion.js';
 
 const BUNDLE = fileURLToPath(new URL('../bundle/explorer.js', import.meta.url));

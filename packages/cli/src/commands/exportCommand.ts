@@ -1,9 +1,9 @@
 import { deratingSteps, exportC, exportCsv, exportDocument } from '@hexsalvage/core';
 import { diagramAtlas, planFromAtlas, switchingTableFromAtlas, withVolts } from '@hexsalvage/core/internal';
-import { usage } from '../args.js';
+import { usage } from '../inputs/args.js';
 import { ANGLE_OPTIONS, HELP_OPTION, LEG_OPTIONS, RUNTIME_OPTIONS, VDC_OPTION, type Command } from '../command.js';
-import { angleInputs, legInputs, runtimeInputs, vdcInput } from '../legInputs.js';
-import { writeFileAtomic } from '../output.js';
+import { angleInputs, legInputs, runtimeInputs, vdcInput } from '../inputs/legInputs.js';
+import { writeFileAtomic } from '../output/output.js';
 
 const FORMATS = ['json', 'csv', 'c'] as const;
 

@@ -14,7 +14,7 @@ import {
 import { faultTexts } from '@hexsalvage/core/internal';
 import { HELP_OPTION, JSON_OPTION, LEG_OPTIONS, type Command } from '../command.js';
 import { cautionBlock, levelText, textTable } from '../format.js';
-import { legInputs } from '../legInputs.js';
+import { legInputs } from '../inputs/legInputs.js';
 import { exploreText } from './exploreText.js';
 
 /** `hexsalvage leg`: what every gate pattern gives per current sign, per phase. */

@@ -1,7 +1,7 @@
 import { describeRules, levelNotation, planRemedial, unsafeRules, type RemedialPlan } from '@hexsalvage/core';
 import { ANGLE_OPTIONS, HELP_OPTION, JSON_OPTION, LEG_OPTIONS, VDC_OPTION, type Command } from '../command.js';
 import { cautionBlock, fmt, textTable, tripletText, voltsText } from '../format.js';
-import { angleInputs, legInputs, vdcInput } from '../legInputs.js';
+import { angleInputs, legInputs, vdcInput } from '../inputs/legInputs.js';
 
 /** `hexsalvage plan`: exact limit, derating and the polarity sectors at one load angle. */
 export const planCommand: Command = {

@@ -21,12 +21,12 @@ import {
   switchingPeriodSvg,
   vectorDiagramSvg,
 } from '@hexsalvage/plot';
-import { degreeRange, usage } from '../args.js';
-import { SIM_OPTIONS, simulateInputs } from '../simulateInputs.js';
-import { ATLAS_OPTIONS, atlasFromArgs } from '../atlasInputs.js';
+import { degreeRange, usage } from '../inputs/args.js';
+import { SIM_OPTIONS, simulateInputs } from '../inputs/simulateInputs.js';
+import { ATLAS_OPTIONS, atlasFromArgs } from '../inputs/atlasInputs.js';
 import { ANGLE_OPTIONS, HELP_OPTION, LEG_OPTIONS, VDC_OPTION, type Command } from '../command.js';
-import { angleInputs, legInputs, runtimeInputs, vdcInput } from '../legInputs.js';
-import { writeSvgOrPng } from '../renderFile.js';
+import { angleInputs, legInputs, runtimeInputs, vdcInput } from '../inputs/legInputs.js';
+import { writeSvgOrPng } from '../output/renderFile.js';
 import { schematicFocus } from '../schematicFocus.js';
 
 const KINDS = ['diagram', 'sectors', 'derating', 'leg', 'sequence', 'atlas', 'losses', 'spectrum', 'waveforms'] as const;

@@ -10,14 +10,14 @@ import {
   type SequenceMode,
 } from '@hexsalvage/core';
 import { diagramAtlas, planFromAtlas, planRemedies, switchingTableFromAtlas } from '@hexsalvage/core/internal';
-import { usage, type ParsedArgs } from '../args.js';
+import { usage, type ParsedArgs } from '../inputs/args.js';
 import { buildDate, commandLine } from '../commandLine.js';
-import { fileSha256, readScenario, type Scenario } from '../readScenario.js';
-import { ATLAS_OPTIONS, atlasFromArgs } from '../atlasInputs.js';
+import { fileSha256, readScenario, type Scenario } from '../inputs/readScenario.js';
+import { ATLAS_OPTIONS, atlasFromArgs } from '../inputs/atlasInputs.js';
 import { ANGLE_OPTIONS, HELP_OPTION, LEG_OPTIONS, RUNTIME_OPTIONS, VDC_OPTION, type Command } from '../command.js';
-import { angleInputs, legInputs, runtimeInputs, vdcInput } from '../legInputs.js';
-import { writeFileAtomic } from '../output.js';
-import { judgeClaimList, judgeClaims } from '../readClaims.js';
+import { angleInputs, legInputs, runtimeInputs, vdcInput } from '../inputs/legInputs.js';
+import { writeFileAtomic } from '../output/output.js';
+import { judgeClaimList, judgeClaims } from '../inputs/readClaims.js';
 import { buildReport } from '../report/buildReport.js';
 import { TOOL_VERSION } from '../toolVersion.js';
 

@@ -1,11 +1,11 @@
 import { CAUTIONS, simulatePeriod, simulationWaveform, type Simulation, type SimulateOptions } from '@hexsalvage/core';
 import { csvCell, csvText } from '@hexsalvage/core/internal';
-import { usage } from '../args.js';
+import { usage } from '../inputs/args.js';
 import { HELP_OPTION, JSON_OPTION, LEG_OPTIONS, type Command } from '../command.js';
 import { cautionBlock, fmt, textTable } from '../format.js';
-import { legInputs } from '../legInputs.js';
-import { writeFileAtomic } from '../output.js';
-import { SIM_OPTIONS, simulateInputs } from '../simulateInputs.js';
+import { legInputs } from '../inputs/legInputs.js';
+import { writeFileAtomic } from '../output/output.js';
+import { SIM_OPTIONS, simulateInputs } from '../inputs/simulateInputs.js';
 
 /** `hexsalvage simulate`: one fundamental period, healthy and faulted side by side. */
 export const simulateCommand: Command = {

@@ -1,9 +1,9 @@
 import { CAUTIONS, describeRules, deratingCurve, lineRmsVolts, phasePeakVolts } from '@hexsalvage/core';
 import { faultTexts, diagramAtlas } from '@hexsalvage/core/internal';
-import { usage } from '../args.js';
+import { usage } from '../inputs/args.js';
 import { HELP_OPTION, JSON_OPTION, LEG_OPTIONS, VDC_OPTION, type Command } from '../command.js';
 import { cautionBlock, fmt, textTable } from '../format.js';
-import { angleInputs, legInputs, vdcInput } from '../legInputs.js';
+import { angleInputs, legInputs, vdcInput } from '../inputs/legInputs.js';
 
 /** `hexsalvage sweep`: the derating curve mMax(φ). */
 export const sweepCommand: Command = {

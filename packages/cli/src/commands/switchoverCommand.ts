@@ -1,7 +1,7 @@
 import { switchover, type Switchover } from '@hexsalvage/core';
 import { HELP_OPTION, JSON_OPTION, LEG_OPTIONS, type Command } from '../command.js';
 import { cautionBlock, fmt, textTable } from '../format.js';
-import { legInputs } from '../legInputs.js';
+import { legInputs } from '../inputs/legInputs.js';
 
 /** `hexsalvage switchover`: from the fault to the degraded table, and what happens in between. */
 export const switchoverCommand: Command = {

@@ -1,7 +1,7 @@
 import { lineRmsVolts, parsePolarity, switchingTable, type SwitchingTable } from '@hexsalvage/core';
 import { HELP_OPTION, JSON_OPTION, LEG_OPTIONS, RUNTIME_OPTIONS, VDC_OPTION, type Command } from '../command.js';
 import { cautionBlock, fmt, levelText, textTable, tripletText } from '../format.js';
-import { legInputs, runtimeInputs, vdcInput } from '../legInputs.js';
+import { legInputs, runtimeInputs, vdcInput } from '../inputs/legInputs.js';
 
 /** `hexsalvage table`: the degraded switching-state table, readable. */
 export const tableCommand: Command = {

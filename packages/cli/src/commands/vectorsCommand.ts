@@ -1,9 +1,9 @@
 import { CAUTIONS, describeRules, levelNotation, parsePolarity, polarityDocument, type PlanVector } from '@hexsalvage/core';
 import { faultTexts, diagramAtlas } from '@hexsalvage/core/internal';
-import { usage } from '../args.js';
+import { usage } from '../inputs/args.js';
 import { HELP_OPTION, JSON_OPTION, LEG_OPTIONS, type Command } from '../command.js';
 import { cautionBlock, fmt, levelText, textTable, tripletText } from '../format.js';
-import { legInputs } from '../legInputs.js';
+import { legInputs } from '../inputs/legInputs.js';
 
 /** `hexsalvage vectors`: surviving vectors, hull and triangles for one polarity string. */
 export const vectorsCommand: Command = {

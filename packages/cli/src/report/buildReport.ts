@@ -36,7 +36,7 @@ import {
   vectorDiagramSvg,
 } from '@hexsalvage/plot';
 import { claimRulesText, fmt, levelText, tripletText } from '../format.js';
-import type { Scenario } from '../readScenario.js';
+import type { Scenario } from '../inputs/readScenario.js';
 import { schematicFocus } from '../schematicFocus.js';
 import { REPORT_CSS } from './reportStyles.js';
 

@@ -2,11 +2,11 @@ import { availableParallelism } from 'node:os';
 import { FAULT_MODES, type FaultAtlas, type FaultMode } from '@hexsalvage/core';
 import { assembleAtlas, atlasWork } from '@hexsalvage/core/internal';
 import { degreeRange, usage, type OptionSpec, type ParsedArgs } from './args.js';
-import { computeClasses } from './atlasPool.js';
+import { computeClasses } from '../atlas/atlasPool.js';
 import { ruleInputs } from './legInputs.js';
 import { loadTopology } from './loadTopology.js';
-import type { CommandIO } from './output.js';
-import { progressLine } from './progressLine.js';
+import type { CommandIO } from '../output/output.js';
+import { progressLine } from '../output/progressLine.js';
 
 /** The options that shape an atlas (`atlas`, `plot atlas`, `report --atlas`). */
 export const ATLAS_OPTIONS: readonly OptionSpec[] = [
