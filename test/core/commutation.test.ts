@@ -9,7 +9,7 @@ import { commutates, expandElements, gateSetSolver, legLevels, patternLevel, pha
 // must agree, and the on-demand pattern-pair answers must be what `commutates` says; the neighbour
 // moves (searched on their own, with the same reuse of '?') must be the plain moves restricted.
 function plainMoves(leg: LegNetlist, faults: ReadonlyMap<string, 'open' | 'short'>, pol: PhasePolarity): LevelMove[] {
-  const solve = gateSetSolver(leg, faults, true);
+  const solve = gateSetSolver(leg, faults, { ratings: true });
   const patterns = Object.values(leg.patterns);
   const level = patterns.map((g) => patternLevel(solve, g, pol));
   const forward = new Set<string>();
@@ -27,7 +27,7 @@ function plainMoves(leg: LegNetlist, faults: ReadonlyMap<string, 'open' | 'short
 }
 
 function check(leg: LegNetlist, faults: ReadonlyMap<string, 'open' | 'short'>): void {
-  const solve = gateSetSolver(leg, faults, true);
+  const solve = gateSetSolver(leg, faults, { ratings: true });
   const patterns = Object.values(leg.patterns);
   const c = phaseCommutations(solve, patterns);
   for (const pol of ['+', '-', '?'] as const) {

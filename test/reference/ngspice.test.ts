@@ -41,7 +41,11 @@ describe.runIf(run)(
       pts.forEach((p, i) => {
         const key = `${p.topology}|${[...p.faults].join()}`;
         let s = solvers.get(key);
-        if (!s) solvers.set(key, (s = { rated: gateSetSolver(p.leg, p.faults, true, true), raw: gateSetSolver(p.leg, p.faults, false) }));
+        if (!s)
+          solvers.set(
+            key,
+            (s = { rated: gateSetSolver(p.leg, p.faults, { ratings: true, paths: true }), raw: gateSetSolver(p.leg, p.faults, { ratings: false }) }),
+          );
         const r = results[i]!;
         const label = `${p.topology} ${[...p.faults].map(([e, m]) => `${e}:${m}`).join()} ${p.pattern} ${p.sign}`;
         const o = s.rated(p.leg.patterns[p.pattern]!);

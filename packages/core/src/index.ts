@@ -34,7 +34,7 @@ export {
 export { deratingCurve, deratingSteps, type DeratingCurveOptions, type DeratingPoint, type DeratingStepsOptions } from './limits/deratingCurve.js';
 export { LEVEL_STEP_RULES, describeRules, unsafeRules, type LevelStepRule, type LimitRuleOptions, type LimitRules } from './leg/rules.js';
 export { type RatingCheck } from './leg/ratingCheck.js';
-export { type GateSetOutcome, type GateSetSolver } from './leg/gateSetSolver.js';
+export { type GateSetOutcome, type GateSetSolver, type GateSetSolverOptions } from './leg/gateSetSolver.js';
 export { type LevelMove, type PhaseCommutations } from './leg/commutation.js';
 export { type AdmissibleTriangle, type PhaseMoves } from './vectors/admissibleTriangles.js';
 export { type AdmissibleTiling } from './vectors/admissibleTiling.js';

@@ -61,7 +61,7 @@ export interface ExplorerPictures {
 export function computeResult(state: ExplorerState): ExplorerResult {
   const options = legOptionsOf(state);
   const atlas = diagramAtlas(options);
-  const plan = withRemedies(planFromAtlas(atlas, state.loadAngleDeg, state.polarityMarginDeg), atlas, options, false);
+  const plan = withRemedies(planFromAtlas(atlas, state.loadAngleDeg, state.polarityMarginDeg), atlas, options, { remedies: false });
   return { atlas, plan: state.vdc === null ? plan : withVolts(plan, state.vdc), options };
 }
 

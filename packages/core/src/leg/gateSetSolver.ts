@@ -48,6 +48,14 @@ const NONE: readonly string[] = Object.freeze([]);
 const NO_PATH: SignOutcome = Object.freeze({ level: null, dcNodes: NONE, path: NONE });
 const NO_REASONS: Readonly<Partial<Record<CurrentSign, string>>> = Object.freeze({});
 
+/** Options of {@link gateSetSolver}. */
+export interface GateSetSolverOptions {
+  /** Apply the static voltage check. */
+  readonly ratings: boolean;
+  /** Also find DC nodes, conducting paths and the overstressed device (slower). Default false. */
+  readonly paths?: boolean;
+}
+
 /**
  * Makes a solver that tells, for any gate set of a phase leg, whether it shoots through and, per
  * current sign, which level it gives and whether that state keeps every device within its rating.
@@ -56,18 +64,19 @@ const NO_REASONS: Readonly<Partial<Record<CurrentSign, string>>> = Object.freeze
  *
  * @param leg - the leg netlist
  * @param faults - element id → fault mode for this phase
- * @param ratings - apply the static voltage check (false gives the convex-hull bound's level tables, unsafe)
- * @param paths - also find the DC nodes and conducting elements of each sign, and name the device an
+ * @param options - `ratings`: apply the static voltage check (false gives the convex-hull bound's
+ *   level tables, unsafe); `paths` (default false): also find the DC nodes and conducting elements of each sign, and name the device an
  *   unsafe state overstresses (slower); without, `dcNodes` and `path` are empty and an unsafe state's
  *   reason is the plain `not within ratings`: only usability is solved, as the commutation search needs
  * @returns a solver; results are cached by gate set, so the solver is cheap to call again
  * @example
  * ```ts
- * const solve = gateSetSolver(builtinLeg('npc'), new Map([['innerUpper', 'open']]), true);
+ * const solve = gateSetSolver(builtinLeg('npc'), new Map([['innerUpper', 'open']]), { ratings: true });
  * solve(['outerUpper', 'innerUpper']); // '+' unusable: innerUpper.diode blocks 2 > rating 1
  * ```
  */
-export function gateSetSolver(leg: LegNetlist, faults: PhaseFaults, ratings: boolean, paths = false): GateSetSolver {
+export function gateSetSolver(leg: LegNetlist, faults: PhaseFaults, options: GateSetSolverOptions): GateSetSolver {
+  const { ratings, paths = false } = options;
   const elements = expandElements(leg);
   const check = ratingChecker(leg, elements, faults);
   // Without a rating anywhere the static check cannot fail once the conduction rules found no

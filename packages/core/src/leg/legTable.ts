@@ -78,20 +78,21 @@ export interface JointLegTableOptions {
  *
  * @param leg - the leg netlist
  * @param faults - element id → fault mode for this phase (empty for a healthy phase)
- * @param ratings - apply the static voltage check (default true)
+ * @param options - `ratings`: apply the static voltage check (default true)
  * @returns the table of pattern outcomes, the level sets and the level moves
  * @example
  * ```ts
  * legTable(builtinLeg('npc'), new Map([['outerUpper', 'open']])).levels['+']; // [-1, 0]
  * ```
  */
-export function legTable(leg: LegNetlist, faults: PhaseFaults, ratings = true): LegTable {
+export function legTable(leg: LegNetlist, faults: PhaseFaults, options: { readonly ratings?: boolean } = {}): LegTable {
+  const ratings = options.ratings ?? true;
   leg = parseNetlist(leg, 'legTable');
   if (!(faults instanceof Map))
     throw new HexsalvageInputError('option', 'legTable', 'faults', 'a Map of element id to fault mode (empty for a healthy phase)', faults);
   if (typeof ratings !== 'boolean') throw new HexsalvageInputError('option', 'legTable', 'ratings', 'true or false', ratings);
-  const solve = gateSetSolver(leg, faults, ratings);
-  const named = gateSetSolver(leg, faults, ratings, true);
+  const solve = gateSetSolver(leg, faults, { ratings });
+  const named = gateSetSolver(leg, faults, { ratings, paths: true });
   const patterns = Object.entries(leg.patterns).map(([name, gates]): PatternResult => {
     const o = named(gates);
     if (o.status === 'forbidden') {
@@ -126,7 +127,7 @@ export function jointLegTable(leg: LegNetlist, configurations: readonly PhaseCon
   const ratings = options.ratings ?? true;
   const disabled = options.disabled ?? new Map<number, string>();
   if (configurations.length === 0) throw new HexsalvageInputError('option', 'jointLegTable', 'configurations', 'at least one configuration', configurations);
-  const tables = configurations.map((c) => legTable(leg, c.faults, ratings));
+  const tables = configurations.map((c) => legTable(leg, c.faults, { ratings }));
   // a level by the DC node at that potential (the reader's name for it)
   const nodeOf = (l: number | null) => Object.entries(leg.dcNodes).find(([, v]) => v === l)?.[0] ?? `${l} × Vdc/2`;
   const first = tables[0] as LegTable;

@@ -163,13 +163,13 @@ export interface PlanStop {
  */
 export function planRemedial(options: PlanOptions): RemedialPlan {
   requireObject(options, 'planRemedial', 'an options object { topology, faults?, loadAngleDeg?, polarityMarginDeg?, ignoreRatings?, levelSteps? }');
-  const loadAngleDeg = checkAngle(options.loadAngleDeg ?? 0, 'loadAngleDeg', -180, 180, true);
-  const polarityMarginDeg = checkAngle(options.polarityMarginDeg ?? 0, 'polarityMarginDeg', 0, 60, false);
+  const loadAngleDeg = checkAngle(options.loadAngleDeg ?? 0, 'loadAngleDeg', -180, 180, { hiInclusive: true });
+  const polarityMarginDeg = checkAngle(options.polarityMarginDeg ?? 0, 'polarityMarginDeg', 0, 60);
   const { topology, faults, ignoreRatings, levelSteps, bypass } = options;
   const vdc = options.vdc === undefined ? undefined : requireVdc(options.vdc, 'options', 'vdc');
   const legOptions = { topology, faults: faults ?? [], ignoreRatings, levelSteps, ...(bypass === undefined ? {} : { bypass }) };
   const atlas = diagramAtlas(legOptions);
-  const plan = withRemedies(planFromAtlas(atlas, loadAngleDeg, polarityMarginDeg), atlas, legOptions, options.remedies !== false);
+  const plan = withRemedies(planFromAtlas(atlas, loadAngleDeg, polarityMarginDeg), atlas, legOptions, { remedies: options.remedies !== false });
   return vdc === undefined ? plan : withVolts(plan, vdc);
 }
 
@@ -180,14 +180,20 @@ export function planRemedial(options: PlanOptions): RemedialPlan {
  * @param plan - from {@link planFromAtlas}
  * @param atlas - the atlas it was made from
  * @param options - the options the atlas was made with
- * @param remedies - also list the remedies (default true)
+ * @param withOptions - `remedies`: also list the remedies (default true)
  * @returns the plan with `alternatives`, `mMaxByAlternative` and `remedies`
  * @example
  * ```ts
  * withRemedies(planFromAtlas(atlas, 0, 0), atlas, { topology: 'npc', faults: ['a.outerUpper'] }).remedies;
  * ```
  */
-export function withRemedies(plan: RemedialPlan, atlas: DiagramAtlas, options: AnalyseLegOptions, remedies = true): RemedialPlan {
+export function withRemedies(
+  plan: RemedialPlan,
+  atlas: DiagramAtlas,
+  options: AnalyseLegOptions,
+  withOptions: { readonly remedies?: boolean } = {},
+): RemedialPlan {
+  const remedies = withOptions.remedies ?? true;
   const configs = atlas.analysis.configurations;
   const alternatives = configs.map((c) => c.map(formatFault));
   const { bypass, ...rest } = options;
@@ -239,8 +245,8 @@ export function withVolts(plan: RemedialPlan, vdc: number): RemedialPlan {
  */
 export function planFromAtlas(atlas: DiagramAtlas, loadAngleDeg: number, polarityMarginDeg: number): RemedialPlan {
   requireAtlas(atlas, 'planFromAtlas');
-  checkAngle(loadAngleDeg, 'loadAngleDeg', -180, 180, true);
-  checkAngle(polarityMarginDeg, 'polarityMarginDeg', 0, 60, false);
+  checkAngle(loadAngleDeg, 'loadAngleDeg', -180, 180, { hiInclusive: true });
+  checkAngle(polarityMarginDeg, 'polarityMarginDeg', 0, 60);
   const { limit: lim, mMaxBalanced: balanced } = planLimits(atlas, loadAngleDeg, polarityMarginDeg);
   const healthy = modulationLimit(atlas.healthy, loadAngleDeg, polarityMarginDeg);
   const hull = modulationLimit(atlas.faulted, loadAngleDeg, polarityMarginDeg, 'hull');
@@ -368,14 +374,15 @@ function vectorDocument(v: ClassifiedVector): PlanVector {
  * @param key - option name
  * @param lo - lowest allowed
  * @param hi - highest allowed
- * @param hiInclusive - whether `hi` itself is allowed
+ * @param range - `hiInclusive`: whether `hi` itself is allowed (default false)
  * @returns the value
  * @example
  * ```ts
- * checkAngle(30, 'loadAngleDeg', -180, 180, true); // 30
+ * checkAngle(30, 'loadAngleDeg', -180, 180, { hiInclusive: true }); // 30
  * ```
  */
-export function checkAngle(v: unknown, key: string, lo: number, hi: number, hiInclusive: boolean): number {
+export function checkAngle(v: unknown, key: string, lo: number, hi: number, range: { readonly hiInclusive?: boolean } = {}): number {
+  const hiInclusive = range.hiInclusive ?? false;
   const ok = typeof v === 'number' && Number.isFinite(v) && v >= lo && (hiInclusive ? v <= hi : v < hi);
   if (!ok) throw new HexsalvageInputError('option', 'options', key, `a number of degrees in [${lo}, ${hi}${hiInclusive ? ']' : ')'}`, v);
   return v as number;

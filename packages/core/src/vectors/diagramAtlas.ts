@@ -108,7 +108,7 @@ function buildAtlas(options: AnalyseLegOptions): DiagramAtlas {
       },
       get keys() {
         const o = { levels: t.levels, moves: full() };
-        return (keys ??= { '+': offerKey(o, '+', withMoves), '-': offerKey(o, '-', withMoves), '?': offerKey(o, '?', withMoves) });
+        return (keys ??= { '+': offerKey(o, '+', { withMoves }), '-': offerKey(o, '-', { withMoves }), '?': offerKey(o, '?', { withMoves }) });
       },
       // the first stage pays only where the full search is costly (many patterns, many levels); on a
       // small leg the full moves are cheap and the plain path wastes nothing (both give the same)

@@ -80,14 +80,15 @@ export interface PhaseOffer {
  *
  * @param offer - levels and moves of the phase
  * @param c - polarity character
- * @param withMoves - whether the moves matter (not under `levelSteps: any`)
+ * @param options - `withMoves`: whether the moves matter (not under `levelSteps: any`)
  * @returns a string equal for equal offers
  * @example
  * ```ts
- * offerKey(offer, '+', true);
+ * offerKey(offer, '+', { withMoves: true });
  * ```
  */
-export function offerKey(offer: Pick<PhaseOffer, 'levels' | 'moves'>, c: PhasePolarity, withMoves: boolean): string {
+export function offerKey(offer: Pick<PhaseOffer, 'levels' | 'moves'>, c: PhasePolarity, options: { readonly withMoves: boolean }): string {
+  const { withMoves } = options;
   return `${offer.levels[c].join(',')}${withMoves ? `;${offer.moves[c].map((m) => `${m[0]}>${m[1]}`).join(',')}` : ''}`;
 }
 
@@ -128,7 +129,7 @@ export function polarityDiagram(
   const [pa, pb, pc] = parsePolarity(polarity);
   const phaseLevels = [phases.a.levels[pa], phases.b.levels[pb], phases.c.levels[pc]] as const;
   const withMoves = rules.levelSteps !== 'any';
-  const part = (o: PhaseOffer, c: PhasePolarity) => o.keys?.[c] ?? offerKey(o, c, withMoves);
+  const part = (o: PhaseOffer, c: PhasePolarity) => o.keys?.[c] ?? offerKey(o, c, { withMoves });
   const fullKey = () => `${part(phases.a, pa)}|${part(phases.b, pb)}|${part(phases.c, pc)}`;
   // First stage, where the offers give neighbour moves: keyed by levels and those moves only, valid
   // only for a diagram whose Delaunay triangles stand under them (see PhaseOffer.adjacent).
