@@ -3,8 +3,10 @@
  * header's triangles: the same search as the TypeScript modulator's plain form (first triangle in
  * index order containing the point; otherwise clamped to the tiling's outline or the hull, then the
  * least-outside triangle), so that firmware and the library give the same triangle and dwell times.
- * The clamp's ray–segment test is geometry/rayHit.ts's arithmetic written in C.
+ * The clamp's ray–segment test comes from geometry/rayHit.ts, where the TypeScript one lives.
  */
+
+import { cRayHit } from '../geometry/rayHit.js';
 
 /**
  * `<prefix>_polarity_index(sa, sb, sc)`: measured current signs to a polarity index.
@@ -57,6 +59,8 @@ export function cLocate(px: string, PX: string): string {
   return 1;
 }
 
+${cRayHit(px)}
+
 static inline void ${px}_clamp_outline_(int p, double x, double y, double *ox, double *oy)
 {
   int first = ${px}_outline_first[p], n = ${px}_outline_first[p + 1] - first, i;
@@ -64,11 +68,9 @@ static inline void ${px}_clamp_outline_(int p, double x, double y, double *ox, d
   if (len > 0) {
     double ux = x / len, uy = y / len, exit = -1, entry = INFINITY, t;
     for (i = 0; i < n; i++) {
-      const ${px}_real *g = ${px}_outline[first + i];
-      double dx = g[2] - g[0], dy = g[3] - g[1], den = ux * dy - uy * dx, s;
-      if (fabs(den) < 1e-15) continue;
-      t = (g[0] * dy - g[1] * dx) / den;
-      s = (g[0] * uy - g[1] * ux) / den;
+      double hit[3], s, den;
+      if (!${px}_ray_hit_(ux, uy, ${px}_outline[first + i], hit)) continue;
+      t = hit[0]; s = hit[1]; den = hit[2];
       if (t <= 0 || s < 0 || s > 1) continue;
       if (den > 0 && t <= len && t > exit) exit = t;
       if (den < 0 && t >= len && t < entry) entry = t;

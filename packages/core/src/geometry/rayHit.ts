@@ -4,8 +4,8 @@ import type { Point } from './clarke.js';
  * Where the ray from the origin along the unit vector (ux, uy) meets the line of the segment p→q:
  * writes the distance t along the ray to `out[0]`, the parameter s along p→q to `out[1]` (0 at p, 1
  * at q) and the orientation `den` to `out[2]` (den > 0: p→q crosses the ray from its right to its
- * left). The outline geometry and the outline clamp both use it; the C header's clamp writes the
- * same arithmetic (export/cLocator.ts), and the parity tests hold the two together.
+ * left). The outline geometry and the outline clamp both use it, and the C header gets the same
+ * arithmetic from {@link cRayHit} beside it (the parity tests hold the two together).
  *
  * @param ux - ray direction, x (unit vector)
  * @param uy - ray direction, y
@@ -28,4 +28,28 @@ export function rayHit(ux: number, uy: number, p: Point | readonly [number, numb
   out[1] = (p[0] * uy - p[1] * ux) / den;
   out[2] = den;
   return true;
+}
+
+/**
+ * {@link rayHit} in C for the generated header: `<prefix>_ray_hit_(ux, uy, g, hit)` with the segment
+ * `g = {x0, y0, x1, y1}` and `hit = {t, s, den}`; 0 when parallel. Written here, beside the
+ * TypeScript, so that the two stay one formula.
+ *
+ * @param px - the identifier prefix of the header
+ * @returns C source
+ * @example
+ * ```ts
+ * cRayHit('hs');
+ * ```
+ */
+export function cRayHit(px: string): string {
+  return `static inline int ${px}_ray_hit_(double ux, double uy, const ${px}_real *g, double hit[3])
+{
+  double dx = g[2] - g[0], dy = g[3] - g[1], den = ux * dy - uy * dx;
+  if (fabs(den) < 1e-15) return 0;
+  hit[0] = (g[0] * dy - g[1] * dx) / den;
+  hit[1] = (g[0] * uy - g[1] * ux) / den;
+  hit[2] = den;
+  return 1;
+}`;
 }
