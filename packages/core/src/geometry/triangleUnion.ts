@@ -98,7 +98,7 @@ export function unionOutline(points: readonly Point[], triangles: readonly Trian
   // as testing everything.
   const edgeBoxes = edges.map(([r, s]) => grow(boxOf(r, s), 2 * eps * (1 + Math.hypot(s[0] - r[0], s[1] - r[1]))));
   const cover = triangles.map((t) => coverBox(points, t, eps));
-  const covered = (x: Point) => triangles.some((t, i) => inBox(cover[i] as Box, x) && coveredBy(points, [t], x, eps));
+  const covered = (x: Point) => triangles.some((t, i) => inBox(cover[i] as Box, x) && inTriangle(points, t, x, eps));
   const out: Segment[] = [];
   const seen = new Set<string>();
   const probe = 1e3 * eps;
@@ -226,16 +226,19 @@ function cutParameters(p: Point, q: Point, r: Point, s: Point, eps: number): num
  * ```
  */
 export function coveredBy(points: readonly Point[], triangles: readonly Triangle[], x: Point, eps: number): boolean {
-  return triangles.some((t) => {
-    for (let k = 0; k < 3; k++) {
-      const p = points[t[k] as number] as Point;
-      const q = points[t[(k + 1) % 3] as number] as Point;
-      const ex = q[0] - p[0];
-      const ey = q[1] - p[1];
-      if ((ex * (x[1] - p[1]) - ey * (x[0] - p[0])) / Math.hypot(ex, ey) < -eps) return false;
-    }
-    return true;
-  });
+  return triangles.some((t) => inTriangle(points, t, x, eps));
+}
+
+// One triangle of coveredBy: the point on the inner side of every edge, within eps.
+function inTriangle(points: readonly Point[], t: Triangle, x: Point, eps: number): boolean {
+  for (let k = 0; k < 3; k++) {
+    const p = points[t[k] as number] as Point;
+    const q = points[t[(k + 1) % 3] as number] as Point;
+    const ex = q[0] - p[0];
+    const ey = q[1] - p[1];
+    if ((ex * (x[1] - p[1]) - ey * (x[0] - p[0])) / Math.hypot(ex, ey) < -eps) return false;
+  }
+  return true;
 }
 
 /**
