@@ -6,6 +6,7 @@ import { existsSync, mkdtempSync, rmSync, statSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
+import { medianOf } from './timing.mjs';
 
 const CHROMIUM = process.env.HEXSALVAGE_CHROMIUM ?? '/usr/bin/chromium';
 const root = fileURLToPath(new URL('..', import.meta.url));
@@ -31,7 +32,6 @@ try {
     ['anpc-hybrid', null, ['a.innerUpper', 'a.innerUpper', 'c.clampLower', 'b.outerUpper', 'b.outerUpper']],
     ['five-level', join(root, 'examples/five-level-leg.json'), ['a.s1', 'a.s1', 'b.s6', 'c.dA2', 'b.s6']],
   ];
-  const med = (xs) => [...xs].sort((a, b) => a - b)[xs.length >> 1];
   console.log(`explorer page: ${(statSync(html).size / 1024).toFixed(0)} KiB (goal < 2048 KiB)`);
   for (const [name, file, clicks] of legs) {
     if (file) {
@@ -54,7 +54,7 @@ try {
       pictures.push(p);
     }
     console.log(
-      `  explorer ${name.padEnd(12)} ${result.length} changes: result median ${med(result).toFixed(1)} ms, max ${Math.max(...result).toFixed(1)} ms (goal ≤ 50); pictures median ${med(pictures).toFixed(1)} ms, max ${Math.max(...pictures).toFixed(1)} ms (goal ≤ 100)`,
+      `  explorer ${name.padEnd(12)} ${result.length} changes: result median ${medianOf(result).toFixed(1)} ms, max ${Math.max(...result).toFixed(1)} ms (goal ≤ 50); pictures median ${medianOf(pictures).toFixed(1)} ms, max ${Math.max(...pictures).toFixed(1)} ms (goal ≤ 100)`,
     );
   }
   await browser.close();

@@ -4,27 +4,16 @@
 // modulateInto at least 1.0x the scan on every built-in single fault. Cases that cannot run
 // (mMax = 0) have nothing to modulate and are left out.
 import { readFileSync } from 'node:fs';
-import { performance } from 'node:perf_hooks';
 import { createModulator, expandElements, FAULT_MODES, planRemedial, polarityAt, POLARITY_STRINGS, resolveTopology } from '../packages/core/dist/internal.js';
 import { leanScan } from './leanScan.mjs';
+import { medianOf, msPerRun } from './timing.mjs';
 
 const arg = process.argv[2] ?? 'npc';
 const topology = arg.endsWith('.json') ? JSON.parse(readFileSync(arg, 'utf8')) : arg;
 const N = 20000;
 const out = new Float64Array(4);
-function time(fn, minMs = 60) {
-  fn();
-  let n = 0;
-  const t0 = performance.now();
-  let t = t0;
-  while (t - t0 < minMs) {
-    fn();
-    n++;
-    t = performance.now();
-  }
-  return (t - t0) / n;
-}
-const med = (xs) => [...xs].sort((a, b) => a - b)[xs.length >> 1];
+const time = (fn, minMs = 60) => msPerRun(fn, minMs).ms;
+const med = medianOf;
 const rows = [];
 for (const e of expandElements(resolveTopology(topology)).map((x) => x.id)) {
   for (const mode of FAULT_MODES) {

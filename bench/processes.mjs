@@ -1,6 +1,7 @@
 // Whole-process figures for the speed goals users feel (`pnpm bench` runs this after run.mjs):
-// start-up, `plan` on a 21-level diode-clamped leg against a three-level one, `report` on a
-// 9-level leg against a three-level one, and the peak memory of `report` on an 11-level leg.
+// start-up, the fault atlases, the five-level double-fault atlas against its single-fault atlas,
+// `report` on a 9-level leg against a three-level one, and the peak memory of `report` on an
+// 11-level leg.
 // Commands run in turn (A B A B …) and the ratio is taken pair by pair, so that a drift in the
 // shared machine's speed moves both sides; medians printed.
 import { spawnSync } from 'node:child_process';
@@ -9,6 +10,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { performance } from 'node:perf_hooks';
 import { fileURLToPath } from 'node:url';
+import { medianOf } from './timing.mjs';
 
 const BIN = fileURLToPath(new URL('../packages/cli/bin/hexsalvage.mjs', import.meta.url));
 const RUNS = 7;
@@ -60,9 +62,8 @@ function paired(label, a, b, goal) {
     tb.push(y);
     ratio.push(x / y);
   }
-  const med = (xs) => [...xs].sort((p, q) => p - q)[Math.floor(xs.length / 2)];
   console.log(
-    `${label.padEnd(58)} ${med(ta).toFixed(0).padStart(6)} ms vs ${med(tb).toFixed(0).padStart(5)} ms, ratio ${med(ratio).toFixed(2)} (goal ≤ ${goal})`,
+    `${label.padEnd(58)} ${medianOf(ta).toFixed(0).padStart(6)} ms vs ${medianOf(tb).toFixed(0).padStart(5)} ms, ratio ${medianOf(ratio).toFixed(2)} (goal ≤ ${goal})`,
   );
 }
 
@@ -70,7 +71,7 @@ function alone(label, args, goalMs) {
   wall(args);
   const t = [];
   for (let i = 0; i < RUNS; i++) t.push(wall(args));
-  const med = [...t].sort((p, q) => p - q)[Math.floor(t.length / 2)];
+  const med = medianOf(t);
   console.log(`${label.padEnd(58)} ${med.toFixed(0).padStart(6)} ms median (goal ≤ ${goalMs} ms)`);
 }
 

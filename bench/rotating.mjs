@@ -2,9 +2,9 @@
 // run.mjs starts one per leg, so that the engine's feedback from one leg's loops does not shape the
 // next leg's (in one process the same call sites see several modulators and may stop inlining).
 import { readFileSync } from 'node:fs';
-import { performance } from 'node:perf_hooks';
 import { createModulator, createRuntime, planRemedial, polarityAt, POLARITY_STRINGS, switchingTable } from '../packages/core/dist/internal.js';
 import { leanScan } from './leanScan.mjs';
+import { medianOf, msPerRun } from './timing.mjs';
 
 const label = process.argv[2];
 const plan =
@@ -27,18 +27,7 @@ for (let i = 0; i < N; i++) {
   rotPol[i] = POLARITY_STRINGS.indexOf(polarityAt((th * 180) / Math.PI, 30, 0));
 }
 const mod = createModulator(plan);
-function time(fn, minMs = 600) {
-  fn();
-  let n = 0;
-  const t0 = performance.now();
-  let t = t0;
-  while (t - t0 < minMs) {
-    fn();
-    n++;
-    t = performance.now();
-  }
-  return (t - t0) / n;
-}
+const time = (fn, minMs = 600) => msPerRun(fn, minMs).ms;
 // interleaved, median of five rounds each
 const into = [];
 const obj = [];
@@ -60,7 +49,7 @@ for (let r = 0; r < 5; r++) {
     }),
   );
 }
-const med = (xs) => [...xs].sort((a, b) => a - b)[2];
+const med = medianOf;
 const ns = (ms) => ((ms * 1e6) / N).toFixed(1);
 console.log(
   `  ${label}, rotating: modulateInto ${ns(med(into))} ns, modulate ${ns(med(obj))} ns, lean scan ${ns(med(lean))} ns per call; modulateInto is ${(med(lean) / med(into)).toFixed(2)}x the lean linear scan; modulate costs ${(med(obj) / med(into)).toFixed(2)}x modulateInto`,

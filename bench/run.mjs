@@ -1,19 +1,11 @@
 // Benchmarks (`pnpm bench`): wall-clock figures on this machine, printed, never asserted.
 import { performance } from 'node:perf_hooks';
 import { leanScan } from './leanScan.mjs';
+import { msPerRun } from './timing.mjs';
 import { BUILTIN_TOPOLOGIES, builtinLeg, diagramAtlas, expandElements, modulationLimit, planRemedial } from '../packages/core/dist/internal.js';
 
 function time(label, fn, minMs = 1500) {
-  fn(); // warm-up
-  let n = 0;
-  const t0 = performance.now();
-  let t = t0;
-  while (t - t0 < minMs) {
-    fn();
-    n++;
-    t = performance.now();
-  }
-  const per = (t - t0) / n;
+  const { ms: per, runs: n } = msPerRun(fn, minMs);
   console.log(`${label.padEnd(58)} ${per.toFixed(3).padStart(10)} ms/op  (${n} runs)`);
   return per;
 }
