@@ -1,18 +1,16 @@
 /// <reference lib="dom" />
 import { mkdirSync, readFileSync, writeFileSync } from 'node:fs';
-import { existsSync } from 'node:fs';
 import { join } from 'node:path';
 import { BUILTIN_TOPOLOGIES, parseNetlist, planRemedial } from '@hexsalvage/core';
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { launchChromium, skipBrowserTests } from '../support/browser.js';
 import { ROOT, runBin } from '../support/cli.js';
 
 // The explorer page driven in Debian's chromium through playwright-core, through the hooks the
 // contract names (select[name=topology], input[name=load-angle], [data-device], [data-result]).
 // Every limit read from the page is compared at full precision with planRemedial in Node.
-const CHROMIUM = process.env.HEXSALVAGE_CHROMIUM ?? '/usr/bin/chromium';
-const available = existsSync(CHROMIUM);
-if (!available && !process.env.CI) console.warn(`explorerBrowser: skipped, no browser at ${CHROMIUM}`);
+const skip = skipBrowserTests('explorerBrowser');
 
 const ARTEFACTS = join(ROOT, 'test-artifacts', 'explorer');
 const FIVE = 'examples/five-level-leg.json';
@@ -64,7 +62,7 @@ async function setLoadAngle(page: Page, deg: number): Promise<void> {
   await page.dispatchEvent('input[name="load-angle"]', 'change');
 }
 
-describe.skipIf(!available && !process.env.CI)('explorer page in a headless browser', () => {
+describe.skipIf(skip)('explorer page in a headless browser', () => {
   let browser: import('playwright-core').Browser;
   let page: Page;
   const errors: string[] = [];
@@ -77,19 +75,7 @@ describe.skipIf(!available && !process.env.CI)('explorer page in a headless brow
     const r = runBin(['explore', '--out', html]);
     expect(r.stderr).toBe('');
     expect(r.code).toBe(0);
-    const { chromium } = await import('playwright-core');
-    browser = await chromium.launch({
-      executablePath: CHROMIUM,
-      args: [
-        '--no-sandbox',
-        '--disable-gpu',
-        '--disable-quic',
-        '--no-first-run',
-        '--disable-background-networking',
-        '--disable-component-update',
-        '--disable-sync',
-      ],
-    });
+    browser = await launchChromium();
     const context = await browser.newContext({ viewport: { width: 1280, height: 800 }, acceptDownloads: true });
     page = await context.newPage();
     page.on('console', (m) => {

@@ -1,17 +1,16 @@
-import { existsSync, mkdirSync } from 'node:fs';
+import { mkdirSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
+import { BROWSER_AVAILABLE, launchChromium, skipBrowserTests } from '../support/browser.js';
 import { ROOT, runBin } from '../support/cli.js';
 
 // The review report opened in a real headless browser: Debian's chromium driven by playwright-core.
 // CI installs chromium (.ci/run), so there the test must run; elsewhere it may skip, saying why.
-const CHROMIUM = process.env.HEXSALVAGE_CHROMIUM ?? '/usr/bin/chromium';
-const available = existsSync(CHROMIUM);
-if (!available && !process.env.CI) console.warn(`reportBrowser: skipped, no browser at ${CHROMIUM} (apt-get install chromium, or set HEXSALVAGE_CHROMIUM)`);
+const skip = skipBrowserTests('reportBrowser');
 
-describe.skipIf(!available && !process.env.CI)('report in a headless browser', () => {
+describe.skipIf(skip)('report in a headless browser', () => {
   it('opens without console errors or network requests, every SVG has a box, and a screenshot is saved', async () => {
-    expect(existsSync(CHROMIUM)).toBe(true);
+    expect(BROWSER_AVAILABLE).toBe(true);
     const artefacts = join(ROOT, 'test-artifacts');
     mkdirSync(artefacts, { recursive: true });
     const html = join(artefacts, 'review.html');
@@ -31,19 +30,7 @@ describe.skipIf(!available && !process.env.CI)('report in a headless browser', (
       html,
     ]);
     expect(r.code).toBe(0);
-    const { chromium } = await import('playwright-core');
-    const browser = await chromium.launch({
-      executablePath: CHROMIUM,
-      args: [
-        '--no-sandbox',
-        '--disable-gpu',
-        '--disable-quic',
-        '--no-first-run',
-        '--disable-background-networking',
-        '--disable-component-update',
-        '--disable-sync',
-      ],
-    });
+    const browser = await launchChromium();
     try {
       const page = await browser.newPage({ viewport: { width: 1000, height: 1400 } });
       const errors: string[] = [];
