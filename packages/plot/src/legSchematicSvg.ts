@@ -112,9 +112,7 @@ export function legSchematicSvg(leg: LegNetlist, options: LegSchematicOptions = 
       );
     body.push(`<path class="wire" d="M${n(x1)},${n(y1)} L${n(mx)},${n(my)} L${n(x2)},${n(y2)}" stroke="${STYLE.ink}" stroke-width="1.3" fill="none"/>`);
     const place = `translate(${n(mx)} ${n(my)}) rotate(${n(angle, 1)})`;
-    const g: string[] = [
-      `<g class="device ${d.kind}" data-id="${esc(d.id)}"${control(options.phase, d.id, failed, shorted)} transform="${place}">${tooltip(options.phase, d.id, failed, shorted)}`,
-    ];
+    const g: string[] = [openGroup(`device ${d.kind}`, d.id, place, options.phase, failed, shorted)];
     if (d.kind === 'diode') {
       g.push(diodeSymbol(0, path.has(d.id), stroke));
       if (options.phase !== undefined)
@@ -128,9 +126,7 @@ export function legSchematicSvg(leg: LegNetlist, options: LegSchematicOptions = 
         g.push(...[failed.has(d.id) ? crossMark(0, 0) : '', shorted.has(d.id) ? shortMark(0) : '', hitArea(0, 11)].filter(Boolean));
       // a control is one group per element, so that a click on the diode never reaches its switch
       if (d.antiparallelDiode && options.phase !== undefined)
-        g.push(
-          `</g><g class="device diode antiparallel" data-id="${esc(d.id)}.diode"${control(options.phase, `${d.id}.diode`, failed, shorted)} transform="${place}">${tooltip(options.phase, `${d.id}.diode`, failed, shorted)}`,
-        );
+        g.push(`</g>${openGroup('device diode antiparallel', `${d.id}.diode`, place, options.phase, failed, shorted)}`);
       if (d.antiparallelDiode) g.push(`<g transform="translate(0 ${side * 17}) rotate(180)">${diodeSymbol(0, path.has(`${d.id}.diode`), stroke)}</g>`);
     }
     if (failed.has(d.id) && options.phase === undefined) g.push(crossMark(0, 0));
@@ -207,20 +203,14 @@ function captionText(o: LegSchematicOptions): string {
   return `Pattern ${o.pattern.name}, ${dir}: output at ${n(o.level ?? 0, 2)}·Vdc/2 through ${through}.`;
 }
 
-// The attributes that make an element a control of the explorer page: its address, its state in
-// words (tooltip and screen reader) and a keyboard stop.
-function tooltip(phase: string | undefined, id: string, failed: ReadonlySet<string>, shorted: ReadonlySet<string>): string {
-  if (phase === undefined) return '';
-  const state = failed.has(id) ? 'open' : shorted.has(id) ? 'short' : 'healthy';
-  return `<title>${esc(`${phase}.${id}: ${state}`)}</title>`;
-}
-
-function control(phase: string | undefined, id: string, failed: ReadonlySet<string>, shorted: ReadonlySet<string>): string {
-  if (phase === undefined) return '';
+// The opening tag of an element's group; on the explorer page (a phase given) also what makes it a
+// control: its address, its state in words (tooltip and screen reader) and a keyboard stop.
+function openGroup(cls: string, id: string, place: string, phase: string | undefined, failed: ReadonlySet<string>, shorted: ReadonlySet<string>): string {
+  if (phase === undefined) return `<g class="${cls}" data-id="${esc(id)}" transform="${place}">`;
   const state = failed.has(id) ? 'open' : shorted.has(id) ? 'short' : 'healthy';
   const next = state === 'healthy' ? 'open' : state === 'open' ? 'short' : 'healthy';
   const label = `${phase}.${id}: ${state} (activate: ${next})`;
-  return ` data-device="${esc(`${phase}.${id}`)}" data-state="${state}" role="button" tabindex="0" aria-label="${esc(label)}"`;
+  return `<g class="${cls}" data-id="${esc(id)}" data-device="${esc(`${phase}.${id}`)}" data-state="${state}" role="button" tabindex="0" aria-label="${esc(label)}" transform="${place}"><title>${esc(`${phase}.${id}: ${state}`)}</title>`;
 }
 
 // An invisible target around an element, so that a click anywhere on its symbol reaches it.

@@ -98,7 +98,6 @@ export function planJson(state: ExplorerState): string {
   const o = legOptionsOf(state);
   const plan = planRemedial({
     ...o,
-    topology: o.topology,
     loadAngleDeg: state.loadAngleDeg,
     polarityMarginDeg: state.polarityMarginDeg,
     ...(state.vdc === null ? {} : { vdc: state.vdc }),

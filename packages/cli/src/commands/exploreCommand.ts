@@ -1,6 +1,7 @@
 import { existsSync, readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
-import { builtinLeg, HexsalvageInputError, parseFailures, type BuiltinTopology } from '@hexsalvage/core';
+import { HexsalvageInputError, parseFailures } from '@hexsalvage/core';
+import { resolveTopology } from '@hexsalvage/core/internal';
 import { usage } from '../inputs/args.js';
 import { HELP_OPTION, type Command } from '../command.js';
 import { explorerPage } from '../explorer/explorerPage.js';
@@ -34,7 +35,7 @@ export const exploreCommand: Command = {
     const faults = args.lists.get('fault') ?? [];
     for (const f of faults) if (f.includes('|')) throw usage('--fault', 'one element per fault here (the page sets ambiguous diagnoses with its toggles)', f);
     const leg = typeof topology === 'string' ? undefined : topology;
-    parseFailures(faults, leg ?? builtinLeg(topology as BuiltinTopology));
+    parseFailures(faults, resolveTopology(topology));
     if (!existsSync(BUNDLE))
       throw new HexsalvageInputError(
         'usage',
