@@ -93,7 +93,15 @@ export {
 export { type PhaseSteps } from './table/patternSteps.js';
 export { type RuntimeProgram } from './table/runtimeProgram.js';
 export { SEQUENCE_MODES, createRuntime, type Runtime, type RuntimeOptions, type RuntimeOutput, type SequenceMode } from './table/createRuntime.js';
-export { UPDATE_MODES, runtimeStream, type RuntimeStream, type RuntimeStreamOptions, type StreamSegment, type UpdateMode } from './table/runtimeStream.js';
+export {
+  UPDATE_MODES,
+  runtimeStream,
+  type RuntimeStream,
+  type RuntimeStreamOptions,
+  type StreamEntry,
+  type StreamSegment,
+  type UpdateMode,
+} from './table/runtimeStream.js';
 export { samplePeriod, type PeriodState, type SampledPeriod, type SamplePeriodOptions } from './table/samplePeriod.js';
 export {
   switchover,

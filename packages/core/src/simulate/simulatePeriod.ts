@@ -11,7 +11,7 @@ import type { LegElement, LegNetlist } from '../netlist/netlist.js';
 import { planFromAtlas } from '../limits/planRemedial.js';
 import { requireVdc } from '../shared/physicalUnits.js';
 import type { LimitRuleOptions } from '../leg/rules.js';
-import { runtimeStream, UPDATE_MODES, type StreamSegment, type UpdateMode } from '../table/runtimeStream.js';
+import { runtimeStream, UPDATE_MODES, type StreamEntry, type StreamSegment, type UpdateMode } from '../table/runtimeStream.js';
 import { switchingTableFromAtlas } from '../table/switchingTable.js';
 import { requireNumber, requireObject } from '../shared/validate.js';
 
@@ -338,7 +338,7 @@ function runPeriod(x: RunInputs, atlas: DiagramAtlas): RunOutput {
   const current = (k: number, t: number) => x.ipk * Math.cos(w * t - (psi[k] as number));
   const paramsOf = parameterLookup(x.params, elementById, kindOf);
   const paths = pathLookup(leg, elements, phaseFaults, paramsOf);
-  const { spans, changes } = gateTimeline(stream.segments, leg, T, x.td, x.periods);
+  const { spans, changes } = gateTimeline(stream.segments, stream.entryHeld, leg, T, x.td, x.periods);
   const acc = new Map<string, { abs: number; sq: number; esw: number }>(
     PHASES.flatMap((ph) => elements.map((e) => [`${ph}.${e.id}`, { abs: 0, sq: 0, esw: 0 }] as const)),
   );
@@ -437,11 +437,19 @@ function pathLookup(leg: LegNetlist, elements: readonly LegElement[], faults: re
 }
 
 // Each phase's gate sets over the period (state, then the intermediate set of each change for the
-// dead time), and the changes themselves; the stream is periodic, so the change at t = 0 comes
-// from its last state. A state the stream holds for no time is no pulse for that phase: the
-// phase goes from the state before it straight to the state after (nothing at all where those
-// are the same). Each state lasts from its start to the next held state's.
-function gateTimeline(stream: readonly StreamSegment[], leg: LegNetlist, T: number, td: number, periods: number): { spans: GateSpan[][]; changes: Change[] } {
+// dead time), and the changes themselves; the change at t = 0 comes from the last state the
+// previous period held (the stream's own last one when it is periodic). A state the stream holds
+// for no time is no pulse for that phase: the phase goes from the state before it straight to the
+// state after (nothing at all where those are the same). Each state lasts from its start to the
+// next held state's.
+function gateTimeline(
+  stream: readonly StreamSegment[],
+  entry: StreamEntry,
+  leg: LegNetlist,
+  T: number,
+  td: number,
+  periods: number,
+): { spans: GateSpan[][]; changes: Change[] } {
   const spans: GateSpan[][] = [[], [], []];
   const changes: Change[] = [];
   // below a billionth of a switching period a state is rounding, not a pulse
@@ -450,7 +458,7 @@ function gateTimeline(stream: readonly StreamSegment[], leg: LegNetlist, T: numb
   for (let k = 0; k < 3; k++) {
     for (let s = 0; s < n; s++) {
       const seg = held[s] as StreamSegment;
-      const before = held[(s + n - 1) % n] as StreamSegment;
+      const before = s === 0 ? entry : (held[s - 1] as StreamSegment);
       const t0 = seg.t * T;
       const t1 = s + 1 < n ? (held[s + 1] as StreamSegment).t * T : T;
       const to = leg.patterns[seg.patterns[k] as string] as readonly string[];

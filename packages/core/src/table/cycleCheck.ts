@@ -2,7 +2,7 @@ import { HexsalvageInputError } from '../shared/errors.js';
 import { requireNumber, requireObject, requireTable } from '../shared/validate.js';
 import { MIDPOINT_TOLERANCE, midpointProfile, midpointRangeAt } from '../limits/midpointBalance.js';
 import type { RuntimeOptions, SequenceMode } from './createRuntime.js';
-import { runtimeStream, type StreamSegment, type UpdateMode } from './runtimeStream.js';
+import { runtimeStream, type StreamEntry, type StreamSegment, type UpdateMode } from './runtimeStream.js';
 import type { SwitchingTable } from './switchingTable.js';
 
 /** Options of {@link cycleCheck}: the operating point and the runtime's settings. */
@@ -62,6 +62,11 @@ export interface CycleReport {
   readonly gateChangesPerCycle: Readonly<Record<string, number>>;
   /** Every segment of the period (with `stream: true`), times as fractions of the period. */
   readonly stream?: readonly StreamSegment[];
+  /**
+   * With `stream: true`: the state the period starts from (the previous period's last state; the
+   * stream's own last state when `periodic`). The first step is from it into the first segment.
+   */
+  readonly streamEntry?: StreamEntry;
 }
 
 /**
@@ -123,6 +128,6 @@ export function cycleCheck(table: SwitchingTable, options: CycleCheckOptions): C
     midpointDrift: !reachable || reachable[0] > MIDPOINT_TOLERANCE * amp || reachable[1] < -MIDPOINT_TOLERANCE * amp,
     runtimeDrift: Math.abs(s.midpointAverage) > threshold,
     gateChangesPerCycle: s.gateChanges,
-    ...(options.stream ? { stream: s.segments } : {}),
+    ...(options.stream ? { stream: s.segments, streamEntry: s.entry } : {}),
   };
 }

@@ -41,11 +41,21 @@ export interface StreamSegment {
   readonly polarity: PolarityString;
 }
 
+/** The state a stream starts from (see {@link RuntimeStream.entry}). */
+export interface StreamEntry {
+  readonly levels: readonly [number, number, number];
+  readonly patterns: readonly [string, string, string];
+  readonly polarity: PolarityString;
+}
+
 /** One fundamental period of the runtime in steady state. */
 export interface RuntimeStream {
   /** Every segment applied, in time order (consecutive equal states merged; Σ dt = 1). */
   readonly segments: readonly StreamSegment[];
-  /** Steps (wrap-around included) that change the pattern of two or more phases at once. */
+  /**
+   * Steps that change the pattern of two or more phases at once, the step into the first segment
+   * from {@link RuntimeStream.entry} included (the wrap-around of a periodic stream).
+   */
   readonly multiPhaseSteps: number;
   /** States inserted to chain periods (one phase per step). */
   readonly chainSteps: number;
@@ -59,6 +69,19 @@ export interface RuntimeStream {
   readonly midpointAverage: number;
   /** The stream repeats: the state at the period's end is the state the next period starts from. */
   readonly periodic: boolean;
+  /**
+   * The state the leg is in when the period begins: the previous period's last segment. For a
+   * periodic stream it is the stream's own last state; a closed loop that repeats only every few
+   * fundamental periods (the balance choosing differently from one to the next) starts from
+   * another state, and the step from it into the first segment is the one that happens.
+   */
+  readonly entry: StreamEntry;
+  /**
+   * The last state the previous period held for some time (above a billionth of a switching
+   * period): the state a gate drive leaves at the period's start. Equal to {@link RuntimeStream.entry}
+   * unless that one was held for no time.
+   */
+  readonly entryHeld: StreamEntry;
   /** Gate changes per fundamental period per `phase.device` (wrap-around included). */
   readonly gateChanges: Readonly<Record<string, number>>;
 }
@@ -159,6 +182,8 @@ export function runtimeStream(table: SwitchingTable, options: RuntimeStreamOptio
   let periodic = false;
   const starts: number[] = [];
   let lastEnd = stateKey(result.segs);
+  let entry = result.segs[result.segs.length - 1] as Seg;
+  let entryHeld = lastHeld(result.segs, U);
   for (let cycle = 1; cycle < MAX_CYCLES; cycle++) {
     starts.push(charge);
     if (starts.length === 3 && alpha > 0) {
@@ -168,6 +193,8 @@ export function runtimeStream(table: SwitchingTable, options: RuntimeStreamOptio
       starts.length = 0;
     }
     startCharge = charge;
+    entry = result.segs[result.segs.length - 1] as Seg;
+    entryHeld = lastHeld(result.segs, U);
     result = runCycle();
     const endKey = stateKey(result.segs);
     periodic = endKey === lastEnd;
@@ -181,10 +208,11 @@ export function runtimeStream(table: SwitchingTable, options: RuntimeStreamOptio
   let multi = 0;
   const gateChanges: Record<string, number> = {};
   const gateSets = table.patternGates.map((g) => new Set(g));
+  // every step of the period: from the entry into the first segment, then segment to segment
   for (let i = 0; i < merged.length; i++) {
-    const a = merged[i] as Seg;
-    const b = merged[(i + 1) % merged.length] as Seg;
-    if (merged.length > 1 && stepsOf(a, b) > 1) multi++;
+    const a = i === 0 ? entry : (merged[i - 1] as Seg);
+    const b = merged[i] as Seg;
+    if (stepsOf(a, b) > 1) multi++;
     for (let k = 0; k < 3; k++) {
       if (a.patterns[k] === b.patterns[k]) continue;
       const ga = gateSets[a.patterns[k] as number] as Set<string>;
@@ -207,8 +235,20 @@ export function runtimeStream(table: SwitchingTable, options: RuntimeStreamOptio
     clampedUpdates: clamped,
     midpointAverage: charge - startCharge,
     periodic,
+    entry: entryOf(entry, P),
+    entryHeld: entryOf(entryHeld, P),
     gateChanges: Object.fromEntries(Object.entries(gateChanges).sort(([a], [b]) => (a < b ? -1 : 1))),
   };
+}
+
+function entryOf(s: Seg, names: readonly string[]): StreamEntry {
+  return { levels: s.levels, patterns: s.patterns.map((p) => names[p] as string) as unknown as [string, string, string], polarity: s.polarity };
+}
+
+// The last segment held above a billionth of a switching period (U updates per fundamental period).
+function lastHeld(segs: readonly Seg[], U: number): Seg {
+  for (let i = segs.length - 1; i >= 0; i--) if (((segs[i] as Seg).end - (segs[i] as Seg).t) * U > 1e-9) return segs[i] as Seg;
+  return segs[segs.length - 1] as Seg;
 }
 
 function stateKey(segs: readonly Seg[]): string {
