@@ -164,18 +164,15 @@ export function createRuntime(table: SwitchingTable, options: RuntimeOptions = {
   const prev = new Int32Array(3).fill(-1);
   const prevChar = new Int32Array(3).fill(-1);
   const cur = new Int32Array(3);
-  const q = new Float64Array(4);
   const d = new Float64Array(3);
   // the paths of the candidate being weighed and of the best one so far, per phase
   const bestPath = new Int32Array(3);
   const o0 = new Int32Array(3);
   const o1 = new Int32Array(3);
   const at = new Int32Array(3);
-  const wI = new Float64Array(3);
   let up = true;
   // the candidate whose charges q holds (this call's), and what the output buffer holds (so that a
   // period in the same candidate, paths and layout rewrites only the durations)
-  let qFor = -1;
   let lastOut: RuntimeOutput | null = null;
   let lastC = -1;
   let lastP0 = -1;
@@ -185,37 +182,13 @@ export function createRuntime(table: SwitchingTable, options: RuntimeOptions = {
   const continuous = opts.sequence === 'continuous';
   const balance = opts.balance === 'on' && program.hasMidpoint;
 
-  // midpoint current of each state of candidate c, into the midpoint node (contract sign)
-  const chargesOf = (c: number, k: number, ia: number, ib: number, ic: number) => {
-    qFor = c;
-    for (let s = 0; s < k; s++) {
-      const mask = candMask[4 * c + s] as number;
-      q[s] = -((mask & 1 ? ia : 0) + (mask & 2 ? ib : 0) + (mask & 4 ? ic : 0));
-    }
-  };
-
-  // distance of the target from the charges candidate c can draw over the half (0 inside)
-  const missOf = (c: number, k: number, ia: number, ib: number, ic: number, target: number, tol: number): number => {
-    chargesOf(c, k, ia, ib, ic);
-    let lo: number;
-    let hi: number;
-    if (k === 4) {
-      const dA = d[candPos[4 * c] as number] as number;
-      const rest = (d[candPos[4 * c + 1] as number] as number) * (q[1] as number) + (d[candPos[4 * c + 2] as number] as number) * (q[2] as number);
-      const e0 = rest + dA * (q[0] as number);
-      const e1 = rest + dA * (q[3] as number);
-      lo = e0 < e1 ? e0 : e1;
-      hi = e0 < e1 ? e1 : e0;
-    } else {
-      lo =
-        (d[candPos[4 * c] as number] as number) * (q[0] as number) +
-        (d[candPos[4 * c + 1] as number] as number) * (q[1] as number) +
-        (d[candPos[4 * c + 2] as number] as number) * (q[2] as number);
-      hi = lo;
-    }
-    const miss = target < lo ? lo - target : target > hi ? target - hi : 0;
-    return miss <= tol ? 0 : miss;
-  };
+  // The numbers of one call live in `io`, so that the helpers below take and return integers only:
+  // a double passed to or returned from a call the engine does not inline is boxed, which would
+  // make garbage every period. Slots: see IA … BETA below.
+  const io = new Float64Array(8);
+  const gain = opts.midpointGain;
+  const dur = new Float64Array(4);
+  const qm = new Float64Array(8);
 
   // The choice has a static part, fixed by the context (triangle, previous state and characters,
   // next polarity, direction): which candidates can be entered at all, how (no step, one step, a
@@ -314,6 +287,8 @@ export function createRuntime(table: SwitchingTable, options: RuntimeOptions = {
   const ctxKey = new Float64Array(triFirst[POLARITY_STRINGS.length] as number).fill(NaN);
   const ctxRows: (Int32Array | null)[] = new Array(triFirst[POLARITY_STRINGS.length] as number).fill(null);
   const keyable = P < 100;
+  // every context met so far (a fundamental period meets the same ones again), bounded
+  const memo = new Map<number, Int32Array>();
   const contextOf = (g: number, qi: number, nq: number, dir: number, exit: number): Int32Array => {
     let key = NaN;
     if (keyable) {
@@ -322,6 +297,12 @@ export function createRuntime(table: SwitchingTable, options: RuntimeOptions = {
       const chars = (prevChar[0] as number) + 1 + 4 * ((prevChar[1] as number) + 1 + 4 * ((prevChar[2] as number) + 1));
       key = (((g * B * B * B + code) * 64 + chars) * 25 + nq) * 3 + (exit < 0 ? 2 : dir);
       if (ctxKey[g] === key) return ctxRows[g] as Int32Array;
+      const known = memo.get(key);
+      if (known !== undefined) {
+        ctxKey[g] = key;
+        ctxRows[g] = known;
+        return known;
+      }
     }
     const first = candFirst[g] as number;
     const end = candFirst[g + 1] as number;
@@ -370,70 +351,91 @@ export function createRuntime(table: SwitchingTable, options: RuntimeOptions = {
     if (keyable) {
       ctxKey[g] = key;
       ctxRows[g] = flat;
+      if (memo.size >= MEMO_LIMIT) memo.clear();
+      memo.set(key, flat);
     }
     return flat;
   };
 
-  const select = (g: number, qi: number, nq: number, dir: number, exit: number, ia: number, ib: number, ic: number, target: number): number => {
-    const rows = contextOf(g, qi, nq, dir, exit);
+  const select = (g: number, qi: number, nq: number, dir: number, exit: number): number => {
+    selRows = contextOf(g, qi, nq, dir, exit);
+    return choose(selRows);
+  };
+
+  // the dynamic part of the choice among a context's rows (see select)
+  const choose = (rows: Int32Array): number => {
     const n = rows.length / 12;
     if (n === 0) return -1;
-    const scale = Math.abs(ia) + Math.abs(ib) + Math.abs(ic);
-    const tol = 1e-12 * scale;
-    const big = Math.abs(ia) >= Math.abs(ib) && Math.abs(ia) >= Math.abs(ic) ? 0 : Math.abs(ib) >= Math.abs(ic) ? 1 : 2;
     // a line-frequency device's gate change costs what it commutates: its phase's current
-    wI[0] = Math.abs(ia);
-    wI[1] = Math.abs(ib);
-    wI[2] = Math.abs(ic);
+    const wa = Math.abs(io[IA] as number);
+    const wb = Math.abs(io[IB] as number);
+    const wc = Math.abs(io[IC] as number);
+    const big = wa >= wb && wa >= wc ? 0 : wb >= wc ? 1 : 2;
+    const target = io[TARGET] as number;
+    const tol = io[TOL] as number;
     const formMin = rows[1] as number;
+    // One pass. Continuous: the first row of the best form that meets the balance target without
+    // a line-device change is taken at once. Otherwise the whole key decides: balance miss, form,
+    // clamp, line changes by current, gates, steps, rank.
     let r = -1;
-    if (continuous) {
-      // the first of the best form that meets the balance target without a line-device change
-      for (let i = 0; i < n && (rows[12 * i + 1] as number) === formMin; i++) {
-        const o = 12 * i;
-        const c = rows[o] as number;
-        const line = (wI[0] as number) * (rows[o + 7] as number) + (wI[1] as number) * (rows[o + 8] as number) + (wI[2] as number) * (rows[o + 9] as number);
-        if (line !== 0) continue;
-        if (balance && missOf(c, candCount[c] as number, ia, ib, ic, target, tol) !== 0) continue;
+    let bM = 0;
+    let bF = 0;
+    let bC = 0;
+    let bL = 0;
+    let bG = 0;
+    let bS = 0;
+    let bI = 0;
+    for (let i = 0; i < n; i++) {
+      const o = 12 * i;
+      const c = rows[o] as number;
+      const form = rows[o + 1] as number;
+      const la = rows[o + 7] as number;
+      const lb = rows[o + 8] as number;
+      const lc = rows[o + 9] as number;
+      const line = wa * la + wb * lb + wc * lc;
+      // the distance of the target from the charges c can draw over the half (0 inside)
+      let miss = 0;
+      if (balance) {
+        const m = 4 * c;
+        const dA = d[candPos[m] as number] as number;
+        let lo: number;
+        let hi: number;
+        if (candCount[c] === 4) {
+          const rest =
+            (d[candPos[m + 1] as number] as number) * (qm[candMask[m + 1] as number] as number) +
+            (d[candPos[m + 2] as number] as number) * (qm[candMask[m + 2] as number] as number);
+          const e0 = rest + dA * (qm[candMask[m] as number] as number);
+          const e1 = rest + dA * (qm[candMask[m + 3] as number] as number);
+          lo = e0 < e1 ? e0 : e1;
+          hi = e0 < e1 ? e1 : e0;
+        } else {
+          lo =
+            dA * (qm[candMask[m] as number] as number) +
+            (d[candPos[m + 1] as number] as number) * (qm[candMask[m + 1] as number] as number) +
+            (d[candPos[m + 2] as number] as number) * (qm[candMask[m + 2] as number] as number);
+          hi = lo;
+        }
+        const raw = target < lo ? lo - target : target > hi ? target - hi : 0;
+        miss = raw <= tol ? 0 : raw;
+      }
+      if (continuous && form === formMin && ((la | lb | lc) === 0 || line === 0) && miss === 0) {
         r = i;
         break;
       }
-    }
-    if (r < 0) {
-      // the whole key: balance miss, form, clamp, line changes by current, gates, steps, rank
-      let bM = 0;
-      let bF = 0;
-      let bC = 0;
-      let bL = 0;
-      let bG = 0;
-      let bS = 0;
-      let bI = 0;
-      for (let i = 0; i < n; i++) {
-        const o = 12 * i;
-        const c = rows[o] as number;
-        const miss = balance ? missOf(c, candCount[c] as number, ia, ib, ic, target, tol) : 0;
-        const clamp = continuous ? 0 : candClamped[c] === big ? 0 : 1;
-        const line = (wI[0] as number) * (rows[o + 7] as number) + (wI[1] as number) * (rows[o + 8] as number) + (wI[2] as number) * (rows[o + 9] as number);
-        if (r >= 0) {
-          const order =
-            cmp(miss, bM) ||
-            cmp(rows[o + 1] as number, bF) ||
-            cmp(clamp, bC) ||
-            cmp(line, bL) ||
-            cmp(rows[o + 3] as number, bG) ||
-            cmp(rows[o + 2] as number, bS) ||
-            cmp(c, bI);
-          if (order >= 0) continue;
-        }
-        r = i;
-        bM = miss;
-        bF = rows[o + 1] as number;
-        bC = clamp;
-        bL = line;
-        bG = rows[o + 3] as number;
-        bS = rows[o + 2] as number;
-        bI = c;
+      const clamp = continuous ? 0 : candClamped[c] === big ? 0 : 1;
+      if (r >= 0) {
+        const order =
+          cmp(miss, bM) || cmp(form, bF) || cmp(clamp, bC) || cmp(line, bL) || cmp(rows[o + 3] as number, bG) || cmp(rows[o + 2] as number, bS) || cmp(c, bI);
+        if (order >= 0) continue;
       }
+      r = i;
+      bM = miss;
+      bF = form;
+      bC = clamp;
+      bL = line;
+      bG = rows[o + 3] as number;
+      bS = rows[o + 2] as number;
+      bI = c;
     }
     const o = 12 * r;
     bestPath[0] = rows[o + 4] as number;
@@ -443,36 +445,33 @@ export function createRuntime(table: SwitchingTable, options: RuntimeOptions = {
     return rows[o] as number;
   };
 
-  // unreachable phases of the last selection (0: the candidate can be entered safely)
+  // unreachable phases of the last selection (0: the candidate can be entered safely), the row it
+  // chose and whether that row changes no line-frequency device
   let bestUnreach = 0;
+  let selRows: Int32Array = new Int32Array(0);
 
-  const splitOf = (c: number, ia: number, ib: number, ic: number, target: number): number => {
-    if (!balance) return 0.5;
-    // the charges are still those of c when its balance miss was the last one worked out
-    if (qFor !== c) chargesOf(c, 4, ia, ib, ic);
+  // the share of the split vertex's dwell in its first realisation, into io[SPLIT]
+  const splitOf = (c: number): void => {
+    io[SPLIT] = 0.5;
+    if (!balance) return;
+    const q0 = qm[candMask[4 * c] as number] as number;
+    const q3 = qm[candMask[4 * c + 3] as number] as number;
     const dA = d[candPos[4 * c] as number] as number;
-    const den = dA * ((q[0] as number) - (q[3] as number));
-    const scale = Math.abs(ia) + Math.abs(ib) + Math.abs(ic);
-    if (!(Math.abs(den) > 1e-12 * scale)) return 0.5;
+    const den = dA * (q0 - q3);
+    if (!(Math.abs(den) > (io[TOL] as number))) return;
     const rest =
-      (d[candPos[4 * c + 1] as number] as number) * (q[1] as number) + (d[candPos[4 * c + 2] as number] as number) * (q[2] as number) + dA * (q[3] as number);
-    const x = (target - rest) / den;
-    return x < 0 ? 0 : x > 1 ? 1 : x;
+      (d[candPos[4 * c + 1] as number] as number) * (qm[candMask[4 * c + 1] as number] as number) +
+      (d[candPos[4 * c + 2] as number] as number) * (qm[candMask[4 * c + 2] as number] as number) +
+      dA * q3;
+    const x = ((io[TARGET] as number) - rest) / den;
+    io[SPLIT] = x < 0 ? 0 : x > 1 ? 1 : x;
   };
 
-  // the dwell of state s of candidate c: the split vertex's share x at the start, 1 − x at the end
-  const durationOf = (c: number, k: number, s: number, x: number): number => {
-    const dv = d[candPos[4 * c + s] as number] as number;
-    if (k !== 4) return dv;
-    return s === 0 ? x * dv : s === 3 ? (1 - x) * dv : dv;
-  };
-
-  const writeState = (out: RuntimeOutput, n: number, c: number, s: number, duration: number) => {
+  const writeState = (out: RuntimeOutput, n: number, c: number, s: number): void => {
     for (let ph = 0; ph < 3; ph++) {
       out.patterns[3 * n + ph] = pathPattern[4 * (bestPath[ph] as number) + s] as number;
       out.levels[3 * n + ph] = candLevel[12 * c + 3 * s + ph] as number;
     }
-    out.duration[n] = duration;
   };
 
   // level of a phase inside a chain: for its new character, else (a pattern the phase has not left
@@ -514,24 +513,14 @@ export function createRuntime(table: SwitchingTable, options: RuntimeOptions = {
     return n;
   };
 
-  const run = (
-    alpha: number,
-    beta: number,
-    qi: number,
-    nq: number,
-    ia: number,
-    ib: number,
-    ic: number,
-    err: number,
-    out: RuntimeOutput,
-    dir: number,
-    whole: boolean,
-  ): number => {
+  // one call; the reference, currents and target are in io
+  const run = (qi: number, nq: number, out: RuntimeOutput, dir: number, whole: boolean): number => {
     out.count = 0;
     out.chainSteps = 0;
     out.held = false;
     out.split = NaN;
-    qFor = -1;
+    const alpha = io[ALPHA] as number;
+    const beta = io[BETA] as number;
     const t = mod.modulateInto(alpha, beta, qi, loc);
     out.triangle = t;
     if (t < 0) return t;
@@ -540,9 +529,9 @@ export function createRuntime(table: SwitchingTable, options: RuntimeOptions = {
     d[1] = loc[1] as number;
     d[2] = loc[2] as number;
     const g = (triFirst[qi] as number) + t;
-    const target = -opts.midpointGain * err;
+    fastG = -1;
     // the state the call ends in: the first state of a whole period, the last of an up half
-    const c = select(g, qi, nq, dir, whole || dir === 1 ? 0 : -1, ia, ib, ic, target);
+    const c = select(g, qi, nq, dir, whole || dir === 1 ? 0 : -1);
     if (c < 0 && (prev[0] as number) < 0) return -1;
     if (c < 0 || bestUnreach > 0) {
       // no safe way into this triangle: the present state is held, nothing switches
@@ -557,9 +546,12 @@ export function createRuntime(table: SwitchingTable, options: RuntimeOptions = {
       return t;
     }
     const k = candCount[c] as number;
+    // a whole period with the last one's candidate and paths, into the same buffer: it starts where
+    // the last one ended, and only the durations change
+    const again = whole && out === lastOut && lastC === c && lastP0 === bestPath[0] && lastP1 === bestPath[1] && lastP2 === bestPath[2] && lastLayout === 2;
     // the chain, where the entry is more than one step away: its states take chainDwell each, and
     // the sequence's dwell times are taken at the reference less the chain's volt-seconds
-    let n = chain(dir === 0 ? 0 : k - 1, qi, out);
+    let n = again ? 0 : chain(dir === 0 ? 0 : k - 1, qi, out);
     let rest = 1;
     if (n > 0) {
       let tau = whole ? opts.chainDwell : 2 * opts.chainDwell;
@@ -578,29 +570,40 @@ export function createRuntime(table: SwitchingTable, options: RuntimeOptions = {
       adjustedDwell(dwellRows, 9 * g, (alpha - va) / rest, (beta - vb) / rest, d);
       out.chainSteps = n;
     }
-    const x = k === 4 ? splitOf(c, ia, ib, ic, target) : NaN;
-    out.split = x;
+    if (k === 4) splitOf(c);
+    out.split = k === 4 ? (io[SPLIT] as number) : NaN;
+    // the dwell of each state: the split vertex's share at the start, the rest at the end
+    for (let s = 0; s < k; s++) {
+      const dv = d[candPos[4 * c + s] as number] as number;
+      dur[s] = rest * (k !== 4 ? dv : s === 0 ? (io[SPLIT] as number) * dv : s === 3 ? (1 - (io[SPLIT] as number)) * dv : dv);
+    }
     // the states are those of the last call (same buffer, candidate, paths and layout, no chain):
     // only the durations change
     const layout = n > 0 ? -1 : whole ? 2 : dir;
     const same =
-      layout >= 0 && out === lastOut && lastC === c && lastP0 === bestPath[0] && lastP1 === bestPath[1] && lastP2 === bestPath[2] && lastLayout === layout;
+      again ||
+      (layout >= 0 && out === lastOut && lastC === c && lastP0 === bestPath[0] && lastP1 === bestPath[1] && lastP2 === bestPath[2] && lastLayout === layout);
     if (whole) {
       // first half forwards, then mirrored; the centre state once, durations as period fractions
       for (let s = 0; s < k; s++) {
-        if (same) out.duration[n++] = (rest * durationOf(c, k, s, x)) / (s === k - 1 ? 1 : 2);
-        else writeState(out, n++, c, s, (rest * durationOf(c, k, s, x)) / (s === k - 1 ? 1 : 2));
+        if (!same) writeState(out, n, c, s);
+        out.duration[n++] = s === k - 1 ? (dur[s] as number) : (dur[s] as number) / 2;
       }
       for (let s = k - 2; s >= 0; s--) {
-        if (same) out.duration[n++] = (rest * durationOf(c, k, s, x)) / 2;
-        else writeState(out, n++, c, s, (rest * durationOf(c, k, s, x)) / 2);
+        if (!same) writeState(out, n, c, s);
+        out.duration[n++] = (dur[s] as number) / 2;
       }
     } else {
       for (let i = 0; i < k; i++) {
         const s = dir === 0 ? i : k - 1 - i;
-        if (same) out.duration[n++] = rest * durationOf(c, k, s, x);
-        else writeState(out, n++, c, s, rest * durationOf(c, k, s, x));
+        if (!same) writeState(out, n, c, s);
+        out.duration[n++] = dur[s] as number;
       }
+    }
+    out.count = n;
+    if (again) {
+      setFast(g, qi, nq, t, out);
+      return t;
     }
     lastOut = out;
     lastC = layout >= 0 ? c : -1;
@@ -608,13 +611,111 @@ export function createRuntime(table: SwitchingTable, options: RuntimeOptions = {
     lastP1 = bestPath[1] as number;
     lastP2 = bestPath[2] as number;
     lastLayout = layout;
-    out.count = n;
     const exit = dir === 0 && !whole ? k - 1 : 0;
+    let kept = true;
     for (let ph = 0; ph < 3; ph++) {
-      prev[ph] = pathPattern[4 * (bestPath[ph] as number) + exit] as number;
-      prevChar[ph] = polarityChars[3 * qi + ph] as number;
+      const p = pathPattern[4 * (bestPath[ph] as number) + exit] as number;
+      const ch = polarityChars[3 * qi + ph] as number;
+      if (p !== prev[ph] || ch !== prevChar[ph]) kept = false;
+      prev[ph] = p;
+      prevChar[ph] = ch;
     }
+    // the next period meets the same context when it stays in this triangle
+    if (whole && kept && n === 0) setFast(g, qi, nq, t, out);
     return t;
+  };
+
+  // The fast path of a whole period. A period that left the state and characters as it found
+  // them hands the next period in the same triangle, polarity and next polarity the same context
+  // (the same rows); where that period's dynamic choice among those rows comes out the same
+  // (candidate and paths), the buffer already holds its states and only the dwell times and the
+  // split change. fastG is that triangle (−1: no fast path), the rest what the next period needs.
+  let fastG = -1;
+  let fastQi = -1;
+  let fastNq = -1;
+  let fastT = -1;
+  let fastRows: Int32Array = new Int32Array(0);
+  let fastOut: RuntimeOutput | null = null;
+  const setFast = (g: number, qi: number, nq: number, t: number, out: RuntimeOutput): void => {
+    fastG = g;
+    fastQi = qi;
+    fastNq = nq;
+    fastT = t;
+    fastRows = selRows;
+    fastOut = out;
+  };
+
+  // The fast path itself (what run() would do there, the same arithmetic in the same order): the
+  // reference well inside the triangle (the modulator's own test for its previous triangle), the
+  // same choice, then the dwell times. False where a test fails (run() then does it all again).
+  const quick = (out: RuntimeOutput): boolean => {
+    const alpha = io[ALPHA] as number;
+    const beta = io[BETA] as number;
+    const o = 9 * fastG;
+    const r0 = (dwellRows[o] as number) * alpha + (dwellRows[o + 1] as number) * beta + (dwellRows[o + 2] as number);
+    const r1 = (dwellRows[o + 3] as number) * alpha + (dwellRows[o + 4] as number) * beta + (dwellRows[o + 5] as number);
+    const r2 = (dwellRows[o + 6] as number) * alpha + (dwellRows[o + 7] as number) * beta + (dwellRows[o + 8] as number);
+    if (!(r0 >= WELL_INSIDE && r1 >= WELL_INSIDE && r2 >= WELL_INSIDE)) return false;
+    const sum = r0 + r1 + r2;
+    d[0] = r0 / sum;
+    d[1] = r1 / sum;
+    d[2] = r2 / sum;
+    const c = choose(fastRows);
+    if (c !== lastC || bestUnreach > 0 || bestPath[0] !== lastP0 || bestPath[1] !== lastP1 || bestPath[2] !== lastP2) return false;
+    const k = candCount[c] as number;
+    if (k === 4) splitOf(c);
+    const x = io[SPLIT] as number;
+    const dA = d[candPos[4 * c] as number] as number;
+    const dB = d[candPos[4 * c + 1] as number] as number;
+    const dC = d[candPos[4 * c + 2] as number] as number;
+    // the sequence forwards then mirrored, the centre state once (as run() writes it)
+    const du = out.duration;
+    if (k === 4) {
+      du[0] = (x * dA) / 2;
+      du[1] = dB / 2;
+      du[2] = dC / 2;
+      du[3] = (1 - x) * dA;
+      du[4] = dC / 2;
+      du[5] = dB / 2;
+      du[6] = (x * dA) / 2;
+      out.count = 7;
+      out.split = x;
+    } else {
+      du[0] = dA / 2;
+      du[1] = dB / 2;
+      du[2] = dC;
+      du[3] = dB / 2;
+      du[4] = dA / 2;
+      out.count = 5;
+      out.split = NaN;
+    }
+    out.chainSteps = 0;
+    out.held = false;
+    out.triangle = fastT;
+    out.clamped = false;
+    up = true;
+    return true;
+  };
+
+  // a call's numbers into io (small enough to be inlined where it is called)
+  const take = (alpha: number, beta: number, ia: number, ib: number, ic: number, err: number): void => {
+    io[ALPHA] = alpha;
+    io[BETA] = beta;
+    io[IA] = ia;
+    io[IB] = ib;
+    io[IC] = ic;
+    io[TARGET] = -gain * err;
+    io[TOL] = 1e-12 * (Math.abs(ia) + Math.abs(ib) + Math.abs(ic));
+    // the current into the midpoint node of a state, per set of phases at the midpoint (bit k:
+    // phase k), with the contract's sign; written out (x + 0 is not x when x is −0)
+    qm[0] = -(0 + 0 + 0);
+    qm[1] = -(ia + 0 + 0);
+    qm[2] = -(0 + ib + 0);
+    qm[3] = -(ia + ib + 0);
+    qm[4] = -(0 + 0 + ic);
+    qm[5] = -(ia + 0 + ic);
+    qm[6] = -(0 + ib + ic);
+    qm[7] = -(ia + ib + ic);
   };
 
   // buffers this runtime made (a buffer of another runtime may be too small for this one's states)
@@ -649,22 +750,43 @@ export function createRuntime(table: SwitchingTable, options: RuntimeOptions = {
       up = true;
       ctxKey.fill(NaN);
       lastC = -1;
+      fastG = -1;
+      fastOut = null;
     },
     period(alpha, beta, qi, ia, ib, ic, err, out, nq = qi) {
+      take(alpha, beta, ia, ib, ic, err);
+      if (fastG >= 0 && qi === fastQi && nq === fastNq && out === fastOut && quick(out)) return fastT;
       checkIndex(qi, out);
       checkIndex(nq, out);
       up = true;
-      return run(alpha, beta, qi, nq, ia, ib, ic, err, out, 0, true);
+      return run(qi, nq, out, 0, true);
     },
     half(alpha, beta, qi, ia, ib, ic, err, out, nq = qi) {
       checkIndex(qi, out);
       checkIndex(nq, out);
       const dir = up ? 0 : 1;
       up = !up;
-      return run(alpha, beta, qi, nq, ia, ib, ic, err, out, dir, false);
+      take(alpha, beta, ia, ib, ic, err);
+      return run(qi, nq, out, dir, false);
     },
   };
 }
+
+// The modulator's test that a reference is inside its previous triangle (createModulator).
+const WELL_INSIDE = 1e-6;
+
+// Slots of a runtime's `io` scratch array.
+const IA = 0;
+const IB = 1;
+const IC = 2;
+const TARGET = 3;
+const TOL = 4;
+const SPLIT = 5;
+const ALPHA = 6;
+const BETA = 7;
+
+// Contexts remembered per runtime; past this the memory starts again (a few MB at most).
+const MEMO_LIMIT = 1 << 14;
 
 // -1, 0 or 1 as a is below, equal to or above b
 function cmp(a: number, b: number): number {
