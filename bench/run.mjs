@@ -202,6 +202,11 @@ for (const [label, faults] of [
     const r = spawnSync(process.execPath, [new URL('./rotating.mjs', import.meta.url).pathname, label], { encoding: 'utf8' });
     process.stdout.write(r.stdout);
   }
+  // the C header's runtime and locator, compiled (bench/cRuntime.mjs)
+  {
+    const r = spawnSync(process.execPath, [new URL('./cRuntime.mjs', import.meta.url).pathname], { encoding: 'utf8' });
+    process.stdout.write(r.stdout || r.stderr);
+  }
   // every single fault of every built-in leg and of the five-level example, one process per leg
   // (goal: modulateInto ≥ 1.0x the lean scan on each; ≥ 10x on the five-level leg, above)
   console.log('modulateInto against the lean scan, every single fault (bench/modulatorSweep.mjs):');

@@ -91,6 +91,8 @@ export function cRuntimeTables(p: RuntimeProgram, spec: CRuntimeSpec): string {
     `#define ${PX}_MAX_SEGMENTS ${4 + 3 * P + 4}`,
     `#define ${PX}_HAS_MIDPOINT ${p.hasMidpoint ? 1 : 0}`,
     `#define ${PX}_NO_PATH ${NO_PATH}`,
+    "/* most sequence candidates of one triangle (the size of the runtime's context cache) */",
+    `#define ${PX}_MAX_TRI_CANDIDATES ${maxPerTriangle(p.candFirst)}`,
     '/* polarity character of each phase per polarity index: 0 "+", 1 "-", 2 unknown */',
     decl('polarity_chars', p.polarityChars, 3, `[${PX}_POLARITY_COUNT][3]`),
     '/* per phase k and character c, index (k*3 + c)*PATTERN_COUNT + p: level of pattern p, and whether it is usable */',
@@ -161,12 +163,25 @@ typedef struct {
   int balance;           /* 1: the split meets the midpoint target */
   double midpoint_gain;  /* target midpoint current = -midpoint_gain * midpoint_error */
   double chain_dwell;    /* duration of a chained state, fraction of the switching period */
+  /* the triangle each polarity's last reference fell in (-1: none): a rotating reference is
+   * usually still inside it, and one test then replaces the search */
+  int last_tri[${PX}_POLARITY_COUNT];
+  /* the choice's static part for the last context (triangle, state, characters, next polarity,
+   * direction; ctx_key[0] = -1: none): the candidates with the best unreachable / stuck / chain
+   * tier, in candidate order, each as candidate, form, gate changes, entry steps, three paths,
+   * three line-device changes */
+  int ctx_key[10];
+  int ctx_n;
+  int ctx_unreach;
+  int ctx_rows[${PX}_MAX_TRI_CANDIDATES][10];
 } ${px}_runtime;
 
 static inline void ${px}_runtime_reset(${px}_runtime *rt)
 {
   int k;
   for (k = 0; k < 3; k++) { rt->prev[k] = -1; rt->prev_char[k] = -1; }
+  for (k = 0; k < ${PX}_POLARITY_COUNT; k++) rt->last_tri[k] = -1;
+  rt->ctx_key[0] = -1;
   rt->up = 1;
 }
 
@@ -208,82 +223,119 @@ static inline double ${px}_miss_(int c, int k, const double d[3], double ia, dou
   return miss <= tol ? 0.0 : miss;
 }
 
+/* The static part of the choice for one candidate (see createRuntime): its paths from the present
+ * state, unreachable phases, phases left stuck for the next character, entry steps, gate changes
+ * and line-device changes per phase. */
+static void ${px}_static_(const ${px}_runtime *rt, int c, int qi, int nq, int dir, int exit, int path[3], int lines[3], int *unreach, int *stuck, int *cost, int *gates_out)
+{
+  int k = ${px}_cand_count[c], all0 = 1, one = -1, o0[3], o1[3], at[3], ph, x, xs;
+  double line = 0, gates = 0, cLine = INFINITY, cGates = INFINITY;
+  *unreach = 0; *stuck = 0; *cost = 0;
+  for (ph = 0; ph < 3; ph++) {
+    int b = rt->prev[ph] < 0 || rt->prev_char[ph] == ${px}_polarity_chars[qi][ph] ? 0 : 1;
+    int a = ((((int)${px}_cand_seq[c][ph] * 2 + dir) * 2 + b) * (${PX}_PATTERN_COUNT + 1) + rt->prev[ph] + 1);
+    at[ph] = a;
+    o0[ph] = ${px}_pick[a][0];
+    o1[ph] = ${px}_pick[a][1];
+    if (o0[ph] < 0) all0 = 0;
+    else { line += ${px}_pick_line[a][0]; gates += ${px}_pick_gates[a][0]; }
+  }
+  if (all0) { cLine = line; cGates = gates; }
+  for (ph = 0; ph < 3; ph++) {
+    int ok = 1;
+    double l = 0, gt = 0;
+    if (o1[ph] < 0) continue;
+    for (x = 0; x < 3; x++) {
+      if (x == ph) { l += ${px}_pick_line[at[x]][1]; gt += ${px}_pick_gates[at[x]][1]; }
+      else if (o0[x] < 0) ok = 0;
+      else { l += ${px}_pick_line[at[x]][0]; gt += ${px}_pick_gates[at[x]][0]; }
+    }
+    if (ok && (l < cLine || (l == cLine && gt < cGates))) { cLine = l; cGates = gt; one = ph; }
+  }
+  for (ph = 0; ph < 3; ph++) {
+    int o = one >= 0 ? (ph == one ? 1 : 0) : !all0 ? 2 : 0;
+    path[ph] = ${px}_pick[at[ph]][o];
+    if (path[ph] < 0) { (*unreach)++; path[ph] = (int)${px}_path_first[${px}_cand_seq[c][ph]]; lines[ph] = 0; }
+    else lines[ph] = ${px}_pick_line[at[ph]][o];
+    if (o == 2 && ${px}_pick[at[ph]][2] >= 0) *cost += ${px}_pick_dist[at[ph]][2];
+  }
+  if (one >= 0) *cost = 1;
+  else if (!all0) {
+    cGates = 0;
+    for (ph = 0; ph < 3; ph++) if (${px}_pick[at[ph]][2] >= 0) cGates += ${px}_pick_gates[at[ph]][2];
+  }
+  xs = exit < 0 ? k - 1 : exit;
+  for (ph = 0; ph < 3; ph++) {
+    int nc = ${px}_polarity_chars[nq][ph];
+    if (nc != ${px}_polarity_chars[qi][ph] && ${px}_enterable[(ph * 3 + nc) * ${PX}_PATTERN_COUNT + ${px}_path_pattern[path[ph]][xs]] != 1) (*stuck)++;
+  }
+  *gates_out = (int)cGates;
+}
+
+/* The static part of the choice for a context, kept in rt: the candidates of triangle g with the
+ * best unreachable / stuck / chain tier, in candidate order (worked out again only when the
+ * context changes). */
+static void ${px}_context_(${px}_runtime *rt, int g, int qi, int nq, int dir, int exit)
+{
+  int key[10], i, c, ph, end = (int)${px}_cand_first[g + 1], bU = 0, bX = 0, bT = 0, n = 0, same = rt->ctx_key[0] >= 0;
+  key[0] = g; key[1] = nq; key[2] = dir; key[3] = exit;
+  for (ph = 0; ph < 3; ph++) { key[4 + ph] = rt->prev[ph]; key[7 + ph] = rt->prev_char[ph]; }
+  for (i = 0; i < 10 && same; i++) same = key[i] == rt->ctx_key[i];
+  if (same) return;
+  for (c = (int)${px}_cand_first[g]; c < end; c++) {
+    int path[3], lines[3], unreach, stuck, cost, gates, tier, order, *row;
+    if (!rt->continuous && ${px}_cand_count[c] == 4) continue;
+    ${px}_static_(rt, c, qi, nq, dir, exit, path, lines, &unreach, &stuck, &cost, &gates);
+    tier = cost <= 1 ? 0 : cost;
+    if (n > 0) {
+      order = unreach < bU ? -1 : unreach > bU ? 1 : stuck < bX ? -1 : stuck > bX ? 1 : tier < bT ? -1 : tier > bT ? 1 : 0;
+      if (order > 0) continue;
+      if (order < 0) n = 0;
+    }
+    bU = unreach; bX = stuck; bT = tier;
+    row = rt->ctx_rows[n++];
+    row[0] = c; row[1] = rt->continuous ? (${px}_cand_count[c] == 4 ? 0 : 1) : 0; row[2] = gates; row[3] = cost;
+    for (ph = 0; ph < 3; ph++) { row[4 + ph] = path[ph]; row[7 + ph] = lines[ph]; }
+  }
+  rt->ctx_n = n;
+  rt->ctx_unreach = bU;
+  for (i = 0; i < 10; i++) rt->ctx_key[i] = key[i];
+}
+
 /* The candidate of global triangle g for this period and each phase's path (see createRuntime):
  * the key, compared in order, is unreachable phases, phases left stuck for the next character,
- * chain tier, balance miss, form, clamp, line-device changes weighed by current, gate changes,
- * entry steps; ties go to the first candidate. */
-static int ${px}_select_(const ${px}_runtime *rt, int g, int qi, int nq, int dir, int exit, const double d[3], double ia, double ib, double ic, double target, int best_path[3], int *unreachable)
+ * chain tier (the static part, per context), then balance miss, form, clamp, line-device changes
+ * weighed by current, gate changes, entry steps; ties go to the first candidate. */
+static int ${px}_select_(${px}_runtime *rt, int g, int qi, int nq, int dir, int exit, const double d[3], double ia, double ib, double ic, double target, int best_path[3], int *unreachable)
 {
-  int best = -1, c, ph, x, end = (int)${px}_cand_first[g + 1];
-  double bU = 0, bX = 0, bM = 0, bT = 0, bF = 0, bC = 0, bL = 0, bG = 0, bS = 0;
+  int best = -1, i, ph, order;
+  double bM = 0, bF = 0, bC = 0, bL = 0, bG = 0, bS = 0;
   double scale = fabs(ia) + fabs(ib) + fabs(ic), tol = 1e-12 * scale;
   int big = fabs(ia) >= fabs(ib) && fabs(ia) >= fabs(ic) ? 0 : fabs(ib) >= fabs(ic) ? 1 : 2;
   double wI[3];
   wI[0] = fabs(ia); wI[1] = fabs(ib); wI[2] = fabs(ic);
-  for (c = (int)${px}_cand_first[g]; c < end; c++) {
-    int k = ${px}_cand_count[c], all0 = 1, one = -1, path[3], o0[3], o1[3], at[3], lines[3], xs, order;
-    double line = 0, gates = 0, cost = 0, unreach = 0, stuck = 0, cLine = INFINITY, cGates = INFINITY, tier, form, miss, clamp;
-    if (!rt->continuous && k == 4) continue;
-    for (ph = 0; ph < 3; ph++) {
-      int b = rt->prev[ph] < 0 || rt->prev_char[ph] == ${px}_polarity_chars[qi][ph] ? 0 : 1;
-      int a = ((((int)${px}_cand_seq[c][ph] * 2 + dir) * 2 + b) * (${PX}_PATTERN_COUNT + 1) + rt->prev[ph] + 1);
-      at[ph] = a;
-      o0[ph] = ${px}_pick[a][0];
-      o1[ph] = ${px}_pick[a][1];
-      if (o0[ph] < 0) all0 = 0;
-      else { line += ${px}_pick_line[a][0]; gates += ${px}_pick_gates[a][0]; }
-    }
-    if (all0) { cLine = line; cGates = gates; }
-    for (ph = 0; ph < 3; ph++) {
-      int ok = 1;
-      double l = 0, gt = 0;
-      if (o1[ph] < 0) continue;
-      for (x = 0; x < 3; x++) {
-        if (x == ph) { l += ${px}_pick_line[at[x]][1]; gt += ${px}_pick_gates[at[x]][1]; }
-        else if (o0[x] < 0) ok = 0;
-        else { l += ${px}_pick_line[at[x]][0]; gt += ${px}_pick_gates[at[x]][0]; }
-      }
-      if (ok && (l < cLine || (l == cLine && gt < cGates))) { cLine = l; cGates = gt; one = ph; }
-    }
-    for (ph = 0; ph < 3; ph++) {
-      int o = one >= 0 ? (ph == one ? 1 : 0) : !all0 ? 2 : 0;
-      path[ph] = ${px}_pick[at[ph]][o];
-      if (path[ph] < 0) { unreach++; path[ph] = (int)${px}_path_first[${px}_cand_seq[c][ph]]; lines[ph] = 0; }
-      else lines[ph] = ${px}_pick_line[at[ph]][o];
-      if (o == 2 && ${px}_pick[at[ph]][2] >= 0) cost += ${px}_pick_dist[at[ph]][2];
-    }
-    if (one >= 0) cost = 1;
-    else if (!all0) {
-      cGates = 0;
-      for (ph = 0; ph < 3; ph++) if (${px}_pick[at[ph]][2] >= 0) cGates += ${px}_pick_gates[at[ph]][2];
-    }
-    xs = exit < 0 ? k - 1 : exit;
-    for (ph = 0; ph < 3; ph++) {
-      int nc = ${px}_polarity_chars[nq][ph];
-      if (nc != ${px}_polarity_chars[qi][ph] && ${px}_enterable[(ph * 3 + nc) * ${PX}_PATTERN_COUNT + ${px}_path_pattern[path[ph]][xs]] != 1) stuck++;
-    }
-    tier = cost <= 1 ? 0 : cost;
-    form = rt->continuous ? (k == 4 ? 0 : 1) : 0;
-    miss = rt->balance ? ${px}_miss_(c, k, d, ia, ib, ic, target, tol) : 0.0;
+  ${px}_context_(rt, g, qi, nq, dir, exit);
+  for (i = 0; i < rt->ctx_n; i++) {
+    const int *row = rt->ctx_rows[i];
+    int c = row[0];
+    double form = row[1], gates = row[2], cost = row[3], miss, clamp, line;
+    miss = rt->balance ? ${px}_miss_(c, ${px}_cand_count[c], d, ia, ib, ic, target, tol) : 0.0;
     clamp = rt->continuous ? 0 : (${px}_cand_clamped[c] == big ? 0 : 1);
-    cLine = wI[0] * lines[0] + wI[1] * lines[1] + wI[2] * lines[2];
+    line = wI[0] * row[7] + wI[1] * row[8] + wI[2] * row[9];
     if (best >= 0) {
-      order = ${px}_cmp_(unreach, bU);
-      if (!order) order = ${px}_cmp_(stuck, bX);
-      if (!order) order = ${px}_cmp_(tier, bT);
-      if (!order) order = ${px}_cmp_(miss, bM);
+      order = ${px}_cmp_(miss, bM);
       if (!order) order = ${px}_cmp_(form, bF);
       if (!order) order = ${px}_cmp_(clamp, bC);
-      if (!order) order = ${px}_cmp_(cLine, bL);
-      if (!order) order = ${px}_cmp_(cGates, bG);
+      if (!order) order = ${px}_cmp_(line, bL);
+      if (!order) order = ${px}_cmp_(gates, bG);
       if (!order) order = ${px}_cmp_(cost, bS);
       if (order >= 0) continue;
     }
     best = c;
-    bU = unreach; bX = stuck; bM = miss; bT = tier; bF = form; bC = clamp; bL = cLine; bG = cGates; bS = cost;
-    for (ph = 0; ph < 3; ph++) best_path[ph] = path[ph];
+    bM = miss; bF = form; bC = clamp; bL = line; bG = gates; bS = cost;
+    for (ph = 0; ph < 3; ph++) best_path[ph] = row[4 + ph];
   }
-  *unreachable = (int)bU;
+  *unreachable = rt->ctx_unreach;
   return best;
 }
 
@@ -357,8 +409,22 @@ static int ${px}_run_(${px}_runtime *rt, double alpha, double beta, int qi, int 
   int g, c, k, n, s, ph, exit, clamped = 0, unreachable = 0, best_path[3] = {0, 0, 0};
   out->count = 0; out->chain_steps = 0; out->held = 0; out->split = NAN; out->triangle = -1;
   if (qi < 0 || qi >= ${PX}_POLARITY_COUNT || nq < 0 || nq >= ${PX}_POLARITY_COUNT) return -1;
-  g = ${px}_locate(qi, alpha, beta, d, &clamped);
-  if (g < 0) return -1;
+  g = rt->last_tri[qi];
+  if (g >= 0) {
+    /* the modulator's test for its previous triangle: well inside, it is the triangle the search
+     * would find, with the same dwell times */
+    const ${px}_real *m = ${px}_dwell[g];
+    double d0 = m[0] * alpha + m[1] * beta + m[2], d1 = m[3] * alpha + m[4] * beta + m[5], d2 = m[6] * alpha + m[7] * beta + m[8], sum;
+    if (d0 >= 1e-6 && d1 >= 1e-6 && d2 >= 1e-6) {
+      sum = d0 + d1 + d2;
+      d[0] = d0 / sum; d[1] = d1 / sum; d[2] = d2 / sum;
+    } else g = -1;
+  }
+  if (g < 0) {
+    g = ${px}_locate(qi, alpha, beta, d, &clamped);
+    if (g < 0) return -1;
+    rt->last_tri[qi] = clamped ? -1 : g;
+  }
   out->triangle = g - ${px}_tri_first[qi];
   out->clamped = clamped;
   target = -rt->midpoint_gain * err;
@@ -432,4 +498,11 @@ static inline int ${px}_runtime_half(${px}_runtime *rt, int polarity_index, int 
   return ${px}_run_(rt, alpha, beta, polarity_index, next_polarity_index, ia, ib, ic, midpoint_error, out, dir, 0);
 }
 `;
+}
+
+// The most candidates any one triangle has (at least 1: a C array is never empty).
+function maxPerTriangle(first: Int32Array): number {
+  let most = 1;
+  for (let g = 0; g + 1 < first.length; g++) most = Math.max(most, (first[g + 1] as number) - (first[g] as number));
+  return most;
 }
