@@ -1,3 +1,4 @@
+import { WELL_INSIDE } from '../table/createModulator.js';
 import { NO_PATH, type RuntimeProgram } from '../table/runtimeProgram.js';
 
 /** What the C runtime tables and code are generated with. */
@@ -415,7 +416,7 @@ static int ${px}_run_(${px}_runtime *rt, double alpha, double beta, int qi, int 
      * would find, with the same dwell times */
     const ${px}_real *m = ${px}_dwell[g];
     double d0 = m[0] * alpha + m[1] * beta + m[2], d1 = m[3] * alpha + m[4] * beta + m[5], d2 = m[6] * alpha + m[7] * beta + m[8], sum;
-    if (d0 >= 1e-6 && d1 >= 1e-6 && d2 >= 1e-6) {
+    if (d0 >= ${WELL_INSIDE} && d1 >= ${WELL_INSIDE} && d2 >= ${WELL_INSIDE}) {
       sum = d0 + d1 + d2;
       d[0] = d0 / sum; d[1] = d1 / sum; d[2] = d2 / sum;
     } else g = -1;

@@ -378,11 +378,14 @@ function inside(m: Float64Array, t: number, a: number, b: number, out: Float64Ar
   return true;
 }
 
-// Inside by a clear margin: every dwell at least WELL_INSIDE. No other triangle of a non-overlapping
-// tiling can then hold the point even within the locator's tolerance (that would need it within
-// about 1e-9 of a triangle size from this one's edges, while it is 1e-6 of this one's height
-// away), so the plain search would return this triangle too: the answer is the same.
-const WELL_INSIDE = 1e-6;
+/**
+ * Inside by a clear margin: every dwell at least this. No other triangle of a non-overlapping
+ * tiling can then hold the point even within the locator's tolerance (that would need it within
+ * about 1e-9 of a triangle size from this one's edges, while it is 1e-6 of this one's height
+ * away), so the plain search would return this triangle too: the answer is the same. The
+ * modulator, the runtime and the C header test their previous triangle with it.
+ */
+export const WELL_INSIDE = 1e-6;
 
 function leastOutside(pr: Prepared, a: number, b: number, out: Float64Array): number {
   let best = 0;

@@ -1,4 +1,4 @@
-import { createModulator } from './createModulator.js';
+import { createModulator, WELL_INSIDE } from './createModulator.js';
 import { HexsalvageInputError } from '../shared/errors.js';
 import { POLARITY_STRINGS, type PolarityString } from '../leg/polarity.js';
 import { runtimeProgram, type RuntimeProgram } from './runtimeProgram.js';
@@ -171,8 +171,8 @@ export function createRuntime(table: SwitchingTable, options: RuntimeOptions = {
   const o1 = new Int32Array(3);
   const at = new Int32Array(3);
   let up = true;
-  // the candidate whose charges q holds (this call's), and what the output buffer holds (so that a
-  // period in the same candidate, paths and layout rewrites only the durations)
+  // what the output buffer holds (so that a period in the same candidate, paths and layout
+  // rewrites only the durations)
   let lastOut: RuntimeOutput | null = null;
   let lastC = -1;
   let lastP0 = -1;
@@ -187,6 +187,8 @@ export function createRuntime(table: SwitchingTable, options: RuntimeOptions = {
   // make garbage every period. Slots: see IA … BETA below.
   const io = new Float64Array(8);
   const gain = opts.midpointGain;
+  // the dwell of each state of the chosen candidate; the current into the midpoint per set of
+  // phases at the midpoint (bit k: phase k)
   const dur = new Float64Array(4);
   const qm = new Float64Array(8);
 
@@ -194,9 +196,10 @@ export function createRuntime(table: SwitchingTable, options: RuntimeOptions = {
   // next polarity, direction): which candidates can be entered at all, how (no step, one step, a
   // chain), the form, gate changes and steps; and a dynamic part from the currents and dwell
   // times: the balance miss, the clamped phase and the line-device changes weighed by current. The
-  // static part is worked out once per context and kept per triangle (G0: the candidates with the
-  // best unreachable / stuck / chain tier, in the order form, gates, steps, rank); a period then
-  // weighs only those, and stops at the first that nothing can beat (miss 0, no line change).
+  // static part is worked out once per context and kept per triangle and in a bounded map (G0: the
+  // candidates with the best unreachable / stuck / chain tier, in the order form, gates, steps,
+  // rank); a period then weighs only those, and stops at the first that nothing can beat (miss 0,
+  // no line change).
   const stat = new Int32Array(16);
   const staticOf = (c: number, qi: number, nq: number, dir: number, exit: number): void => {
     // stat: 0 unreach, 1 stuck, 2 tier, 3 form, 4 cost, 5 gates, 6-8 paths, 9-11 line changes per phase
@@ -771,9 +774,6 @@ export function createRuntime(table: SwitchingTable, options: RuntimeOptions = {
     },
   };
 }
-
-// The modulator's test that a reference is inside its previous triangle (createModulator).
-const WELL_INSIDE = 1e-6;
 
 // Slots of a runtime's `io` scratch array.
 const IA = 0;
