@@ -23,7 +23,16 @@ import {
   type StreamSegment,
   type SwitchingTable,
 } from '@hexsalvage/core';
-import { commutates, diagramAtlas, expandElements, legLevels, patternLevel, planFromAtlas, switchingTableFromAtlas } from '@hexsalvage/core/internal';
+import {
+  commutates,
+  diagramAtlas,
+  expandElements,
+  legLevels,
+  patternLevel,
+  planFromAtlas,
+  runtimeProgram,
+  switchingTableFromAtlas,
+} from '@hexsalvage/core/internal';
 import { fc, FC_SEED } from '../support/fc.js';
 
 const FIVE = JSON.parse(readFileSync(new URL('../../examples/five-level-leg.json', import.meta.url), 'utf8')) as LegNetlist;
@@ -279,6 +288,30 @@ int main(void)
   return 0;
 }
 `;
+
+describe('the triangles next to each triangle (what the C runtime tests before it searches)', () => {
+  // invariants of an edge adjacency: symmetric, within one polarity, exactly one shared edge, and
+  // every edge shared by two triangles listed (checked against a plain search over all pairs)
+  it.each([
+    ['npc', 'npc', []],
+    ['npc a.outerUpper', 'npc', ['a.outerUpper']],
+    ['anpc-hybrid a.innerUpper', 'anpc-hybrid', ['a.innerUpper']],
+    ['five-level', FIVE, []],
+  ] as [string, string | LegNetlist, string[]][])('%s', (_n, topology, faults) => {
+    const table = switchingTableFromAtlas(diagramAtlas({ topology, faults }));
+    const p = runtimeProgram(table);
+    const global: [number, readonly number[]][] = [];
+    POLARITY_STRINGS.forEach((pol, q) => (table.polarities[pol]?.triangles ?? []).forEach((tri) => global.push([q, tri])));
+    expect(p.triNext.length).toBe(3 * global.length);
+    const shared = (a: readonly number[], b: readonly number[]) => a.filter((v) => b.includes(v)).length;
+    global.forEach(([q, tri], g) => {
+      const listed = [0, 1, 2].map((e) => p.triNext[3 * g + e] as number).filter((u) => u >= 0);
+      const expected = global.flatMap(([q2, tri2], u) => (u !== g && q2 === q && shared(tri, tri2) === 2 ? [u] : []));
+      expect([...listed].sort((x, y) => x - y)).toEqual(expected);
+      for (const u of listed) expect([0, 1, 2].map((e) => p.triNext[3 * u + e])).toContain(g);
+    });
+  });
+});
 
 describe('the C header runtime', () => {
   const cc = ['cc', 'gcc', 'clang'].find((c) => spawnSync(c, ['--version']).status === 0);

@@ -106,6 +106,8 @@ export function cRuntimeTables(p: RuntimeProgram, spec: CRuntimeSpec): string {
     '/* 1 where phase k left in pattern p can enter character c at the next boundary, index (k*3 + c)*PATTERN_COUNT + p */',
     decl('enterable', p.enterable, 1, `[9 * ${PX}_PATTERN_COUNT]`),
     '/* sequence candidates of global triangle g: rows cand_first[g] .. cand_first[g+1]-1, best static rank first */',
+    '/* the triangles of the same polarity sharing an edge with each triangle (-1: none), tested when a reference leaves its previous one */',
+    decl('tri_next', p.triNext.length ? p.triNext : [-1, -1, -1], 3, `[${Math.max(1, p.triNext.length / 3)}][3]`),
     decl('cand_first', p.candFirst, 1, `[${PX}_TRIANGLE_COUNT + 1]`),
     decl('cand_count', p.candCount, 1, `[${Math.max(1, nCand)}]`),
     decl('cand_pos', p.candPos, 4, `[${Math.max(1, nCand)}][4]`),
@@ -404,22 +406,32 @@ static inline void ${px}_write_(${px}_output *out, int n, int c, int s, const in
   out->duration[n] = duration;
 }
 
+/* The modulator's test for its previous triangle: every dwell at least the margin; then the dwell
+ * times, normalised as the search does. */
+static inline int ${px}_well_inside_(int t, double alpha, double beta, double d[3])
+{
+  const ${px}_real *m = ${px}_dwell[t];
+  double d0 = m[0] * alpha + m[1] * beta + m[2], d1 = m[3] * alpha + m[4] * beta + m[5], d2 = m[6] * alpha + m[7] * beta + m[8], sum;
+  if (!(d0 >= ${WELL_INSIDE} && d1 >= ${WELL_INSIDE} && d2 >= ${WELL_INSIDE})) return 0;
+  sum = d0 + d1 + d2;
+  d[0] = d0 / sum; d[1] = d1 / sum; d[2] = d2 / sum;
+  return 1;
+}
+
 static int ${px}_run_(${px}_runtime *rt, double alpha, double beta, int qi, int nq, double ia, double ib, double ic, double err, ${px}_output *out, int dir, int whole)
 {
   double d[3], target, rest = 1, x;
   int g, c, k, n, s, ph, exit, clamped = 0, unreachable = 0, best_path[3] = {0, 0, 0};
   out->count = 0; out->chain_steps = 0; out->held = 0; out->split = NAN; out->triangle = -1;
   if (qi < 0 || qi >= ${PX}_POLARITY_COUNT || nq < 0 || nq >= ${PX}_POLARITY_COUNT) return -1;
-  g = rt->last_tri[qi];
-  if (g >= 0) {
-    /* the modulator's test for its previous triangle: well inside, it is the triangle the search
-     * would find, with the same dwell times */
-    const ${px}_real *m = ${px}_dwell[g];
-    double d0 = m[0] * alpha + m[1] * beta + m[2], d1 = m[3] * alpha + m[4] * beta + m[5], d2 = m[6] * alpha + m[7] * beta + m[8], sum;
-    if (d0 >= ${WELL_INSIDE} && d1 >= ${WELL_INSIDE} && d2 >= ${WELL_INSIDE}) {
-      sum = d0 + d1 + d2;
-      d[0] = d0 / sum; d[1] = d1 / sum; d[2] = d2 / sum;
-    } else g = -1;
+  /* the previous triangle of the polarity, then its neighbours: one well inside is the triangle the
+   * search would find, with the same dwell times */
+  g = -1;
+  if (rt->last_tri[qi] >= 0) {
+    int j, t0 = rt->last_tri[qi];
+    if (${px}_well_inside_(t0, alpha, beta, d)) g = t0;
+    for (j = 0; j < 3 && g < 0; j++) if (${px}_tri_next[t0][j] >= 0 && ${px}_well_inside_(${px}_tri_next[t0][j], alpha, beta, d)) g = ${px}_tri_next[t0][j];
+    if (g >= 0) rt->last_tri[qi] = g;
   }
   if (g < 0) {
     g = ${px}_locate(qi, alpha, beta, d, &clamped);

@@ -55,6 +55,12 @@ export interface RuntimeProgram {
   readonly enterable: Uint8Array;
   /** Global triangle rows per polarity index (26 entries). */
   readonly triFirst: Int32Array;
+  /**
+   * Per global triangle, 3 slots: the triangles of the same polarity sharing an edge with it (its
+   * edges v0v1, v1v2, v2v0; −1: none). The C runtime tests them when a reference leaves its
+   * previous triangle, before it searches (the TypeScript modulator has a grid instead).
+   */
+  readonly triNext: Int32Array;
   /** Candidates of global triangle g: `candFirst[g] … candFirst[g+1]−1`, best static rank first. */
   readonly candFirst: Int32Array;
   /** Per candidate: number of states in its half period (3, or 4 when a vertex is split). */
@@ -213,9 +219,34 @@ export function runtimeProgram(table: SwitchingTable): RuntimeProgram {
     next,
     enterable,
     triFirst,
+    triNext: triangleNeighbours(table, triFirst),
     ...flattenCandidates(drafts, midpoint),
     ...flattenSequences(ctx, sequences),
   };
+}
+
+// The neighbours of each triangle within its polarity (see RuntimeProgram.triNext).
+function triangleNeighbours(table: SwitchingTable, triFirst: Int32Array): Int32Array {
+  const next = new Int32Array(3 * (triFirst[POLARITY_STRINGS.length] as number)).fill(-1);
+  POLARITY_STRINGS.forEach((pol, q) => {
+    const tris = table.polarities[pol]?.triangles ?? [];
+    const base = triFirst[q] as number;
+    const byEdge = new Map<string, number[]>();
+    const edgeKey = (a: number, b: number) => (a < b ? `${a},${b}` : `${b},${a}`);
+    tris.forEach((tri, t) => {
+      for (let e = 0; e < 3; e++) {
+        const key = edgeKey(tri[e] as number, tri[(e + 1) % 3] as number);
+        byEdge.set(key, [...(byEdge.get(key) ?? []), t]);
+      }
+    });
+    tris.forEach((tri, t) => {
+      for (let e = 0; e < 3; e++) {
+        const other = (byEdge.get(edgeKey(tri[e] as number, tri[(e + 1) % 3] as number)) ?? []).find((u) => u !== t);
+        if (other !== undefined) next[3 * (base + t) + e] = base + other;
+      }
+    });
+  });
+  return next;
 }
 
 // Breadth-first shortest paths in each phase's step graph, per character: length and first hop;
