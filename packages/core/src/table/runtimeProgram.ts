@@ -182,19 +182,48 @@ export function runtimeProgram(table: SwitchingTable): RuntimeProgram {
   const ctx: Ctx = { P, level, allowed, dist, phases, gateDiff: (i, j) => diff(i, j), lineDiff: (i, j) => diff(i, j, line) };
   const midpoint = hasMidpoint(table.levels);
   const sequences: SequenceDraft[] = [];
-  const seqIndex = new Map<string, number>();
-  const sequenceOf = (k: number, c: number, lv: readonly number[]): number => {
-    const key = `${k}|${c}|${lv.join(',')}`;
+  // a sequence's key as a number: phase, character, length, then each state's level as its place
+  // among the levels met so far (a string only past 62 levels)
+  const seqIndex = new Map<number | string, number>();
+  const levelPlace = new Map<number, number>();
+  const sequenceKey = (k: number, c: number, states: readonly LevelTriplet[]): number | string => {
+    let key = (k * 3 + c) * 5 + states.length;
+    for (const t of states) {
+      const l = t[k] as number;
+      let at = levelPlace.get(l);
+      if (at === undefined) levelPlace.set(l, (at = levelPlace.size));
+      if (at >= 63) return `${k}|${c}|${states.map((x) => x[k]).join(',')}`;
+      key = key * 64 + at;
+    }
+    return key;
+  };
+  // the sequence of phase k (character c) through the states: its index, made on first sight
+  const sequenceOf = (k: number, c: number, states: readonly LevelTriplet[]): number => {
+    const key = sequenceKey(k, c, states);
     let s = seqIndex.get(key);
     if (s === undefined) {
       s = sequences.length;
-      sequences.push({ k, c, paths: phasePaths(ctx, k, c, lv) });
+      sequences.push({
+        k,
+        c,
+        paths: phasePaths(
+          ctx,
+          k,
+          c,
+          states.map((t) => t[k] as number),
+        ),
+      });
       seqIndex.set(key, s);
     }
     return s;
   };
   const triFirst = new Int32Array(POLARITY_STRINGS.length + 1);
   const drafts: CandidateDraft[][] = [];
+  // every level a triplet holds, numbered (the keys of pick())
+  const places = new Map<number, number>();
+  for (const pol of POLARITY_STRINGS)
+    for (const tri of table.polarities[pol]?.tableTriangles ?? [])
+      for (const v of tri.vertices) for (const r of v.realisations) for (const l of r.levels) if (!places.has(l)) places.set(l, places.size);
   POLARITY_STRINGS.forEach((pol, q) => {
     const tris = table.polarities[pol]?.tableTriangles ?? [];
     triFirst[q + 1] = (triFirst[q] as number) + tris.length;
@@ -206,6 +235,7 @@ export function runtimeProgram(table: SwitchingTable): RuntimeProgram {
           chars,
           sequenceOf,
           sequences,
+          places,
         ),
       );
   });
@@ -349,38 +379,76 @@ const PERMUTATIONS: readonly (readonly [number, number, number])[] = [
   [2, 0, 1],
   [2, 1, 0],
 ];
+// the vertex positions of each permutation's states (index A·3 + B), three and four states
+const POS3: readonly (readonly number[])[] = Array.from({ length: 9 }, (_, i) => {
+  const [A, B] = [Math.floor(i / 3), i % 3];
+  return [A, B, 3 - A - B];
+});
+const POS4: readonly (readonly number[])[] = POS3.map((p) => [...p, p[0] as number]);
 
-// The candidates of one triangle (see runtimeProgram).
+// The candidates of one triangle (see runtimeProgram). Every vertex order and choice of triplets
+// is weighed, but only what pick() can keep is held (a leg of many levels has tens of thousands
+// per triangle): the best-ranked MAX_CANDIDATES, and per form the best-ranked of each first and of
+// each last triplet. pick() takes its first round from the latter and fills up from the former, so
+// it picks the same from these as from all.
 function triangleCandidates(
   triplets: readonly (readonly LevelTriplet[])[],
   chars: readonly number[],
-  sequenceOf: (k: number, c: number, lv: readonly number[]) => number,
+  sequenceOf: (k: number, c: number, states: readonly LevelTriplet[]) => number,
   sequences: readonly SequenceDraft[],
+  places: ReadonlyMap<number, number>,
 ): CandidateDraft[] {
   const apart = (x: LevelTriplet, y: LevelTriplet) => (x[0] !== y[0] ? 1 : 0) + (x[1] !== y[1] ? 1 : 0) + (x[2] !== y[2] ? 1 : 0);
-  const found: CandidateDraft[] = [];
-  const emit = (levels: LevelTriplet[], pos: number[]) => {
-    const seq = [0, 1, 2].map((k) =>
-      sequenceOf(
-        k,
-        chars[k] as number,
-        levels.map((t) => t[k] as number),
-      ),
-    );
-    const best = seq.map((s) => (sequences[s] as SequenceDraft).paths[0]);
-    if (best.some((p) => p === undefined)) return;
-    let line = 0;
-    let gates = 0;
-    let pref = 0;
-    for (const p of best as Path[]) {
-      line += p.line;
-      gates += p.gates;
-      pref += p.pref;
-    }
+  let count = 0;
+  let all: CandidateDraft[] | null = null;
+  const top: CandidateDraft[] = [];
+  const ends = new Map<number, CandidateDraft>();
+  const emit = (levels: LevelTriplet[], pos: readonly number[]) => {
+    const s0 = sequenceOf(0, chars[0] as number, levels);
+    const s1 = sequenceOf(1, chars[1] as number, levels);
+    const s2 = sequenceOf(2, chars[2] as number, levels);
+    const p0 = (sequences[s0] as SequenceDraft).paths[0];
+    const p1 = (sequences[s1] as SequenceDraft).paths[0];
+    const p2 = (sequences[s2] as SequenceDraft).paths[0];
+    if (!p0 || !p1 || !p2) return;
+    const line = 0 + p0.line + p1.line + p2.line;
+    const gates = 0 + p0.gates + p1.gates + p2.gates;
+    const pref = 0 + p0.pref + p1.pref + p2.pref;
     // the common-mode voltage the states visit (|la + lb + lc| / 3 summed): the small-vector split
     // of the conventional three-level sequence rather than a zero vector's P and N forms
-    const cm = levels.reduce((n, t) => n + Math.abs((t[0] as number) + (t[1] as number) + (t[2] as number)), 0);
-    found.push({ pos, levels, seq, rank: [line, cm, gates, pref, found.length] });
+    let cm = 0;
+    for (const t of levels) cm += Math.abs((t[0] as number) + (t[1] as number) + (t[2] as number));
+    const index = count++;
+    // a later candidate comes before a held one only by a smaller static rank (its index is larger)
+    const beats = (held: CandidateDraft | undefined) => {
+      if (!held) return true;
+      const r = held.rank;
+      return line !== r[0]
+        ? line < (r[0] as number)
+        : cm !== r[1]
+          ? cm < (r[1] as number)
+          : gates !== r[2]
+            ? gates < (r[2] as number)
+            : pref < (r[3] as number);
+    };
+    const kf = all ? 0 : endKey(levels, 0, places);
+    const kl = all ? 0 : endKey(levels, 1, places);
+    const toTop = top.length < MAX_CANDIDATES || beats(top[MAX_CANDIDATES - 1]);
+    const toFirst = !all && beats(ends.get(kf));
+    const toLast = !all && beats(ends.get(kl));
+    if (!all && !toTop && !toFirst && !toLast) return;
+    const d: CandidateDraft = { pos, levels, seq: [s0, s1, s2], rank: [line, cm, gates, pref, index] };
+    if (all) {
+      all.push(d);
+      return;
+    }
+    if (toFirst) ends.set(kf, d);
+    if (toLast) ends.set(kl, d);
+    if (!toTop) return;
+    let at = top.length;
+    while (at > 0 && byRank(d, top[at - 1] as CandidateDraft) < 0) at--;
+    top.splice(at, 0, d);
+    if (top.length > MAX_CANDIDATES) top.pop();
   };
   // Each step changes one phase (`most` = 1). Where no such sequence exists (a Delaunay triangle
   // under levelSteps: any), steps may change more phases: those with the fewest changes are kept,
@@ -394,10 +462,10 @@ function triangleCandidates(
           for (const tC of triplets[C] as readonly LevelTriplet[]) {
             const bc = apart(tB, tC);
             if (bc < 1 || bc > most) continue;
-            emit([tA, tB, tC], [A, B, C]);
+            emit([tA, tB, tC], POS3[A * 3 + B] as readonly number[]);
             for (const tA2 of triplets[A] as readonly LevelTriplet[]) {
               const ca = apart(tC, tA2);
-              if (tA2 !== tA && ca >= 1 && ca <= most) emit([tA, tB, tC, tA2], [A, B, C, A]);
+              if (tA2 !== tA && ca >= 1 && ca <= most) emit([tA, tB, tC, tA2], POS4[A * 3 + B] as readonly number[]);
             }
           }
         }
@@ -405,31 +473,43 @@ function triangleCandidates(
     }
   };
   enumerate(1);
-  if (found.length === 0) {
-    enumerate(3);
-    const changes = (d: CandidateDraft) => d.levels.reduce((n, t, i) => n + (i > 0 ? apart(d.levels[i - 1] as LevelTriplet, t) : 0), 0);
-    const fewest = Math.min(...found.map(changes));
-    const keep = found.filter((d) => changes(d) === fewest);
-    found.length = 0;
-    found.push(...keep);
-  }
-  return pick(found);
+  if (count > 0) return pick([...new Set([...top, ...ends.values()])], places);
+  // the fallback keeps every candidate: the fewest changes are known only at the end
+  all = [];
+  enumerate(3);
+  const changes = (d: CandidateDraft) => d.levels.reduce((n, t, i) => n + (i > 0 ? apart(d.levels[i - 1] as LevelTriplet, t) : 0), 0);
+  const fewest = Math.min(...all.map(changes));
+  return pick(
+    all.filter((d) => changes(d) === fewest),
+    places,
+  );
+}
+
+// Lexicographic order of two candidates' static ranks.
+function byRank(x: CandidateDraft, y: CandidateDraft): number {
+  for (let i = 0; i < x.rank.length; i++) if (x.rank[i] !== y.rank[i]) return (x.rank[i] as number) - (y.rank[i] as number);
+  return 0;
+}
+
+// The form and first (end 0) or last (end 1) triplet of a candidate's states: the keys pick()
+// spreads over, as one number (a triplet by the places of its levels among the table's levels).
+function endKey(levels: readonly LevelTriplet[], end: 0 | 1, places: ReadonlyMap<number, number>): number {
+  const t = levels[end === 0 ? 0 : levels.length - 1] as LevelTriplet;
+  let key = levels.length * 2 + end;
+  for (let k = 0; k < 3; k++) key = key * 4096 + (places.get(t[k] as number) as number);
+  return key;
 }
 
 // Sorted by rank, at most MAX_CANDIDATES: every distinct first and last triplet of each form first.
-function pick(found: readonly CandidateDraft[]): CandidateDraft[] {
-  const cmp = (x: CandidateDraft, y: CandidateDraft) => {
-    for (let i = 0; i < x.rank.length; i++) if (x.rank[i] !== y.rank[i]) return (x.rank[i] as number) - (y.rank[i] as number);
-    return 0;
-  };
-  const sorted = [...found].sort(cmp);
+function pick(found: readonly CandidateDraft[], places: ReadonlyMap<number, number>): CandidateDraft[] {
+  const sorted = [...found].sort(byRank);
   if (sorted.length <= MAX_CANDIDATES) return sorted;
   const chosen = new Set<CandidateDraft>();
-  const ends = new Set<string>();
+  const ends = new Set<number>();
   for (const d of sorted) {
     if (chosen.size >= MAX_CANDIDATES) break;
-    const a = `${d.levels.length}|f${(d.levels[0] as LevelTriplet).join(',')}`;
-    const b = `${d.levels.length}|l${(d.levels[d.levels.length - 1] as LevelTriplet).join(',')}`;
+    const a = endKey(d.levels, 0, places);
+    const b = endKey(d.levels, 1, places);
     if (!ends.has(a) || !ends.has(b)) {
       chosen.add(d);
       ends.add(a);
