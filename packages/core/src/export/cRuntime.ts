@@ -85,9 +85,8 @@ export function cRuntimeTables(p: RuntimeProgram, spec: CRuntimeSpec): string {
   };
   const usable = Uint8Array.from(p.level, (x) => (Number.isNaN(x) ? 0 : 1));
   const levels = Float64Array.from(p.level, (x) => (Number.isNaN(x) ? 0 : x));
-  // the candidates' levels as positions among the leg's DC levels (a byte each, not a number)
-  const dc = [...new Set(p.candLevel)].sort((x, y) => x - y);
-  const candLevelIndex = Int32Array.from(p.candLevel, (x) => dc.indexOf(x));
+  // the candidates' levels as positions among the levels they take (a byte each, not a number)
+  const dc = p.candLevels;
   return [
     `#define ${PX}_MAX_SEGMENTS ${4 + 3 * P + 4}`,
     `#define ${PX}_HAS_MIDPOINT ${p.hasMidpoint ? 1 : 0}`,
@@ -112,8 +111,8 @@ export function cRuntimeTables(p: RuntimeProgram, spec: CRuntimeSpec): string {
     decl('cand_count', p.candCount, 1, `[${Math.max(1, nCand)}]`),
     decl('cand_pos', p.candPos, 4, `[${Math.max(1, nCand)}][4]`),
     "/* levels of the candidates' states: cand_level[c][3*s + k] indexes cand_levels */",
-    decl('cand_levels', Float64Array.from(dc.length ? dc : [0]), 1, `[${Math.max(1, dc.length)}]`, `${px}_real`),
-    decl('cand_level', candLevelIndex, 12, `[${Math.max(1, nCand)}][12]`),
+    decl('cand_levels', dc.length ? dc : [0], 1, `[${Math.max(1, dc.length)}]`, `${px}_real`),
+    decl('cand_level', p.candLevel, 12, `[${Math.max(1, nCand)}][12]`),
     decl('cand_mask', p.candMask, 4, `[${Math.max(1, nCand)}][4]`),
     decl('cand_seq', p.candSeq, 3, `[${Math.max(1, nCand)}][3]`),
     decl('cand_clamped', p.candClamped, 1, `[${Math.max(1, nCand)}]`),

@@ -145,6 +145,7 @@ export function createRuntime(table: SwitchingTable, options: RuntimeOptions = {
     candCount,
     candPos,
     candLevel,
+    candLevels,
     candMask,
     candSeq,
     candClamped,
@@ -473,7 +474,7 @@ export function createRuntime(table: SwitchingTable, options: RuntimeOptions = {
   const writeState = (out: RuntimeOutput, n: number, c: number, s: number): void => {
     for (let ph = 0; ph < 3; ph++) {
       out.patterns[3 * n + ph] = pathPattern[4 * (bestPath[ph] as number) + s] as number;
-      out.levels[3 * n + ph] = candLevel[12 * c + 3 * s + ph] as number;
+      out.levels[3 * n + ph] = candLevels[candLevel[12 * c + 3 * s + ph] as number] as number;
     }
   };
 

@@ -67,8 +67,10 @@ export interface RuntimeProgram {
   readonly candCount: Uint8Array;
   /** Per candidate, 4 slots: the triangle's vertex position of each state. */
   readonly candPos: Uint8Array;
-  /** Per candidate, 12 slots: level of each phase in each state. */
-  readonly candLevel: Float64Array;
+  /** Per candidate, 12 slots: level of each phase in each state, as an index into `candLevels` (unused slots: the index of 0). */
+  readonly candLevel: Uint16Array;
+  /** The levels the candidates' states take, ascending (units of Vdc/2). */
+  readonly candLevels: Float64Array;
   /** Per candidate, 4 slots: bit k set when phase k sits at the midpoint potential in that state. */
   readonly candMask: Uint8Array;
   /** Per candidate, 3 slots: the sequence of each phase. */
@@ -218,7 +220,7 @@ export function runtimeProgram(table: SwitchingTable): RuntimeProgram {
     return s;
   };
   const triFirst = new Int32Array(POLARITY_STRINGS.length + 1);
-  const drafts: CandidateDraft[][] = [];
+  const store = new CandidateStore(midpoint);
   // every level a triplet holds, numbered (the keys of pick())
   const places = new Map<number, number>();
   for (const pol of POLARITY_STRINGS)
@@ -229,7 +231,7 @@ export function runtimeProgram(table: SwitchingTable): RuntimeProgram {
     triFirst[q + 1] = (triFirst[q] as number) + tris.length;
     const chars = [0, 1, 2].map((k) => polarityChars[3 * q + k] as number);
     for (const tri of tris)
-      drafts.push(
+      store.add(
         triangleCandidates(
           tri.vertices.map((v) => v.realisations.map((r) => r.levels)),
           chars,
@@ -250,7 +252,7 @@ export function runtimeProgram(table: SwitchingTable): RuntimeProgram {
     enterable,
     triFirst,
     triNext: triangleNeighbours(table, triFirst),
-    ...flattenCandidates(drafts, midpoint),
+    ...store.finish(),
     ...flattenSequences(ctx, sequences),
   };
 }
@@ -523,40 +525,85 @@ function pick(found: readonly CandidateDraft[], places: ReadonlyMap<number, numb
   return sorted.filter((d) => chosen.has(d));
 }
 
-function flattenCandidates(
-  drafts: readonly (readonly CandidateDraft[])[],
-  hasMidpoint: boolean,
-): Pick<RuntimeProgram, 'candFirst' | 'candCount' | 'candPos' | 'candLevel' | 'candMask' | 'candSeq' | 'candClamped'> {
-  const total = drafts.reduce((n, d) => n + d.length, 0);
-  const candFirst = new Int32Array(drafts.length + 1);
-  const candCount = new Uint8Array(total);
-  const candPos = new Uint8Array(4 * total);
-  const candLevel = new Float64Array(12 * total);
-  const candMask = new Uint8Array(4 * total);
-  const candSeq = new Int32Array(3 * total);
-  const candClamped = new Int8Array(total);
-  let n = 0;
-  drafts.forEach((list, g) => {
+// The candidates as flat arrays, filled triangle by triangle (so that no triangle's drafts outlive
+// it); levels are held as the order they were first met and put in ascending order at the end.
+class CandidateStore {
+  #n = 0;
+  #first: number[] = [0];
+  #count = new Uint8Array(1024);
+  #pos = new Uint8Array(4 * 1024);
+  #level = new Uint16Array(12 * 1024);
+  #mask = new Uint8Array(4 * 1024);
+  #seq = new Int32Array(3 * 1024);
+  #clamped = new Int8Array(1024);
+  #met = new Map<number, number>();
+  readonly #hasMidpoint: boolean;
+
+  constructor(hasMidpoint: boolean) {
+    this.#hasMidpoint = hasMidpoint;
+  }
+
+  // the candidates of the next triangle
+  add(list: readonly CandidateDraft[]): void {
     for (const d of list) {
-      candCount[n] = d.levels.length;
-      d.levels.forEach((t, i) => {
-        candPos[4 * n + i] = d.pos[i] as number;
+      this.#room();
+      const n = this.#n++;
+      this.#count[n] = d.levels.length;
+      // a three-state candidate's fourth slot holds level 0, as a zero-filled array would
+      for (let i = 0; i < 4; i++) {
+        const t = d.levels[i];
         let mask = 0;
+        if (t) this.#pos[4 * n + i] = d.pos[i] as number;
         for (let k = 0; k < 3; k++) {
-          candLevel[12 * n + 3 * i + k] = t[k] as number;
-          if (hasMidpoint && t[k] === 0) mask |= 1 << k;
+          const l = t ? (t[k] as number) : 0;
+          let id = this.#met.get(l);
+          if (id === undefined) this.#met.set(l, (id = this.#met.size));
+          this.#level[12 * n + 3 * i + k] = id;
+          if (t && this.#hasMidpoint && l === 0) mask |= 1 << k;
         }
-        candMask[4 * n + i] = mask;
-      });
-      for (let k = 0; k < 3; k++) candSeq[3 * n + k] = d.seq[k] as number;
+        this.#mask[4 * n + i] = mask;
+      }
+      for (let k = 0; k < 3; k++) this.#seq[3 * n + k] = d.seq[k] as number;
       let clamped = -1;
       for (let k = 0; k < 3 && clamped < 0; k++) if (d.levels.every((t) => t[k] === (d.levels[0] as LevelTriplet)[k])) clamped = k;
-      candClamped[n] = clamped;
-      n++;
+      this.#clamped[n] = clamped;
     }
-    candFirst[g + 1] = n;
-  });
-  return { candFirst, candCount, candPos, candLevel, candMask, candSeq, candClamped };
+    this.#first.push(this.#n);
+  }
+
+  finish(): Pick<RuntimeProgram, 'candFirst' | 'candCount' | 'candPos' | 'candLevel' | 'candLevels' | 'candMask' | 'candSeq' | 'candClamped'> {
+    const n = this.#n;
+    const met = [...this.#met.keys()];
+    const candLevels = Float64Array.from(n > 0 ? met : []).sort();
+    const place = Uint16Array.from(met, (l) => candLevels.indexOf(l));
+    const candLevel = this.#level.slice(0, 12 * n).map((id) => place[id] as number);
+    return {
+      candFirst: Int32Array.from(this.#first),
+      candCount: this.#count.slice(0, n),
+      candPos: this.#pos.slice(0, 4 * n),
+      candLevel,
+      candLevels,
+      candMask: this.#mask.slice(0, 4 * n),
+      candSeq: this.#seq.slice(0, 3 * n),
+      candClamped: this.#clamped.slice(0, n),
+    };
+  }
+
+  // twice the room when full
+  #room(): void {
+    if (this.#n < this.#count.length) return;
+    const grow = <T extends Uint8Array | Uint16Array | Int32Array | Int8Array>(a: T, make: (size: number) => T): T => {
+      const b = make(2 * a.length);
+      b.set(a);
+      return b;
+    };
+    this.#count = grow(this.#count, (k) => new Uint8Array(k));
+    this.#pos = grow(this.#pos, (k) => new Uint8Array(k));
+    this.#level = grow(this.#level, (k) => new Uint16Array(k));
+    this.#mask = grow(this.#mask, (k) => new Uint8Array(k));
+    this.#seq = grow(this.#seq, (k) => new Int32Array(k));
+    this.#clamped = grow(this.#clamped, (k) => new Int8Array(k));
+  }
 }
 
 // The paths of every sequence and the pick tables (see RuntimeProgram.pick).
