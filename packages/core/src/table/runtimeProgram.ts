@@ -525,6 +525,9 @@ function pick(found: readonly CandidateDraft[], places: ReadonlyMap<number, numb
   return sorted.filter((d) => chosen.has(d));
 }
 
+// The levels of a three-state candidate's unused fourth slot (a zero-filled array's).
+const UNUSED: LevelTriplet = [0, 0, 0];
+
 // The candidates as flat arrays, filled triangle by triangle (so that no triangle's drafts outlive
 // it); levels are held as the order they were first met and put in ascending order at the end.
 class CandidateStore {
@@ -537,6 +540,7 @@ class CandidateStore {
   #seq = new Int32Array(3 * 1024);
   #clamped = new Int8Array(1024);
   #met = new Map<number, number>();
+  #ids = new Map<LevelTriplet, readonly number[]>();
   readonly #hasMidpoint: boolean;
 
   constructor(hasMidpoint: boolean) {
@@ -552,14 +556,12 @@ class CandidateStore {
       // a three-state candidate's fourth slot holds level 0, as a zero-filled array would
       for (let i = 0; i < 4; i++) {
         const t = d.levels[i];
+        const ids = this.#idsOf(t ?? UNUSED);
         let mask = 0;
         if (t) this.#pos[4 * n + i] = d.pos[i] as number;
         for (let k = 0; k < 3; k++) {
-          const l = t ? (t[k] as number) : 0;
-          let id = this.#met.get(l);
-          if (id === undefined) this.#met.set(l, (id = this.#met.size));
-          this.#level[12 * n + 3 * i + k] = id;
-          if (t && this.#hasMidpoint && l === 0) mask |= 1 << k;
+          this.#level[12 * n + 3 * i + k] = ids[k] as number;
+          if (t && this.#hasMidpoint && t[k] === 0) mask |= 1 << k;
         }
         this.#mask[4 * n + i] = mask;
       }
@@ -576,7 +578,8 @@ class CandidateStore {
     const met = [...this.#met.keys()];
     const candLevels = Float64Array.from(n > 0 ? met : []).sort();
     const place = Uint16Array.from(met, (l) => candLevels.indexOf(l));
-    const candLevel = this.#level.slice(0, 12 * n).map((id) => place[id] as number);
+    const candLevel = this.#level.slice(0, 12 * n);
+    for (let i = 0; i < candLevel.length; i++) candLevel[i] = place[candLevel[i] as number] as number;
     return {
       candFirst: Int32Array.from(this.#first),
       candCount: this.#count.slice(0, n),
@@ -587,6 +590,21 @@ class CandidateStore {
       candSeq: this.#seq.slice(0, 3 * n),
       candClamped: this.#clamped.slice(0, n),
     };
+  }
+
+  // the ids of a triplet's levels (triplets are shared among a triangle's candidates)
+  #idsOf(t: LevelTriplet): readonly number[] {
+    let ids = this.#ids.get(t);
+    if (!ids) {
+      ids = [0, 1, 2].map((k) => {
+        const l = t[k] as number;
+        let id = this.#met.get(l);
+        if (id === undefined) this.#met.set(l, (id = this.#met.size));
+        return id;
+      });
+      this.#ids.set(t, ids);
+    }
+    return ids;
   }
 
   // twice the room when full
