@@ -68,7 +68,7 @@ export interface RuntimeProgram {
   /** Per candidate, 4 slots: the triangle's vertex position of each state. */
   readonly candPos: Uint8Array;
   /** Per candidate, 12 slots: level of each phase in each state, as an index into `candLevels` (unused slots: the index of 0). */
-  readonly candLevel: Uint16Array;
+  readonly candLevel: Uint8Array;
   /** The levels the candidates' states take, ascending (units of Vdc/2). */
   readonly candLevels: Float64Array;
   /** Per candidate, 4 slots: bit k set when phase k sits at the midpoint potential in that state. */
@@ -535,7 +535,7 @@ class CandidateStore {
   #first: number[] = [0];
   #count = new Uint8Array(1024);
   #pos = new Uint8Array(4 * 1024);
-  #level = new Uint16Array(12 * 1024);
+  #level = new Uint8Array(12 * 1024);
   #mask = new Uint8Array(4 * 1024);
   #seq = new Int32Array(3 * 1024);
   #clamped = new Int8Array(1024);
@@ -577,7 +577,7 @@ class CandidateStore {
     const n = this.#n;
     const met = [...this.#met.keys()];
     const candLevels = Float64Array.from(n > 0 ? met : []).sort();
-    const place = Uint16Array.from(met, (l) => candLevels.indexOf(l));
+    const place = Uint8Array.from(met, (l) => candLevels.indexOf(l));
     const candLevel = this.#level.slice(0, 12 * n);
     for (let i = 0; i < candLevel.length; i++) candLevel[i] = place[candLevel[i] as number] as number;
     return {
@@ -600,6 +600,8 @@ class CandidateStore {
         const l = t[k] as number;
         let id = this.#met.get(l);
         if (id === undefined) this.#met.set(l, (id = this.#met.size));
+        // a byte each: a netlist has at most NETLIST_LIMITS.dcNodes (21) levels, checked where it is read
+        if (id > 255) throw new Error('runtimeProgram: more than 256 distinct levels');
         return id;
       });
       this.#ids.set(t, ids);
@@ -610,14 +612,14 @@ class CandidateStore {
   // twice the room when full
   #room(): void {
     if (this.#n < this.#count.length) return;
-    const grow = <T extends Uint8Array | Uint16Array | Int32Array | Int8Array>(a: T, make: (size: number) => T): T => {
+    const grow = <T extends Uint8Array | Int32Array | Int8Array>(a: T, make: (size: number) => T): T => {
       const b = make(2 * a.length);
       b.set(a);
       return b;
     };
     this.#count = grow(this.#count, (k) => new Uint8Array(k));
     this.#pos = grow(this.#pos, (k) => new Uint8Array(k));
-    this.#level = grow(this.#level, (k) => new Uint16Array(k));
+    this.#level = grow(this.#level, (k) => new Uint8Array(k));
     this.#mask = grow(this.#mask, (k) => new Uint8Array(k));
     this.#seq = grow(this.#seq, (k) => new Int32Array(k));
     this.#clamped = grow(this.#clamped, (k) => new Int8Array(k));
