@@ -2,6 +2,7 @@ import type { LevelTriplet } from '../geometry/clarke.js';
 import { POLARITY_CHARS, type PhaseSteps } from './patternSteps.js';
 import { parsePolarity, POLARITY_STRINGS } from '../leg/polarity.js';
 import type { SwitchingTable } from './switchingTable.js';
+import { lexLess, PERMUTATIONS } from './switchingSequence.js';
 import { hasMidpoint } from '../netlist/expandElements.js';
 
 /** Largest number of sequence candidates kept per triangle (best static rank; every first and last triplet kept first). */
@@ -373,20 +374,8 @@ function phasePaths(ctx: Ctx, k: number, c: number, lv: readonly number[]): Path
     .map((x) => x.p);
 }
 
-const PERMUTATIONS: readonly (readonly [number, number, number])[] = [
-  [0, 1, 2],
-  [0, 2, 1],
-  [1, 0, 2],
-  [1, 2, 0],
-  [2, 0, 1],
-  [2, 1, 0],
-];
-// the vertex positions of each permutation's states (index A·3 + B), three and four states
-const POS3: readonly (readonly number[])[] = Array.from({ length: 9 }, (_, i) => {
-  const [A, B] = [Math.floor(i / 3), i % 3];
-  return [A, B, 3 - A - B];
-});
-const POS4: readonly (readonly number[])[] = POS3.map((p) => [...p, p[0] as number]);
+// the vertex positions of each order's states with the first vertex split (four states)
+const ORDERS4: readonly (readonly number[])[] = PERMUTATIONS.map((p) => [...p, p[0]]);
 
 // The candidates of one triangle (see runtimeProgram). Every vertex order and choice of triplets
 // is weighed, but only what pick() can keep is held (a leg of many levels has tens of thousands
@@ -456,7 +445,8 @@ function triangleCandidates(
   // under levelSteps: any), steps may change more phases: those with the fewest changes are kept,
   // and the runtime counts them as multi-phase steps.
   const enumerate = (most: number) => {
-    for (const [A, B, C] of PERMUTATIONS) {
+    PERMUTATIONS.forEach((order, o) => {
+      const [A, B, C] = order;
       for (const tA of triplets[A] as readonly LevelTriplet[]) {
         for (const tB of triplets[B] as readonly LevelTriplet[]) {
           const ab = apart(tA, tB);
@@ -464,15 +454,15 @@ function triangleCandidates(
           for (const tC of triplets[C] as readonly LevelTriplet[]) {
             const bc = apart(tB, tC);
             if (bc < 1 || bc > most) continue;
-            emit([tA, tB, tC], POS3[A * 3 + B] as readonly number[]);
+            emit([tA, tB, tC], order);
             for (const tA2 of triplets[A] as readonly LevelTriplet[]) {
               const ca = apart(tC, tA2);
-              if (tA2 !== tA && ca >= 1 && ca <= most) emit([tA, tB, tC, tA2], POS4[A * 3 + B] as readonly number[]);
+              if (tA2 !== tA && ca >= 1 && ca <= most) emit([tA, tB, tC, tA2], ORDERS4[o] as readonly number[]);
             }
           }
         }
       }
-    }
+    });
   };
   enumerate(1);
   if (count > 0) return pick([...new Set([...top, ...ends.values()])], places);
@@ -685,9 +675,4 @@ function flattenSequences(
         }
   });
   return { pathFirst, pathPattern, pick, pickLine, pickGates, pickDist };
-}
-
-function lexLess(a: readonly number[], b: readonly number[]): boolean {
-  for (let i = 0; i < a.length; i++) if (a[i] !== b[i]) return (a[i] as number) < (b[i] as number);
-  return false;
 }

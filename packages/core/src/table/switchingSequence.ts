@@ -242,7 +242,8 @@ export function gateDifference(a: readonly string[], b: readonly string[]): stri
   return [...a.filter((g) => !b.includes(g)), ...b.filter((g) => !a.includes(g))];
 }
 
-const PERMUTATIONS: readonly (readonly [number, number, number])[] = [
+/** The six orders of a triangle's three vertices (positions 0, 1, 2). */
+export const PERMUTATIONS: readonly (readonly [number, number, number])[] = [
   [0, 1, 2],
   [0, 2, 1],
   [1, 0, 2],
@@ -255,7 +256,18 @@ function sum(xs: readonly number[]): number {
   return xs.reduce((a, b) => a + b, 0);
 }
 
-function lexLess(a: readonly number[], b: readonly number[]): boolean {
+/**
+ * Lexicographic order of two keys of the same length.
+ *
+ * @param a - a key
+ * @param b - another
+ * @returns true when a comes strictly before b
+ * @example
+ * ```ts
+ * lexLess([1, 2], [1, 3]); // true
+ * ```
+ */
+export function lexLess(a: readonly number[], b: readonly number[]): boolean {
   for (let i = 0; i < a.length; i++) if (a[i] !== b[i]) return (a[i] as number) < (b[i] as number);
   return false;
 }
