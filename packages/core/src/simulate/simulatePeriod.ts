@@ -11,7 +11,7 @@ import type { LegElement, LegNetlist } from '../netlist/netlist.js';
 import { planFromAtlas } from '../limits/planRemedial.js';
 import { requireVdc } from '../shared/physicalUnits.js';
 import type { LimitRuleOptions } from '../leg/rules.js';
-import { runtimeStream, UPDATE_MODES, type StreamEntry, type StreamSegment, type UpdateMode } from '../table/runtimeStream.js';
+import { isHeld, runtimeStream, UPDATE_MODES, type StreamEntry, type StreamSegment, type UpdateMode } from '../table/runtimeStream.js';
 import { switchingTableFromAtlas } from '../table/switchingTable.js';
 import { requireNumber, requireObject } from '../shared/validate.js';
 
@@ -452,8 +452,7 @@ function gateTimeline(
 ): { spans: GateSpan[][]; changes: Change[] } {
   const spans: GateSpan[][] = [[], [], []];
   const changes: Change[] = [];
-  // below a billionth of a switching period a state is rounding, not a pulse
-  const held = stream.filter((s) => s.dt * periods > 1e-9);
+  const held = stream.filter((s) => isHeld(s.dt, periods));
   const n = held.length;
   for (let k = 0; k < 3; k++) {
     for (let s = 0; s < n; s++) {

@@ -77,8 +77,8 @@ export interface RuntimeStream {
    */
   readonly entry: StreamEntry;
   /**
-   * The last state the previous period held for some time (above a billionth of a switching
-   * period): the state a gate drive leaves at the period's start. Equal to {@link RuntimeStream.entry}
+   * The last state the previous period held for some time ({@link isHeld}): the state a gate drive
+   * leaves at the period's start. Equal to {@link RuntimeStream.entry}
    * unless that one was held for no time.
    */
   readonly entryHeld: StreamEntry;
@@ -183,7 +183,7 @@ export function runtimeStream(table: SwitchingTable, options: RuntimeStreamOptio
   const starts: number[] = [];
   let lastEnd = stateKey(result.segs);
   let entry = result.segs[result.segs.length - 1] as Seg;
-  let entryHeld = lastHeld(result.segs, U);
+  let entryHeld = lastHeld(result.segs, N);
   for (let cycle = 1; cycle < MAX_CYCLES; cycle++) {
     starts.push(charge);
     if (starts.length === 3 && alpha > 0) {
@@ -194,7 +194,7 @@ export function runtimeStream(table: SwitchingTable, options: RuntimeStreamOptio
     }
     startCharge = charge;
     entry = result.segs[result.segs.length - 1] as Seg;
-    entryHeld = lastHeld(result.segs, U);
+    entryHeld = lastHeld(result.segs, N);
     result = runCycle();
     const endKey = stateKey(result.segs);
     periodic = endKey === lastEnd;
@@ -245,9 +245,25 @@ function entryOf(s: Seg, names: readonly string[]): StreamEntry {
   return { levels: s.levels, patterns: s.patterns.map((p) => names[p] as string) as unknown as [string, string, string], polarity: s.polarity };
 }
 
-// The last segment held above a billionth of a switching period (U updates per fundamental period).
-function lastHeld(segs: readonly Seg[], U: number): Seg {
-  for (let i = segs.length - 1; i >= 0; i--) if (((segs[i] as Seg).end - (segs[i] as Seg).t) * U > 1e-9) return segs[i] as Seg;
+/**
+ * Whether a state lasting `dt` (fraction of the fundamental period) is a pulse: held above a
+ * billionth of a switching period; below that it is rounding.
+ *
+ * @param dt - duration, fraction of the fundamental period
+ * @param frequencyRatio - switching periods per fundamental period
+ * @returns true when the state is held for some time
+ * @example
+ * ```ts
+ * isHeld(1e-3, 120); // true
+ * ```
+ */
+export function isHeld(dt: number, frequencyRatio: number): boolean {
+  return dt * frequencyRatio > 1e-9;
+}
+
+// The last segment held for some time (see isHeld).
+function lastHeld(segs: readonly Seg[], frequencyRatio: number): Seg {
+  for (let i = segs.length - 1; i >= 0; i--) if (isHeld((segs[i] as Seg).end - (segs[i] as Seg).t, frequencyRatio)) return segs[i] as Seg;
   return segs[segs.length - 1] as Seg;
 }
 
