@@ -198,19 +198,23 @@ static inline void ${px}_runtime_init(${px}_runtime *rt, int continuous, int bal
 
 static inline int ${px}_cmp_(double a, double b) { return a < b ? -1 : a > b ? 1 : 0; }
 
-static inline void ${px}_charges_(int c, int k, double ia, double ib, double ic, double q[4])
+/* The current into the midpoint per set of phases at the midpoint (bit k: phase k), once per call. */
+static inline void ${px}_charge_table_(double ia, double ib, double ic, double qm[8])
 {
-  int s;
-  for (s = 0; s < k; s++) {
-    int mask = ${px}_cand_mask[c][s];
-    q[s] = -(((mask & 1) ? ia : 0.0) + ((mask & 2) ? ib : 0.0) + ((mask & 4) ? ic : 0.0));
-  }
+  int mask;
+  for (mask = 0; mask < 8; mask++) qm[mask] = -(((mask & 1) ? ia : 0.0) + ((mask & 2) ? ib : 0.0) + ((mask & 4) ? ic : 0.0));
 }
 
-static inline double ${px}_miss_(int c, int k, const double d[3], double ia, double ib, double ic, double target, double tol)
+static inline void ${px}_charges_(int c, int k, const double qm[8], double q[4])
+{
+  int s;
+  for (s = 0; s < k; s++) q[s] = qm[${px}_cand_mask[c][s]];
+}
+
+static inline double ${px}_miss_(int c, int k, const double d[3], const double qm[8], double target, double tol)
 {
   double q[4], lo, hi, miss;
-  ${px}_charges_(c, k, ia, ib, ic, q);
+  ${px}_charges_(c, k, qm, q);
   if (k == 4) {
     double dA = d[${px}_cand_pos[c][0]];
     double rest = d[${px}_cand_pos[c][1]] * q[1] + d[${px}_cand_pos[c][2]] * q[2];
@@ -299,6 +303,18 @@ static void ${px}_context_(${px}_runtime *rt, int g, int qi, int nq, int dir, in
     row[0] = c; row[1] = rt->continuous ? (${px}_cand_count[c] == 4 ? 0 : 1) : 0; row[2] = gates; row[3] = cost;
     for (ph = 0; ph < 3; ph++) { row[4 + ph] = path[ph]; row[7 + ph] = lines[ph]; }
   }
+  /* in the order of the early stop in select_: form, gate changes, entry steps, candidate
+   * (insertion sort: a few rows, at most ${PX}_MAX_TRI_CANDIDATES) */
+  for (i = 1; i < n; i++) {
+    int j, tmp[10];
+    for (ph = 0; ph < 10; ph++) tmp[ph] = rt->ctx_rows[i][ph];
+    for (j = i; j > 0; j--) {
+      const int *o = rt->ctx_rows[j - 1];
+      if (!(o[1] > tmp[1] || (o[1] == tmp[1] && (o[2] > tmp[2] || (o[2] == tmp[2] && (o[3] > tmp[3] || (o[3] == tmp[3] && o[0] > tmp[0]))))))) break;
+      for (ph = 0; ph < 10; ph++) rt->ctx_rows[j][ph] = o[ph];
+    }
+    for (ph = 0; ph < 10; ph++) rt->ctx_rows[j][ph] = tmp[ph];
+  }
   rt->ctx_n = n;
   rt->ctx_unreach = bU;
   for (i = 0; i < 10; i++) rt->ctx_key[i] = key[i];
@@ -307,8 +323,10 @@ static void ${px}_context_(${px}_runtime *rt, int g, int qi, int nq, int dir, in
 /* The candidate of global triangle g for this period and each phase's path (see createRuntime):
  * the key, compared in order, is unreachable phases, phases left stuck for the next character,
  * chain tier (the static part, per context), then balance miss, form, clamp, line-device changes
- * weighed by current, gate changes, entry steps; ties go to the first candidate. */
-static int ${px}_select_(${px}_runtime *rt, int g, int qi, int nq, int dir, int exit, const double d[3], double ia, double ib, double ic, double target, int best_path[3], int *unreachable)
+ * weighed by current, gate changes, entry steps; ties go to the first candidate. In continuous
+ * mode the first row of the best form that meets the target without a line-device change is
+ * taken at once: no later row can beat it (the rows are in the order of the rest of the key). */
+static int ${px}_select_(${px}_runtime *rt, int g, int qi, int nq, int dir, int exit, const double d[3], double ia, double ib, double ic, const double qm[8], double target, int best_path[3], int *unreachable)
 {
   int best = -1, i, ph, order;
   double bM = 0, bF = 0, bC = 0, bL = 0, bG = 0, bS = 0;
@@ -321,9 +339,14 @@ static int ${px}_select_(${px}_runtime *rt, int g, int qi, int nq, int dir, int 
     const int *row = rt->ctx_rows[i];
     int c = row[0];
     double form = row[1], gates = row[2], cost = row[3], miss, clamp, line;
-    miss = rt->balance ? ${px}_miss_(c, ${px}_cand_count[c], d, ia, ib, ic, target, tol) : 0.0;
+    miss = rt->balance ? ${px}_miss_(c, ${px}_cand_count[c], d, qm, target, tol) : 0.0;
     clamp = rt->continuous ? 0 : (${px}_cand_clamped[c] == big ? 0 : 1);
     line = wI[0] * row[7] + wI[1] * row[8] + wI[2] * row[9];
+    if (rt->continuous && row[1] == rt->ctx_rows[0][1] && ((row[7] | row[8] | row[9]) == 0 || line == 0) && miss == 0) {
+      best = c;
+      for (ph = 0; ph < 3; ph++) best_path[ph] = row[4 + ph];
+      break;
+    }
     if (best >= 0) {
       order = ${px}_cmp_(miss, bM);
       if (!order) order = ${px}_cmp_(form, bF);
@@ -341,11 +364,11 @@ static int ${px}_select_(${px}_runtime *rt, int g, int qi, int nq, int dir, int 
   return best;
 }
 
-static inline double ${px}_split_(const ${px}_runtime *rt, int c, const double d[3], double ia, double ib, double ic, double target)
+static inline double ${px}_split_(const ${px}_runtime *rt, int c, const double d[3], double ia, double ib, double ic, const double qm[8], double target)
 {
   double q[4], dA, den, scale, rest, x;
   if (!rt->balance) return 0.5;
-  ${px}_charges_(c, 4, ia, ib, ic, q);
+  ${px}_charges_(c, 4, qm, q);
   dA = d[${px}_cand_pos[c][0]];
   den = dA * (q[0] - q[3]);
   scale = fabs(ia) + fabs(ib) + fabs(ic);
@@ -419,7 +442,7 @@ static inline int ${px}_well_inside_(int t, double alpha, double beta, double d[
 
 static int ${px}_run_(${px}_runtime *rt, double alpha, double beta, int qi, int nq, double ia, double ib, double ic, double err, ${px}_output *out, int dir, int whole)
 {
-  double d[3], target, rest = 1, x;
+  double d[3], qm[8], target, rest = 1, x;
   int g, c, k, n, s, ph, exit, clamped = 0, unreachable = 0, best_path[3] = {0, 0, 0};
   out->count = 0; out->chain_steps = 0; out->held = 0; out->split = NAN; out->triangle = -1;
   if (qi < 0 || qi >= ${PX}_POLARITY_COUNT || nq < 0 || nq >= ${PX}_POLARITY_COUNT) return -1;
@@ -440,7 +463,8 @@ static int ${px}_run_(${px}_runtime *rt, double alpha, double beta, int qi, int 
   out->triangle = g - ${px}_tri_first[qi];
   out->clamped = clamped;
   target = -rt->midpoint_gain * err;
-  c = ${px}_select_(rt, g, qi, nq, dir, whole || dir == 1 ? 0 : -1, d, ia, ib, ic, target, best_path, &unreachable);
+  if (rt->balance) ${px}_charge_table_(ia, ib, ic, qm);
+  c = ${px}_select_(rt, g, qi, nq, dir, whole || dir == 1 ? 0 : -1, d, ia, ib, ic, qm, target, best_path, &unreachable);
   if (c < 0 && rt->prev[0] < 0) return -1;
   if (c < 0 || unreachable > 0) {
     out->held = 1;
@@ -473,7 +497,7 @@ static int ${px}_run_(${px}_runtime *rt, double alpha, double beta, int qi, int 
     d[2] = sum > 0 ? d2 / sum : 1.0 / 3.0;
     out->chain_steps = n;
   }
-  x = k == 4 ? ${px}_split_(rt, c, d, ia, ib, ic, target) : NAN;
+  x = k == 4 ? ${px}_split_(rt, c, d, ia, ib, ic, qm, target) : NAN;
   out->split = x;
   if (whole) {
     for (s = 0; s < k; s++) ${px}_write_(out, n++, c, s, best_path, (rest * ${px}_duration_(c, k, s, d, x)) / (s == k - 1 ? 1 : 2));
