@@ -216,10 +216,10 @@ describe('6. C index types follow the data', () => {
           .split(/[ ,]+/)
           .filter(Boolean)
           .map(Number);
-        for (const v of values) {
-          expect(Number.isInteger(v), `${m[2]}`).toBe(true);
-          expect(v >= lo && v <= hi, `${m[2]} holds ${v}`).toBe(true);
-        }
+        // one expectation per table (hundreds of thousands of values on the five-level leg)
+        const outside = values.filter((v) => !(Number.isInteger(v) && v >= lo && v <= hi));
+        expect(outside.slice(0, 5), `${m[2]}: values that ${m[1]} cannot hold`).toEqual([]);
+        expect(values.length, `${m[2]} is read`).toBeGreaterThan(0);
         checked++;
       }
       expect(checked).toBeGreaterThan(15);
