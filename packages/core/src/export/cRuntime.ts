@@ -170,8 +170,8 @@ typedef struct {
   int last_tri[${PX}_POLARITY_COUNT];
   /* the choice's static part for the last context (triangle, state, characters, next polarity,
    * direction; ctx_key[0] = -1: none): the candidates with the best unreachable / stuck / chain
-   * tier, in candidate order, each as candidate, form, gate changes, entry steps, three paths,
-   * three line-device changes */
+   * tier, in the order of select_'s early stop, each as candidate, form, gate changes, entry
+   * steps, three paths, three line-device changes */
   int ctx_key[10];
   int ctx_n;
   int ctx_unreach;
@@ -279,8 +279,8 @@ static void ${px}_static_(const ${px}_runtime *rt, int c, int qi, int nq, int di
 }
 
 /* The static part of the choice for a context, kept in rt: the candidates of triangle g with the
- * best unreachable / stuck / chain tier, in candidate order (worked out again only when the
- * context changes). */
+ * best unreachable / stuck / chain tier, sorted for select_'s early stop (worked out again only
+ * when the context changes). */
 static void ${px}_context_(${px}_runtime *rt, int g, int qi, int nq, int dir, int exit)
 {
   int key[10], i, c, ph, end = (int)${px}_cand_first[g + 1], bU = 0, bX = 0, bT = 0, n = 0, same = rt->ctx_key[0] >= 0;
