@@ -449,8 +449,8 @@ export function createRuntime(table: SwitchingTable, options: RuntimeOptions = {
     return rows[o] as number;
   };
 
-  // unreachable phases of the last selection (0: the candidate can be entered safely), the row it
-  // chose and whether that row changes no line-frequency device
+  // unreachable phases of the last selection (0: the candidate can be entered safely), and the
+  // context rows it chose from
   let bestUnreach = 0;
   let selRows: Int32Array = new Int32Array(0);
 
@@ -550,12 +550,13 @@ export function createRuntime(table: SwitchingTable, options: RuntimeOptions = {
       return t;
     }
     const k = candCount[c] as number;
-    // a whole period with the last one's candidate and paths, into the same buffer: it starts where
-    // the last one ended, and only the durations change
-    const again = whole && out === lastOut && lastC === c && lastP0 === bestPath[0] && lastP1 === bestPath[1] && lastP2 === bestPath[2] && lastLayout === 2;
+    // the last call's buffer, candidate and paths: a whole period like the last one starts where
+    // that one ended (no chain), and in the same layout its states are written already (only the
+    // durations change)
+    const same = out === lastOut && lastC === c && lastP0 === bestPath[0] && lastP1 === bestPath[1] && lastP2 === bestPath[2];
     // the chain, where the entry is more than one step away: its states take chainDwell each, and
     // the sequence's dwell times are taken at the reference less the chain's volt-seconds
-    let n = again ? 0 : chain(dir === 0 ? 0 : k - 1, qi, out);
+    let n = same && whole && lastLayout === 2 ? 0 : chain(dir === 0 ? 0 : k - 1, qi, out);
     let rest = 1;
     if (n > 0) {
       let tau = whole ? opts.chainDwell : 2 * opts.chainDwell;
@@ -581,34 +582,26 @@ export function createRuntime(table: SwitchingTable, options: RuntimeOptions = {
       const dv = d[candPos[4 * c + s] as number] as number;
       dur[s] = rest * (k !== 4 ? dv : s === 0 ? (io[SPLIT] as number) * dv : s === 3 ? (1 - (io[SPLIT] as number)) * dv : dv);
     }
-    // the states are those of the last call (same buffer, candidate, paths and layout, no chain):
-    // only the durations change
     const layout = n > 0 ? -1 : whole ? 2 : dir;
-    const same =
-      again ||
-      (layout >= 0 && out === lastOut && lastC === c && lastP0 === bestPath[0] && lastP1 === bestPath[1] && lastP2 === bestPath[2] && lastLayout === layout);
+    const kept = same && layout >= 0 && lastLayout === layout;
     if (whole) {
       // first half forwards, then mirrored; the centre state once, durations as period fractions
       for (let s = 0; s < k; s++) {
-        if (!same) writeState(out, n, c, s);
+        if (!kept) writeState(out, n, c, s);
         out.duration[n++] = s === k - 1 ? (dur[s] as number) : (dur[s] as number) / 2;
       }
       for (let s = k - 2; s >= 0; s--) {
-        if (!same) writeState(out, n, c, s);
+        if (!kept) writeState(out, n, c, s);
         out.duration[n++] = (dur[s] as number) / 2;
       }
     } else {
       for (let i = 0; i < k; i++) {
         const s = dir === 0 ? i : k - 1 - i;
-        if (!same) writeState(out, n, c, s);
+        if (!kept) writeState(out, n, c, s);
         out.duration[n++] = dur[s] as number;
       }
     }
     out.count = n;
-    if (again) {
-      setFast(g, qi, nq, t, out);
-      return t;
-    }
     lastOut = out;
     lastC = layout >= 0 ? c : -1;
     lastP0 = bestPath[0] as number;
@@ -616,16 +609,16 @@ export function createRuntime(table: SwitchingTable, options: RuntimeOptions = {
     lastP2 = bestPath[2] as number;
     lastLayout = layout;
     const exit = dir === 0 && !whole ? k - 1 : 0;
-    let kept = true;
+    let unchanged = true;
     for (let ph = 0; ph < 3; ph++) {
       const p = pathPattern[4 * (bestPath[ph] as number) + exit] as number;
       const ch = polarityChars[3 * qi + ph] as number;
-      if (p !== prev[ph] || ch !== prevChar[ph]) kept = false;
+      if (p !== prev[ph] || ch !== prevChar[ph]) unchanged = false;
       prev[ph] = p;
       prevChar[ph] = ch;
     }
     // the next period meets the same context when it stays in this triangle
-    if (whole && kept && n === 0) setFast(g, qi, nq, t, out);
+    if (whole && unchanged && n === 0) setFast(g, qi, nq, t, out);
     return t;
   };
 
