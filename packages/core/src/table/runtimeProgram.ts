@@ -184,17 +184,19 @@ export function runtimeProgram(table: SwitchingTable): RuntimeProgram {
   };
   const ctx: Ctx = { P, level, allowed, dist, phases, gateDiff: (i, j) => diff(i, j), lineDiff: (i, j) => diff(i, j, line) };
   const midpoint = hasMidpoint(table.levels);
+  // every level a triplet holds, numbered (the keys of the sequences and of pick())
+  const places = new Map<number, number>();
+  for (const pol of POLARITY_STRINGS)
+    for (const tri of table.polarities[pol]?.tableTriangles ?? [])
+      for (const v of tri.vertices) for (const r of v.realisations) for (const l of r.levels) if (!places.has(l)) places.set(l, places.size);
   const sequences: SequenceDraft[] = [];
-  // a sequence's key as a number: phase, character, length, then each state's level as its place
-  // among the levels met so far (a string only past 62 levels)
+  // a sequence's key as a number: phase, character, length, then each state's level by its place
+  // (a string only past 63 levels)
   const seqIndex = new Map<number | string, number>();
-  const levelPlace = new Map<number, number>();
   const sequenceKey = (k: number, c: number, states: readonly LevelTriplet[]): number | string => {
     let key = (k * 3 + c) * 5 + states.length;
     for (const t of states) {
-      const l = t[k] as number;
-      let at = levelPlace.get(l);
-      if (at === undefined) levelPlace.set(l, (at = levelPlace.size));
+      const at = places.get(t[k] as number) as number;
       if (at >= 63) return `${k}|${c}|${states.map((x) => x[k]).join(',')}`;
       key = key * 64 + at;
     }
@@ -222,11 +224,6 @@ export function runtimeProgram(table: SwitchingTable): RuntimeProgram {
   };
   const triFirst = new Int32Array(POLARITY_STRINGS.length + 1);
   const store = new CandidateStore(midpoint);
-  // every level a triplet holds, numbered (the keys of pick())
-  const places = new Map<number, number>();
-  for (const pol of POLARITY_STRINGS)
-    for (const tri of table.polarities[pol]?.tableTriangles ?? [])
-      for (const v of tri.vertices) for (const r of v.realisations) for (const l of r.levels) if (!places.has(l)) places.set(l, places.size);
   POLARITY_STRINGS.forEach((pol, q) => {
     const tris = table.polarities[pol]?.tableTriangles ?? [];
     triFirst[q + 1] = (triFirst[q] as number) + tris.length;
