@@ -326,11 +326,10 @@ static void ${px}_context_(${px}_runtime *rt, int g, int qi, int nq, int dir, in
  * weighed by current, gate changes, entry steps; ties go to the first candidate. In continuous
  * mode the first row of the best form that meets the target without a line-device change is
  * taken at once: no later row can beat it (the rows are in the order of the rest of the key). */
-static int ${px}_select_(${px}_runtime *rt, int g, int qi, int nq, int dir, int exit, const double d[3], double ia, double ib, double ic, const double qm[8], double target, int best_path[3], int *unreachable)
+static int ${px}_select_(${px}_runtime *rt, int g, int qi, int nq, int dir, int exit, const double d[3], double ia, double ib, double ic, const double qm[8], double target, double tol, int best_path[3], int *unreachable)
 {
   int best = -1, i, ph, order;
   double bM = 0, bF = 0, bC = 0, bL = 0, bG = 0, bS = 0;
-  double scale = fabs(ia) + fabs(ib) + fabs(ic), tol = 1e-12 * scale;
   int big = fabs(ia) >= fabs(ib) && fabs(ia) >= fabs(ic) ? 0 : fabs(ib) >= fabs(ic) ? 1 : 2;
   double wI[3];
   wI[0] = fabs(ia); wI[1] = fabs(ib); wI[2] = fabs(ic);
@@ -364,15 +363,14 @@ static int ${px}_select_(${px}_runtime *rt, int g, int qi, int nq, int dir, int 
   return best;
 }
 
-static inline double ${px}_split_(const ${px}_runtime *rt, int c, const double d[3], double ia, double ib, double ic, const double qm[8], double target)
+static inline double ${px}_split_(const ${px}_runtime *rt, int c, const double d[3], const double qm[8], double target, double tol)
 {
-  double q[4], dA, den, scale, rest, x;
+  double q[4], dA, den, rest, x;
   if (!rt->balance) return 0.5;
   ${px}_charges_(c, 4, qm, q);
   dA = d[${px}_cand_pos[c][0]];
   den = dA * (q[0] - q[3]);
-  scale = fabs(ia) + fabs(ib) + fabs(ic);
-  if (!(fabs(den) > 1e-12 * scale)) return 0.5;
+  if (!(fabs(den) > tol)) return 0.5;
   rest = d[${px}_cand_pos[c][1]] * q[1] + d[${px}_cand_pos[c][2]] * q[2] + dA * q[3];
   x = (target - rest) / den;
   return x < 0 ? 0.0 : x > 1 ? 1.0 : x;
@@ -442,7 +440,7 @@ static inline int ${px}_well_inside_(int t, double alpha, double beta, double d[
 
 static int ${px}_run_(${px}_runtime *rt, double alpha, double beta, int qi, int nq, double ia, double ib, double ic, double err, ${px}_output *out, int dir, int whole)
 {
-  double d[3], qm[8], target, rest = 1, x;
+  double d[3], qm[8], target, tol, rest = 1, x;
   int g, c, k, n, s, ph, exit, clamped = 0, unreachable = 0, best_path[3] = {0, 0, 0};
   out->count = 0; out->chain_steps = 0; out->held = 0; out->split = NAN; out->triangle = -1;
   if (qi < 0 || qi >= ${PX}_POLARITY_COUNT || nq < 0 || nq >= ${PX}_POLARITY_COUNT) return -1;
@@ -462,9 +460,12 @@ static int ${px}_run_(${px}_runtime *rt, double alpha, double beta, int qi, int 
   }
   out->triangle = g - ${px}_tri_first[qi];
   out->clamped = clamped;
+  /* the balance target, the midpoint current of each set of phases and the tolerance of both, once
+   * per call */
   target = -rt->midpoint_gain * err;
+  tol = 1e-12 * (fabs(ia) + fabs(ib) + fabs(ic));
   if (rt->balance) ${px}_charge_table_(ia, ib, ic, qm);
-  c = ${px}_select_(rt, g, qi, nq, dir, whole || dir == 1 ? 0 : -1, d, ia, ib, ic, qm, target, best_path, &unreachable);
+  c = ${px}_select_(rt, g, qi, nq, dir, whole || dir == 1 ? 0 : -1, d, ia, ib, ic, qm, target, tol, best_path, &unreachable);
   if (c < 0 && rt->prev[0] < 0) return -1;
   if (c < 0 || unreachable > 0) {
     out->held = 1;
@@ -497,7 +498,7 @@ static int ${px}_run_(${px}_runtime *rt, double alpha, double beta, int qi, int 
     d[2] = sum > 0 ? d2 / sum : 1.0 / 3.0;
     out->chain_steps = n;
   }
-  x = k == 4 ? ${px}_split_(rt, c, d, ia, ib, ic, qm, target) : NAN;
+  x = k == 4 ? ${px}_split_(rt, c, d, qm, target, tol) : NAN;
   out->split = x;
   if (whole) {
     for (s = 0; s < k; s++) ${px}_write_(out, n++, c, s, best_path, (rest * ${px}_duration_(c, k, s, d, x)) / (s == k - 1 ? 1 : 2));
