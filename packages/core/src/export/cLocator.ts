@@ -45,21 +45,30 @@ static inline int ${px}_polarity_index(int sa, int sb, int sc)
  * ```
  */
 export function cLocate(px: string, PX: string): string {
-  return `static inline int ${px}_inside_(int t, double a, double b, double d[3])
+  return `/* Dwell times from the three barycentric values: negatives set to 0, then normalised. Plain
+ * comparisons, not fmax: a library call gcc does not inline; a NaN becomes 0 as with fmax, and
+ * -0 becomes +0. */
+static inline void ${px}_normalise_(double d0, double d1, double d2, double d[3])
 {
-  /* plain comparisons, not fmin / fmax: those are library calls where NaN rules keep the compiler
-   * from inlining them, and the search makes this test for every triangle it passes; a NaN is
-   * treated as fmin and fmax treat it (ignored by the test, 0 after it), and -0 becomes +0 */
+  double s;
+  d0 = d0 > 0.0 ? d0 : 0.0; d1 = d1 > 0.0 ? d1 : 0.0; d2 = d2 > 0.0 ? d2 : 0.0;
+  s = d0 + d1 + d2;
+  d[0] = d0 / s; d[1] = d1 / s; d[2] = d2 / s;
+}
+
+static inline int ${px}_inside_(int t, double a, double b, double d[3])
+{
+  /* plain comparisons, not fmin: a library call where NaN rules keep the compiler from inlining
+   * it, and the search makes this test for every triangle it passes (a NaN is ignored by the
+   * test, as fmin ignores it) */
   const ${px}_real *m = ${px}_dwell[t];
-  double d0 = m[0] * a + m[1] * b + m[2], d1, d2, s;
+  double d0 = m[0] * a + m[1] * b + m[2], d1, d2;
   if (d0 < -${PX}_DWELL_TOLERANCE) return 0;
   d1 = m[3] * a + m[4] * b + m[5];
   if (d1 < -${PX}_DWELL_TOLERANCE) return 0;
   d2 = m[6] * a + m[7] * b + m[8];
   if (d2 < -${PX}_DWELL_TOLERANCE) return 0;
-  d0 = d0 > 0.0 ? d0 : 0.0; d1 = d1 > 0.0 ? d1 : 0.0; d2 = d2 > 0.0 ? d2 : 0.0;
-  s = d0 + d1 + d2;
-  d[0] = d0 / s; d[1] = d1 / s; d[2] = d2 / s;
+  ${px}_normalise_(d0, d1, d2, d);
   return 1;
 }
 
@@ -144,9 +153,7 @@ static inline int ${px}_locate(int p, double alpha, double beta, double dwell[3]
   }
   {
     const ${px}_real *m = ${px}_dwell[best];
-    double d0 = fmax(0.0, m[0] * a + m[1] * b + m[2]), d1 = fmax(0.0, m[3] * a + m[4] * b + m[5]), d2 = fmax(0.0, m[6] * a + m[7] * b + m[8]);
-    double s = d0 + d1 + d2;
-    dwell[0] = d0 / s; dwell[1] = d1 / s; dwell[2] = d2 / s;
+    ${px}_normalise_(m[0] * a + m[1] * b + m[2], m[3] * a + m[4] * b + m[5], m[6] * a + m[7] * b + m[8], dwell);
   }
   return best;
 }`;
