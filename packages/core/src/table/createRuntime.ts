@@ -617,8 +617,9 @@ export function createRuntime(table: SwitchingTable, options: RuntimeOptions = {
       prev[ph] = p;
       prevChar[ph] = ch;
     }
-    // the next period meets the same context when it stays in this triangle
-    if (whole && unchanged && n === 0) setFast(g, qi, nq, t, out);
+    // a whole period without a chain that left the state as it found it: the next period in this
+    // triangle meets the same context
+    if (layout === 2 && unchanged) setFast(g, qi, nq, t, out);
     return t;
   };
 
