@@ -7,25 +7,34 @@ import { leanScan } from './leanScan.mjs';
 import { medianOf, msPerRun } from './timing.mjs';
 
 const label = process.argv[2];
-const plan =
-  label === 'five-level leg'
-    ? planRemedial({ topology: JSON.parse(readFileSync(new URL('../examples/five-level-leg.json', import.meta.url), 'utf8')) })
-    : planRemedial({ topology: 'npc', faults: label === 'healthy npc' ? [] : ['a.outerUpper'] });
+const topology = label === 'five-level leg' ? JSON.parse(readFileSync(new URL('../examples/five-level-leg.json', import.meta.url), 'utf8')) : 'npc';
+const faults = label === 'npc a.outerUpper' ? ['a.outerUpper'] : [];
+const plan = planRemedial({ topology, faults });
 const N = 200000;
 const out = new Float64Array(4);
 const names = POLARITY_STRINGS;
 // the plain allocation-free scan (bench/leanScan.mjs)
 const scan = leanScan(plan, out);
-// one small angle step per call, the polarity following the currents (φ = 30°), at 90 % of mMax
-const rot = new Float64Array(2 * N);
-const rotPol = new Int32Array(N);
-for (let i = 0; i < N; i++) {
-  const th = (2 * Math.PI * i) / 2000;
-  const m = 0.9 * Math.max(plan.mMax, 0.1);
-  rot[2 * i] = m * Math.cos(th);
-  rot[2 * i + 1] = m * Math.sin(th);
-  rotPol[i] = POLARITY_STRINGS.indexOf(polarityAt((th * 180) / Math.PI, 30, 0));
+
+// N updates of a reference rotating at 90 % of mMax, `steps` per fundamental period: α, β pairs,
+// the polarity following the currents (φ = 30°) and the currents themselves (peak 1)
+function rotatingReference(steps) {
+  const ref = new Float64Array(2 * N);
+  const pol = new Int32Array(N);
+  const cur = new Float64Array(3 * N);
+  for (let i = 0; i < N; i++) {
+    const th = (2 * Math.PI * i) / steps;
+    const m = 0.9 * Math.max(plan.mMax, 0.1);
+    ref[2 * i] = m * Math.cos(th);
+    ref[2 * i + 1] = m * Math.sin(th);
+    pol[i] = POLARITY_STRINGS.indexOf(polarityAt((th * 180) / Math.PI, 30, 0));
+    for (let k = 0; k < 3; k++) cur[3 * i + k] = Math.cos(th - Math.PI / 6 - (k * 2 * Math.PI) / 3);
+  }
+  return { ref, pol, cur };
 }
+
+// one small angle step per call
+const { ref: rot, pol: rotPol } = rotatingReference(2000);
 const mod = createModulator(plan);
 const time = (fn, minMs = 600) => msPerRun(fn, minMs).ms;
 // interleaved, median of five rounds each
@@ -60,23 +69,12 @@ console.log(
 // references. Two rates: 2000 periods per fundamental (the reference barely moves) and 200 (a
 // 10 kHz carrier at 50 Hz: the triangle and the context change ten times as often).
 {
-  const topology = label === 'five-level leg' ? JSON.parse(readFileSync(new URL('../examples/five-level-leg.json', import.meta.url), 'utf8')) : 'npc';
-  const table = switchingTable({ topology, faults: label === 'npc a.outerUpper' ? ['a.outerUpper'] : [] });
+  const table = switchingTable({ topology, faults });
   const tmod = createModulator(table);
   const rt = createRuntime(table);
   const buf = rt.output();
   for (const steps of [2000, 200]) {
-    const ref = new Float64Array(2 * N);
-    const pol = new Int32Array(N);
-    const cur = new Float64Array(3 * N);
-    for (let i = 0; i < N; i++) {
-      const th = (2 * Math.PI * i) / steps;
-      const m = 0.9 * Math.max(plan.mMax, 0.1);
-      ref[2 * i] = m * Math.cos(th);
-      ref[2 * i + 1] = m * Math.sin(th);
-      pol[i] = POLARITY_STRINGS.indexOf(polarityAt((th * 180) / Math.PI, 30, 0));
-      for (let k = 0; k < 3; k++) cur[3 * i + k] = Math.cos(th - Math.PI / 6 - (k * 2 * Math.PI) / 3);
-    }
+    const { ref, pol, cur } = rotatingReference(steps);
     const tInto = [];
     const tRt = [];
     for (let r = 0; r < 5; r++) {
